@@ -4,6 +4,7 @@ using System.Globalization;
 using System.Text;
 using LaneBaseline.Core;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Vision.Masks;
 using LaneBaseline.Vision.Metrics;
 
 namespace LaneBaseline.Cli.Commands;
@@ -13,10 +14,10 @@ internal static class ScoreCommand
 {
     public static Command Create()
     {
-        Option<string> truth = new("--truth") { Description = "Ground-truth lane file (*.lanes.jsonl).", Required = true };
+        Option<string> truth = new("--truth") { Description = "Ground truth: a lane file (*.lanes.jsonl), a folder of instance-mask PNGs, or an OpenLABEL file (*.json).", Required = true };
         Option<string[]> pred = new("--pred")
         {
-            Description = "Prediction lane file; repeat as NAME=FILE to compare several systems on the same frames.",
+            Description = "Predictions (lane file, mask folder DIR/<frame key with .png>, or OpenLABEL *.json); repeat as NAME=FILE to compare several systems on the same frames.",
             Required = true,
             AllowMultipleArgumentsPerToken = false,
         };
@@ -28,11 +29,14 @@ internal static class ScoreCommand
         Option<int> bootstrap = new("--bootstrap") { Description = "Bootstrap resamples for 95 % intervals (0 disables).", DefaultValueFactory = _ => 1000 };
         Option<ulong> seed = new("--seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
         Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
+        Option<string?> size = new("--size") { Description = "Frame size WxH for truth masks (default: each mask's own size); prediction masks are rescaled to the truth's size." };
+        Option<int> minMaskRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };
+        Option<string?> maskCsv = new("--mask-iou-csv") { Description = "With truth and predictions both mask folders: write per-lane mask IoU rows to this file." };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
 
         Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.\n" + SafetyNotice.Text)
         {
-            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, threads,
+            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, size, minMaskRows, maskCsv, threads,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -71,6 +75,13 @@ internal static class ScoreCommand
                 throw new UsageException("--min-f1 must be in [0, 1]");
             }
 
+            int maskRows = parseResult.GetValue(minMaskRows);
+            if (maskRows < 2)
+            {
+                throw new UsageException("--min-mask-rows must be at least 2");
+            }
+
+            var masks = new MaskInputs(LaneInputs.ParseSize(parseResult.GetValue(size), "--size"), maskRows, parseResult.GetValue(maskCsv));
             return Execute(
                 stdout,
                 stderr,
@@ -83,6 +94,7 @@ internal static class ScoreCommand
                 parseResult.GetValue(json),
                 parseResult.GetValue(csv),
                 gate,
+                masks,
                 cancellationToken);
         })));
         return command;
@@ -163,8 +175,15 @@ internal static class ScoreCommand
         string? jsonPath,
         string? csvPath,
         double? minF1,
+        MaskInputs masks,
         CancellationToken cancellationToken)
     {
+        bool allMasks = LaneInputs.IsMaskFolder(truthPath) && systems.All(s => LaneInputs.IsMaskFolder(s.Path));
+        if (masks.CsvPath is not null && !allMasks)
+        {
+            throw new UsageException("--mask-iou-csv needs --truth and every --pred to be mask folders");
+        }
+
         var clock = Stopwatch.StartNew();
         using AtomicFile? csvFile = csvPath is null ? null : new AtomicFile(csvPath);
         TextWriter? csvWriter = csvFile?.Writer;
@@ -174,6 +193,7 @@ internal static class ScoreCommand
         var run = new ScoreRun(truthPath, systems, settings)
         {
             Threads = threads,
+            Opener = LaneInputs.Opener(masks.Size, masks.MinRows, stderr),
             OnFrame = csvWriter is null ? null : row => WriteCsvRows(csvWriter, systems, halfIndex, row),
             OnProgress = (done, total) =>
             {
@@ -187,6 +207,7 @@ internal static class ScoreCommand
         };
         IReadOnlyList<SystemScore> results = run.Execute(CreateRasterizer, cancellationToken);
         double scoreSeconds = clock.Elapsed.TotalSeconds;
+        MaskIouSummary[]? maskIou = allMasks ? MaskIouAll(truthPath, systems, masks.CsvPath, cancellationToken) : null;
 
         BootstrapResult? boot = null;
         if (resamples > 0)
@@ -202,6 +223,16 @@ internal static class ScoreCommand
         }
 
         ScoreTableWriter.Write(stdout, truthPath, results, settings, boot);
+        if (maskIou is not null)
+        {
+            stdout.WriteLine();
+            stdout.WriteLine("Mask IoU (per truth lane id, Hungarian-assigned; unassigned count 0):");
+            for (int s = 0; s < systems.Count; s++)
+            {
+                MaskIouSummary m = maskIou[s];
+                stdout.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {systems[s].Name}: mean IoU {m.MeanIou:0.0000} over {m.TruthLanes} truth lanes ({m.Matched} assigned, {m.PredLanes} predicted)"));
+            }
+        }
 
         if (csvWriter is not null)
         {
@@ -211,7 +242,7 @@ internal static class ScoreCommand
         if (jsonPath is not null)
         {
             using var jsonFile = new AtomicFile(jsonPath);
-            ScoreJsonWriter.Write(jsonFile.Stream, results, settings, boot, truthPath);
+            ScoreJsonWriter.Write(jsonFile.Stream, results, settings, boot, truthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]));
             jsonFile.Commit();
         }
 
@@ -235,6 +266,40 @@ internal static class ScoreCommand
 
         return ExitCodes.Success;
     }
+
+    private static MaskIouSummary[] MaskIouAll(string truthPath, IReadOnlyList<ScoredSystem> systems, string? csvPath, CancellationToken cancellationToken)
+    {
+        using AtomicFile? csvFile = csvPath is null ? null : new AtomicFile(csvPath);
+        TextWriter? csv = csvFile?.Writer;
+        csv?.Write((systems.Count > 1 ? "system," : string.Empty) + "frame,truth_id,pred_id,iou\n");
+        var result = new MaskIouSummary[systems.Count];
+        for (int s = 0; s < systems.Count; s++)
+        {
+            string prefix = systems.Count > 1 ? Csv(systems[s].Name) + "," : string.Empty;
+            result[s] = MaskIouRun.Execute(
+                truthPath,
+                systems[s].Path,
+                csv is null ? null : lane => csv.Write(string.Create(CultureInfo.InvariantCulture, $"{prefix}{Csv(lane.Frame)},{lane.TruthId},{lane.PredId},{lane.Iou.ToString("R", CultureInfo.InvariantCulture)}\n")),
+                cancellationToken);
+        }
+
+        csvFile?.Commit();
+        return result;
+    }
+
+    private static void WriteMaskIou(System.Text.Json.Utf8JsonWriter w, MaskIouSummary m)
+    {
+        w.WriteStartObject("mask_iou");
+        w.WriteNumber("frames", m.Frames);
+        w.WriteNumber("truth_lanes", m.TruthLanes);
+        w.WriteNumber("pred_lanes", m.PredLanes);
+        w.WriteNumber("assigned", m.Matched);
+        w.WriteNumber("mean_iou", m.MeanIou);
+        w.WriteEndObject();
+    }
+
+    /// <summary>Mask-input settings of a score run.</summary>
+    private sealed record MaskInputs((int Width, int Height)? Size, int MinRows, string? CsvPath);
 
 #pragma warning disable IDISP005 // ScoreRun owns and disposes the rasterizers it creates
     private static ILaneRasterizer CreateRasterizer() => new OpenCvLaneRasterizer();

@@ -7,7 +7,7 @@ namespace LaneBaseline.Core.LaneFiles;
 /// whole file is never held in memory. Blank lines are skipped; every violation throws
 /// <see cref="BadInputException"/> with the message <c>FILE:LINE: key: problem</c>.
 /// </summary>
-public sealed class LaneFileReader : IDisposable
+public sealed class LaneFileReader : ILaneRecordSource
 {
     private readonly ByteLineReader lines;
     private readonly Dictionary<string, long> seenFrames = new(StringComparer.Ordinal);

@@ -41,13 +41,17 @@ public static class ScoreJsonWriter
         _ => "accuracy",
     };
 
-    /// <summary>Writes the whole document to a stream.</summary>
+    /// <summary>
+    /// Writes the whole document to a stream; <paramref name="systemExtra"/> may add keys to each system's object
+    /// (e.g. <c>mask_iou</c> when truth and predictions are mask folders).
+    /// </summary>
     public static void Write(
         Stream stream,
         IReadOnlyList<SystemScore> systems,
         ScoreSettings settings,
         BootstrapResult? bootstrap,
-        string truthPath)
+        string truthPath,
+        Action<Utf8JsonWriter, int>? systemExtra = null)
     {
         ArgumentNullException.ThrowIfNull(systems);
         ArgumentNullException.ThrowIfNull(settings);
@@ -56,6 +60,7 @@ public static class ScoreJsonWriter
         {
             json.WriteStartObject();
             WriteSystemBody(json, systems[0], 0, settings, bootstrap);
+            systemExtra?.Invoke(json, 0);
             WriteSettings(json, systems, settings, bootstrap, truthPath);
             json.WriteEndObject();
             return;
@@ -67,6 +72,7 @@ public static class ScoreJsonWriter
         {
             json.WriteStartObject(systems[s].System.Name);
             WriteSystemBody(json, systems[s], s, settings, bootstrap);
+            systemExtra?.Invoke(json, s);
             json.WriteEndObject();
         }
 

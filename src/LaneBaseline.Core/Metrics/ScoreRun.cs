@@ -56,6 +56,12 @@ public sealed class ScoreRun
     /// <summary>Called after each frame, in truth order, with that frame's score for every system.</summary>
     public Action<IReadOnlyList<FrameScore>>? OnFrame { get; init; }
 
+    /// <summary>
+    /// Opens truth and prediction paths (default: lane files only). The command line passes an opener that also
+    /// reads instance-mask folders.
+    /// </summary>
+    public LaneSourceOpener Opener { get; init; } = LaneSources.OpenLaneFile;
+
     /// <summary>Called with a progress line now and then.</summary>
     public Action<long, long>? OnProgress { get; init; }
 
@@ -69,7 +75,8 @@ public sealed class ScoreRun
         // Pass 1: validate everything, keep keys and sizes only.
         var truthIndex = new Dictionary<string, int>(StringComparer.Ordinal);
         var sizes = new List<(int W, int H)>();
-        using (LaneFileReader truth = LaneFileReader.Open(truthPath, sizeRequired: true))
+        var truthRequest = new LaneSourceRequest { SizeRequired = true };
+        using (ILaneRecordSource truth = Opener(truthPath, truthRequest))
         {
             while (truth.TryRead(out LaneRecord r))
             {
@@ -83,10 +90,17 @@ public sealed class ScoreRun
             throw BadInputException.At(truthPath, 0, null, "the truth file holds no records");
         }
 
+        var reference = new Dictionary<string, (int Width, int Height)>(truthIndex.Count, StringComparer.Ordinal);
+        foreach (KeyValuePair<string, int> kv in truthIndex)
+        {
+            reference.Add(kv.Key, sizes[kv.Value]);
+        }
+
+        var predRequest = new LaneSourceRequest { SizeRequired = false, Reference = reference };
         var predicted = new HashSet<int>[systems.Count];
         for (int s = 0; s < systems.Count; s++)
         {
-            predicted[s] = ValidatePredictions(systems[s].Path, truthIndex, sizes);
+            predicted[s] = ValidatePredictions(Opener, predRequest, systems[s].Path, truthIndex, sizes);
         }
 
         // Pass 2: score.
@@ -96,7 +110,7 @@ public sealed class ScoreRun
         int workers = Math.Max(1, Threads);
         var rasterizers = new ILaneRasterizer[workers];
         var scorers = new FrameScorer[workers];
-        var readers = new List<LaneFileReader>();
+        var readers = new List<ILaneRecordSource>();
         try
         {
             for (int w = 0; w < workers; w++)
@@ -105,11 +119,11 @@ public sealed class ScoreRun
                 scorers[w] = new FrameScorer(rasterizers[w], settings);
             }
 
-            using LaneFileReader truth = LaneFileReader.Open(truthPath, sizeRequired: true);
+            using ILaneRecordSource truth = Opener(truthPath, truthRequest);
             var joiners = new PredictionJoiner[systems.Count];
             for (int s = 0; s < systems.Count; s++)
             {
-                LaneFileReader r = LaneFileReader.Open(systems[s].Path, sizeRequired: false);
+                ILaneRecordSource r = Opener(systems[s].Path, predRequest);
                 readers.Add(r);
                 joiners[s] = new PredictionJoiner(r, truthIndex, predicted[s]);
             }
@@ -140,7 +154,7 @@ public sealed class ScoreRun
         }
         finally
         {
-            foreach (LaneFileReader r in readers)
+            foreach (ILaneRecordSource r in readers)
             {
                 r.Dispose();
             }
@@ -216,10 +230,11 @@ public sealed class ScoreRun
         return n;
     }
 
-    private static HashSet<int> ValidatePredictions(string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes)
+    private static HashSet<int> ValidatePredictions(
+        LaneSourceOpener opener, LaneSourceRequest request, string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes)
     {
         var present = new HashSet<int>();
-        using LaneFileReader reader = LaneFileReader.Open(path, sizeRequired: false);
+        using ILaneRecordSource reader = opener(path, request);
         while (reader.TryRead(out LaneRecord r))
         {
             if (!truthIndex.TryGetValue(r.Frame, out int ordinal))
@@ -255,7 +270,7 @@ public sealed class ScoreRun
     }
 
     /// <summary>Joins a prediction file to truth order, buffering only out-of-order records.</summary>
-    private sealed class PredictionJoiner(LaneFileReader reader, Dictionary<string, int> truthIndex, HashSet<int> present)
+    private sealed class PredictionJoiner(ILaneRecordSource reader, Dictionary<string, int> truthIndex, HashSet<int> present)
     {
         private readonly Dictionary<int, LaneRecord> pending = [];
 

@@ -1,0 +1,191 @@
+using System.CommandLine;
+using System.Globalization;
+using LaneBaseline.Core;
+using LaneBaseline.Core.Interchange;
+using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Core.Metrics;
+using LaneBaseline.Vision.Masks;
+using OpenCvSharp;
+
+namespace LaneBaseline.Cli.Commands;
+
+/// <summary><c>lanebaseline convert</c>: lane file ⇄ instance-mask PNG folder ⇄ ASAM OpenLABEL 1.0 JSON.</summary>
+internal static class ConvertCommand
+{
+    public static Command Create()
+    {
+        Argument<string> input = new("INPUT") { Description = "A lane file (*.lanes.jsonl), a folder of instance-mask PNGs, or an OpenLABEL file (*.json)." };
+        Option<string> output = new("--out", "-o") { Description = "Output: *.jsonl lane file, *.json OpenLABEL file, or a folder for masks.", Required = true };
+        Option<string?> to = new("--to") { Description = "Output format: lanes, masks or openlabel (default: from the output name)." };
+        Option<string?> reference = new("--reference") { Description = "Lane file whose frame keys and sizes name and size the frames of a mask folder or an OpenLABEL file without them." };
+        Option<string?> size = new("--size") { Description = "Frame size WxH for inputs that do not carry one (masks are rescaled to it)." };
+        Option<int?> maskWidth = new("--mask-width-px") { Description = "Line width when drawing masks (default round(30*width/1640), the IoU metric's width)." };
+        Option<int> minRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };
+
+        Command command = new("convert", "Convert lanes between lane files, per-frame instance-mask PNG folders (DIR/<frame key with .png>) and ASAM OpenLABEL 1.0 poly2d JSON.")
+        {
+            input, output, to, reference, size, maskWidth, minRows,
+        };
+        command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
+        {
+            string inPath = parseResult.GetRequiredValue(input);
+            string outPath = parseResult.GetRequiredValue(output);
+            string format = (parseResult.GetValue(to) ?? InferFormat(outPath)).ToLowerInvariant();
+            if (format is not ("lanes" or "masks" or "openlabel"))
+            {
+                throw new UsageException("--to must be lanes, masks or openlabel");
+            }
+
+            int? width = parseResult.GetValue(maskWidth);
+            if (width is <= 0)
+            {
+                throw new UsageException("--mask-width-px must be a positive whole number");
+            }
+
+            int rows = parseResult.GetValue(minRows);
+            if (rows < 2)
+            {
+                throw new UsageException("--min-mask-rows must be at least 2");
+            }
+
+            return Execute(stdout, stderr, inPath, outPath, format, parseResult.GetValue(reference), LaneInputs.ParseSize(parseResult.GetValue(size), "--size"), width, rows, cancellationToken);
+        })));
+        return command;
+    }
+
+    private static string InferFormat(string outPath) =>
+        outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? "lanes"
+        : outPath.EndsWith(".json", StringComparison.OrdinalIgnoreCase) ? "openlabel"
+        : "masks";
+
+    private static int Execute(
+        TextWriter stdout,
+        TextWriter stderr,
+        string inPath,
+        string outPath,
+        string format,
+        string? referencePath,
+        (int Width, int Height)? size,
+        int? maskWidth,
+        int minRows,
+        CancellationToken cancellationToken)
+    {
+        if (!File.Exists(inPath) && !Directory.Exists(inPath))
+        {
+            throw BadInputException.At(inPath, 0, null, "file not found");
+        }
+
+        Dictionary<string, (int Width, int Height)>? reference = null;
+        if (referencePath is not null)
+        {
+            reference = new Dictionary<string, (int Width, int Height)>(StringComparer.Ordinal);
+            using LaneFileReader refReader = LaneFileReader.Open(referencePath, sizeRequired: true);
+            while (refReader.TryRead(out LaneRecord r))
+            {
+                reference.Add(r.Frame, (r.Width!.Value, r.Height!.Value));
+            }
+        }
+
+        var request = new LaneSourceRequest { SizeRequired = format == "masks", Reference = reference, Size = size };
+        LaneSourceOpener opener = LaneInputs.Opener(size, minRows, stderr);
+        long frames = 0, lanes = 0;
+        using (ILaneRecordSource source = opener(inPath, request))
+        {
+            switch (format)
+            {
+                case "lanes":
+                    WriteAtomically(outPath, temp =>
+                    {
+                        using LaneFileWriter w = LaneFileWriter.Create(temp);
+                        while (source.TryRead(out LaneRecord r))
+                        {
+                            cancellationToken.ThrowIfCancellationRequested();
+                            w.Write(WithSize(r, reference, size));
+                            frames++;
+                            lanes += r.Lanes.Count;
+                        }
+                    });
+                    break;
+                case "openlabel":
+                    WriteAtomically(outPath, temp =>
+                    {
+                        using OpenLabelWriter w = OpenLabelWriter.Create(temp);
+                        while (source.TryRead(out LaneRecord r))
+                        {
+                            cancellationToken.ThrowIfCancellationRequested();
+                            w.Write(WithSize(r, reference, size));
+                            frames++;
+                            lanes += r.Lanes.Count;
+                        }
+
+                        w.Complete();
+                    });
+                    break;
+                default:
+                    if (File.Exists(outPath))
+                    {
+                        throw new UsageException($"{outPath}: is a file; masks are written to a folder");
+                    }
+
+                    Directory.CreateDirectory(outPath);
+                    while (source.TryRead(out LaneRecord r))
+                    {
+                        cancellationToken.ThrowIfCancellationRequested();
+                        LaneRecord sized = WithSize(r, reference, size);
+                        if (sized.Width is not int w || sized.Height is not int h)
+                        {
+                            throw BadInputException.At(source.DisplayName, r.LineNumber, "width", $"frame '{r.Frame}' has no size: give --size WxH or --reference");
+                        }
+
+                        int lw = maskWidth ?? new ScoreSettings().LaneWidthFor(w);
+                        using Mat mask = LaneMaskPainter.Paint(sized.Lanes, w, h, lw);
+                        MaskFiles.Write(Path.Combine(outPath, MaskFiles.MaskKeyFor(r.Frame)), mask);
+                        frames++;
+                        lanes += r.Lanes.Count;
+                    }
+
+                    break;
+            }
+        }
+
+        stdout.WriteLine(string.Create(CultureInfo.InvariantCulture, $"convert: {frames} frames, {lanes} lanes -> {outPath} ({format})"));
+        return ExitCodes.Success;
+    }
+
+    private static LaneRecord WithSize(LaneRecord r, Dictionary<string, (int Width, int Height)>? reference, (int Width, int Height)? size)
+    {
+        if (r.Width is not null && r.Height is not null)
+        {
+            return r;
+        }
+
+        (int Width, int Height)? s = reference is not null && reference.TryGetValue(r.Frame, out var rs) ? rs : size;
+        return s is { } v
+            ? new LaneRecord { Frame = r.Frame, Width = v.Width, Height = v.Height, Tags = r.Tags, Lanes = r.Lanes, ExtraJson = r.ExtraJson, LineNumber = r.LineNumber }
+            : r;
+    }
+
+    private static void WriteAtomically(string path, Action<string> write)
+    {
+        string full = Path.GetFullPath(path);
+        string? dir = Path.GetDirectoryName(full);
+        if (dir is not null && !Directory.Exists(dir))
+        {
+            throw new UsageException($"{path}: the output folder does not exist");
+        }
+
+        string temp = full + "." + Environment.ProcessId.ToString(CultureInfo.InvariantCulture) + ".tmp";
+        try
+        {
+            write(temp);
+            File.Move(temp, full, overwrite: true);
+        }
+        finally
+        {
+            if (File.Exists(temp))
+            {
+                File.Delete(temp);
+            }
+        }
+    }
+}
