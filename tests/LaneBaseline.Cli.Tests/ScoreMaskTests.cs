@@ -1,0 +1,98 @@
+using System.Text.Json;
+using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Testing;
+using Xunit;
+
+namespace LaneBaseline.Cli.Tests;
+
+public sealed class ScoreMaskTests : IDisposable
+{
+    private readonly TempDir dir = new();
+
+    public void Dispose() => dir.Dispose();
+
+    private string WriteTruth()
+    {
+        string path = dir.File("t.lanes.jsonl");
+        Lanes.WriteFile(path,
+        [
+            Lanes.Truth("a.jpg", 1640, 590, Lanes.Of((400, 589), (700, 250)), Lanes.Of((1300, 589), (900, 250))),
+            Lanes.Truth("b.jpg", 1640, 590, Lanes.Of((820, 589), (822, 100))),
+        ]);
+        return path;
+    }
+
+    [Fact]
+    public void MaskDrawnFromTheLaneFile_ScoresAboutOne()
+    {
+        string truth = WriteTruth(), masks = dir.File("pred"), json = dir.File("s.json");
+        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", masks).Exit);
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", masks, "--json", json, "--bootstrap", "0");
+        Assert.True(exit == 0, err);
+        using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
+        JsonElement half = doc.RootElement.GetProperty("iou_f1").GetProperty("thresholds").GetProperty("0.50");
+        Assert.Equal(1.0, half.GetProperty("f1").GetDouble());
+        // Round caps add up to w/2 px at each end, so IoU is just below 1; mF1 reaches the 0.85 threshold at least.
+        Assert.True(doc.RootElement.GetProperty("iou_f1").GetProperty("mf1").GetDouble() >= 0.8);
+        Assert.Equal(1.0, doc.RootElement.GetProperty("point_accuracy").GetProperty("accuracy").GetDouble());
+    }
+
+    [Fact]
+    public void BothMasks_ReportMeanMaskIou_AndPerLaneCsv()
+    {
+        string truth = WriteTruth(), tm = dir.File("tm"), pm = dir.File("pm"), json = dir.File("s.json"), csv = dir.File("m.csv");
+        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", tm).Exit);
+        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", pm).Exit);
+        (int exit, string stdout, string err) = CliRunner.Run("score", "--truth", tm, "--pred", pm, "--json", json, "--mask-iou-csv", csv, "--bootstrap", "0");
+        Assert.True(exit == 0, err);
+        Assert.Contains("mean IoU 1.0000 over 3 truth lanes", stdout, StringComparison.Ordinal);
+        using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
+        Assert.Equal(1.0, doc.RootElement.GetProperty("mask_iou").GetProperty("mean_iou").GetDouble());
+        string[] rows = File.ReadAllLines(csv);
+        Assert.Equal("frame,truth_id,pred_id,iou", rows[0]);
+        Assert.Equal("a.png,1,1,1", rows[1]);
+        Assert.Equal(4, rows.Length);
+    }
+
+    [Fact]
+    public void OneLaneMissingFromThePredictionMask_HalvesThatFramesMeanIou()
+    {
+        // Hand count: truth a.png has 2 lanes, b.png 1; the prediction drops a.png's second lane.
+        // Per truth lane IoU: 1, 0 (unassigned), 1 -> mean 2/3.
+        string truth = WriteTruth(), tm = dir.File("tm"), pm = dir.File("pm"), json = dir.File("s.json");
+        string pred = dir.File("p.lanes.jsonl");
+        Lanes.WriteFile(pred,
+        [
+            Lanes.Truth("a.jpg", 1640, 590, Lanes.Of((400, 589), (700, 250))),
+            Lanes.Truth("b.jpg", 1640, 590, Lanes.Of((820, 589), (822, 100))),
+        ]);
+        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", tm).Exit);
+        Assert.Equal(0, CliRunner.Run("convert", pred, "-o", pm).Exit);
+        Assert.Equal(0, CliRunner.Run("score", "--truth", tm, "--pred", pm, "--json", json, "--bootstrap", "0").Exit);
+        using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
+        Assert.Equal(2.0 / 3.0, doc.RootElement.GetProperty("mask_iou").GetProperty("mean_iou").GetDouble(), 12);
+    }
+
+    [Fact]
+    public void FolderWithoutMasks_IsExit3_AndMaskIouCsvNeedsMasks_IsExit2()
+    {
+        string truth = WriteTruth();
+        Directory.CreateDirectory(dir.File("none"));
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", dir.File("none"));
+        Assert.Equal(3, exit);
+        Assert.Contains("is a directory with no mask PNGs", err, StringComparison.Ordinal);
+        Assert.Equal(2, CliRunner.Run("score", "--truth", truth, "--pred", truth, "--mask-iou-csv", dir.File("x.csv")).Exit);
+    }
+
+    [Fact]
+    public void PredictionMaskForAnUnknownFrame_IsExit3()
+    {
+        string truth = WriteTruth(), masks = dir.File("pred");
+        string other = dir.File("o.lanes.jsonl");
+        Lanes.WriteFile(other, [Lanes.Truth("zzz.jpg", 1640, 590, Lanes.Of((400, 589), (700, 250)))]);
+        Assert.Equal(0, CliRunner.Run("convert", other, "-o", masks).Exit);
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", masks);
+        Assert.Equal(3, exit);
+        Assert.Contains("frame 'zzz.png' is not in the truth file", err, StringComparison.Ordinal);
+    }
+}
