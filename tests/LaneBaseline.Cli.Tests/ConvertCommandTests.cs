@@ -79,7 +79,7 @@ public sealed class ConvertCommandTests : IDisposable
         Lanes.WriteFile(pred, [Lanes.Pred("x.png", Lanes.Of((1, 2), (3, 4)))]);
         (int exit, _, string err) = CliRunner.Run("convert", pred, "-o", dir.File("masks"));
         Assert.Equal(3, exit);
-        Assert.Contains("p.lanes.jsonl:1: width: frame 'x.png' has no size", err, StringComparison.Ordinal);
+        Assert.Contains("p.lanes.jsonl:1: width: required key is missing", err, StringComparison.Ordinal);
 
         Directory.CreateDirectory(dir.File("empty"));
         (exit, _, err) = CliRunner.Run("convert", dir.File("empty"), "-o", dir.File("o.jsonl"));

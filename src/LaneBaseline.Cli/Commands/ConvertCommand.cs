@@ -86,7 +86,7 @@ internal static class ConvertCommand
             }
         }
 
-        var request = new LaneSourceRequest { SizeRequired = format == "masks", Reference = reference, Size = size };
+        var request = new LaneSourceRequest { SizeRequired = format == "masks" && size is null && reference is null, Reference = reference, Size = size };
         LaneSourceOpener opener = LaneInputs.Opener(size, minRows, stderr);
         long frames = 0, lanes = 0;
         using (ILaneRecordSource source = opener(inPath, request))

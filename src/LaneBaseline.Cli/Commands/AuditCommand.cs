@@ -1,0 +1,233 @@
+using System.CommandLine;
+using System.Diagnostics;
+using System.Globalization;
+using LaneBaseline.Core;
+using LaneBaseline.Core.Audit;
+using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Core.Metrics;
+using LaneBaseline.Vision.Audit;
+using LaneBaseline.Vision.Masks;
+using LaneBaseline.Vision.Metrics;
+using OpenCvSharp;
+
+namespace LaneBaseline.Cli.Commands;
+
+/// <summary><c>lanebaseline audit</c>: sanity-check predicted lanes without truth.</summary>
+internal static class AuditCommand
+{
+    public static Command Create()
+    {
+        Option<string> pred = new("--pred") { Description = "Lanes to audit: a lane file, a mask folder or an OpenLABEL file.", Required = true };
+        Option<string?> baseline = new("--baseline") { Description = "The classical baseline's lanes on the same frames; frames where they disagree are ranked for labelling." };
+        Option<string> output = new("--out", "-o") { Description = "Findings file (JSON Lines, ranked worst frame first).", Required = true };
+        Option<string?> frames = new("--frames") { Description = "Frames root: overlays are drawn on FRAMES/<frame key> when it exists." };
+        Option<string?> size = new("--size") { Description = "Frame size WxH for records without one." };
+        Option<double?> horizon = new("--horizon-row") { Description = "Horizon row in pixels (default: estimated per frame from the lanes' vanishing point)." };
+        Option<double> fps = new("--fps") { Description = "Frame rate of numbered sequences (temporal rules).", DefaultValueFactory = _ => 30.0 };
+        Option<int> overlays = new("--overlays") { Description = "Draw the N worst frames to OUT.overlays/.", DefaultValueFactory = _ => 0 };
+        Option<int> mine = new("--mine") { Description = "Write the N frames most worth labelling to OUT.mine.txt (by disagreement with --baseline, else by findings).", DefaultValueFactory = _ => 0 };
+        Option<string> failOn = new("--fail-on") { Description = "Quality gate: exit 4 when a finding of this severity or worse exists (none, warning, error).", DefaultValueFactory = _ => "none" };
+        Option<int> minMaskRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };
+        Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+
+        Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.\n" + SafetyNotice.Text)
+        {
+            pred, baseline, output, frames, size, horizon, fps, overlays, mine, failOn, minMaskRows, threads,
+        };
+        command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
+        {
+            string gate = parseResult.GetValue(failOn)!.ToLowerInvariant();
+            AuditSeverity? gateSeverity = gate switch
+            {
+                "none" => null,
+                "warning" => AuditSeverity.Warning,
+                "error" => AuditSeverity.Error,
+                _ => throw new UsageException("--fail-on must be none, warning or error"),
+            };
+            int threadCount = parseResult.GetValue(threads);
+            if (threadCount < 1)
+            {
+                throw new UsageException("--threads must be at least 1");
+            }
+
+            double rate = parseResult.GetValue(fps);
+            if (!(rate > 0) || !double.IsFinite(rate))
+            {
+                throw new UsageException("--fps must be a positive number");
+            }
+
+            int n = parseResult.GetValue(overlays), m = parseResult.GetValue(mine), rows = parseResult.GetValue(minMaskRows);
+            if (n < 0 || m < 0)
+            {
+                throw new UsageException("--overlays and --mine must be 0 or more");
+            }
+
+            if (rows < 2)
+            {
+                throw new UsageException("--min-mask-rows must be at least 2");
+            }
+
+            var settings = new AuditSettings
+            {
+                Size = LaneInputs.ParseSize(parseResult.GetValue(size), "--size"),
+                HorizonRow = parseResult.GetValue(horizon),
+                FramesPerSecond = rate,
+            };
+            return Execute(
+                stdout,
+                stderr,
+                parseResult.GetRequiredValue(pred),
+                parseResult.GetValue(baseline),
+                parseResult.GetRequiredValue(output),
+                parseResult.GetValue(frames),
+                settings,
+                n,
+                m,
+                gateSeverity,
+                rows,
+                threadCount,
+                cancellationToken);
+        })));
+        return command;
+    }
+
+    private static int Execute(
+        TextWriter stdout,
+        TextWriter stderr,
+        string predPath,
+        string? baselinePath,
+        string outPath,
+        string? framesRoot,
+        AuditSettings settings,
+        int overlays,
+        int mine,
+        AuditSeverity? gate,
+        int minMaskRows,
+        int threads,
+        CancellationToken cancellationToken)
+    {
+        var clock = Stopwatch.StartNew();
+        using var findingsFile = new AtomicFile(outPath);
+        LaneSourceOpener opener = LaneInputs.Opener(settings.Size, minMaskRows, stderr);
+        var run = new AuditRun(settings) { Threads = threads, Opener = opener };
+        AuditResult result = run.Execute(predPath, baselinePath, CreateRasterizer, cancellationToken);
+        AuditJsonWriter.Write(findingsFile.Stream, result);
+
+        string stem = outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? outPath[..^6] : outPath;
+        if (mine > 0)
+        {
+            using var mineFile = new AtomicFile(stem + ".mine.txt");
+            foreach (AuditFrameScore f in result.Mine(mine))
+            {
+                mineFile.Writer.Write(f.Frame + "\n");
+            }
+
+            mineFile.Commit();
+        }
+
+        findingsFile.Commit();
+        if (overlays > 0)
+        {
+            WriteOverlays(stem + ".overlays", result, predPath, baselinePath, framesRoot, settings, opener, overlays, cancellationToken);
+        }
+
+        WriteSummary(stdout, result, outPath);
+        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"audit: {result.Frames} frames in {clock.Elapsed.TotalSeconds:0.###} s ({threads} thread(s))"));
+        if (gate is AuditSeverity g && result.Findings.Any(f => f.Severity >= g))
+        {
+            stderr.WriteLine("quality gate failed: findings of severity " + AuditJsonWriter.SeverityName(g) + " or worse (--fail-on)");
+            return ExitCodes.GateFailed;
+        }
+
+        return ExitCodes.Success;
+    }
+
+    private static void WriteSummary(TextWriter o, AuditResult result, string outPath)
+    {
+        long flagged = result.Findings.Select(f => f.Ordinal).Distinct().LongCount();
+        o.WriteLine(F($"Audited {result.Frames} frames: {flagged} with findings ({(result.Frames == 0 ? 0 : 100.0 * flagged / result.Frames):0.0} %), {result.Findings.Count} findings -> {outPath}"));
+        if (result.ComparedFrames > 0)
+        {
+            double mean = result.RankedFrames.Where(f => f.Disagreement is not null).Average(f => f.Disagreement!.Value);
+            o.WriteLine(F($"Compared with the baseline on {result.ComparedFrames} frames; mean disagreement (1 - F1@0.50) {mean:0.000}"));
+        }
+
+        o.WriteLine();
+        o.WriteLine("rule     name                   severity  findings  frames  limit");
+        foreach (AuditRuleInfo rule in AuditRules.All)
+        {
+            int count = result.Findings.Count(f => f.Rule == rule.Id);
+            int frames = result.Findings.Where(f => f.Rule == rule.Id).Select(f => f.Ordinal).Distinct().Count();
+            o.WriteLine(F($"{rule.Id,-8} {rule.Name,-22} {AuditJsonWriter.SeverityName(rule.Severity),-8}  {count,8}  {frames,6}  {rule.Limit}"));
+        }
+
+        o.WriteLine();
+        o.WriteLine("Ground-geometry rules (lane width in metres, marking spacing, curve radius, parallelism) need a camera file and are not available yet.");
+    }
+
+    private static void WriteOverlays(
+        string dir,
+        AuditResult result,
+        string predPath,
+        string? baselinePath,
+        string? framesRoot,
+        AuditSettings settings,
+        LaneSourceOpener opener,
+        int count,
+        CancellationToken cancellationToken)
+    {
+        var worst = result.RankedFrames.Where(f => f.Score > 0).Take(count).ToList();
+        if (worst.Count == 0)
+        {
+            return;
+        }
+
+        Directory.CreateDirectory(dir);
+        var rankOf = new Dictionary<long, int>();
+        for (int i = 0; i < worst.Count; i++)
+        {
+            rankOf[worst[i].Ordinal] = i + 1;
+        }
+
+        var wantedKeys = new HashSet<string>(worst.Select(w => w.Frame), StringComparer.Ordinal);
+        var baseRecords = new Dictionary<string, LaneRecord>(StringComparer.Ordinal);
+        var request = new LaneSourceRequest { Size = settings.Size };
+        if (baselinePath is not null)
+        {
+            using ILaneRecordSource b = opener(baselinePath, request);
+            while (b.TryRead(out LaneRecord r))
+            {
+                if (wantedKeys.Contains(r.Frame))
+                {
+                    baseRecords[r.Frame] = r;
+                }
+            }
+        }
+
+        var byOrdinal = result.Findings.GroupBy(f => f.Ordinal).ToDictionary(g => g.Key, g => (IReadOnlyList<AuditFinding>)[.. g]);
+        using ILaneRecordSource pred = opener(predPath, request);
+        long ordinal = 0;
+        while (pred.TryRead(out LaneRecord r))
+        {
+            cancellationToken.ThrowIfCancellationRequested();
+            if (rankOf.TryGetValue(ordinal, out int rank))
+            {
+                baseRecords.TryGetValue(r.Frame, out LaneRecord? b);
+                int w = r.Width ?? b?.Width ?? settings.Size!.Value.Width;
+                int h = r.Height ?? b?.Height ?? settings.Size!.Value.Height;
+                string? image = framesRoot is null ? null : Path.Combine(framesRoot, r.Frame);
+                using Mat overlay = AuditOverlayPainter.Paint(image, r, b, w, h, byOrdinal.GetValueOrDefault(ordinal) ?? []);
+                string name = F($"{rank:000}_") + string.Concat(r.Frame.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '_'));
+                MaskFiles.Write(Path.Combine(dir, Path.ChangeExtension(name, ".png")), overlay);
+            }
+
+            ordinal++;
+        }
+    }
+
+#pragma warning disable IDISP005 // AuditRun owns and disposes the rasterizers it creates
+    private static ILaneRasterizer CreateRasterizer() => new OpenCvLaneRasterizer();
+#pragma warning restore IDISP005
+
+    private static string F(FormattableString s) => s.ToString(CultureInfo.InvariantCulture);
+}

@@ -1,0 +1,250 @@
+using System.Globalization;
+using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Core.Metrics;
+
+namespace LaneBaseline.Core.Audit;
+
+/// <summary>Per-frame outcome used for ranking, mining and overlays.</summary>
+/// <param name="Frame">Frame key.</param>
+/// <param name="Ordinal">Position in the prediction file.</param>
+/// <param name="Score">Badness: 100 per error, 10 per warning, 1 per info, plus 10 x disagreement.</param>
+/// <param name="Disagreement">1 - F1@0.50 against the baseline's confident lanes, or null when not compared.</param>
+public sealed record AuditFrameScore(string Frame, long Ordinal, double Score, double? Disagreement);
+
+/// <summary>What an audit found.</summary>
+public sealed class AuditResult
+{
+    /// <summary>Frames audited.</summary>
+    public long Frames { get; internal set; }
+
+    /// <summary>Frames compared with the baseline.</summary>
+    public long ComparedFrames { get; internal set; }
+
+    /// <summary>Findings, ranked: worst frame first, then frame order, severity, rule and lane.</summary>
+    public IReadOnlyList<AuditFinding> Findings { get; internal set; } = [];
+
+    /// <summary>Frame rank (1 = worst) of each finding, parallel to <see cref="Findings"/>.</summary>
+    public IReadOnlyList<int> Ranks { get; internal set; } = [];
+
+    /// <summary>Frames with findings or a baseline comparison, worst first.</summary>
+    public IReadOnlyList<AuditFrameScore> RankedFrames { get; internal set; } = [];
+
+    /// <summary>The frames most worth labelling: by disagreement with the baseline when compared, else by badness.</summary>
+    public IEnumerable<AuditFrameScore> Mine(int count) =>
+        (ComparedFrames > 0
+            ? RankedFrames.Where(f => f.Disagreement is not null).OrderByDescending(f => f.Disagreement!.Value).ThenBy(f => f.Ordinal)
+            : RankedFrames.Where(f => f.Score > 0).OrderByDescending(f => f.Score).ThenBy(f => f.Ordinal)).Take(count);
+}
+
+/// <summary>
+/// Audits a prediction source without truth: image rules and baseline agreement per frame (in parallel batches, one
+/// scorer per worker), temporal rules in file order. Streams the predictions (and the baseline, joined by frame key,
+/// buffering only records that arrive out of order); findings and one small score per frame are kept in memory.
+/// Results do not depend on the thread count.
+/// </summary>
+public sealed class AuditRun
+{
+    private const int BatchSize = 256;
+    private readonly AuditSettings settings;
+
+    /// <summary>Creates a run.</summary>
+    public AuditRun(AuditSettings settings)
+    {
+        this.settings = settings;
+    }
+
+    /// <summary>Worker threads.</summary>
+    public int Threads { get; init; } = 1;
+
+    /// <summary>Opens inputs (lane files by default).</summary>
+    public LaneSourceOpener Opener { get; init; } = LaneSources.OpenLaneFile;
+
+    /// <summary>Runs the audit.</summary>
+    /// <param name="predPath">Predictions to audit.</param>
+    /// <param name="baselinePath">Baseline predictions, or null.</param>
+    /// <param name="rasterizerFactory">One rasterizer per worker (needed with a baseline); disposed at the end when disposable.</param>
+    /// <param name="cancellationToken">Stops between batches.</param>
+    public AuditResult Execute(string predPath, string? baselinePath, Func<ILaneRasterizer> rasterizerFactory, CancellationToken cancellationToken = default)
+    {
+        ArgumentNullException.ThrowIfNull(rasterizerFactory);
+        var request = new LaneSourceRequest { Size = settings.Size };
+        int workers = Math.Max(1, Threads);
+        var scorers = new FrameScorer[workers];
+        var rasterizers = new ILaneRasterizer?[workers];
+        var findings = new List<AuditFinding>();
+        var frames = new List<AuditFrameScore>();
+        var result = new AuditResult();
+        var temporal = new TemporalRules(settings);
+        try
+        {
+            if (baselinePath is not null)
+            {
+                var scoreSettings = new ScoreSettings();
+                for (int w = 0; w < workers; w++)
+                {
+                    rasterizers[w] = rasterizerFactory();
+                    scorers[w] = new FrameScorer(rasterizers[w]!, scoreSettings);
+                }
+            }
+
+            using ILaneRecordSource pred = Opener(predPath, request);
+            using ILaneRecordSource? baseline = baselinePath is null ? null : Opener(baselinePath, request);
+            var pending = new Dictionary<string, LaneRecord>(StringComparer.Ordinal);
+            var batch = new List<(LaneRecord Pred, LaneRecord? Base, long Ordinal, int Width, int Height)>(BatchSize);
+            var perFrame = new List<AuditFinding>[BatchSize];
+            var agreement = new double?[BatchSize];
+            long ordinal = 0;
+            bool more = true;
+            while (more)
+            {
+                batch.Clear();
+                while (batch.Count < BatchSize && (more = pred.TryRead(out LaneRecord r)))
+                {
+                    LaneRecord? b = baseline is null ? null : Join(baseline, pending, r.Frame);
+                    (int width, int height) = SizeOf(pred.DisplayName, r, b);
+                    batch.Add((r, b, ordinal++, width, height));
+                }
+
+                cancellationToken.ThrowIfCancellationRequested();
+                int n = batch.Count;
+                int used = Math.Min(workers, Math.Max(1, n));
+                void Work(int w)
+                {
+                    for (int i = w * n / used; i < (w + 1) * n / used; i++)
+                    {
+                        (LaneRecord p, LaneRecord? b, long o, int width, int height) = batch[i];
+                        var list = new List<AuditFinding>();
+                        ImageRules.Check(p, o, width, height, settings, list);
+                        agreement[i] = null;
+                        if (b is not null)
+                        {
+                            agreement[i] = Compare(scorers[w], p, b, width, height, o, list);
+                        }
+
+                        perFrame[i] = list;
+                    }
+                }
+
+                if (used == 1)
+                {
+                    Work(0);
+                }
+                else
+                {
+                    Parallel.For(0, used, new ParallelOptions { MaxDegreeOfParallelism = used }, Work);
+                }
+
+                for (int i = 0; i < n; i++)
+                {
+                    temporal.Push(batch[i].Pred, batch[i].Ordinal, perFrame[i]);
+                    findings.AddRange(perFrame[i]);
+                    if (agreement[i] is not null)
+                    {
+                        result.ComparedFrames++;
+                    }
+
+                    frames.Add(new AuditFrameScore(batch[i].Pred.Frame, batch[i].Ordinal, 0, agreement[i] is double f1 ? 1 - f1 : null));
+                }
+            }
+
+            result.Frames = ordinal;
+        }
+        finally
+        {
+            foreach (ILaneRasterizer? r in rasterizers)
+            {
+                (r as IDisposable)?.Dispose();
+            }
+        }
+
+        Rank(result, findings, frames);
+        return result;
+    }
+
+    private static void Rank(AuditResult result, List<AuditFinding> findings, List<AuditFrameScore> frames)
+    {
+        var badness = new Dictionary<long, double>();
+        foreach (AuditFinding f in findings)
+        {
+            badness[f.Ordinal] = badness.GetValueOrDefault(f.Ordinal) + f.Severity switch { AuditSeverity.Error => 100, AuditSeverity.Warning => 10, _ => 1 };
+        }
+
+        var scored = frames
+            .Select(f => f with { Score = badness.GetValueOrDefault(f.Ordinal) + (10 * (f.Disagreement ?? 0)) })
+            .Where(f => f.Score > 0 || f.Disagreement is not null)
+            .OrderByDescending(f => f.Score).ThenBy(f => f.Ordinal)
+            .ToList();
+        var rank = new Dictionary<long, int>();
+        for (int i = 0; i < scored.Count; i++)
+        {
+            rank[scored[i].Ordinal] = i + 1;
+        }
+
+        var ordered = findings
+            .OrderBy(f => rank[f.Ordinal])
+            .ThenByDescending(f => f.Severity)
+            .ThenBy(f => f.Rule, StringComparer.Ordinal)
+            .ThenBy(f => f.Lane ?? -1)
+            .ThenBy(f => f.OtherLane ?? -1)
+            .ToList();
+        result.Findings = ordered;
+        result.Ranks = [.. ordered.Select(f => rank[f.Ordinal])];
+        result.RankedFrames = scored;
+    }
+
+    private (int Width, int Height) SizeOf(string file, LaneRecord p, LaneRecord? b)
+    {
+        if (p.Width is int w && p.Height is int h)
+        {
+            return (w, h);
+        }
+
+        if (b?.Width is int bw && b.Height is int bh)
+        {
+            return (bw, bh);
+        }
+
+        return settings.Size ?? throw BadInputException.At(file, p.LineNumber, "width", $"frame '{p.Frame}' has no size: give --size WxH (or a baseline with sizes)");
+    }
+
+    private double? Compare(FrameScorer scorer, LaneRecord pred, LaneRecord baseline, int width, int height, long ordinal, List<AuditFinding> sink)
+    {
+        var confident = baseline.Lanes.Where(l => l.Score is not double s || s >= settings.BaselineMinScore).ToList();
+        if (confident.Count == 0)
+        {
+            return null; // the baseline is not confident here: no comparison
+        }
+
+        var reference = new LaneRecord { Frame = pred.Frame, Width = width, Height = height, Lanes = confident };
+        FrameScore score = scorer.Score(reference, pred);
+        int tp = score.TruePositives[scorer.Thresholds.ToList().IndexOf(IouThreshold.Half)];
+        double f1 = 2.0 * tp / (confident.Count + pred.Lanes.Count);
+        if (f1 < settings.MinAgreementF1)
+        {
+            sink.Add(new AuditFinding(pred.Frame, ordinal, AuditRules.BaselineDisagreement, AuditRules.Get(AuditRules.BaselineDisagreement).Severity, null, null, f1, settings.MinAgreementF1, "F1",
+                string.Create(CultureInfo.InvariantCulture, $"F1@0.50 {f1:0.###} against {confident.Count} confident baseline lane(s) ({tp} matched of {pred.Lanes.Count} predicted)")));
+        }
+
+        return f1;
+    }
+
+    private static LaneRecord? Join(ILaneRecordSource baseline, Dictionary<string, LaneRecord> pending, string frame)
+    {
+        if (pending.Remove(frame, out LaneRecord? found))
+        {
+            return found;
+        }
+
+        while (baseline.TryRead(out LaneRecord r))
+        {
+            if (r.Frame == frame)
+            {
+                return r;
+            }
+
+            pending[r.Frame] = r;
+        }
+
+        return null;
+    }
+}

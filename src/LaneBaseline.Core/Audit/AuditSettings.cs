@@ -1,0 +1,41 @@
+namespace LaneBaseline.Core.Audit;
+
+/// <summary>The limits and assumptions of the audit rules (defaults and sources in <see cref="AuditRules.All"/>).</summary>
+public sealed record AuditSettings
+{
+    /// <summary>Horizon row in pixels, or null to estimate it per frame from the lanes' vanishing point.</summary>
+    public double? HorizonRow { get; init; }
+
+    /// <summary>Frame size for records that carry none (and no baseline record gives one), or null.</summary>
+    public (int Width, int Height)? Size { get; init; }
+
+    /// <summary>Frame rate of numbered sequences, frames per second (default 30).</summary>
+    public double FramesPerSecond { get; init; } = 30;
+
+    /// <summary>Largest lateral speed of the vehicle relative to the markings, m/s (default 3; an assumption).</summary>
+    public double MaxLateralSpeedMps { get; init; } = 3.0;
+
+    /// <summary>Allowance for label noise in a lateral move between frames, m (default 0.15).</summary>
+    public double LateralNoiseM { get; init; } = 0.15;
+
+    /// <summary>Lane width assumed to turn image widths into metres without a camera, m (default 3.5).</summary>
+    public double AssumedLaneWidthM { get; init; } = 3.5;
+
+    /// <summary>Baseline lanes with a score at or above this count as confident; lanes without a score always do.</summary>
+    public double BaselineMinScore { get; init; } = 0.5;
+
+    /// <summary>F1 at IoU 0.50 against the baseline below which a frame disagrees (default 0.5).</summary>
+    public double MinAgreementF1 { get; init; } = 0.5;
+
+    /// <summary>Tolerance for crossings, folds and slot order, px (default 2).</summary>
+    public double OrderTolerancePx { get; init; } = 2.0;
+
+    /// <summary>How far above the horizon a point may lie, as a fraction of the frame height (default 0.03).</summary>
+    public double HorizonMarginFraction { get; init; } = 0.03;
+
+    /// <summary>Shortest plausible vertical extent as a fraction of the frame height (default 0.05), at least 30 px.</summary>
+    public double ShortLaneFraction { get; init; } = 0.05;
+
+    /// <summary>Largest ratio of neighbouring lane widths at one row (default 3.75 / 2.7 x 1.05).</summary>
+    public double MaxWidthRatio { get; init; } = Geometry.RoadGeometry.MaxLaneWidthM / Geometry.RoadGeometry.MinLaneWidthM * 1.05;
+}

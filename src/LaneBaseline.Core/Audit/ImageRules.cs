@@ -1,0 +1,253 @@
+using System.Globalization;
+using LaneBaseline.Core.LaneFiles;
+
+namespace LaneBaseline.Core.Audit;
+
+/// <summary>
+/// The image-geometry rules (<c>LBA-I01</c> … <c>LBA-I07</c>) on one frame. Pixel coordinates: x right, y down.
+/// Pure and thread-safe.
+/// </summary>
+public static class ImageRules
+{
+    /// <summary>Checks one frame; findings are appended in rule order.</summary>
+    /// <param name="record">The frame's lanes.</param>
+    /// <param name="ordinal">Position of the frame in its file.</param>
+    /// <param name="width">Frame width, px.</param>
+    /// <param name="height">Frame height, px.</param>
+    /// <param name="settings">Limits.</param>
+    /// <param name="sink">Receives findings.</param>
+    public static void Check(LaneRecord record, long ordinal, int width, int height, AuditSettings settings, List<AuditFinding> sink)
+    {
+        ArgumentNullException.ThrowIfNull(record);
+        ArgumentNullException.ThrowIfNull(settings);
+        ArgumentNullException.ThrowIfNull(sink);
+        IReadOnlyList<Lane> lanes = record.Lanes;
+        double tol = settings.OrderTolerancePx;
+        double? horizon = settings.HorizonRow ?? LaneSampling.EstimateHorizon(lanes, height);
+        double roadTop = horizon ?? double.NegativeInfinity;
+        AuditFinding F(string rule, int? lane, int? other, double value, double limit, string unit, string message) =>
+            new(record.Frame, ordinal, rule, AuditRules.Get(rule).Severity, lane, other, value, limit, unit, message);
+
+        // LBA-I01 lanes cross (below the horizon).
+        for (int i = 0; i < lanes.Count; i++)
+        {
+            for (int j = i + 1; j < lanes.Count; j++)
+            {
+                (double lo, double hi) = LaneSampling.Common(lanes[i], lanes[j], roadTop);
+                double pos = 0, neg = 0, atRow = double.NaN;
+                for (double y = Math.Floor(hi); y >= lo; y -= 2)
+                {
+                    if (LaneSampling.XAt(lanes[i], y, out double xi) && LaneSampling.XAt(lanes[j], y, out double xj))
+                    {
+                        double d = xi - xj;
+                        if (d > pos)
+                        {
+                            pos = d;
+                        }
+
+                        if (-d > neg)
+                        {
+                            neg = -d;
+                        }
+
+                        if (Math.Abs(d) <= tol && double.IsNaN(atRow))
+                        {
+                            atRow = y;
+                        }
+                    }
+                }
+
+                double depth = Math.Min(pos, neg);
+                if (depth > tol)
+                {
+                    sink.Add(F(AuditRules.LanesCross, i, j, depth, tol, "px", Inv($"lanes {i} and {j} cross near row {atRow:0} (each side by up to {depth:0.#} px)")));
+                }
+            }
+        }
+
+        // LBA-I02 fold-back.
+        for (int i = 0; i < lanes.Count; i++)
+        {
+            double minY = double.PositiveInfinity, worst = 0;
+            foreach (LanePoint p in lanes[i].Points)
+            {
+                minY = Math.Min(minY, p.Y);
+                worst = Math.Max(worst, p.Y - minY);
+            }
+
+            if (worst > tol)
+            {
+                sink.Add(F(AuditRules.FoldBack, i, null, worst, tol, "px", Inv($"lane {i} turns back down by {worst:0.#} px after rising (points must run near to far)")));
+            }
+        }
+
+        // LBA-I03 above the horizon.
+        if (horizon is double hz)
+        {
+            double margin = settings.HorizonMarginFraction * height;
+            for (int i = 0; i < lanes.Count; i++)
+            {
+                double above = hz - LaneSampling.Extent(lanes[i]).Min;
+                if (above > margin)
+                {
+                    string how = settings.HorizonRow is null ? "estimated vanishing row" : "horizon row";
+                    sink.Add(F(AuditRules.AboveHorizon, i, null, above, margin, "px", Inv($"lane {i} reaches {above:0.#} px above the {how} {hz:0.#}")));
+                }
+            }
+        }
+
+        // LBA-I04 short lane.
+        double minExtent = Math.Max(30, settings.ShortLaneFraction * height);
+        for (int i = 0; i < lanes.Count; i++)
+        {
+            (double lo, double hi) = LaneSampling.Extent(lanes[i]);
+            if (hi - lo < minExtent)
+            {
+                sink.Add(F(AuditRules.ShortLane, i, null, hi - lo, minExtent, "px", Inv($"lane {i} spans {hi - lo:0.#} rows")));
+            }
+        }
+
+        // LBA-I05 near duplicates.
+        double dupPx = Math.Max(1, Math.Round(30.0 * width / 1640.0, MidpointRounding.ToEven));
+        for (int i = 0; i < lanes.Count; i++)
+        {
+            for (int j = i + 1; j < lanes.Count; j++)
+            {
+                (double lo, double hi) = LaneSampling.Common(lanes[i], lanes[j], double.NegativeInfinity);
+                (double ilo, double ihi) = LaneSampling.Extent(lanes[i]);
+                (double jlo, double jhi) = LaneSampling.Extent(lanes[j]);
+                double shorter = Math.Min(ihi - ilo, jhi - jlo);
+                if (hi - lo < 0.5 * shorter || hi - lo <= 0)
+                {
+                    continue;
+                }
+
+                var dx = new List<double>();
+                for (double y = Math.Floor(hi); y >= lo; y -= 2)
+                {
+                    if (LaneSampling.XAt(lanes[i], y, out double xi) && LaneSampling.XAt(lanes[j], y, out double xj))
+                    {
+                        dx.Add(Math.Abs(xi - xj));
+                    }
+                }
+
+                if (dx.Count == 0)
+                {
+                    continue;
+                }
+
+                dx.Sort();
+                double median = dx[dx.Count / 2];
+                if (median < dupPx)
+                {
+                    sink.Add(F(AuditRules.NearDuplicate, j, i, median, dupPx, "px", Inv($"lane {j} runs {median:0.#} px from lane {i} (median over common rows)")));
+                }
+            }
+        }
+
+        // LBA-I06 slot order.
+        for (int i = 0; i < lanes.Count; i++)
+        {
+            for (int j = i + 1; j < lanes.Count; j++)
+            {
+                if (lanes[i].Slot is not int si || lanes[j].Slot is not int sj)
+                {
+                    continue;
+                }
+
+                if (si == sj)
+                {
+                    sink.Add(F(AuditRules.SlotOrder, j, i, sj, 0, "slot", Inv($"lanes {i} and {j} both claim slot {sj}")));
+                    continue;
+                }
+
+                (double lo, double hi) = LaneSampling.Common(lanes[i], lanes[j], roadTop);
+                double row = Math.Floor(hi);
+                if (row < lo || !LaneSampling.XAt(lanes[i], row, out double xi) || !LaneSampling.XAt(lanes[j], row, out double xj))
+                {
+                    continue;
+                }
+
+                (int left, int right, double xl, double xr) = si < sj ? (i, j, xi, xj) : (j, i, xj, xi);
+                if (xl - xr > tol)
+                {
+                    sink.Add(F(AuditRules.SlotOrder, left, right, xl - xr, tol, "px", Inv($"lane {left} (slot {lanes[left].Slot}) lies {xl - xr:0.#} px right of lane {right} (slot {lanes[right].Slot}) at row {row:0}")));
+                }
+            }
+        }
+
+        // LBA-I07 neighbouring width ratio, at the nearest row with three lanes and the nearest row with all of them.
+        CheckWidthRatio(record, ordinal, lanes, height, settings, sink);
+    }
+
+    private static void CheckWidthRatio(LaneRecord record, long ordinal, IReadOnlyList<Lane> lanes, int height, AuditSettings settings, List<AuditFinding> sink)
+    {
+        if (lanes.Count < 3)
+        {
+            return;
+        }
+
+        double? first = null, fullest = null;
+        int most = 2;
+        for (double y = height - 1; y >= 0; y -= 10)
+        {
+            int n = lanes.Count(l => LaneSampling.XAt(l, y, out _));
+            if (n >= 3 && first is null)
+            {
+                first = y;
+            }
+
+            if (n > most)
+            {
+                most = n;
+                fullest = y;
+            }
+        }
+
+        var rows = new List<double>();
+        if (first is double f)
+        {
+            rows.Add(f);
+        }
+
+        if (fullest is double g && g != first)
+        {
+            rows.Add(g);
+        }
+
+        var reported = new HashSet<int>();
+        foreach (double row in rows)
+        {
+            var present = new List<(double X, int Lane)>();
+            for (int i = 0; i < lanes.Count; i++)
+            {
+                if (LaneSampling.XAt(lanes[i], row, out double x))
+                {
+                    present.Add((x, i));
+                }
+            }
+
+            present.Sort();
+            for (int k = 1; k + 1 < present.Count; k++)
+            {
+                double w1 = present[k].X - present[k - 1].X, w2 = present[k + 1].X - present[k].X;
+                if (Math.Min(w1, w2) < 10 || reported.Contains(present[k].Lane))
+                {
+                    continue; // too close to the vanishing point to measure, or a crossing/duplicate (other rules)
+                }
+
+                double ratio = Math.Max(w1, w2) / Math.Min(w1, w2);
+                if (ratio > settings.MaxWidthRatio)
+                {
+                    reported.Add(present[k].Lane);
+                    int lane = present[k].Lane;
+                    sink.Add(new AuditFinding(
+                        record.Frame, ordinal, AuditRules.WidthRatio, AuditRules.Get(AuditRules.WidthRatio).Severity, lane, null, ratio, settings.MaxWidthRatio, "ratio",
+                        Inv($"the lanes either side of lane {lane} are {w1:0.#} px and {w2:0.#} px wide at row {row:0} (ratio {ratio:0.##})")));
+                }
+            }
+        }
+    }
+
+    private static string Inv(FormattableString s) => s.ToString(CultureInfo.InvariantCulture);
+}
