@@ -60,9 +60,10 @@ public static class AuditOverlayPainter
             foreach (AuditFinding f in findings.Take(12))
             {
                 string text = f.Rule + " " + AuditRules.Get(f.Rule).Name + ": " + f.Message;
-                if (text.Length > 110)
+                int maxChars = Math.Max(20, (int)(width / (21 * scale)));
+                if (text.Length > maxChars)
                 {
-                    text = text[..107] + "...";
+                    text = text[..(maxChars - 3)] + "...";
                 }
 
                 Cv2.PutText(image, text, new Point(8, y), HersheyFonts.HersheySimplex, scale, Scalar.Black, 3, LineTypes.AntiAlias);

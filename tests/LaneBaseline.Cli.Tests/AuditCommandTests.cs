@@ -1,0 +1,113 @@
+using System.Text.Json;
+using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Testing;
+using Xunit;
+
+namespace LaneBaseline.Cli.Tests;
+
+public sealed class AuditCommandTests : IDisposable
+{
+    private readonly TempDir dir = new();
+
+    public void Dispose() => dir.Dispose();
+
+    private static List<LaneRecord> Clean() => [.. SyntheticRoad.Clean(seed: 3, sequences: 2, framesPerSequence: 20)];
+
+    private static LaneRecord Shift(LaneRecord r, double dx) => new()
+    {
+        Frame = r.Frame, Width = r.Width, Height = r.Height,
+        Lanes = [.. r.Lanes.Select(l => new Lane { Points = [.. l.Points.Select(p => p with { X = p.X + dx })], Slot = l.Slot })],
+    };
+
+    [Fact]
+    public void CleanTruth_NoFindings_GatePasses()
+    {
+        string pred = dir.File("clean.lanes.jsonl"), outFile = dir.File("f.jsonl");
+        Lanes.WriteFile(pred, Clean());
+        (int exit, string stdout, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--fail-on", "warning", "--threads", "2");
+        Assert.True(exit == 0, err);
+        Assert.Equal(string.Empty, File.ReadAllText(outFile));
+        Assert.Contains("Audited 40 frames: 0 with findings", stdout, StringComparison.Ordinal);
+        Assert.Contains("LBA-I01  lanes-cross", stdout, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Faults_RankedFindings_Overlays_Mine_AndGateExit4()
+    {
+        var records = Clean();
+        var lanes = records[5].Lanes.ToList();
+        (lanes[1], lanes[2]) = (new Lane { Points = lanes[1].Points, Slot = 1 }, new Lane { Points = lanes[2].Points, Slot = -1 });
+        records[5] = new LaneRecord { Frame = records[5].Frame, Width = 1280, Height = 720, Lanes = lanes };
+        records.RemoveAt(12); // a dropped frame in sequence 0
+        string pred = dir.File("bad.lanes.jsonl"), outFile = dir.File("f.jsonl");
+        Lanes.WriteFile(pred, records);
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--fail-on", "warning", "--overlays", "2", "--mine", "5");
+        Assert.Equal(4, exit);
+        Assert.Contains("quality gate failed", err, StringComparison.Ordinal);
+        string[] lines = File.ReadAllLines(outFile);
+        using JsonDocument first = JsonDocument.Parse(lines[0]);
+        JsonElement f = first.RootElement;
+        Assert.Equal(1, f.GetProperty("rank").GetInt32());
+        Assert.Equal("seq00/000005.png", f.GetProperty("frame").GetString());
+        Assert.Equal("LBA-I06", f.GetProperty("rule").GetString());
+        Assert.Equal("slot-order", f.GetProperty("name").GetString());
+        Assert.Equal("error", f.GetProperty("severity").GetString());
+        Assert.True(f.TryGetProperty("value", out _) && f.TryGetProperty("limit", out _) && f.TryGetProperty("lane", out _));
+        Assert.Contains(lines, l => l.Contains("\"rule\":\"LBA-T03\"", StringComparison.Ordinal) && l.Contains("seq00/000013.png", StringComparison.Ordinal));
+        Assert.Equal(2, Directory.GetFiles(dir.File("f.overlays"), "*.png").Length);
+        Assert.True(File.Exists(dir.File("f.overlays/001_seq00_000005.png")));
+        // Frame 6 is flagged too: matched by slot, the swapped boundaries jump a lane width back (LBA-T01).
+        Assert.Equal(["seq00/000005.png", "seq00/000006.png", "seq00/000013.png"], File.ReadAllLines(dir.File("f.mine.txt")));
+    }
+
+    [Fact]
+    public void Baseline_DisagreementRanksTheFramesToLabel()
+    {
+        // The baseline is the clean truth; the network's frames 3 and 9 are off by 60 and 40 px (IoU 0 with a 23 px
+        // line), so F1@0.50 is 0 there and they top the labelling list in that order of ties (frame order).
+        var truth = Clean();
+        var net = truth.ToList();
+        net[3] = Shift(net[3], 60);
+        net[9] = Shift(net[9], 40);
+        string b = dir.File("base.lanes.jsonl"), p = dir.File("net.lanes.jsonl"), o1 = dir.File("a.jsonl"), o2 = dir.File("b.jsonl");
+        Lanes.WriteFile(b, truth);
+        Lanes.WriteFile(p, net);
+        (int exit, string stdout, string err) = CliRunner.Run("audit", "--pred", p, "--baseline", b, "-o", o1, "--mine", "2", "--threads", "1");
+        Assert.True(exit == 0, err);
+        Assert.Contains("Compared with the baseline on 40 frames", stdout, StringComparison.Ordinal);
+        Assert.Equal([truth[3].Frame, truth[9].Frame], File.ReadAllLines(dir.File("a.mine.txt")));
+        Assert.Contains(File.ReadAllLines(o1), l => l.Contains("LBA-B01", StringComparison.Ordinal) && l.Contains(truth[9].Frame, StringComparison.Ordinal));
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", p, "--baseline", b, "-o", o2, "--threads", "2").Exit);
+        Assert.Equal(File.ReadAllBytes(o1), File.ReadAllBytes(o2));
+    }
+
+    [Fact]
+    public void MaskFolderPredictions_AreAudited()
+    {
+        string truth = dir.File("t.lanes.jsonl"), masks = dir.File("m"), outFile = dir.File("f.jsonl");
+        Lanes.WriteFile(truth, Clean().Take(5));
+        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", masks).Exit);
+        (int exit, string stdout, string err) = CliRunner.Run("audit", "--pred", masks, "-o", outFile);
+        Assert.True(exit == 0, err);
+        Assert.Contains("Audited 5 frames", stdout, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void BadInput_Exit3_NoOutputLeft()
+    {
+        string pred = dir.File("p.lanes.jsonl"), outFile = dir.File("f.jsonl");
+        File.WriteAllText(pred, "{\"frame\":\"a.png\",\"lanes\":[{\"points\":[[1,2]]}]}\n");
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile);
+        Assert.Equal(3, exit);
+        Assert.Contains("p.lanes.jsonl:1: lanes[0].points: a lane needs at least 2 points", err, StringComparison.Ordinal);
+        Assert.False(File.Exists(outFile));
+        Assert.Empty(Directory.GetFiles(dir.Path, "*.tmp"));
+
+        File.WriteAllText(pred, "{\"frame\":\"a.png\",\"lanes\":[{\"points\":[[1,2],[3,4]]}]}\n");
+        (exit, _, err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile);
+        Assert.Equal(3, exit);
+        Assert.Contains("p.lanes.jsonl:1: width: frame 'a.png' has no size", err, StringComparison.Ordinal);
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--size", "1280x720").Exit);
+        Assert.Equal(2, CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--fail-on", "sometimes").Exit);
+    }
+}
