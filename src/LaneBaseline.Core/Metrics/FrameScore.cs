@@ -3,6 +3,9 @@ namespace LaneBaseline.Core.Metrics;
 /// <summary>The scores of one frame: the counts every aggregate and bootstrap resample is built from.</summary>
 public sealed class FrameScore
 {
+    /// <summary>Zero-based position of the frame in the truth file.</summary>
+    public int Ordinal { get; internal set; }
+
     /// <summary>Frame key.</summary>
     public required string Frame { get; init; }
 
