@@ -3,6 +3,7 @@ using System.Diagnostics;
 using System.Globalization;
 using System.Text;
 using LaneBaseline.Core;
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Core.Sharding;
 using LaneBaseline.Vision.Metrics;
@@ -31,11 +32,12 @@ internal static class ScoreCommand
         Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
         Option<string?> shard = new("--shard") { Description = "Score only shard K/N of the frames (stable hash of the frame key), e.g. 0/4." };
+        Option<string?> camera = new("--camera") { Description = "camera.json: also report metric-space errors (lateral error at 5/10/20/30 m, ego-lane width, curvature) on the road plane." };
         Option<string?> partial = new("--partial") { Description = "Write this shard's sufficient statistics to a state file for 'merge' (instead of final results)." };
 
         Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.\n" + SafetyNotice.Text)
         {
-            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, threads, shard, partial,
+            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, threads, shard, partial, camera,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -45,6 +47,7 @@ internal static class ScoreCommand
                 LaneWidthPx = parseResult.GetValue(laneWidth),
                 TolerancePx = parseResult.GetValue(tolerance),
                 ExtraThresholds = ParseThresholds(parseResult.GetValue(iou) ?? []),
+                Camera = parseResult.GetValue(camera) is string cameraPath ? CameraModel.Load(cameraPath) : null,
             };
             if (settings.LaneWidthPx is <= 0)
             {
@@ -243,6 +246,11 @@ internal static class ScoreCommand
 
     private static int WritePartial(TextWriter stderr, ScoreRequest request, ShardSpec shard, string partialPath, CancellationToken cancellationToken)
     {
+        if (request.Settings.Camera is not null)
+        {
+            throw new UsageException("--camera is not supported with --partial yet; score metric-space errors unsharded");
+        }
+
         if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null)
         {
             throw new UsageException("--partial writes a state for 'merge'; give --json, --csv and --min-f1 to merge instead");

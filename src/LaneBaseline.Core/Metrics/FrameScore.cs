@@ -45,6 +45,9 @@ public sealed class FrameScore
     /// <summary>Predictions kept at each confidence cutoff k/20.</summary>
     public required int[] ConfidencePredLanes { get; init; }
 
+    /// <summary>Metric-space errors when a camera is given, else null.</summary>
+    public FrameGroundErrors? Ground { get; init; }
+
     /// <summary>Whether any predicted lane in the frame carries a confidence.</summary>
     public bool HasConfidence { get; init; }
 

@@ -82,6 +82,13 @@ public sealed class ScoreRun
         {
             while (truth.TryRead(out LaneRecord r))
             {
+                if (settings.Camera is { } cam && (cam.ImageWidth != r.Width || cam.ImageHeight != r.Height))
+                {
+                    throw BadInputException.At(truthPath, r.LineNumber, "width", string.Create(
+                        CultureInfo.InvariantCulture,
+                        $"frame '{r.Frame}' is {r.Width}x{r.Height} but the camera file describes {cam.ImageWidth}x{cam.ImageHeight} images"));
+                }
+
                 truthIndex.Add(r.Frame, sizes.Count);
                 sizes.Add((r.Width!.Value, r.Height!.Value));
             }
