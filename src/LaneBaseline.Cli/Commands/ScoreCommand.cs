@@ -3,7 +3,9 @@ using System.Diagnostics;
 using System.Globalization;
 using System.Text;
 using LaneBaseline.Core;
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Sharding;
 using LaneBaseline.Vision.Masks;
 using LaneBaseline.Vision.Metrics;
 
@@ -29,14 +31,17 @@ internal static class ScoreCommand
         Option<int> bootstrap = new("--bootstrap") { Description = "Bootstrap resamples for 95 % intervals (0 disables).", DefaultValueFactory = _ => 1000 };
         Option<ulong> seed = new("--seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
         Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
+        Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<string?> shard = new("--shard") { Description = "Score only shard K/N of the frames (stable hash of the frame key), e.g. 0/4." };
+        Option<string?> camera = new("--camera") { Description = "camera.json: also report metric-space errors (lateral error at 5/10/20/30 m, ego-lane width, curvature) on the road plane." };
         Option<string?> size = new("--size") { Description = "Frame size WxH for truth masks (default: each mask's own size); prediction masks are rescaled to the truth's size." };
         Option<int> minMaskRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };
         Option<string?> maskCsv = new("--mask-iou-csv") { Description = "With truth and predictions both mask folders: write per-lane mask IoU rows to this file." };
-        Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<string?> partial = new("--partial") { Description = "Write this shard's sufficient statistics to a state file for 'merge' (instead of final results)." };
 
         Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.\n" + SafetyNotice.Text)
         {
-            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, size, minMaskRows, maskCsv, threads,
+            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, threads, shard, partial, camera, size, minMaskRows, maskCsv,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -46,6 +51,7 @@ internal static class ScoreCommand
                 LaneWidthPx = parseResult.GetValue(laneWidth),
                 TolerancePx = parseResult.GetValue(tolerance),
                 ExtraThresholds = ParseThresholds(parseResult.GetValue(iou) ?? []),
+                Camera = parseResult.GetValue(camera) is string cameraPath ? CameraModel.Load(cameraPath) : null,
             };
             if (settings.LaneWidthPx is <= 0)
             {
@@ -75,16 +81,20 @@ internal static class ScoreCommand
                 throw new UsageException("--min-f1 must be in [0, 1]");
             }
 
-            int maskRows = parseResult.GetValue(minMaskRows);
-            if (maskRows < 2)
+            ShardSpec? shardSpec = null;
+            if (parseResult.GetValue(shard) is string shardText)
             {
-                throw new UsageException("--min-mask-rows must be at least 2");
+                try
+                {
+                    shardSpec = ShardSpec.Parse(shardText);
+                }
+                catch (FormatException ex)
+                {
+                    throw new UsageException("--shard: " + ex.Message);
+                }
             }
 
-            var masks = new MaskInputs(LaneInputs.ParseSize(parseResult.GetValue(size), "--size"), maskRows, parseResult.GetValue(maskCsv));
-            return Execute(
-                stdout,
-                stderr,
+            var request = new ScoreRequest(
                 parseResult.GetRequiredValue(truth),
                 ParseSystems(parseResult.GetRequiredValue(pred)),
                 settings,
@@ -93,9 +103,23 @@ internal static class ScoreCommand
                 threadCount,
                 parseResult.GetValue(json),
                 parseResult.GetValue(csv),
-                gate,
-                masks,
-                cancellationToken);
+                gate);
+            int maskRows = parseResult.GetValue(minMaskRows);
+            if (maskRows < 2)
+            {
+                throw new UsageException("--min-mask-rows must be at least 2");
+            }
+
+            var masks = new MaskInputs(LaneInputs.ParseSize(parseResult.GetValue(size), "--size"), maskRows, parseResult.GetValue(maskCsv));
+            string? partialPath = parseResult.GetValue(partial);
+            if (partialPath is not null && masks.CsvPath is not null)
+            {
+                throw new UsageException("--mask-iou-csv is not supported with --partial; score masks unsharded");
+            }
+
+            return partialPath is null
+                ? Execute(stdout, stderr, request, shardSpec, masks, cancellationToken)
+                : WritePartial(stderr, request, shardSpec ?? new ShardSpec(0, 1), partialPath, masks, cancellationToken);
         })));
         return command;
     }
@@ -163,38 +187,26 @@ internal static class ScoreCommand
         return systems;
     }
 
-    private static int Execute(
-        TextWriter stdout,
-        TextWriter stderr,
-        string truthPath,
-        IReadOnlyList<ScoredSystem> systems,
-        ScoreSettings settings,
-        int resamples,
-        ulong seed,
-        int threads,
-        string? jsonPath,
-        string? csvPath,
-        double? minF1,
-        MaskInputs masks,
-        CancellationToken cancellationToken)
+    private static int Execute(TextWriter stdout, TextWriter stderr, ScoreRequest request, ShardSpec? shard, MaskInputs masks, CancellationToken cancellationToken)
     {
-        bool allMasks = LaneInputs.IsMaskFolder(truthPath) && systems.All(s => LaneInputs.IsMaskFolder(s.Path));
+        bool allMasks = shard is null && LaneInputs.IsMaskFolder(request.TruthPath) && request.Systems.All(s => LaneInputs.IsMaskFolder(s.Path));
         if (masks.CsvPath is not null && !allMasks)
         {
-            throw new UsageException("--mask-iou-csv needs --truth and every --pred to be mask folders");
+            throw new UsageException("--mask-iou-csv needs --truth and every --pred to be mask folders (and no --shard)");
         }
 
         var clock = Stopwatch.StartNew();
-        using AtomicFile? csvFile = csvPath is null ? null : new AtomicFile(csvPath);
+        using AtomicFile? csvFile = request.CsvPath is null ? null : new AtomicFile(request.CsvPath);
         TextWriter? csvWriter = csvFile?.Writer;
-        csvWriter?.Write(CsvHeader(systems.Count > 1));
+        csvWriter?.Write(CsvHeader(request.Systems.Count > 1));
         long lastReport = 0;
-        int halfIndex = settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
-        var run = new ScoreRun(truthPath, systems, settings)
+        int halfIndex = request.Settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
+        var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
         {
-            Threads = threads,
+            Threads = request.Threads,
+            Shard = shard,
             Opener = LaneInputs.Opener(masks.Size, masks.MinRows, stderr),
-            OnFrame = csvWriter is null ? null : row => WriteCsvRows(csvWriter, systems, halfIndex, row),
+            OnFrame = csvWriter is null ? null : row => WriteCsvRows(csvWriter, request.Systems, halfIndex, row),
             OnProgress = (done, total) =>
             {
                 long now = clock.ElapsedMilliseconds;
@@ -207,14 +219,23 @@ internal static class ScoreCommand
         };
         IReadOnlyList<SystemScore> results = run.Execute(CreateRasterizer, cancellationToken);
         double scoreSeconds = clock.Elapsed.TotalSeconds;
-        MaskIouSummary[]? maskIou = allMasks ? MaskIouAll(truthPath, systems, masks.CsvPath, cancellationToken) : null;
+        long frames = results[0].Overall.Frames;
+        stderr.WriteLine(string.Create(
+            CultureInfo.InvariantCulture,
+            $"score: {frames} frames x {results.Count} system(s) in {scoreSeconds:0.###} s ({frames * results.Count / Math.Max(scoreSeconds, 1e-9):0} frame-scores/s, {request.Threads} thread(s))"));
+        MaskIouSummary[]? maskIou = allMasks ? MaskIouAll(request.TruthPath, request.Systems, masks.CsvPath, cancellationToken) : null;
+        return Finish(stdout, stderr, request, results, csvFile, maskIou);
+    }
 
+    /// <summary>Bootstrap, table, CSV commit, JSON and gate: shared by <c>score</c> and <c>merge</c>.</summary>
+    internal static int Finish(TextWriter stdout, TextWriter stderr, ScoreRequest request, IReadOnlyList<SystemScore> results, AtomicFile? csvFile, MaskIouSummary[]? maskIou = null)
+    {
         BootstrapResult? boot = null;
-        if (resamples > 0)
+        if (request.Resamples > 0)
         {
-            double[][][] samples = Bootstrap.Resample([.. results.Select(r => r.Series)], resamples, seed, threads);
+            double[][][] samples = Bootstrap.Resample([.. results.Select(r => r.Series)], request.Resamples, request.Seed, request.Threads);
             var intervals = samples.Select(sys => sys.Select(stat => Bootstrap.Percentiles(stat, 0.95)).ToArray()).ToArray();
-            boot = new BootstrapResult { Resamples = resamples, Seed = seed, Intervals = intervals, Samples = samples };
+            boot = new BootstrapResult { Resamples = request.Resamples, Seed = request.Seed, Intervals = intervals, Samples = samples };
         }
 
         if (results.Any(r => r.Overall.AllEmpty))
@@ -222,36 +243,26 @@ internal static class ScoreCommand
             stderr.WriteLine("note: no truth and no predicted lanes at all in some system's frames; by definition it scores 1.0");
         }
 
-        ScoreTableWriter.Write(stdout, truthPath, results, settings, boot);
+        ScoreTableWriter.Write(stdout, request.TruthPath, results, request.Settings, boot);
         if (maskIou is not null)
         {
             stdout.WriteLine();
             stdout.WriteLine("Mask IoU (per truth lane id, Hungarian-assigned; unassigned count 0):");
-            for (int s = 0; s < systems.Count; s++)
+            for (int s = 0; s < request.Systems.Count; s++)
             {
                 MaskIouSummary m = maskIou[s];
-                stdout.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {systems[s].Name}: mean IoU {m.MeanIou:0.0000} over {m.TruthLanes} truth lanes ({m.Matched} assigned, {m.PredLanes} predicted)"));
+                stdout.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {request.Systems[s].Name}: mean IoU {m.MeanIou:0.0000} over {m.TruthLanes} truth lanes ({m.Matched} assigned, {m.PredLanes} predicted)"));
             }
         }
-
-        if (csvWriter is not null)
+        csvFile?.Commit();
+        if (request.JsonPath is not null)
         {
-            csvFile!.Commit();
-        }
-
-        if (jsonPath is not null)
-        {
-            using var jsonFile = new AtomicFile(jsonPath);
-            ScoreJsonWriter.Write(jsonFile.Stream, results, settings, boot, truthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]));
+            using var jsonFile = new AtomicFile(request.JsonPath);
+            ScoreJsonWriter.Write(jsonFile.Stream, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]));
             jsonFile.Commit();
         }
 
-        long frames = results[0].Overall.Frames;
-        stderr.WriteLine(string.Create(
-            CultureInfo.InvariantCulture,
-            $"score: {frames} frames x {results.Count} system(s) in {scoreSeconds:0.###} s ({frames * results.Count / Math.Max(scoreSeconds, 1e-9):0} frame-scores/s, {threads} thread(s)); total {clock.Elapsed.TotalSeconds:0.###} s"));
-
-        if (minF1 is double gate)
+        if (request.MinF1 is double gate)
         {
             foreach (SystemScore r in results)
             {
@@ -264,6 +275,60 @@ internal static class ScoreCommand
             }
         }
 
+        return ExitCodes.Success;
+    }
+
+    private static int WritePartial(TextWriter stderr, ScoreRequest request, ShardSpec shard, string partialPath, MaskInputs masks, CancellationToken cancellationToken)
+    {
+        if (request.Settings.Camera is not null)
+        {
+            throw new UsageException("--camera is not supported with --partial yet; score metric-space errors unsharded");
+        }
+
+        if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null)
+        {
+            throw new UsageException("--partial writes a state for 'merge'; give --json, --csv and --min-f1 to merge instead");
+        }
+
+        var clock = Stopwatch.StartNew();
+        long frames;
+        using var file = new AtomicFile(partialPath);
+        ScoreStateWriter? writer = null;
+        int truthFrames = 0;
+        try
+        {
+            var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
+            {
+                Threads = request.Threads,
+                Shard = shard,
+                Opener = LaneInputs.Opener(masks.Size, masks.MinRows, stderr),
+                OnValidated = n =>
+                {
+                    truthFrames = n;
+#pragma warning disable IDISP004, IDISP003 // called once; NonClosingStream only forwards to the AtomicFile's stream
+                    writer = new ScoreStateWriter(new NonClosingStream(file.Stream), new ScoreStateHeader
+                    {
+                        Shard = shard,
+                        Truth = request.TruthPath,
+                        TruthFrames = n,
+                        Systems = request.Systems,
+                        Settings = request.Settings,
+                        Resamples = request.Resamples,
+                        Seed = request.Seed,
+                    });
+#pragma warning restore IDISP004, IDISP003
+                },
+                OnFrame = row => writer!.Write(row),
+            };
+            frames = run.Execute(CreateRasterizer, cancellationToken)[0].Overall.Frames;
+        }
+        finally
+        {
+            writer?.Dispose();
+        }
+
+        file.Commit();
+        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"score: shard {shard}: {frames} of {truthFrames} frames in {clock.Elapsed.TotalSeconds:0.###} s -> {partialPath}"));
         return ExitCodes.Success;
     }
 
@@ -298,17 +363,16 @@ internal static class ScoreCommand
         w.WriteEndObject();
     }
 
-    /// <summary>Mask-input settings of a score run.</summary>
-    private sealed record MaskInputs((int Width, int Height)? Size, int MinRows, string? CsvPath);
-
 #pragma warning disable IDISP005 // ScoreRun owns and disposes the rasterizers it creates
     private static ILaneRasterizer CreateRasterizer() => new OpenCvLaneRasterizer();
 #pragma warning restore IDISP005
 
+    internal static void WriteCsvHeader(TextWriter csv, bool multi) => csv.Write(CsvHeader(multi));
+
     private static string CsvHeader(bool multi) =>
         (multi ? "system," : string.Empty) + "frame,tags,tp,fp,fn,mean_matched_iou,point_accuracy\n";
 
-    private static void WriteCsvRows(TextWriter csv, IReadOnlyList<ScoredSystem> systems, int halfIndex, IReadOnlyList<FrameScore> row)
+    internal static void WriteCsvRows(TextWriter csv, IReadOnlyList<ScoredSystem> systems, int halfIndex, IReadOnlyList<FrameScore> row)
     {
         for (int s = 0; s < row.Count; s++)
         {
@@ -336,3 +400,18 @@ internal static class ScoreCommand
     private static string Csv(string value) =>
         value.AsSpan().IndexOfAny(",\"\n\r") >= 0 ? "\"" + value.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"" : value;
 }
+
+/// <summary>Everything a score or merge run writes with.</summary>
+internal sealed record ScoreRequest(
+    string TruthPath,
+    IReadOnlyList<ScoredSystem> Systems,
+    ScoreSettings Settings,
+    int Resamples,
+    ulong Seed,
+    int Threads,
+    string? JsonPath,
+    string? CsvPath,
+    double? MinF1);
+
+/// <summary>Mask-input settings of a score run.</summary>
+internal sealed record MaskInputs((int Width, int Height)? Size, int MinRows, string? CsvPath);
