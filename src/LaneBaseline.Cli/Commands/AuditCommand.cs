@@ -3,6 +3,7 @@ using System.Diagnostics;
 using System.Globalization;
 using LaneBaseline.Core;
 using LaneBaseline.Core.Audit;
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Vision.Audit;
@@ -28,11 +29,13 @@ internal static class AuditCommand
         Option<int> mine = new("--mine") { Description = "Write the N frames most worth labelling to OUT.mine.txt (by disagreement with --baseline, else by findings).", DefaultValueFactory = _ => 0 };
         Option<string> failOn = new("--fail-on") { Description = "Quality gate: exit 4 when a finding of this severity or worse exists (none, warning, error).", DefaultValueFactory = _ => "none" };
         Option<int> minMaskRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };
+        Option<string?> camera = new("--camera") { Description = "camera.json of the frames: enables the ground-geometry rules (lane width, curve radius, parallelism) and fixes the horizon row." };
+        Option<double> speed = new("--design-speed-kmh") { Description = "Design speed for the curve-radius rule, R = V^2 / (127 (e + f)) with e 0.08, f 0.12.", DefaultValueFactory = _ => 100.0 };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
 
         Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.\n" + SafetyNotice.Text)
         {
-            pred, baseline, output, frames, size, horizon, fps, overlays, mine, failOn, minMaskRows, threads,
+            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, threads,
         };
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
@@ -67,8 +70,16 @@ internal static class AuditCommand
                 throw new UsageException("--min-mask-rows must be at least 2");
             }
 
+            double designSpeed = parseResult.GetValue(speed);
+            if (!(designSpeed > 0) || !double.IsFinite(designSpeed))
+            {
+                throw new UsageException("--design-speed-kmh must be a positive number");
+            }
+
             var settings = new AuditSettings
             {
+                Camera = parseResult.GetValue(camera) is string cameraPath ? CameraModel.Load(cameraPath) : null,
+                DesignSpeedKmh = designSpeed,
                 Size = LaneInputs.ParseSize(parseResult.GetValue(size), "--size"),
                 HorizonRow = parseResult.GetValue(horizon),
                 FramesPerSecond = rate,
@@ -131,7 +142,7 @@ internal static class AuditCommand
             WriteOverlays(stem + ".overlays", result, predPath, baselinePath, framesRoot, settings, opener, overlays, cancellationToken);
         }
 
-        WriteSummary(stdout, result, outPath);
+        WriteSummary(stdout, result, outPath, settings.Camera is not null);
         stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"audit: {result.Frames} frames in {clock.Elapsed.TotalSeconds:0.###} s ({threads} thread(s))"));
         if (gate is AuditSeverity g && result.Findings.Any(f => f.Severity >= g))
         {
@@ -142,7 +153,7 @@ internal static class AuditCommand
         return ExitCodes.Success;
     }
 
-    private static void WriteSummary(TextWriter o, AuditResult result, string outPath)
+    private static void WriteSummary(TextWriter o, AuditResult result, string outPath, bool groundRules)
     {
         long flagged = result.Findings.Select(f => f.Ordinal).Distinct().LongCount();
         o.WriteLine(F($"Audited {result.Frames} frames: {flagged} with findings ({(result.Frames == 0 ? 0 : 100.0 * flagged / result.Frames):0.0} %), {result.Findings.Count} findings -> {outPath}"));
@@ -161,8 +172,11 @@ internal static class AuditCommand
             o.WriteLine(F($"{rule.Id,-8} {rule.Name,-22} {AuditJsonWriter.SeverityName(rule.Severity),-8}  {count,8}  {frames,6}  {rule.Limit}"));
         }
 
-        o.WriteLine();
-        o.WriteLine("Ground-geometry rules (lane width in metres, marking spacing, curve radius, parallelism) need a camera file and are not available yet.");
+        if (!groundRules)
+        {
+            o.WriteLine();
+            o.WriteLine("Ground-geometry rules (LBA-G01..G03) did not run: they need --camera camera.json.");
+        }
     }
 
     private static void WriteOverlays(

@@ -9,9 +9,8 @@ namespace LaneBaseline.Core.Audit;
 public sealed record AuditRuleInfo(string Id, string Name, AuditSeverity Severity, string Limit, string Source);
 
 /// <summary>
-/// The audit rules. Ids are our own: <c>LBA-I</c> image geometry, <c>LBA-T</c> temporal, <c>LBA-B</c> baseline.
-/// Ground-geometry rules (<c>LBA-G</c>, with a camera file) are not implemented yet; <see cref="Geometry.RoadGeometry"/> holds
-/// their published limits.
+/// The audit rules. Ids are our own: <c>LBA-I</c> image geometry, <c>LBA-G</c> ground geometry (with a camera
+/// file), <c>LBA-T</c> temporal, <c>LBA-B</c> baseline. <see cref="Geometry.RoadGeometry"/> holds the published limits.
 /// </summary>
 public static class AuditRules
 {
@@ -45,6 +44,15 @@ public static class AuditRules
     /// <summary>Frames are missing from a numbered sequence.</summary>
     public const string FrameGap = "LBA-T03";
 
+    /// <summary>A lane's width on the ground is outside the published band.</summary>
+    public const string GroundLaneWidth = "LBA-G01";
+
+    /// <summary>A lane curves tighter than the minimum radius for the design speed.</summary>
+    public const string GroundCurvature = "LBA-G02";
+
+    /// <summary>Neighbouring boundaries are not parallel on the ground.</summary>
+    public const string GroundParallel = "LBA-G03";
+
     /// <summary>Low agreement with the confident lanes of the classical baseline.</summary>
     public const string BaselineDisagreement = "LBA-B01";
 
@@ -71,6 +79,12 @@ public static class AuditRules
             "lane markings persist over 1/fps s at road speeds (common practice)"),
         new(FrameGap, "frame-gap", AuditSeverity.Warning, "a numbered sequence skips frame numbers",
             "common practice: a detector must write one record per frame (cli.md, lane-file spec)"),
+        new(GroundLaneWidth, "ground-lane-width", AuditSeverity.Error, "lane width at 10 m ahead outside 2.5-3.95 m (band 2.7-3.75 m with 0.2 m allowance); pairs under 0.5 m count as a double line",
+            "external-checks.md: lanes 2.7 m (low-speed rural) to 3.66-3.75 m (AASHTO / FHWA; DMRB TD 27/96); double-line spacing 0.10-0.18 m (Vienna Convention Annex 2); allowance: common practice"),
+        new(GroundCurvature, "ground-curvature", AuditSeverity.Error, "radius below V^2 / (127 (e + f)): 393.7 m at 100 km/h, e 0.08, f 0.12 (--design-speed-kmh)",
+            "AASHTO Green Book Sec. 3.3 (external-checks.md worked example); R of a quadratic fit: calculus (external-checks.md)"),
+        new(GroundParallel, "ground-parallel", AuditSeverity.Warning, "a lane's width changes by more than 0.5 m between 10 m and 30 m ahead",
+            "common practice: lane widths change only over long tapers; 0.5 m over 20 m is a 1:40 taper (from memory)"),
         new(BaselineDisagreement, "baseline-disagreement", AuditSeverity.Warning, "F1 at IoU 0.50 against the baseline's confident lanes (score >= 0.5) under 0.5",
             "metrics.md rasterised-IoU F1 (Pan et al., AAAI 2018) with the baseline as reference"),
     ];

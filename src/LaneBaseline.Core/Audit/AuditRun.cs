@@ -11,6 +11,12 @@ namespace LaneBaseline.Core.Audit;
 /// <param name="Disagreement">1 - F1@0.50 against the baseline's confident lanes, or null when not compared.</param>
 public sealed record AuditFrameScore(string Frame, long Ordinal, double Score, double? Disagreement);
 
+internal static class CameraSizeExtensions
+{
+    public static (int Width, int Height)? SizeOrNull(this Geometry.CameraModel? camera) =>
+        camera is null ? null : (camera.ImageWidth, camera.ImageHeight);
+}
+
 /// <summary>What an audit found.</summary>
 public sealed class AuditResult
 {
@@ -75,6 +81,8 @@ public sealed class AuditRun
         var frames = new List<AuditFrameScore>();
         var result = new AuditResult();
         var temporal = new TemporalRules(settings);
+        Geometry.GroundProjection? projection = settings.Camera?.ToProjection();
+        AuditSettings imageSettings = settings.Camera is { } cam && settings.HorizonRow is null ? settings with { HorizonRow = cam.HorizonRowAtCentre() } : settings;
         try
         {
             if (baselinePath is not null)
@@ -114,7 +122,12 @@ public sealed class AuditRun
                     {
                         (LaneRecord p, LaneRecord? b, long o, int width, int height) = batch[i];
                         var list = new List<AuditFinding>();
-                        ImageRules.Check(p, o, width, height, settings, list);
+                        ImageRules.Check(p, o, width, height, imageSettings, list);
+                        if (projection is Geometry.GroundProjection gp)
+                        {
+                            GroundRules.Check(p, o, gp, settings, list);
+                        }
+
                         agreement[i] = null;
                         if (b is not null)
                         {
@@ -194,17 +207,15 @@ public sealed class AuditRun
 
     private (int Width, int Height) SizeOf(string file, LaneRecord p, LaneRecord? b)
     {
-        if (p.Width is int w && p.Height is int h)
+        (int w, int h) = p.Width is int pw && p.Height is int ph ? (pw, ph)
+            : b?.Width is int bw && b.Height is int bh ? (bw, bh)
+            : settings.Size ?? settings.Camera.SizeOrNull() ?? throw BadInputException.At(file, p.LineNumber, "width", $"frame '{p.Frame}' has no size: give --size WxH (or a baseline with sizes)");
+        if (settings.Camera is { } c && (c.ImageWidth != w || c.ImageHeight != h))
         {
-            return (w, h);
+            throw BadInputException.At(file, p.LineNumber, "width", string.Create(CultureInfo.InvariantCulture, $"frame '{p.Frame}' is {w}x{h} but the camera file is for {c.ImageWidth}x{c.ImageHeight}"));
         }
 
-        if (b?.Width is int bw && b.Height is int bh)
-        {
-            return (bw, bh);
-        }
-
-        return settings.Size ?? throw BadInputException.At(file, p.LineNumber, "width", $"frame '{p.Frame}' has no size: give --size WxH (or a baseline with sizes)");
+        return (w, h);
     }
 
     private double? Compare(FrameScorer scorer, LaneRecord pred, LaneRecord baseline, int width, int height, long ordinal, List<AuditFinding> sink)

@@ -36,6 +36,39 @@ public sealed record AuditSettings
     /// <summary>Shortest plausible vertical extent as a fraction of the frame height (default 0.05), at least 30 px.</summary>
     public double ShortLaneFraction { get; init; } = 0.05;
 
+    /// <summary>Camera of the frames: enables the ground rules (LBA-G) and gives the horizon row; null without.</summary>
+    public Geometry.CameraModel? Camera { get; init; }
+
+    /// <summary>Design speed for the curve-radius rule, km/h (default 100).</summary>
+    public double DesignSpeedKmh { get; init; } = 100;
+
+    /// <summary>Superelevation e for the curve-radius rule (default 0.08, external-checks.md worked example).</summary>
+    public double Superelevation { get; init; } = 0.08;
+
+    /// <summary>Side friction factor f for the curve-radius rule (default 0.12, external-checks.md worked example).</summary>
+    public double SideFriction { get; init; } = 0.12;
+
+    /// <summary>Narrowest lane accepted on the ground, m (default 2.7 - 0.2 allowance).</summary>
+    public double MinLaneWidthM { get; init; } = Geometry.RoadGeometry.MinLaneWidthM - 0.2;
+
+    /// <summary>Widest lane accepted on the ground, m (default 3.75 + 0.2 allowance).</summary>
+    public double MaxLaneWidthM { get; init; } = Geometry.RoadGeometry.MaxLaneWidthM + 0.2;
+
+    /// <summary>Boundaries closer than this are the two lines of one double marking, m (default 0.5).</summary>
+    public double DoubleLineMaxM { get; init; } = 0.5;
+
+    /// <summary>Distance ahead where lane width is measured, m (default 10).</summary>
+    public double WidthCheckDistanceM { get; init; } = 10;
+
+    /// <summary>Second distance for the parallelism check, m (default 30).</summary>
+    public double ParallelCheckDistanceM { get; init; } = 30;
+
+    /// <summary>Largest change of a lane's width between the two distances, m (default 0.5).</summary>
+    public double MaxWidthChangeM { get; init; } = 0.5;
+
+    /// <summary>Shortest ground span of a lane for the curve fit, m (default 15).</summary>
+    public double MinCurveSpanM { get; init; } = 15;
+
     /// <summary>Largest ratio of neighbouring lane widths at one row (default 3.75 / 2.7 x 1.05).</summary>
     public double MaxWidthRatio { get; init; } = Geometry.RoadGeometry.MaxLaneWidthM / Geometry.RoadGeometry.MinLaneWidthM * 1.05;
 }
