@@ -82,6 +82,32 @@ public sealed class AuditCommandTests : IDisposable
     }
 
     [Fact]
+    public void Camera_EnablesGroundRules_CleanQuiet_BentLaneFound()
+    {
+        // Camera of external-checks.md (CameraModel.CreateDefault); bend slot +1 of frame 4 to R = 300 m, below the
+        // 393.7 m that 100 km/h needs (AASHTO Green Book Sec. 3.3), but not at 80 km/h (252.0 m).
+        string cam = dir.File("camera.json"), p = dir.File("p.lanes.jsonl"), o = dir.File("f.jsonl");
+        Core.Geometry.CameraModel.CreateDefault(1280, 720).Save(cam);
+        var records = Clean();
+        Lanes.WriteFile(p, records);
+        (int exit, string stdout, string err) = CliRunner.Run("audit", "--pred", p, "-o", o, "--camera", cam);
+        Assert.True(exit == 0, err);
+        Assert.Contains("0 with findings", stdout, StringComparison.Ordinal);
+        Assert.DoesNotContain("did not run", stdout, StringComparison.Ordinal);
+
+        SyntheticRoad.Scene scene = SyntheticRoad.SceneFor(3, 0);
+        records[4] = SyntheticRoad.Frame(scene, 0, 4, (slot, y) => slot == 1 ? x => y(x) + (x * x / 600.0) : y);
+        Lanes.WriteFile(p, records);
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", p, "-o", o, "--camera", cam).Exit);
+        Assert.Contains(File.ReadAllLines(o), l => l.Contains("\"rule\":\"LBA-G02\"", StringComparison.Ordinal) && l.Contains("seq00/000004.png", StringComparison.Ordinal));
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", p, "-o", o, "--camera", cam, "--design-speed-kmh", "80").Exit);
+        Assert.DoesNotContain(File.ReadAllLines(o), l => l.Contains("LBA-G02", StringComparison.Ordinal));
+
+        (exit, _, err) = CliRunner.Run("audit", "--pred", p, "-o", o, "--camera", dir.File("missing.json"));
+        Assert.Equal(3, exit);
+    }
+
+    [Fact]
     public void MaskFolderPredictions_AreAudited()
     {
         string truth = dir.File("t.lanes.jsonl"), masks = dir.File("m"), outFile = dir.File("f.jsonl");

@@ -120,7 +120,21 @@ internal static class AuditCommand
         var clock = Stopwatch.StartNew();
         using var findingsFile = new AtomicFile(outPath);
         LaneSourceOpener opener = LaneInputs.Opener(settings.Size, minMaskRows, stderr);
-        var run = new AuditRun(settings) { Threads = threads, Opener = opener };
+        long lastReport = 0;
+        var run = new AuditRun(settings)
+        {
+            Threads = threads,
+            Opener = opener,
+            OnProgress = done =>
+            {
+                long now = clock.ElapsedMilliseconds;
+                if (now - lastReport >= 2000)
+                {
+                    lastReport = now;
+                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"audit: {done} frames"));
+                }
+            },
+        };
         AuditResult result = run.Execute(predPath, baselinePath, CreateRasterizer, cancellationToken);
         AuditJsonWriter.Write(findingsFile.Stream, result);
 

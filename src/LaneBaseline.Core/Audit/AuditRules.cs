@@ -61,7 +61,7 @@ public static class AuditRules
     [
         new(LanesCross, "lanes-cross", AuditSeverity.Error, "x-order of two lanes flips by more than 2 px on both sides, below the horizon",
             "parallel ground curves project to non-crossing image curves below the horizon (pinhole projection; Hartley & Zisserman, 2nd ed.); 2 px label noise: common practice"),
-        new(FoldBack, "fold-back", AuditSeverity.Error, "y rises again by more than 2 px along the near-to-far point order",
+        new(FoldBack, "fold-back", AuditSeverity.Error, "y rises again by more than max(2 px, 1 % of the frame height) along the near-to-far point order",
             "lane-file spec: points near to far, y decreasing; a ground curve ahead of the camera is monotone in image row (common practice)"),
         new(AboveHorizon, "above-horizon", AuditSeverity.Error, "a point more than 3 % of the frame height above the horizon row (--horizon-row, else the lanes' vanishing point)",
             "the ground plane images entirely below the horizon (external-checks.md camera rows: horizon v = 325.08 at 2° pitch); 3 % fit allowance: common practice"),
@@ -81,7 +81,7 @@ public static class AuditRules
             "common practice: a detector must write one record per frame (cli.md, lane-file spec)"),
         new(GroundLaneWidth, "ground-lane-width", AuditSeverity.Error, "lane width at 10 m ahead outside 2.5-3.95 m (band 2.7-3.75 m with 0.2 m allowance); pairs under 0.5 m count as a double line",
             "external-checks.md: lanes 2.7 m (low-speed rural) to 3.66-3.75 m (AASHTO / FHWA; DMRB TD 27/96); double-line spacing 0.10-0.18 m (Vienna Convention Annex 2); allowance: common practice"),
-        new(GroundCurvature, "ground-curvature", AuditSeverity.Error, "radius below V^2 / (127 (e + f)): 393.7 m at 100 km/h, e 0.08, f 0.12 (--design-speed-kmh)",
+        new(GroundCurvature, "ground-curvature", AuditSeverity.Error, "radius of a quadratic fit 3-60 m ahead below V^2 / (127 (e + f)): 393.7 m at 100 km/h, e 0.08, f 0.12 (--design-speed-kmh)",
             "AASHTO Green Book Sec. 3.3 (external-checks.md worked example); R of a quadratic fit: calculus (external-checks.md)"),
         new(GroundParallel, "ground-parallel", AuditSeverity.Warning, "a lane's width changes by more than 0.5 m between 10 m and 30 m ahead",
             "common practice: lane widths change only over long tapers; 0.5 m over 20 m is a 1:40 taper (from memory)"),

@@ -62,6 +62,9 @@ public sealed class AuditRun
     /// <summary>Worker threads.</summary>
     public int Threads { get; init; } = 1;
 
+    /// <summary>Called after each batch with the number of frames audited so far.</summary>
+    public Action<long>? OnProgress { get; init; }
+
     /// <summary>Opens inputs (lane files by default).</summary>
     public LaneSourceOpener Opener { get; init; } = LaneSources.OpenLaneFile;
 
@@ -158,6 +161,8 @@ public sealed class AuditRun
 
                     frames.Add(new AuditFrameScore(batch[i].Pred.Frame, batch[i].Ordinal, 0, agreement[i] is double f1 ? 1 - f1 : null));
                 }
+
+                OnProgress?.Invoke(ordinal);
             }
 
             result.Frames = ordinal;

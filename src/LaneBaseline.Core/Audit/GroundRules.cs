@@ -11,7 +11,7 @@ namespace LaneBaseline.Core.Audit;
 /// </summary>
 public static class GroundRules
 {
-    private const double NearM = 3, FarM = 60;
+    private const double NearM = 3, FarM = 60, CurveFarM = 60;
 
     /// <summary>Checks one frame; findings are appended in rule order.</summary>
     public static void Check(LaneRecord record, long ordinal, GroundProjection camera, AuditSettings settings, List<AuditFinding> sink)
@@ -106,7 +106,8 @@ public static class GroundRules
         double rMin = RoadGeometry.MinimumCurveRadiusM(settings.DesignSpeedKmh, settings.Superelevation, settings.SideFriction);
         for (int i = 0; i < ground.Count; i++)
         {
-            if (ground[i] is not { } g || g.Count < 4 || g[^1].X - g[0].X < settings.MinCurveSpanM)
+            List<(double X, double Y)>? g = ground[i]?.Where(p => p.X <= CurveFarM).ToList();
+            if (g is null || g.Count < 4 || g[^1].X - g[0].X < settings.MinCurveSpanM)
             {
                 continue;
             }

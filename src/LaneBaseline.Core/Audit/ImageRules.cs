@@ -65,7 +65,8 @@ public static class ImageRules
             }
         }
 
-        // LBA-I02 fold-back.
+        // LBA-I02 fold-back (tolerance: the order tolerance, at least 1 % of the height for dense noisy labels).
+        double foldTol = Math.Max(tol, 0.01 * height);
         for (int i = 0; i < lanes.Count; i++)
         {
             double minY = double.PositiveInfinity, worst = 0;
@@ -75,9 +76,9 @@ public static class ImageRules
                 worst = Math.Max(worst, p.Y - minY);
             }
 
-            if (worst > tol)
+            if (worst > foldTol)
             {
-                sink.Add(F(AuditRules.FoldBack, i, null, worst, tol, "px", Inv($"lane {i} turns back down by {worst:0.#} px after rising (points must run near to far)")));
+                sink.Add(F(AuditRules.FoldBack, i, null, worst, foldTol, "px", Inv($"lane {i} turns back down by {worst:0.#} px after rising (points must run near to far)")));
             }
         }
 
