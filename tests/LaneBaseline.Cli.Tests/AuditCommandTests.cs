@@ -95,7 +95,8 @@ public sealed class AuditCommandTests : IDisposable
         Assert.Contains("0 with findings", stdout, StringComparison.Ordinal);
         Assert.DoesNotContain("did not run", stdout, StringComparison.Ordinal);
 
-        SyntheticRoad.Scene scene = SyntheticRoad.SceneFor(3, 0);
+        // The frame's own road is made straight so that the bend alone sets the radius.
+        SyntheticRoad.Scene scene = SyntheticRoad.SceneFor(3, 0) with { CurvaturePerM = 0 };
         records[4] = SyntheticRoad.Frame(scene, 0, 4, (slot, y) => slot == 1 ? x => y(x) + (x * x / 600.0) : y);
         Lanes.WriteFile(p, records);
         Assert.Equal(0, CliRunner.Run("audit", "--pred", p, "-o", o, "--camera", cam).Exit);
