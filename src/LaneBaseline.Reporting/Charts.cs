@@ -220,7 +220,7 @@ internal static partial class Charts
         return openTag + svg[tagEnd..];
     }
 
-    [GeneratedRegex("cl_[0-9]+")]
+    [GeneratedRegex("cl_[0-9A-Za-z]+")]
     private static partial Regex ClipId();
 
     [GeneratedRegex("( [xy])=\"([^\"]*?),\\s*\"")]

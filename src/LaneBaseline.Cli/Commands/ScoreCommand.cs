@@ -2,8 +2,10 @@ using System.CommandLine;
 using System.Diagnostics;
 using System.Globalization;
 using System.Text;
+using LaneBaseline.Cli.Reports;
 using LaneBaseline.Core;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Reporting.Score;
 using LaneBaseline.Vision.Metrics;
 
 namespace LaneBaseline.Cli.Commands;
@@ -28,11 +30,13 @@ internal static class ScoreCommand
         Option<int> bootstrap = new("--bootstrap") { Description = "Bootstrap resamples for 95 % intervals (0 disables).", DefaultValueFactory = _ => 1000 };
         Option<ulong> seed = new("--seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
         Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
+        Option<string?> report = new("--report") { Description = "Also write the HTML report (as 'lanebaseline report') to this file." };
+        Option<string?> frames = new("--frames") { Description = "Folder of the frame images, for the report's worst-frame gallery (needs --report)." };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
 
         Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.\n" + SafetyNotice.Text)
         {
-            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, threads,
+            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, report, frames, threads,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -71,6 +75,13 @@ internal static class ScoreCommand
                 throw new UsageException("--min-f1 must be in [0, 1]");
             }
 
+            string? reportPath = parseResult.GetValue(report);
+            string? framesDir = parseResult.GetValue(frames);
+            if (framesDir is not null && reportPath is null)
+            {
+                throw new UsageException("--frames draws the report's gallery and needs --report");
+            }
+
             return Execute(
                 stdout,
                 stderr,
@@ -82,6 +93,7 @@ internal static class ScoreCommand
                 threadCount,
                 parseResult.GetValue(json),
                 parseResult.GetValue(csv),
+                reportPath is null ? null : (reportPath, framesDir),
                 gate,
                 cancellationToken);
         })));
@@ -162,6 +174,7 @@ internal static class ScoreCommand
         int threads,
         string? jsonPath,
         string? csvPath,
+        (string Path, string? FramesDir)? report,
         double? minF1,
         CancellationToken cancellationToken)
     {
@@ -213,6 +226,16 @@ internal static class ScoreCommand
             using var jsonFile = new AtomicFile(jsonPath);
             ScoreJsonWriter.Write(jsonFile.Stream, results, settings, boot, truthPath);
             jsonFile.Commit();
+        }
+
+        if (report is (string reportPath, var framesDir))
+        {
+            using var buffer = new MemoryStream();
+            ScoreJsonWriter.Write(buffer, results, settings, boot, truthPath);
+            ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), jsonPath ?? "score results");
+            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, truthPath, systems);
+            ReportPage.Write(reportPath, doc, jsonPath ?? "score run (in memory)", gallery, DateTimeOffset.UtcNow, cancellationToken);
+            stderr.WriteLine("score: wrote report " + reportPath);
         }
 
         long frames = results[0].Overall.Frames;
