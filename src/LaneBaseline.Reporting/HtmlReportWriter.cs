@@ -128,7 +128,7 @@ public static class HtmlReportWriter
 
         h.Append("<p>Each point keeps only lanes whose confidence reaches a cutoff (0.00, 0.05, … 0.95); lanes without a confidence are always kept. IoU threshold 0.50.</p>\n");
         h.Append("<figure class=\"chart\" id=\"chart-confidence\">").Append(Charts.PrecisionRecall(systems, "c2")).Append("<figcaption>Precision against recall as the confidence cutoff rises.</figcaption></figure>\n");
-        h.Append("<div class=\"scroll\"><table id=\"confidence-table\">\n<thead><tr><th>System</th><th>Min confidence</th><th>TP</th><th>FP</th><th>FN</th><th>Precision</th><th>Recall</th><th>F1</th></tr></thead>\n<tbody>\n");
+        h.Append("<details><summary>Sweep table (one row per system and cutoff)</summary>\n<div class=\"scroll\"><table id=\"confidence-table\">\n<thead><tr><th>System</th><th>Min confidence</th><th>TP</th><th>FP</th><th>FN</th><th>Precision</th><th>Recall</th><th>F1</th></tr></thead>\n<tbody>\n");
         foreach (SystemResult r in with)
         {
             foreach (SweepPoint p in r.ConfidenceSweep)
@@ -141,7 +141,7 @@ public static class HtmlReportWriter
             }
         }
 
-        h.Append("</tbody>\n</table></div>\n</section>\n");
+        h.Append("</tbody>\n</table></div>\n</details>\n</section>\n");
     }
 
     private static void WriteTags(StringBuilder h, IReadOnlyList<SystemResult> systems)
@@ -167,7 +167,7 @@ public static class HtmlReportWriter
                     continue;
                 }
 
-                h.Append("<tr data-tag=\"").Append(E(tag)).Append("\" data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(E(tag)).Append("</th><td>").Append(E(r.Name)).Append("</td>")
+                h.Append("<tr data-tag=\"").Append(E(tag)).Append("\" data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(E(tag)).Append("</th><td class=\"t\">").Append(E(r.Name)).Append("</td>")
                  .Append(Td("frames", t.Frames)).Append(Td("truth_lanes", t.TruthLanes))
                  .Append(TdCi("f1@0.50", t.At("0.50")?.F1 ?? double.NaN, null)).Append(TdCi("mf1", t.MeanF1, null)).Append(TdCi("accuracy", t.Point.Accuracy, null))
                  .Append("</tr>\n");
@@ -198,10 +198,10 @@ public static class HtmlReportWriter
                 string reading = st.Ci95 is Ci ci && double.IsFinite(ci.Low) && double.IsFinite(ci.High)
                     ? ci.Low > 0 ? E(p.A) + " higher" : ci.High < 0 ? E(p.B) + " higher" : "no clear difference"
                     : "no interval";
-                h.Append("<tr data-pair=\"").Append(E(p.Key)).Append("\" data-stat=\"").Append(E(st.Key)).Append("\"><th scope=\"row\">").Append(E(p.Key)).Append("</th><td>").Append(E(st.Key)).Append("</td>")
+                h.Append("<tr data-pair=\"").Append(E(p.Key)).Append("\" data-stat=\"").Append(E(st.Key)).Append("\"><th scope=\"row\">").Append(E(p.Key)).Append("</th><td class=\"t\">").Append(E(st.Key)).Append("</td>")
                  .Append("<td data-value=\"").Append(R(st.Diff)).Append("\">").Append(F(st.Diff, "+0.000;-0.000;0.000")).Append("</td>")
                  .Append("<td>").Append(st.Ci95 is Ci c ? "[" + F(c.Low, "+0.000;-0.000;0.000") + ", " + F(c.High, "+0.000;-0.000;0.000") + "]" : "–").Append("</td>")
-                 .Append("<td>").Append(reading).Append("</td></tr>\n");
+                 .Append("<td class=\"t\">").Append(reading).Append("</td></tr>\n");
             }
         }
 
@@ -221,7 +221,7 @@ public static class HtmlReportWriter
         h.Append("<p class=\"legend\"><span class=\"key\"><span class=\"line truth\"></span>ground truth</span><span class=\"key\"><span class=\"line pred\"></span>prediction (dots at its points)</span></p>\n");
         if (gallery.Frames.Count == 0)
         {
-            h.Append("<p class=\"empty\">No frame has truth or predicted lanes to show.</p>\n</section>\n");
+            h.Append("<p class=\"empty\">Every frame scores perfectly: there is no failure to show.</p>\n</section>\n");
             return;
         }
 
@@ -320,7 +320,8 @@ public static class HtmlReportWriter
         th, td { border-bottom:1px solid var(--rule); padding:5px 10px; text-align:right; white-space:nowrap; vertical-align:top; }
         th:first-child, thead th { text-align:left; } thead th { background:var(--band); }
         #settings-table td, #versions-table td { text-align:left; white-space:normal; word-break:break-all; }
-        .ci { color:var(--muted); font-size:0.88em; }
+        td.t { text-align:left; }
+        .ci { display:block; color:var(--muted); font-size:0.82em; }
         .swatch { display:inline-block; width:0.8em; height:0.8em; border-radius:2px; margin-right:6px; vertical-align:baseline; }
         figure { margin:8px 0; }
         figure.chart svg { display:block; width:100%; max-width:900px; height:auto; }
@@ -334,13 +335,14 @@ public static class HtmlReportWriter
         .thumb { margin:0; border:1px solid var(--rule); padding:6px; background:var(--band); }
         .thumb img { display:block; width:100%; height:auto; }
         .thumb figcaption { margin-top:4px; word-break:break-all; }
+        details > summary { cursor:pointer; color:var(--accent); margin:6px 0; }
         footer { color:var(--muted); font-size:0.85em; border-top:1px solid var(--rule); padding-top:8px; }
         @media (max-width:700px) { body { padding:8px 10px 24px; font-size:14px; } th, td { padding:4px 6px; } h1 { font-size:1.4em; } }
         @media print {
           body { max-width:none; padding:0; font-size:11pt; } nav { display:none; }
           section, figure, table, .thumb { break-inside:avoid; } h2 { break-after:avoid; }
           .scroll { overflow:visible; } .gallery { grid-template-columns:repeat(3, 1fr); }
-          .caution-banner { border:1px solid #d9480f; }
+          .caution-banner { border:1px solid #d9480f; } details > summary { display:none; }
         }
 
         """;

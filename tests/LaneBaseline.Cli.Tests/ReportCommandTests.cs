@@ -72,12 +72,20 @@ public sealed class ReportCommandTests : IDisposable
         JsonElement pair = doc.RootElement.GetProperty("paired").GetProperty("baseline - net").GetProperty("f1@0.50");
         Assert.Contains($"data-value=\"{pair.GetProperty("diff").GetDouble().ToString("R", CultureInfo.InvariantCulture)}\"", html, StringComparison.Ordinal);
 
-        // Gallery: ReportScene's baseline has four imperfect frames and net has six frames with some error; 12 / 2
-        // systems = 6 per system at most, and every thumbnail is a JPEG data URI no wider than 480 px.
-        MatchCollection thumbs = Regex.Matches(html, "<img alt=\"[^\"]*\" width=\"([0-9]+)\" height=\"[0-9]+\" src=\"data:image/jpeg;base64,");
-        Assert.InRange(thumbs.Count, 2, 12);
-        Assert.All(thumbs, m => Assert.InRange(int.Parse(m.Groups[1].Value, CultureInfo.InvariantCulture), 1, 480));
-        Assert.Contains("data-frame=\"clip/f4.png\" data-system=\"baseline\"", html, StringComparison.Ordinal); // 45 px shift: F1 0
+        // Gallery, hand-derived from ReportScene (lines 12 px wide on 640 px frames, footprint 13 px):
+        //  baseline f4: both lines shifted 45 px -> IoU 0, F1 0, point acc ~0 (worst);
+        //  baseline f1: 12 px horizontal shift = 12*159/sqrt(150^2+159^2) = 8.7 px across the line -> IoU ~0.2 < 0.5,
+        //               F1 0, but |dx| 12 < tolerance 10/cos(atan(150/159)) = 13.7 px -> point acc 1;
+        //  baseline f2: 1 TP, 0 FP, 1 FN -> F1 2/3; f3: 2 TP, 1 FP, 0 FN -> F1 4/5; f0, f5 exact -> left out.
+        //  net: only f4 is imperfect (8 px shift: 5.8 px across -> IoU (13-5.8)/(13+5.8) ~ 0.38 < 0.5 on one line).
+        string[] shown = [.. Regex.Matches(html, "<figure class=\"thumb\" data-frame=\"([^\"]+)\" data-system=\"([^\"]+)\"")
+            .Select(m => m.Groups[2].Value + ":" + m.Groups[1].Value)];
+        Assert.Equal(["baseline:clip/f4.png", "baseline:clip/f1.png", "baseline:clip/f2.png", "baseline:clip/f3.png", "net:clip/f4.png"], shown);
+        Assert.Contains("F1@0.50 0.667 (TP 1, FP 0, FN 1)", html, StringComparison.Ordinal);
+        Assert.Contains("F1@0.50 0.800 (TP 2, FP 1, FN 0)", html, StringComparison.Ordinal);
+        MatchCollection thumbs = Regex.Matches(html, "<img alt=\"[^\"]*\" width=\"([0-9]+)\" height=\"([0-9]+)\" src=\"data:image/jpeg;base64,");
+        Assert.Equal(5, thumbs.Count);
+        Assert.All(thumbs, m => Assert.Equal("480x270", m.Groups[1].Value + "x" + m.Groups[2].Value)); // 640x360 scaled to the 480 px cap
         Assert.Contains("Caution: LaneBaseline is an evaluation baseline", html, StringComparison.Ordinal);
         Assert.DoesNotContain("src=\"http", html, StringComparison.Ordinal);
         Assert.DoesNotContain("<script", html, StringComparison.Ordinal);

@@ -11,8 +11,7 @@ namespace LaneBaseline.Cli.Reports;
 /// <summary>
 /// Picks each system's worst frames and draws them as small JPEG thumbnails with truth and prediction overlaid, for
 /// the report's gallery. Frames are ranked by frame F1 at IoU 0.50, then frame point accuracy, then truth order
-/// (scored with the same <see cref="ScoreRun"/> as <c>score</c>); frames with neither truth nor predicted lanes are
-/// skipped. Drawing lives here because it needs OpenCV; the report project only embeds the bytes.
+/// (scored with the same <see cref="ScoreRun"/> as <c>score</c>); perfect frames are left out. Drawing lives here because it needs OpenCV; the report project only embeds the bytes.
 /// </summary>
 internal static class WorstFrameGallery
 {
@@ -31,7 +30,7 @@ internal static class WorstFrameGallery
     /// <summary>One sentence for the page: how frames were chosen and the caps.</summary>
     public static string Selection(int systems) => string.Create(
         CultureInfo.InvariantCulture,
-        $"The {PerSystem(systems)} worst frame(s) per system, ranked by frame F1 at IoU 0.50, then frame point accuracy, then file order; frames with neither truth nor predicted lanes are skipped. Caps: at most {MaxThumbnails} thumbnails per report, each at most {MaxWidthPx} px wide, JPEG quality {JpegQuality}.");
+        $"Up to {PerSystem(systems)} worst frames per system, ranked by frame F1 at IoU 0.50, then frame point accuracy, then file order; frames that score perfectly (F1 1 and point accuracy 1, or no lanes at all) are left out. Caps: at most {MaxThumbnails} thumbnails per report, each at most {MaxWidthPx} px wide, JPEG quality {JpegQuality}.");
 
     public static int PerSystem(int systems) => Math.Max(1, MaxThumbnails / Math.Max(1, systems));
 
@@ -53,13 +52,14 @@ internal static class WorstFrameGallery
                 for (int s = 0; s < row.Count; s++)
                 {
                     FrameScore f = row[s];
-                    if (f.TruthLanes == 0 && f.PredLanes == 0)
+                    int tp = f.TruePositives[half];
+                    double f1 = FrameF1(tp, f.PredLanes, f.TruthLanes), acc = f.FramePointAccuracy;
+                    if (f1 >= 1.0 && (double.IsNaN(acc) || acc >= 1.0))
                     {
-                        continue;
+                        continue; // perfect (or empty) frames teach nothing in a gallery of failures
                     }
 
-                    int tp = f.TruePositives[half];
-                    ranked[s].Add(new Candidate(ordinal, f.Frame, f.Tags, tp, f.PredLanes - tp, f.TruthLanes - tp, FrameF1(tp, f.PredLanes, f.TruthLanes), f.FramePointAccuracy));
+                    ranked[s].Add(new Candidate(ordinal, f.Frame, f.Tags, tp, f.PredLanes - tp, f.TruthLanes - tp, f1, acc));
                 }
 
                 ordinal++;
