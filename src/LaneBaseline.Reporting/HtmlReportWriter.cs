@@ -64,7 +64,7 @@ public static class HtmlReportWriter
         h.Append("<p>F1 at IoU 0.50 on rasterised lanes, mF1 (mean F1 over IoU 0.50–0.95) and row-sampled point accuracy. ")
          .Append("Brackets hold the 95 % bootstrap interval over frames where the score run computed one.</p>\n");
         h.Append("<div class=\"scroll\"><table id=\"headline-table\">\n<thead><tr><th>System</th><th>Frames</th><th>Truth lanes</th><th>Predicted lanes</th>")
-         .Append("<th>F1@0.50</th><th>Precision@0.50</th><th>Recall@0.50</th><th>mF1</th><th>Point accuracy</th><th>Point FP rate</th><th>Point FN rate</th></tr></thead>\n<tbody>\n");
+         .Append("<th>F1@0.50</th><th>Precision @0.50</th><th>Recall @0.50</th><th>mF1</th><th>Point accuracy</th><th>Point FP rate</th><th>Point FN rate</th></tr></thead>\n<tbody>\n");
         for (int s = 0; s < systems.Count; s++)
         {
             SystemResult r = systems[s];
@@ -318,7 +318,8 @@ public static class HtmlReportWriter
         .scroll { overflow-x:auto; }
         table { border-collapse:collapse; margin:8px 0; font-variant-numeric:tabular-nums; }
         th, td { border-bottom:1px solid var(--rule); padding:5px 10px; text-align:right; white-space:nowrap; vertical-align:top; }
-        th:first-child, thead th { text-align:left; } thead th { background:var(--band); }
+        th:first-child, thead th { text-align:left; } thead th { background:var(--band); white-space:normal; vertical-align:bottom; }
+        #headline-table thead th { max-width:7.5em; }
         #settings-table td, #versions-table td { text-align:left; white-space:normal; word-break:break-all; }
         td.t { text-align:left; }
         .ci { display:block; color:var(--muted); font-size:0.82em; }
