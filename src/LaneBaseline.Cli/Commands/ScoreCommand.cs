@@ -2,10 +2,12 @@ using System.CommandLine;
 using System.Diagnostics;
 using System.Globalization;
 using System.Text;
+using LaneBaseline.Cli.Reports;
 using LaneBaseline.Core;
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Core.Sharding;
+using LaneBaseline.Reporting.Score;
 using LaneBaseline.Vision.Metrics;
 
 namespace LaneBaseline.Cli.Commands;
@@ -30,6 +32,8 @@ internal static class ScoreCommand
         Option<int> bootstrap = new("--bootstrap") { Description = "Bootstrap resamples for 95 % intervals (0 disables).", DefaultValueFactory = _ => 1000 };
         Option<ulong> seed = new("--seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
         Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
+        Option<string?> report = new("--report") { Description = "Also write the HTML report (as 'lanebaseline report') to this file." };
+        Option<string?> frames = new("--frames") { Description = "Folder of the frame images, for the report's worst-frame gallery (needs --report)." };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
         Option<string?> shard = new("--shard") { Description = "Score only shard K/N of the frames (stable hash of the frame key), e.g. 0/4." };
         Option<string?> camera = new("--camera") { Description = "camera.json: also report metric-space errors (lateral error at 5/10/20/30 m, ego-lane width, curvature) on the road plane." };
@@ -37,7 +41,7 @@ internal static class ScoreCommand
 
         Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.\n" + SafetyNotice.Text)
         {
-            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, threads, shard, partial, camera,
+            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, report, frames, threads, shard, partial, camera,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -77,6 +81,13 @@ internal static class ScoreCommand
                 throw new UsageException("--min-f1 must be in [0, 1]");
             }
 
+            string? reportPath = parseResult.GetValue(report);
+            string? framesDir = parseResult.GetValue(frames);
+            if (framesDir is not null && reportPath is null)
+            {
+                throw new UsageException("--frames draws the report's gallery and needs --report");
+            }
+
             ShardSpec? shardSpec = null;
             if (parseResult.GetValue(shard) is string shardText)
             {
@@ -99,7 +110,10 @@ internal static class ScoreCommand
                 threadCount,
                 parseResult.GetValue(json),
                 parseResult.GetValue(csv),
-                gate);
+                gate)
+            {
+                Report = reportPath is null ? null : (reportPath, framesDir),
+            };
             string? partialPath = parseResult.GetValue(partial);
             return partialPath is null
                 ? Execute(stdout, stderr, request, shardSpec, cancellationToken)
@@ -228,6 +242,16 @@ internal static class ScoreCommand
             jsonFile.Commit();
         }
 
+        if (request.Report is (string reportPath, var framesDir))
+        {
+            using var buffer = new MemoryStream();
+            ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
+            ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
+            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems);
+            ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", gallery, DateTimeOffset.UtcNow, CancellationToken.None);
+            stderr.WriteLine("score: wrote report " + reportPath);
+        }
+
         if (request.MinF1 is double gate)
         {
             foreach (SystemScore r in results)
@@ -251,7 +275,7 @@ internal static class ScoreCommand
             throw new UsageException("--camera is not supported with --partial yet; score metric-space errors unsharded");
         }
 
-        if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null)
+        if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null || request.Report is not null)
         {
             throw new UsageException("--partial writes a state for 'merge'; give --json, --csv and --min-f1 to merge instead");
         }
@@ -345,4 +369,8 @@ internal sealed record ScoreRequest(
     int Threads,
     string? JsonPath,
     string? CsvPath,
-    double? MinF1);
+    double? MinF1)
+{
+    /// <summary>HTML report path and optional frames folder for its gallery.</summary>
+    public (string Path, string? FramesDir)? Report { get; init; }
+}
