@@ -43,7 +43,10 @@ public sealed partial class SceneRenderer
             }
         }
 
-        Cv2.GaussianBlur(lightMask, lightMask, new Size(0, 0), width / 60.0);
+        // Soft pools: blur at 1/8 resolution (sigma width/60 at full size) and scale back up.
+        Cv2.Resize(lightMask, lightSmall, lightSmall.Size(), 0, 0, InterpolationFlags.Area);
+        Cv2.GaussianBlur(lightSmall, lightSmall, new Size(0, 0), width / 480.0);
+        Cv2.Resize(lightSmall, lightMask, lightMask.Size(), 0, 0, InterpolationFlags.Linear);
         byte* img = (byte*)output.DataPointer;
         byte* lm = (byte*)lightMask.DataPointer;
         long step = output.Step(), step1 = lightMask.Step();
@@ -166,25 +169,36 @@ public sealed partial class SceneRenderer
 
         double us = look.SunColumnFraction * width, vs = HorizonRow - (0.07 * height);
         double sc = 0.035 * width, sh = 0.22 * width, sr = 0.05 * width;
+        // The glare field is smooth: compute it at 1/4 resolution and scale it up.
+        int sw = glareSmall.Cols, shh = glareSmall.Rows;
+        float* small = (float*)glareSmall.DataPointer;
+        long smallStep = glareSmall.Step() / sizeof(float);
+        for (int y = 0; y < shh; y++)
+        {
+            double fy = (y * 4) + 1.5, dy = fy - vs;
+            double below = fy > HorizonRow ? Math.Exp(-(fy - HorizonRow) / (0.22 * height)) : 0;
+            for (int x = 0; x < sw; x++)
+            {
+                double fx = (x * 4) + 1.5, dx = fx - us;
+                double r2 = (dx * dx) + (dy * dy);
+                double add = (255 * Math.Exp(-r2 / (2 * sc * sc))) + (150 * Math.Exp(-Math.Sqrt(r2) / sh));
+                double road = below > 0 ? 170 * below * Math.Exp(-(dx * dx) / (2 * sr * sr)) : 0;
+                small[(y * smallStep) + x] = (float)(add + road);
+            }
+        }
+
+        Cv2.Resize(glareSmall, glareField, glareField.Size(), 0, 0, InterpolationFlags.Linear);
+        float* field = (float*)glareField.DataPointer;
+        long fieldStep = glareField.Step() / sizeof(float);
         byte* img = (byte*)output.DataPointer;
         long step = output.Step();
         double veil = 0.3 * sev;
         for (int y = 0; y < height; y++)
         {
             byte* row = img + (y * step);
-            double dy = y - vs;
-            double below = y > HorizonRow ? Math.Exp(-(y - HorizonRow) / (0.22 * height)) : 0;
             for (int x = 0; x < width; x++)
             {
-                double dx = x - us;
-                double r2 = (dx * dx) + (dy * dy);
-                double add = (255 * Math.Exp(-r2 / (2 * sc * sc))) + (150 * Math.Exp(-Math.Sqrt(r2) / sh));
-                if (below > 0 && groundDistanceM[(y * width) + x] > 0)
-                {
-                    add += 170 * below * Math.Exp(-(dx * dx) / (2 * sr * sr));
-                }
-
-                add *= sev;
+                double add = field[(y * fieldStep) + x] * sev;
                 row[3 * x] = ToByte((row[3 * x] * (1 - veil)) + (veil * 190) + (add * 0.82));
                 row[(3 * x) + 1] = ToByte((row[(3 * x) + 1] * (1 - veil)) + (veil * 200) + (add * 0.94));
                 row[(3 * x) + 2] = ToByte((row[(3 * x) + 2] * (1 - veil)) + (veil * 205) + add);

@@ -32,9 +32,10 @@ public sealed partial class SceneRenderer
                 projection.TryProjectGround(rx, ry, out double ru, out double rv))
             {
                 // Sub-pixel coordinates of the supersampled mask: pixel centre u maps to K·u + (K − 1) / 2.
-                double k = paintScale, o = (paintScale - 1) / 2.0;
-                leftSide.Add(((k * lu) + o, (k * lv) + o));
-                rightSide.Add(((k * ru) + o, (k * rv) + o));
+                // The fine masks start at row PaintTop.
+                double k = paintScale, o = (paintScale - 1) / 2.0, top = PaintTop;
+                leftSide.Add(((k * lu) + o, (k * (lv - top)) + o));
+                rightSide.Add(((k * ru) + o, (k * (rv - top)) + o));
             }
 
             if (s >= s1)

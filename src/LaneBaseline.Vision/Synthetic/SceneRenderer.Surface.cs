@@ -231,8 +231,18 @@ public sealed partial class SceneRenderer
     {
         SceneSpec scene = ctx.Scene;
         whiteFine.SetTo(Scalar.All(0));
-        yellowFine.SetTo(Scalar.All(0));
         double[] b = scene.BoundaryOffsetsM();
+        bool anyYellow = false;
+        for (int i = 0; i < b.Length; i++)
+        {
+            anyYellow |= IsYellow(scene, i);
+        }
+
+        if (anyYellow)
+        {
+            yellowFine.SetTo(Scalar.All(0));
+        }
+
         double worn = scene.SeverityOf(KnownConditions.WornPaint);
         double sa = ctx.SV - 3, sb = ctx.SV + MaxRangeM;
         double half = scene.LineWidthM / 2;
@@ -271,8 +281,19 @@ public sealed partial class SceneRenderer
             }
         }
 
-        Cv2.Resize(whiteFine, whiteCoverage, new Size(width, height), 0, 0, InterpolationFlags.Area);
-        Cv2.Resize(yellowFine, yellowCoverage, new Size(width, height), 0, 0, InterpolationFlags.Area);
+        whiteCoverage.SetTo(Scalar.All(0));
+        yellowCoverage.SetTo(Scalar.All(0));
+        var rows = new Rect(0, PaintTop, width, PaintRows);
+        using (var whiteRows = new Mat(whiteCoverage, rows))
+        {
+            Cv2.Resize(whiteFine, whiteRows, new Size(width, PaintRows), 0, 0, InterpolationFlags.Area);
+        }
+
+        if (anyYellow)
+        {
+            using var yellowRows = new Mat(yellowCoverage, rows);
+            Cv2.Resize(yellowFine, yellowRows, new Size(width, PaintRows), 0, 0, InterpolationFlags.Area);
+        }
     }
 
     private void PaintStrip(in FrameContext ctx, Mat target, int lineId, double s0, double s1, double lateral, double half, double worn)
@@ -416,7 +437,7 @@ public sealed partial class SceneRenderer
             wB = wG = wR = 250;
         }
 
-        double visibility = 900 / (1 + (5 * rain));
+        double visibility = ClearVisibilityM / (1 + (5 * rain));
         double hazeB = l.SkyLowB, hazeG = l.SkyLowG, hazeR = l.SkyLowR, exposure = l.Exposure;
         SplitMix64 rng = SplitMix64.ForStream(scene.SceneSeed, 1_000_000UL + (ulong)ctx.FrameIndex);
         fixed (byte* nz = noise)
@@ -455,8 +476,8 @@ public sealed partial class SceneRenderer
                 float d = groundDistanceM[i];
                 if (d > 0)
                 {
-                    double grain = (noise[i] - 127.5) / 127.5 * ((7 * Math.Exp(-d / 35.0)) + 1.5);
-                    double haze = 1 - Math.Exp(-Math.Min(d, 350) / visibility);
+                    double grain = (noise[i] - 127.5) / 127.5 * grainAmplitude[i];
+                    double haze = rain > 0 ? 1 - Math.Exp(-Math.Min(d, 350) / visibility) : clearHaze[i];
                     b = ((b * shade) + grain) * (1 - haze) + (hazeB * haze);
                     g = ((g * shade) + grain) * (1 - haze) + (hazeG * haze);
                     r = ((r * shade) + grain) * (1 - haze) + (hazeR * haze);

@@ -30,6 +30,9 @@ public sealed partial class SceneRenderer : IDisposable
     /// <summary>Fixed-point bits for sub-pixel polygon vertices.</summary>
     private const int Shift = 3;
 
+    /// <summary>Visibility distance of the clear-weather haze, metres.</summary>
+    private const double ClearVisibilityM = 900;
+
     private readonly CameraModel camera;
     private readonly GroundProjection projection;
     private readonly int width, height;
@@ -43,6 +46,12 @@ public sealed partial class SceneRenderer : IDisposable
     private readonly Mat glow = new Mat();
     private readonly float[] groundDistanceM;
     private readonly float[] headlightGain;
+    private readonly float[] grainAmplitude;
+    private readonly float[] clearHaze;
+    private readonly Mat lightSmall = new Mat();
+    private readonly Mat glareSmall = new Mat();
+    private readonly Mat glareField = new Mat();
+    private readonly int firstGroundRow;
     private readonly byte[] noise;
     private readonly List<(double X, double Y)> groundPoly = new(512);
     private readonly List<(double X, double Y)> clipped = new(512);
@@ -64,15 +73,19 @@ public sealed partial class SceneRenderer : IDisposable
         whiteCoverage.Create(height, width, MatType.CV_8UC1);
         yellowCoverage.Create(height, width, MatType.CV_8UC1);
         paintScale = width <= 1920 ? 4 : 2;
-        whiteFine.Create(height * paintScale, width * paintScale, MatType.CV_8UC1);
-        yellowFine.Create(height * paintScale, width * paintScale, MatType.CV_8UC1);
         shadowMask.Create(height, width, MatType.CV_8UC1);
         lightMask.Create(height, width, MatType.CV_8UC1);
         glow.Create(height, width, MatType.CV_8UC3);
         groundDistanceM = new float[width * height];
         headlightGain = new float[width * height];
+        grainAmplitude = new float[width * height];
+        clearHaze = new float[width * height];
+        firstGroundRow = height;
         noise = new byte[width * height];
         HorizonRow = camera.HorizonRowAtCentre();
+        lightSmall.Create((height + 7) / 8, (width + 7) / 8, MatType.CV_8UC1);
+        glareSmall.Create((height + 3) / 4, (width + 3) / 4, MatType.CV_32FC1);
+        glareField.Create(height, width, MatType.CV_32FC1);
         for (int y = 0; y < height; y++)
         {
             for (int x = 0; x < width; x++)
@@ -81,6 +94,9 @@ public sealed partial class SceneRenderer : IDisposable
                 if (projection.TryImageToGround(x, y, out double gx, out double gy) && gx > 0)
                 {
                     groundDistanceM[i] = (float)gx;
+                    firstGroundRow = Math.Min(firstGroundRow, y);
+                    grainAmplitude[i] = (float)((7 * Math.Exp(-gx / 35.0)) + 1.5);
+                    clearHaze[i] = (float)(1 - Math.Exp(-Math.Min(gx, 350) / ClearVisibilityM));
                     // Low-beam pattern (common practice, shape only): bright from ~8 m, fading beyond ~45 m,
                     // a cone widening with distance.
                     double lateral = gy / ((0.32 * gx) + 1.2);
@@ -93,7 +109,15 @@ public sealed partial class SceneRenderer : IDisposable
                 }
             }
         }
+
+        whiteFine.Create(PaintRows * paintScale, width * paintScale, MatType.CV_8UC1);
+        yellowFine.Create(PaintRows * paintScale, width * paintScale, MatType.CV_8UC1);
     }
+
+    /// <summary>Rows of the frame that can show paint (from the first ground row down).</summary>
+    private int PaintRows => height - PaintTop;
+
+    private int PaintTop => Math.Min(firstGroundRow, height - 1);
 
     /// <summary>Image row of the horizon at the principal column.</summary>
     public double HorizonRow { get; }
@@ -161,6 +185,9 @@ public sealed partial class SceneRenderer : IDisposable
         shadowMask.Dispose();
         lightMask.Dispose();
         glow.Dispose();
+        lightSmall.Dispose();
+        glareSmall.Dispose();
+        glareField.Dispose();
     }
 
     private readonly record struct FrameContext(SceneSpec Scene, RoadCentreline Road, VehiclePose Pose, double SV, int FrameIndex, double TimeS);
