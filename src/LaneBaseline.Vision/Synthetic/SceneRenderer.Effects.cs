@@ -36,10 +36,9 @@ public sealed partial class SceneRenderer
             }
 
             FillGroundPolygon(lightMask, Scalar.All(170));
-            if (projection.TryProject(head.X, head.Y, 9, out double u, out double v) &&
-                projection.TryProject(head.X, head.Y, -9, out double gu, out double gv))
+            if (TryLight(head.X, head.Y, 9, 0.25, 170, 215, 255, out LightSource lamp))
             {
-                lights.Add(new LightSource(u, v, Math.Max(1.5, camera.Fx * 0.35 / head.X), 170, 215, 255, gu, gv));
+                lights.Add(lamp);
             }
         }
 
@@ -60,10 +59,10 @@ public sealed partial class SceneRenderer
                 double pool = lm[(y * step1) + x] / 255.0;
                 if (groundDistanceM[i] > 0)
                 {
-                    double hl = 1.25 * headlightGain[i];
-                    double fB = keep + (sev * (0.05 + hl + (0.55 * pool)));
-                    double fG = keep + (sev * (0.05 + hl + (0.75 * pool)));
-                    double fR = keep + (sev * (0.05 + hl + (0.95 * pool)));
+                    double hl = 0.75 * headlightGain[i];
+                    double fB = keep + (sev * (0.04 + hl + (0.45 * pool)));
+                    double fG = keep + (sev * (0.04 + hl + (0.6 * pool)));
+                    double fR = keep + (sev * (0.04 + hl + (0.8 * pool)));
                     row[3 * x] = ToByte(row[3 * x] * fB);
                     row[(3 * x) + 1] = ToByte(row[(3 * x) + 1] * fG);
                     row[(3 * x) + 2] = ToByte(row[(3 * x) + 2] * fR);
@@ -86,11 +85,11 @@ public sealed partial class SceneRenderer
         foreach (LightSource l in lights)
         {
             var centre = new Point(ToFixed(l.U), ToFixed(l.V));
-            Cv2.Circle(glow, centre, ToFixed(l.RadiusPx * 2.5), new Scalar(l.B * 0.5, l.G * 0.5, l.R * 0.5), -1, LineTypes.AntiAlias, Shift);
-            if (wet > 0 && l.GroundV > l.V)
+            Cv2.Circle(glow, centre, ToFixed(l.RadiusPx * 2), new Scalar(l.B * 0.5, l.G * 0.5, l.R * 0.5), -1, LineTypes.AntiAlias, Shift);
+            if (wet > 0 && l.MirrorV > l.BaseV)
             {
-                // Reflection on the wet road: a vertical smear down to the mirrored point.
-                Cv2.Line(glow, centre, new Point(ToFixed(l.GroundU), ToFixed(l.GroundV)), new Scalar(l.B * 0.6 * wet, l.G * 0.6 * wet, l.R * 0.6 * wet), Math.Max(1, (int)(l.RadiusPx * 1.5)), LineTypes.AntiAlias, Shift);
+                // Reflection on the wet road: a smear from the road below the light to its mirror image.
+                Cv2.Line(glow, new Point(ToFixed(l.BaseU), ToFixed(l.BaseV)), new Point(ToFixed(l.MirrorU), ToFixed(l.MirrorV)), new Scalar(l.B * 0.35 * wet, l.G * 0.35 * wet, l.R * 0.35 * wet), Math.Max(1, (int)l.RadiusPx), LineTypes.AntiAlias, Shift);
             }
         }
 

@@ -334,7 +334,7 @@ public sealed partial class SceneRenderer
         double[] b = scene.BoundaryOffsetsM();
         if (sev > 0)
         {
-            Scalar dark = Scalar.All(255 * (0.35 + (0.3 * sev)));
+            Scalar dark = Scalar.All(255 * (0.3 + (0.25 * sev)));
             double elev = look.SunElevationRad, lengthPerM = 1 / Math.Tan(elev);
             const double BinM = 25;
             long first = (long)Math.Floor((ctx.SV - 60) / BinM), last = (long)Math.Ceiling((ctx.SV + 160) / BinM);
@@ -394,12 +394,14 @@ public sealed partial class SceneRenderer
         }
 
         var rng = new SplitMix64(shapeSeed);
+        double p1 = rng.NextDouble(0, 6.3), p2 = rng.NextDouble(0, 6.3), p3 = rng.NextDouble(0, 6.3);
         double cx = bx + (dx * reach), cy = by + (dy * reach), stretch = 1 / Math.Sin(look.SunElevationRad);
         groundPoly.Clear();
-        for (int i = 0; i < 18; i++)
+        for (int i = 0; i < 40; i++)
         {
-            double a = 2 * Math.PI * i / 18;
-            double r = canopyM * rng.NextDouble(0.75, 1.15);
+            // A lumpy but smooth crown outline.
+            double a = 2 * Math.PI * i / 40;
+            double r = canopyM * (1 + (0.14 * Math.Sin((2 * a) + p1)) + (0.09 * Math.Sin((3 * a) + p2)) + (0.05 * Math.Sin((7 * a) + p3)));
             double along = Math.Cos(a) * r * stretch, across = Math.Sin(a) * r;
             groundPoly.Add(ctx.Pose.ToVehicle(cx + (dx * along) - (dy * across), cy + (dy * along) + (dx * across)));
         }

@@ -12,7 +12,23 @@ public sealed partial class SceneRenderer
 
     private readonly record struct CarPlacement(double S, double Lateral, double Heading, double LengthM, double WidthM, double HeightM, bool Truck, bool Opposing, double B, double G, double R, double DistanceM);
 
-    private readonly record struct LightSource(double U, double V, double RadiusPx, double B, double G, double R, double GroundU, double GroundV);
+    /// <summary>A light for night glows: image position and radius, colour, and where its wet-road reflection runs
+    /// (from the road point below it to its mirror image under the road).</summary>
+    private readonly record struct LightSource(double U, double V, double RadiusPx, double B, double G, double R, double BaseU, double BaseV, double MirrorU, double MirrorV);
+
+    private bool TryLight(double x, double y, double z, double radiusM, double b, double g, double r, out LightSource light)
+    {
+        light = default;
+        if (!projection.TryProject(x, y, z, out double u, out double v) ||
+            !projection.TryProject(x, y, 0, out double bu, out double bv) ||
+            !projection.TryProject(x, y, -z, out double mu, out double mv))
+        {
+            return false;
+        }
+
+        light = new LightSource(u, v, Math.Max(1.2, camera.Fx * radiusM / Math.Max(x, 1)), b, g, r, bu, bv, mu, mv);
+        return true;
+    }
 
     private static readonly (double B, double G, double R)[] Paints =
     [
@@ -139,13 +155,9 @@ public sealed partial class SceneRenderer
                 DrawBox(ctx, output, c, Math.Min(x0, end), Math.Max(x0, end), Math.Min(y0, y1), Math.Max(y0, y1), lampZ0, lampZ1, lamp);
                 SetBox(ctx, c, end, end, (y0 + y1) / 2, (y0 + y1) / 2, (lampZ0 + lampZ1) / 2, (lampZ0 + lampZ1) / 2);
                 (double X, double Y, double Z) p = corners[0];
-                if (projection.TryProject(p.X, p.Y, p.Z, out double u, out double v) &&
-                    projection.TryProject(p.X, p.Y, -p.Z, out double gu, out double gv))
+                if (c.Opposing ? TryLight(p.X, p.Y, p.Z, 0.12, 230, 245, 255, out LightSource light) : TryLight(p.X, p.Y, p.Z, 0.09, 40, 40, 255, out light))
                 {
-                    double radius = Math.Max(1.5, camera.Fx * 0.22 / Math.Max(p.X, 1));
-                    lights.Add(c.Opposing
-                        ? new LightSource(u, v, radius, 230, 245, 255, gu, gv)
-                        : new LightSource(u, v, radius * 0.8, 40, 40, 255, gu, gv));
+                    lights.Add(light);
                 }
             }
         }
