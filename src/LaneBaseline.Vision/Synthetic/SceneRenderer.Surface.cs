@@ -11,22 +11,18 @@ public sealed partial class SceneRenderer
     private unsafe void DrawBackground(in FrameContext ctx, Mat output)
     {
         SceneLook l = look;
-        double horizon = Math.Max(HorizonRow, 1);
         byte* data = (byte*)output.DataPointer;
         long step = output.Step();
         for (int y = 0; y < height; y++)
         {
-            double t = Math.Clamp((horizon - y) / horizon, 0, 1);
-            t = Math.Pow(t, 0.6);
-            byte b = (byte)Math.Clamp(l.SkyLowB + ((l.SkyTopB - l.SkyLowB) * t), 0, 255);
-            byte g = (byte)Math.Clamp(l.SkyLowG + ((l.SkyTopG - l.SkyLowG) * t), 0, 255);
-            byte r = (byte)Math.Clamp(l.SkyLowR + ((l.SkyTopR - l.SkyLowR) * t), 0, 255);
             byte* row = data + (y * step);
             for (int x = 0; x < width; x++)
             {
-                row[3 * x] = b;
-                row[(3 * x) + 1] = g;
-                row[(3 * x) + 2] = r;
+                double horizon = Math.Max(horizonAt[x], 1);
+                double t = Math.Pow(Math.Clamp((horizon - y) / horizon, 0, 1), 0.6);
+                row[3 * x] = (byte)Math.Clamp(l.SkyLowB + ((l.SkyTopB - l.SkyLowB) * t), 0, 255);
+                row[(3 * x) + 1] = (byte)Math.Clamp(l.SkyLowG + ((l.SkyTopG - l.SkyLowG) * t), 0, 255);
+                row[(3 * x) + 2] = (byte)Math.Clamp(l.SkyLowR + ((l.SkyTopR - l.SkyLowR) * t), 0, 255);
             }
         }
 
@@ -43,14 +39,17 @@ public sealed partial class SceneRenderer
         double p1 = rng.NextDouble(0, 6.28), p2 = rng.NextDouble(0, 6.28), p3 = rng.NextDouble(0, 6.28);
         double scale = width / 1280.0;
         imagePoly.Clear();
-        imagePoly.Add(new Point(ToFixed(-10), ToFixed(HorizonRow + 1.5)));
-        for (int x = -10; x <= width + 10; x += 6)
+        for (int x = 0; x <= width + 5; x += 6)
         {
+            int col = Math.Min(x, width - 1);
             double hgt = scale * (9 + (5 * Math.Sin((x * 0.011) + p1)) + (3 * Math.Sin((x * 0.037) + p2)) + (2 * Math.Sin((x * 0.13) + p3)));
-            imagePoly.Add(new Point(ToFixed(x), ToFixed(HorizonRow - Math.Max(1, hgt))));
+            imagePoly.Add(new Point(ToFixed(x), ToFixed(horizonAt[col] - Math.Max(1, hgt))));
         }
 
-        imagePoly.Add(new Point(ToFixed(width + 10), ToFixed(HorizonRow + 1.5)));
+        for (int x = ((width + 5) / 6) * 6; x >= 0; x -= 6)
+        {
+            imagePoly.Add(new Point(ToFixed(x), ToFixed(horizonAt[Math.Min(x, width - 1)] + 1.5)));
+        }
         FillImagePolygon(output, Bgr(l.VergeB * 0.55, l.VergeG * 0.6, l.VergeR * 0.5));
     }
 

@@ -52,6 +52,7 @@ public sealed partial class SceneRenderer : IDisposable
     private readonly Mat glareSmall = new Mat();
     private readonly Mat glareField = new Mat();
     private readonly int firstGroundRow;
+    private readonly double[] horizonAt;
     private readonly byte[] noise;
     private readonly List<(double X, double Y)> groundPoly = new(512);
     private readonly List<(double X, double Y)> clipped = new(512);
@@ -83,6 +84,7 @@ public sealed partial class SceneRenderer : IDisposable
         firstGroundRow = height;
         noise = new byte[width * height];
         HorizonRow = camera.HorizonRowAtCentre();
+        horizonAt = TraceHorizon();
         lightSmall.Create((height + 7) / 8, (width + 7) / 8, MatType.CV_8UC1);
         glareSmall.Create((height + 3) / 4, (width + 3) / 4, MatType.CV_32FC1);
         glareField.Create(height, width, MatType.CV_32FC1);
@@ -112,6 +114,50 @@ public sealed partial class SceneRenderer : IDisposable
 
         whiteFine.Create(PaintRows * paintScale, width * paintScale, MatType.CV_8UC1);
         yellowFine.Create(PaintRows * paintScale, width * paintScale, MatType.CV_8UC1);
+    }
+
+    /// <summary>
+    /// The horizon row at every column (it tilts with roll and bends with distortion): the image of ground points
+    /// 10 km away, traced over ±85° of bearing and interpolated per column.
+    /// </summary>
+    private double[] TraceHorizon()
+    {
+        var us = new List<double>();
+        var vs = new List<double>();
+        for (double a = -85; a <= 85; a += 0.25)
+        {
+            double r = a * Math.PI / 180;
+            if (projection.TryProjectGround(1e4 * Math.Cos(r), 1e4 * Math.Sin(r), out double u, out double v))
+            {
+                us.Add(u);
+                vs.Add(v);
+            }
+        }
+
+        var rows = new double[width];
+        for (int x = 0; x < width; x++)
+        {
+            rows[x] = HorizonRow;
+            double best = double.MaxValue;
+            for (int k = 1; k < us.Count; k++)
+            {
+                double u0 = us[k - 1], u1 = us[k];
+                if ((x - u0) * (x - u1) <= 0 && u0 != u1)
+                {
+                    rows[x] = vs[k - 1] + ((vs[k] - vs[k - 1]) * (x - u0) / (u1 - u0));
+                    break;
+                }
+
+                double d = Math.Min(Math.Abs(x - u0), Math.Abs(x - u1));
+                if (d < best)
+                {
+                    best = d;
+                    rows[x] = Math.Abs(x - u0) < Math.Abs(x - u1) ? vs[k - 1] : vs[k];
+                }
+            }
+        }
+
+        return rows;
     }
 
     /// <summary>Rows of the frame that can show paint (from the first ground row down).</summary>

@@ -54,12 +54,17 @@ public sealed class SceneRendererTests
         }
     }
 
-    [Fact]
-    public void Truth_SolidLinesLieOnBrightPaint_InCleanDayFrames()
+    [Theory]
+    [InlineData(false)]
+    [InlineData(true)]
+    public void Truth_SolidLinesLieOnBrightPaint_InCleanDayFrames(bool distortedTiltedCamera)
     {
         // Source: common practice (issue 3 acceptance): mean brightness on the truth polyline exceeds that at
-        // ±1 m lateral offsets (mapped through the camera) by a clear margin, for solid markings on day frames.
-        CameraModel cam = SceneFixtures.Camera();
+        // ±1 m lateral offsets (mapped through the camera) by a clear margin, for solid markings on day frames;
+        // also through a camera with barrel distortion, yaw and roll.
+        CameraModel cam = distortedTiltedCamera
+            ? SceneFixtures.Camera() with { PitchDeg = 3, YawDeg = 2, RollDeg = 1.5, K1 = -0.25, K2 = 0.03, Fx = 380, Fy = 380 }
+            : SceneFixtures.Camera();
         using var renderer = new SceneRenderer(cam);
         using var frame = new Mat();
         using var grey = new Mat();
