@@ -58,6 +58,25 @@ public static class RenderJob
 {
     private sealed record FrameJob(SceneSpec Scene, int FrameIndex, string Key, IReadOnlyList<string> ExtraTags);
 
+    /// <summary>One worker's renderer and frame buffer, reused for every frame it renders.</summary>
+    private sealed class Worker : IDisposable
+    {
+        public Worker(CameraModel camera)
+        {
+            Renderer = new SceneRenderer(camera);
+        }
+
+        public SceneRenderer Renderer { get; }
+
+        public Mat Frame { get; } = new Mat();
+
+        public void Dispose()
+        {
+            Renderer.Dispose();
+            Frame.Dispose();
+        }
+    }
+
     /// <summary>Runs the job; <paramref name="progress"/> receives (done, total) after every batch.</summary>
     /// <returns>The number of frames written.</returns>
     public static int Run(RenderJobOptions options, Action<int, int>? progress, CancellationToken cancellationToken = default)
@@ -73,7 +92,7 @@ public static class RenderJob
         options.Camera.Save(Path.Combine(options.OutDir, "camera.json"));
         string truthPath = Path.Combine(options.OutDir, "truth.lanes.jsonl");
         string truthTmp = truthPath + ".tmp";
-        var pool = new ConcurrentBag<SceneRenderer>();
+        var pool = new ConcurrentBag<Worker>();
         try
         {
             using (LaneFileWriter writer = LaneFileWriter.Create(truthTmp))
@@ -102,9 +121,9 @@ public static class RenderJob
         }
         finally
         {
-            while (pool.TryTake(out SceneRenderer? r))
+            while (pool.TryTake(out Worker? w))
             {
-                r.Dispose();
+                w.Dispose();
             }
 
             if (File.Exists(truthTmp))
@@ -116,17 +135,17 @@ public static class RenderJob
         return jobs.Count;
     }
 
-    private static LaneRecord RenderOne(RenderJobOptions options, FrameJob job, ConcurrentBag<SceneRenderer> pool)
+    private static LaneRecord RenderOne(RenderJobOptions options, FrameJob job, ConcurrentBag<Worker> pool)
     {
-        if (!pool.TryTake(out SceneRenderer? renderer))
+        if (!pool.TryTake(out Worker? worker))
         {
-            renderer = new SceneRenderer(options.Camera);
+            worker = new Worker(options.Camera);
         }
 
         try
         {
-            using var frame = new Mat();
-            RenderedFrame truth = renderer.Render(job.Scene, job.FrameIndex, frame);
+            Mat frame = worker.Frame;
+            RenderedFrame truth = worker.Renderer.Render(job.Scene, job.FrameIndex, frame);
             string path = Path.Combine(options.OutDir, job.Key.Replace('/', Path.DirectorySeparatorChar));
             Directory.CreateDirectory(Path.GetDirectoryName(path)!);
             string ext = options.Format == "png" ? ".png" : ".jpg";
@@ -162,7 +181,7 @@ public static class RenderJob
         }
         finally
         {
-            pool.Add(renderer);
+            pool.Add(worker);
         }
     }
 
