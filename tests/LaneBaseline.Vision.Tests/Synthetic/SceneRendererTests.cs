@@ -311,6 +311,24 @@ public sealed class SceneRendererTests
         Assert.Contains("lane-change", renderer.Render(scene, 17, frame).Tags);
     }
 
+    [Fact]
+    public void Dispose_ReleasesEveryOwnedMat()
+    {
+        // Source: architecture guide section 6 (whoever creates a Mat disposes it).
+        using var frame = new Mat();
+        Mat white, yellow;
+        using (var renderer = new SceneRenderer(SceneFixtures.Camera(160, 90)))
+        {
+            renderer.Render(SceneSpec.Create(1, 0, [new RenderCondition(KnownConditions.Night, 1)], 1, 10), 0, frame);
+            white = renderer.WhiteCoverage;
+            yellow = renderer.YellowCoverage;
+            Assert.False(white.IsDisposed);
+        }
+
+        Assert.True(white.IsDisposed);
+        Assert.True(yellow.IsDisposed);
+    }
+
     private static string Describe(RenderedFrame f) =>
         string.Join("\n", f.Lanes.Select(l => $"{l.Slot} {l.Kind} {string.Join(";", l.Points)}"));
 
