@@ -144,4 +144,43 @@ public sealed class RenderCommandTests : IDisposable
         Assert.All(records, r => Assert.Equal(first, string.Join("|", r.Lanes.Select(l => string.Join(";", l.Points)))));
         Assert.NotEqual(File.ReadAllBytes(Path.Combine(o, records[0].Frame)), File.ReadAllBytes(Path.Combine(o, records[4].Frame)));
     }
+
+    [Fact]
+    public void Render_OutIsAFile_IsUsageError()
+    {
+        string file = Path.Combine(root, "taken");
+        File.WriteAllText(file, "x");
+        (int code, _, string err) = Run("render", "--out", file, "--count", "1", "--size", "160x90");
+        Assert.Equal(2, code);
+        Assert.Contains("is a file", err, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Render_CameraAndSize_IsUsageError()
+    {
+        string cam = Path.Combine(root, "camera.json");
+        CameraModel.CreateDefault(320, 180).Save(cam);
+        (int code, _, string err) = Run("render", "--out", Path.Combine(root, "o"), "--camera", cam, "--size", "640x360");
+        Assert.Equal(2, code);
+        Assert.Contains("--size and --camera", err, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Render_ThroughAGivenCamera_UsesItsSizeAndWritesItBack()
+    {
+        // Source: docs/camera-file.md (render --camera renders through the given camera and writes it out).
+        string cam = Path.Combine(root, "camera.json");
+        CameraModel given = CameraModel.CreateDefault(240, 160) with { PitchDeg = 3, RollDeg = 1, K1 = -0.2 };
+        given.Save(cam);
+        string o = Path.Combine(root, "o");
+        Assert.Equal(0, Run("render", "--out", o, "--camera", cam, "--count", "1", "--threads", "1").Code);
+        Assert.Equal(given, CameraModel.Load(Path.Combine(o, "camera.json")));
+        using LaneFileReader reader = LaneFileReader.Open(Path.Combine(o, "truth.lanes.jsonl"), sizeRequired: true);
+        LaneRecord r = reader.ReadAll().Single();
+        Assert.Equal(240, r.Width);
+        Assert.Equal(160, r.Height);
+        using OpenCvSharp.Mat img = OpenCvSharp.Cv2.ImRead(Path.Combine(o, r.Frame));
+        Assert.Equal(240, img.Cols);
+        Assert.Equal(160, img.Rows);
+    }
 }

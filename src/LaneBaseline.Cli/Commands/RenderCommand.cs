@@ -128,17 +128,35 @@ internal static class RenderCommand
                 Threads = threadCount,
                 OverlayDir = parseResult.GetValue(overlays),
             };
+            if (File.Exists(options.OutDir))
+            {
+                throw new UsageException($"--out {options.OutDir}: is a file; give a folder.");
+            }
+
+            if (options.OverlayDir is not null && File.Exists(options.OverlayDir))
+            {
+                throw new UsageException($"--overlays {options.OverlayDir}: is a file; give a folder.");
+            }
+
             var clock = Stopwatch.StartNew();
             long lastReport = -1;
-            int frames = RenderJob.Run(options, (done, total) =>
+            int frames;
+            try
             {
-                long second = clock.ElapsedMilliseconds / 2000;
-                if (done == total || second != lastReport)
+                frames = RenderJob.Run(options, (done, total) =>
                 {
-                    lastReport = second;
-                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"render: {done}/{total} frames ({100.0 * done / total:0}%)"));
-                }
-            });
+                    long second = clock.ElapsedMilliseconds / 2000;
+                    if (done == total || second != lastReport)
+                    {
+                        lastReport = second;
+                        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"render: {done}/{total} frames ({100.0 * done / total:0}%)"));
+                    }
+                });
+            }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+            {
+                throw new UsageException($"--out {options.OutDir}: cannot write there: {ex.Message}", ex);
+            }
             double seconds = clock.Elapsed.TotalSeconds;
             stdout.WriteLine(string.Create(
                 CultureInfo.InvariantCulture,
