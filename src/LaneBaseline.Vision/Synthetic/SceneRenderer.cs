@@ -218,7 +218,7 @@ public sealed partial class SceneRenderer : IDisposable
         ApplyJpeg(ctx, output);
 
         List<Lane> lanes = BuildTruth(ctx, lateral);
-        return new RenderedFrame(lanes, BuildTags(ctx, lateral));
+        return new RenderedFrame(lanes, BuildTags(ctx));
     }
 
     /// <inheritdoc />
@@ -374,7 +374,7 @@ public sealed partial class SceneRenderer : IDisposable
             lanes.Add(new Lane { Points = points, Slot = slot, Kind = KindOf(scene, i) });
         }
 
-        // Order by slot: left boundaries outward first is not required; keep left-to-right for readability.
+        // Lanes are listed left to right across the road.
         return lanes;
     }
 
@@ -544,7 +544,7 @@ public sealed partial class SceneRenderer : IDisposable
         return true;
     }
 
-    private static List<string> BuildTags(in FrameContext ctx, double egoLateral)
+    private static List<string> BuildTags(in FrameContext ctx)
     {
         SceneSpec scene = ctx.Scene;
         var tags = new List<string>();
@@ -588,7 +588,6 @@ public sealed partial class SceneRenderer : IDisposable
             }
         }
 
-        _ = egoLateral;
         return tags;
     }
 
