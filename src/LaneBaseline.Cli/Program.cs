@@ -15,6 +15,7 @@ internal static class Program
             "LaneBaseline: a classical, explainable CPU lane-detection baseline and lane scorer.\n" + SafetyNotice.Text);
         // One line per command; keep the list sorted as the contract lists them.
         root.Subcommands.Add(ScoreCommand.Create());
+        root.Subcommands.Add(RenderCommand.Create());
         root.Subcommands.Add(ReportCommand.Create());
         root.Subcommands.Add(MergeCommand.Create());
         return root;
