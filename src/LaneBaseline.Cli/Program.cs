@@ -17,6 +17,8 @@ internal static class Program
         root.Subcommands.Add(ScoreCommand.Create());
         root.Subcommands.Add(AuditCommand.Create());
         root.Subcommands.Add(ConvertCommand.Create());
+        root.Subcommands.Add(RenderCommand.Create());
+        root.Subcommands.Add(ReportCommand.Create());
         root.Subcommands.Add(MergeCommand.Create());
         return root;
     }

@@ -2,10 +2,12 @@ using System.CommandLine;
 using System.Diagnostics;
 using System.Globalization;
 using System.Text;
+using LaneBaseline.Cli.Reports;
 using LaneBaseline.Core;
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Core.Sharding;
+using LaneBaseline.Reporting.Score;
 using LaneBaseline.Vision.Masks;
 using LaneBaseline.Vision.Metrics;
 
@@ -31,6 +33,8 @@ internal static class ScoreCommand
         Option<int> bootstrap = new("--bootstrap") { Description = "Bootstrap resamples for 95 % intervals (0 disables).", DefaultValueFactory = _ => 1000 };
         Option<ulong> seed = new("--seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
         Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
+        Option<string?> report = new("--report") { Description = "Also write the HTML report (as 'lanebaseline report') to this file." };
+        Option<string?> frames = new("--frames") { Description = "Folder of the frame images, for the report's worst-frame gallery (needs --report)." };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
         Option<string?> shard = new("--shard") { Description = "Score only shard K/N of the frames (stable hash of the frame key), e.g. 0/4." };
         Option<string?> camera = new("--camera") { Description = "camera.json: also report metric-space errors (lateral error at 5/10/20/30 m, ego-lane width, curvature) on the road plane." };
@@ -41,7 +45,7 @@ internal static class ScoreCommand
 
         Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.\n" + SafetyNotice.Text)
         {
-            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, threads, shard, partial, camera, size, minMaskRows, maskCsv,
+            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, report, frames, threads, shard, partial, camera, size, minMaskRows, maskCsv,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -81,6 +85,13 @@ internal static class ScoreCommand
                 throw new UsageException("--min-f1 must be in [0, 1]");
             }
 
+            string? reportPath = parseResult.GetValue(report);
+            string? framesDir = parseResult.GetValue(frames);
+            if (framesDir is not null && reportPath is null)
+            {
+                throw new UsageException("--frames draws the report's gallery and needs --report");
+            }
+
             ShardSpec? shardSpec = null;
             if (parseResult.GetValue(shard) is string shardText)
             {
@@ -103,7 +114,10 @@ internal static class ScoreCommand
                 threadCount,
                 parseResult.GetValue(json),
                 parseResult.GetValue(csv),
-                gate);
+                gate)
+            {
+                Report = reportPath is null ? null : (reportPath, framesDir),
+            };
             int maskRows = parseResult.GetValue(minMaskRows);
             if (maskRows < 2)
             {
@@ -254,12 +268,23 @@ internal static class ScoreCommand
                 stdout.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {request.Systems[s].Name}: mean IoU {m.MeanIou:0.0000} over {m.TruthLanes} truth lanes ({m.Matched} assigned, {m.PredLanes} predicted)"));
             }
         }
+
         csvFile?.Commit();
         if (request.JsonPath is not null)
         {
             using var jsonFile = new AtomicFile(request.JsonPath);
             ScoreJsonWriter.Write(jsonFile.Stream, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]));
             jsonFile.Commit();
+        }
+
+        if (request.Report is (string reportPath, var framesDir))
+        {
+            using var buffer = new MemoryStream();
+            ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
+            ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
+            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems);
+            ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", gallery, DateTimeOffset.UtcNow, CancellationToken.None);
+            stderr.WriteLine("score: wrote report " + reportPath);
         }
 
         if (request.MinF1 is double gate)
@@ -285,7 +310,7 @@ internal static class ScoreCommand
             throw new UsageException("--camera is not supported with --partial yet; score metric-space errors unsharded");
         }
 
-        if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null)
+        if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null || request.Report is not null)
         {
             throw new UsageException("--partial writes a state for 'merge'; give --json, --csv and --min-f1 to merge instead");
         }
@@ -411,7 +436,11 @@ internal sealed record ScoreRequest(
     int Threads,
     string? JsonPath,
     string? CsvPath,
-    double? MinF1);
+    double? MinF1)
+{
+    /// <summary>HTML report path and optional frames folder for its gallery.</summary>
+    public (string Path, string? FramesDir)? Report { get; init; }
+}
 
 /// <summary>Mask-input settings of a score run.</summary>
 internal sealed record MaskInputs((int Width, int Height)? Size, int MinRows, string? CsvPath);

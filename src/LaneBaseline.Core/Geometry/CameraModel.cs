@@ -267,7 +267,7 @@ public sealed record CameraModel
         w.WriteStartArray(name);
         foreach (double x in m.ToRowMajor())
         {
-            w.WriteNumberValue(Math.Round(x, 9));
+            w.WriteNumberValue(x);
         }
 
         w.WriteEndArray();

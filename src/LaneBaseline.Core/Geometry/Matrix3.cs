@@ -73,10 +73,14 @@ public readonly record struct Matrix3(
     public (double X, double Y, double Z) Apply(double x, double y, double z) =>
         ((M00 * x) + (M01 * y) + (M02 * z), (M10 * x) + (M11 * y) + (M12 * z), (M20 * x) + (M21 * y) + (M22 * z));
 
-    /// <summary>Scales the matrix so that M22 is 1 (the usual normalisation of a homography); unchanged when M22 is 0.</summary>
+    /// <summary>
+    /// Scales the matrix so that M22 is 1 (the usual normalisation of a homography); unchanged when M22 is zero or
+    /// negligible (below 1e-12 of the largest entry), as for a camera looking exactly level.
+    /// </summary>
     public Matrix3 NormalizedHomography()
     {
-        if (Math.Abs(M22) < 1e-300)
+        double max = new[] { M00, M01, M02, M10, M11, M12, M20, M21, M22 }.Max(Math.Abs);
+        if (Math.Abs(M22) <= 1e-12 * max)
         {
             return this;
         }

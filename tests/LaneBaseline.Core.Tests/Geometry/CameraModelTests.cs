@@ -143,4 +143,17 @@ public sealed class CameraModelTests
     {
         Assert.Throws<BadInputException>(() => CameraModel.Load(Path.Combine(Path.GetTempPath(), "no-such-dir-lb", "camera.json")));
     }
+
+    [Fact]
+    public void GroundToImage_LevelCamera_KeepsTheUnnormalisedClosedForm()
+    {
+        // Source: external-checks.md closed form at θ = 0: H = K · [[0,−1,0],[0,0,h],[1,0,0]]; its H33 is 0,
+        // so it cannot be scaled to 1 and is kept as is.
+        double[] want = (new Matrix3(1000, 0, 640, 0, 1000, 360, 0, 0, 1) * new Matrix3(0, -1, 0, 0, 0, 1.5, 1, 0, 0)).ToRowMajor();
+        double[] got = TableCamera(0).GroundToImage.ToRowMajor();
+        for (int i = 0; i < 9; i++)
+        {
+            Assert.Equal(want[i], got[i], 9);
+        }
+    }
 }
