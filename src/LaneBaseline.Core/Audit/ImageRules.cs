@@ -97,14 +97,14 @@ public static class ImageRules
             }
         }
 
-        // LBA-I04 short lane.
-        double minExtent = Math.Max(30, settings.ShortLaneFraction * height);
+        // LBA-I04 short lane (arc length: a lane at the image edge may span few rows yet be long).
+        double minLength = Math.Max(20, settings.ShortLaneFraction * height);
         for (int i = 0; i < lanes.Count; i++)
         {
-            (double lo, double hi) = LaneSampling.Extent(lanes[i]);
-            if (hi - lo < minExtent)
+            double length = Geometry.Polylines.Length(lanes[i].Points);
+            if (length < minLength)
             {
-                sink.Add(F(AuditRules.ShortLane, i, null, hi - lo, minExtent, "px", Inv($"lane {i} spans {hi - lo:0.#} rows")));
+                sink.Add(F(AuditRules.ShortLane, i, null, length, minLength, "px", Inv($"lane {i} is {length:0.#} px long")));
             }
         }
 

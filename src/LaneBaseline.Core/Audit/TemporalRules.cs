@@ -8,9 +8,10 @@ namespace LaneBaseline.Core.Audit;
 /// <summary>
 /// The temporal rules (<c>LBA-T01</c> … <c>LBA-T03</c>) over frames in file order. A frame key ending in a number
 /// (<c>seq/000123.png</c>, <c>clip.mp4#000123</c>) belongs to the sequence named by everything before the number;
-/// frames of one sequence are consecutive when their numbers differ by one. Lanes of two frames are matched by slot
-/// when every lane has one, else by a Hungarian assignment on the lateral distance at their nearest common row, gated
-/// at 0.75 (jumps) or 0.5 (flicker) of the lane width in pixels at that row. Not thread-safe; feed frames in order.
+/// frames of one sequence are consecutive when their numbers differ by one. Lanes of two frames are matched by a
+/// Hungarian assignment on the lateral distance at their nearest common row where the lane width can be measured
+/// (two lanes of a frame on that row), gated at 0.75 (jumps) or 0.5 (flicker) of that width in pixels. Slots are not used for matching: they are renumbered when the vehicle
+/// changes lanes. Not thread-safe; feed frames in order.
 /// </summary>
 public sealed partial class TemporalRules
 {
@@ -58,8 +59,8 @@ public sealed partial class TemporalRules
     {
         foreach ((int i, int j, double dxPx, double row) in Match(a.Record.Lanes, b.Record.Lanes, 0.75))
         {
-            double? widthPx = LaneSampling.LaneWidthPxAt(b.Record.Lanes, row) ?? LaneSampling.LaneWidthPxAt(a.Record.Lanes, row);
-            if (widthPx is not double w)
+            double w = LaneSampling.LaneWidthPxAt(b.Record.Lanes, row) ?? LaneSampling.LaneWidthPxAt(a.Record.Lanes, row) ?? double.NaN;
+            if (double.IsNaN(w))
             {
                 continue;
             }
@@ -110,39 +111,30 @@ public sealed partial class TemporalRules
             return result;
         }
 
+        // For each pair: the nearest common row where the lane width can be measured (two lanes of either frame).
         var dx = new double[a.Count * b.Count];
         var rows = new double[a.Count * b.Count];
+        var widths = new double[a.Count * b.Count];
         var ok = new bool[a.Count * b.Count];
         for (int i = 0; i < a.Count; i++)
         {
             for (int j = 0; j < b.Count; j++)
             {
                 (double lo, double hi) = LaneSampling.Common(a[i], b[j], double.NegativeInfinity);
-                double row = Math.Floor(hi);
-                if (row >= lo && LaneSampling.XAt(a[i], row, out double xa) && LaneSampling.XAt(b[j], row, out double xb))
+                for (double row = Math.Floor(hi); row >= lo; row -= 5)
                 {
-                    dx[(i * b.Count) + j] = xb - xa;
-                    rows[(i * b.Count) + j] = row;
-                    ok[(i * b.Count) + j] = true;
-                }
-            }
-        }
-
-        bool slots = a.All(l => l.Slot is not null) && b.All(l => l.Slot is not null);
-        if (slots)
-        {
-            for (int i = 0; i < a.Count; i++)
-            {
-                for (int j = 0; j < b.Count; j++)
-                {
-                    if (a[i].Slot == b[j].Slot && ok[(i * b.Count) + j])
+                    double? w = LaneSampling.LaneWidthPxAt(b, row) ?? LaneSampling.LaneWidthPxAt(a, row);
+                    if (w is double ww && LaneSampling.XAt(a[i], row, out double xa) && LaneSampling.XAt(b[j], row, out double xb))
                     {
-                        result.Add((i, j, dx[(i * b.Count) + j], rows[(i * b.Count) + j]));
+                        int k = (i * b.Count) + j;
+                        dx[k] = xb - xa;
+                        rows[k] = row;
+                        widths[k] = ww;
+                        ok[k] = true;
+                        break;
                     }
                 }
             }
-
-            return result;
         }
 
         const double Far = 1e9;
@@ -150,8 +142,7 @@ public sealed partial class TemporalRules
         var gate = new double[a.Count * b.Count];
         for (int k = 0; k < cost.Length; k++)
         {
-            double? w = ok[k] ? LaneSampling.LaneWidthPxAt(b, rows[k]) ?? LaneSampling.LaneWidthPxAt(a, rows[k]) : null;
-            gate[k] = w is double ww ? gateLaneWidths * ww : 0;
+            gate[k] = ok[k] ? gateLaneWidths * widths[k] : 0;
             cost[k] = ok[k] && Math.Abs(dx[k]) < gate[k] ? Math.Abs(dx[k]) : Far;
         }
 

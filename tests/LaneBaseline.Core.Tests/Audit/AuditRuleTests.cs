@@ -88,7 +88,7 @@ public sealed class AuditRuleTests(ITestOutputHelper output)
         tall[2] = new Lane { Points = [.. clean.Lanes[2].Points, new LanePoint(640, 265)], Slot = 1 };
         AssertFinding(Check(With(clean, tall)), AuditRules.AboveHorizon, 2);
 
-        // Short: a 20-row stub (limit max(30, 0.05 * 720) = 36 px).
+        // Short: a stub 22.4 px long (sqrt(10^2 + 20^2)); limit max(20, 0.05 * 720) = 36 px.
         var stub = clean.Lanes.Append(new Lane { Points = [new(100, 700), new(110, 680)] }).ToList();
         AssertFinding(Check(With(clean, stub)), AuditRules.ShortLane, 4);
 
