@@ -14,6 +14,7 @@ internal static class Program
             "LaneBaseline: a classical, explainable CPU lane-detection baseline and lane scorer.\n" + SafetyNotice.Text);
         // One line per command; keep the list sorted as the contract lists them.
         // (commands are added here)
+        root.Subcommands.Add(Commands.DetectCommand.Create());
         return root;
     }
 

@@ -1,0 +1,173 @@
+using LaneBaseline.Core.Options;
+using LaneBaseline.Vision.Pipeline;
+using OpenCvSharp;
+
+namespace LaneBaseline.Vision.Stages;
+
+/// <summary>
+/// Marking evidence inside the region of interest: white and yellow paint relative to the road's own lightness,
+/// gated by a paired horizontal-gradient (ridge) test whose scale follows the perspective.
+/// </summary>
+/// <remarks>
+/// Steps, one pass per image row below <see cref="FrameWorkspace.RoiTop"/> and inside the region trapezoid:
+/// (1) road statistics: median and robust spread (interquartile range / 1.349) of the HLS lightness
+/// L = (max(R,G,B) + min(R,G,B)) / 2 sampled every <see cref="ColorOptions.StatisticsStridePx"/> pixels inside the
+/// trapezoid; (2) white: L ≥ max(<see cref="ColorOptions.WhiteMinLightness"/>, median +
+/// max(<see cref="ColorOptions.WhiteMinContrast"/>, <see cref="ColorOptions.WhiteSpreadFactor"/> × spread));
+/// yellow: (R+G)/2 − B ≥ <see cref="ColorOptions.YellowMinChroma"/> and L ≥ median + <see cref="ColorOptions.YellowMinContrast"/>;
+/// (3) ridge: with d the expected marking width at the row (<see cref="GradientOptions.MarkingWidthFraction"/> × width
+/// at the bottom row, shrinking linearly to 0 at the horizon), the mean L over the centre must exceed the means over
+/// [x − 2d, x − d] and [x + d, x + 2d] by max(<see cref="GradientOptions.RidgeMinStep"/>,
+/// <see cref="GradientOptions.RidgeSpreadFactor"/> × spread) each: a rising step then a falling step in x (a Sobel-x
+/// pair of opposite sign at the marking's scale), which rejects shadow edges, kerbs and bright areas wider than a
+/// marking; (4) evidence = 255 for ridge and paint colour, 160 for ridge alone, 100 for yellow without a ridge,
+/// 0 otherwise. Pixel (x, y), origin top-left, y down.
+/// <para>References: [1] OpenCV documentation, "Color conversions" (RGB to HLS lightness). [2] J. Canny, IEEE Trans.
+/// PAMI 8(6), 1986, DOI 10.1109/TPAMI.1986.4767851 (step edges as gradient extrema).</para>
+/// </remarks>
+public sealed class ColorThresholdStage : IFrameStage
+{
+    private readonly ColorOptions color;
+    private readonly GradientOptions gradient;
+
+    /// <summary>Creates the stage.</summary>
+    public ColorThresholdStage(ColorOptions color, GradientOptions gradient)
+    {
+        this.color = color;
+        this.gradient = gradient;
+    }
+
+    /// <inheritdoc />
+    public string Name => "color";
+
+    /// <inheritdoc />
+    public unsafe void Process(FrameWorkspace workspace)
+    {
+        ArgumentNullException.ThrowIfNull(workspace);
+        Mat frame = workspace.Frame;
+        Mat evidence = workspace.Evidence;
+        int w = workspace.Width, h = workspace.Height;
+        evidence.SetTo(Scalar.All(0));
+        double vy = workspace.VanishingY;
+        int top = Math.Clamp((int)Math.Floor(workspace.RoiTop) - 1, 0, h - 1);
+        double[] q = workspace.Trapezoid;
+        byte* frameBase = (byte*)frame.DataPointer;
+        long frameStep = frame.Step();
+        byte* evBase = (byte*)evidence.DataPointer;
+        long evStep = evidence.Step();
+
+        // (1) Road statistics inside the trapezoid.
+        int[] hist = workspace.Histogram;
+        Array.Clear(hist);
+        int stride = color.StatisticsStridePx;
+        long total = 0;
+        for (int y = top; y < h; y += stride)
+        {
+            RowSpan(q, y, w, out int x0, out int x1);
+            byte* row = frameBase + (y * frameStep);
+            for (int x = x0; x <= x1; x += stride)
+            {
+                byte* p = row + (3 * x);
+                int mx = Math.Max(p[0], Math.Max(p[1], p[2])), mn = Math.Min(p[0], Math.Min(p[1], p[2]));
+                hist[(mx + mn) >> 1]++;
+                total++;
+            }
+        }
+
+        double median = Percentile(hist, total, 0.5);
+        double spread = Math.Max(1.0, (Percentile(hist, total, 0.75) - Percentile(hist, total, 0.25)) / 1.349);
+        workspace.RoadMedian = median;
+        workspace.RoadSpread = spread;
+        double whiteThr = Math.Max(color.WhiteMinLightness, median + Math.Max(color.WhiteMinContrast, color.WhiteSpreadFactor * spread));
+        double yellowL = median + color.YellowMinContrast;
+        double yellowC = color.YellowMinChroma;
+        double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * spread);
+        double widthBottom = gradient.MarkingWidthFraction * w;
+        int[] lum = workspace.Lightness;
+        int[] yel = workspace.Yellowness;
+        int[] pre = workspace.Prefix;
+
+        for (int y = top; y < h; y++)
+        {
+            RowSpan(q, y, w, out int x0, out int x1);
+            if (x1 < x0)
+            {
+                continue;
+            }
+
+            byte* row = frameBase + (y * frameStep);
+            byte* ev = evBase + (y * evStep);
+            double scale = (y - vy) / (h - 1 - vy);
+            int d = Math.Max(1, (int)Math.Round(widthBottom * scale));
+            int c = Math.Max(0, d / 4);
+
+            // Lightness and yellowness of the row span widened by the ridge reach, then prefix sums of L.
+            int a0 = Math.Max(0, x0 - (2 * d)), a1 = Math.Min(w - 1, x1 + (2 * d));
+            pre[a0] = 0;
+            for (int x = a0; x <= a1; x++)
+            {
+                byte* p = row + (3 * x);
+                int b = p[0], g = p[1], r = p[2];
+                int mx = Math.Max(b, Math.Max(g, r)), mn = Math.Min(b, Math.Min(g, r));
+                int l = (mx + mn) >> 1;
+                lum[x] = l;
+                yel[x] = ((r + g) >> 1) - b;
+                pre[x + 1] = pre[x] + l;
+            }
+
+            for (int x = x0; x <= x1; x++)
+            {
+                int l = lum[x];
+                bool white = l >= whiteThr;
+                bool yellow = yel[x] >= yellowC && l >= yellowL;
+                bool ridge = false;
+                int ll = x - (2 * d), lr = x - d, rl = x + d, rr = x + (2 * d);
+                if (ll >= a0 && rr <= a1)
+                {
+                    double centre = (double)(pre[Math.Min(a1, x + c) + 1] - pre[Math.Max(a0, x - c)]) / ((Math.Min(a1, x + c) - Math.Max(a0, x - c)) + 1);
+                    double left = (double)(pre[lr + 1] - pre[ll]) / (lr - ll + 1);
+                    double right = (double)(pre[rr + 1] - pre[rl]) / (rr - rl + 1);
+                    ridge = centre - left >= ridgeThr && centre - right >= ridgeThr;
+                }
+
+                ev[x] = ridge ? (white || yellow ? (byte)255 : (byte)160) : (yellow ? (byte)100 : (byte)0);
+            }
+        }
+    }
+
+    /// <summary>Columns of row <paramref name="y"/> inside the trapezoid (top-left, top-right, bottom-right, bottom-left), clipped to the frame.</summary>
+    private static void RowSpan(double[] q, int y, int w, out int x0, out int x1)
+    {
+        double t = (y - q[1]) / (q[5] - q[1]);
+        double xl = q[0] + ((q[6] - q[0]) * t);
+        double xr = q[2] + ((q[4] - q[2]) * t);
+        x0 = Math.Max(0, (int)Math.Ceiling(xl));
+        x1 = Math.Min(w - 1, (int)Math.Floor(xr));
+    }
+
+    private static double Percentile(int[] hist, long total, double p)
+    {
+        if (total == 0)
+        {
+            return 0;
+        }
+
+        long target = (long)Math.Ceiling(p * total);
+        long acc = 0;
+        for (int i = 0; i < hist.Length; i++)
+        {
+            acc += hist[i];
+            if (acc >= Math.Max(1, target))
+            {
+                return i;
+            }
+        }
+
+        return 255;
+    }
+
+    /// <inheritdoc />
+    public void Dispose()
+    {
+    }
+}
