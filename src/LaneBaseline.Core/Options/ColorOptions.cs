@@ -2,7 +2,7 @@ namespace LaneBaseline.Core.Options;
 
 /// <summary>
 /// Paint thresholds of the colour/evidence stage. Lightness is the HLS lightness (max+min)/2 of the 8-bit BGR
-/// pixel (0–255); yellowness is (R+G)/2 − B (0–255), a cheap stand-in for the Lab b* axis. Thresholds are relative
+/// pixel (0–255); yellowness is min(R,G) − B (0–255), a cheap stand-in for the Lab b* axis. Thresholds are relative
 /// to the road's own lightness statistics inside the region of interest (median and spread), with absolute floors.
 /// </summary>
 public sealed record ColorOptions
@@ -16,7 +16,7 @@ public sealed record ColorOptions
     /// <summary>Absolute lightness floor for white paint, in lightness units (0–255). Default 45.</summary>
     public double WhiteMinLightness { get; init; } = 45;
 
-    /// <summary>Minimum yellowness (R+G)/2 − B for yellow paint, in 8-bit units (0–255). Default 28.</summary>
+    /// <summary>Minimum yellowness min(R,G) − B for yellow paint, in 8-bit units (0–255). Default 28.</summary>
     public double YellowMinChroma { get; init; } = 28;
 
     /// <summary>Yellow paint must exceed the road median lightness by this many lightness units (0–255). Default 8.</summary>

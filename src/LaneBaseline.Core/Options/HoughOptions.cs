@@ -18,8 +18,8 @@ public sealed record HoughOptions
     /// <summary>Largest gap bridged inside one segment, in pixels (0–500). Default 8.</summary>
     public double MaxLineGapPx { get; init; } = 8;
 
-    /// <summary>Smallest segment angle from the horizontal, in degrees (0–90). Default 18.</summary>
-    public double MinAngleDeg { get; init; } = 18;
+    /// <summary>Smallest segment angle from the horizontal, in degrees (0–90). Default 10.</summary>
+    public double MinAngleDeg { get; init; } = 10;
 
     /// <summary>Largest segment angle from the horizontal, in degrees (0–90). Default 88.</summary>
     public double MaxAngleDeg { get; init; } = 88;

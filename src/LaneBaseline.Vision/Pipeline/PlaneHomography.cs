@@ -1,8 +1,8 @@
 namespace LaneBaseline.Vision.Pipeline;
 
 /// <summary>
-/// A 3×3 plane homography in managed code (row-major, H[2,2] normalised to 1), built from four point
-/// correspondences by solving the 8×8 direct linear system without allocating. Points are pixel (x, y),
+/// A 3×3 plane homography in managed code (row-major, unit Frobenius norm), built from four point
+/// correspondences through their projective bases without allocating. Points are pixel (x, y),
 /// origin top-left, y down.
 /// <para>References: [1] R. Hartley, A. Zisserman, Multiple View Geometry in Computer Vision, 2nd ed., Cambridge
 /// University Press, 2004, Sec. 4.1 (direct linear transformation).</para>
@@ -31,7 +31,7 @@ internal readonly struct PlaneHomography
         return true;
     }
 
-    /// <summary>The inverse homography (adjugate over determinant).</summary>
+    /// <summary>The inverse homography (adjugate; scaled to unit Frobenius norm, so H[2,2] may be 0).</summary>
     public PlaneHomography Inverse()
     {
         double a = (M11 * M22) - (M12 * M21);
@@ -43,36 +43,99 @@ internal readonly struct PlaneHomography
         double g = (M10 * M21) - (M11 * M20);
         double h = (M01 * M20) - (M00 * M21);
         double i = (M00 * M11) - (M01 * M10);
-        double det = (M00 * a) + (M01 * d) + (M02 * g);
-        double s = 1.0 / det;
-        double n = i * s;
-        return new PlaneHomography(a * s / n, b * s / n, c * s / n, d * s / n, e * s / n, f * s / n, g * s / n, h * s / n, 1.0);
+        return Normalised(a, b, c, d, e, f, g, h, i);
     }
 
     /// <summary>
-    /// Solves the homography mapping src[k] to dst[k] (k = 0..3, given as x0, y0, x1, y1, ...).
-    /// Returns false when the points are degenerate (three collinear).
+    /// Solves the homography mapping src[k] to dst[k] (k = 0..3, given as x0, y0, x1, y1, ...) through the projective
+    /// basis of each quadruple (H = B·A⁻¹ where A, B map the canonical basis to src, dst), which also covers
+    /// homographies with H[2,2] = 0. Returns false when three points are collinear.
     /// </summary>
     public static bool TryFromPoints(ReadOnlySpan<double> src, ReadOnlySpan<double> dst, out PlaneHomography h)
     {
-        Span<double> m = stackalloc double[8 * 9];
-        for (int k = 0; k < 4; k++)
+        h = default;
+        Span<double> a = stackalloc double[9];
+        Span<double> b = stackalloc double[9];
+        if (!TryBasis(src, a) || !TryBasis(dst, b))
         {
-            double x = src[2 * k], y = src[(2 * k) + 1], u = dst[2 * k], v = dst[(2 * k) + 1];
-            Span<double> r1 = m.Slice(2 * k * 9, 9);
-            Span<double> r2 = m.Slice(((2 * k) + 1) * 9, 9);
-            r1[0] = x; r1[1] = y; r1[2] = 1; r1[3] = 0; r1[4] = 0; r1[5] = 0; r1[6] = -u * x; r1[7] = -u * y; r1[8] = u;
-            r2[0] = 0; r2[1] = 0; r2[2] = 0; r2[3] = x; r2[4] = y; r2[5] = 1; r2[6] = -v * x; r2[7] = -v * y; r2[8] = v;
-        }
-
-        Span<double> sol = stackalloc double[8];
-        if (!LinearSolve.TrySolve(m, 8, sol))
-        {
-            h = default;
             return false;
         }
 
-        h = new PlaneHomography(sol[0], sol[1], sol[2], sol[3], sol[4], sol[5], sol[6], sol[7], 1.0);
+        Span<double> ai = stackalloc double[9];
+        if (!TryInvert(a, ai))
+        {
+            return false;
+        }
+
+        Span<double> m = stackalloc double[9];
+        for (int r = 0; r < 3; r++)
+        {
+            for (int c = 0; c < 3; c++)
+            {
+                m[(3 * r) + c] = (b[3 * r] * ai[c]) + (b[(3 * r) + 1] * ai[3 + c]) + (b[(3 * r) + 2] * ai[6 + c]);
+            }
+        }
+
+        h = Normalised(m[0], m[1], m[2], m[3], m[4], m[5], m[6], m[7], m[8]);
         return true;
+    }
+
+    /// <summary>The 3×3 matrix (row-major) whose columns are λk·(xk, yk, 1), with λ solving Σ λk pk = p4.</summary>
+    private static bool TryBasis(ReadOnlySpan<double> p, Span<double> basis)
+    {
+        Span<double> m = stackalloc double[12];
+        for (int r = 0; r < 3; r++)
+        {
+            for (int k = 0; k < 3; k++)
+            {
+                m[(4 * r) + k] = r == 2 ? 1 : p[(2 * k) + r];
+            }
+
+            m[(4 * r) + 3] = r == 2 ? 1 : p[6 + r];
+        }
+
+        Span<double> lambda = stackalloc double[3];
+        if (!LinearSolve.TrySolve(m, 3, lambda))
+        {
+            return false;
+        }
+
+        for (int r = 0; r < 3; r++)
+        {
+            for (int k = 0; k < 3; k++)
+            {
+                basis[(3 * r) + k] = (r == 2 ? 1 : p[(2 * k) + r]) * lambda[k];
+            }
+        }
+
+        return true;
+    }
+
+    private static bool TryInvert(ReadOnlySpan<double> m, Span<double> inv)
+    {
+        double a = (m[4] * m[8]) - (m[5] * m[7]);
+        double b = (m[2] * m[7]) - (m[1] * m[8]);
+        double c = (m[1] * m[5]) - (m[2] * m[4]);
+        double det = (m[0] * a) + (m[1] * ((m[5] * m[6]) - (m[3] * m[8]))) + (m[2] * ((m[3] * m[7]) - (m[4] * m[6])));
+        if (Math.Abs(det) < 1e-300)
+        {
+            return false;
+        }
+
+        inv[0] = a / det; inv[1] = b / det; inv[2] = c / det;
+        inv[3] = ((m[5] * m[6]) - (m[3] * m[8])) / det; inv[4] = ((m[0] * m[8]) - (m[2] * m[6])) / det; inv[5] = ((m[2] * m[3]) - (m[0] * m[5])) / det;
+        inv[6] = ((m[3] * m[7]) - (m[4] * m[6])) / det; inv[7] = ((m[1] * m[6]) - (m[0] * m[7])) / det; inv[8] = ((m[0] * m[4]) - (m[1] * m[3])) / det;
+        return true;
+    }
+
+    private static PlaneHomography Normalised(double a, double b, double c, double d, double e, double f, double g, double h, double i)
+    {
+        double n = Math.Sqrt((a * a) + (b * b) + (c * c) + (d * d) + (e * e) + (f * f) + (g * g) + (h * h) + (i * i));
+        if (i < 0 || (i == 0 && g < 0))
+        {
+            n = -n;
+        }
+
+        return new PlaneHomography(a / n, b / n, c / n, d / n, e / n, f / n, g / n, h / n, i / n);
     }
 }

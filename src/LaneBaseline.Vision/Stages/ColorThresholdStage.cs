@@ -9,14 +9,16 @@ namespace LaneBaseline.Vision.Stages;
 /// gated by a paired horizontal-gradient (ridge) test whose scale follows the perspective.
 /// </summary>
 /// <remarks>
-/// Steps, one pass per image row below <see cref="FrameWorkspace.RoiTop"/> and inside the region trapezoid:
+/// Steps, one pass per image row below <see cref="FrameWorkspace.RoiTop"/> (and below the Hough search band's top)
+/// inside the region trapezoid:
 /// (1) road statistics: median and robust spread (interquartile range / 1.349) of the HLS lightness
 /// L = (max(R,G,B) + min(R,G,B)) / 2 sampled every <see cref="ColorOptions.StatisticsStridePx"/> pixels inside the
 /// trapezoid; (2) white: L ≥ max(<see cref="ColorOptions.WhiteMinLightness"/>, median +
 /// max(<see cref="ColorOptions.WhiteMinContrast"/>, <see cref="ColorOptions.WhiteSpreadFactor"/> × spread));
-/// yellow: (R+G)/2 − B ≥ <see cref="ColorOptions.YellowMinChroma"/> and L ≥ median + <see cref="ColorOptions.YellowMinContrast"/>;
-/// (3) ridge: with d the expected marking width at the row (<see cref="GradientOptions.MarkingWidthFraction"/> × width
-/// at the bottom row, shrinking linearly to 0 at the horizon), the mean L over the centre must exceed the means over
+/// yellow: min(R,G) − B ≥ <see cref="ColorOptions.YellowMinChroma"/> and L ≥ median + <see cref="ColorOptions.YellowMinContrast"/>;
+/// (3) ridge, on the Gaussian-blurred grey image of <see cref="GradientStage"/>: with d the expected marking width at
+/// the row (<see cref="GradientOptions.MarkingWidthFraction"/> × width at the bottom row, shrinking linearly towards
+/// the horizon, at least 2 px), the mean grey level over the centre must exceed the means over
 /// [x − 2d, x − d] and [x + d, x + 2d] by max(<see cref="GradientOptions.RidgeMinStep"/>,
 /// <see cref="GradientOptions.RidgeSpreadFactor"/> × spread) each: a rising step then a falling step in x (a Sobel-x
 /// pair of opposite sign at the marking's scale), which rejects shadow edges, kerbs and bright areas wider than a
@@ -49,11 +51,13 @@ public sealed class ColorThresholdStage : IFrameStage
         int w = workspace.Width, h = workspace.Height;
         evidence.SetTo(Scalar.All(0));
         double vy = workspace.VanishingY;
-        int top = Math.Clamp((int)Math.Floor(workspace.RoiTop) - 1, 0, h - 1);
+        int top = Math.Clamp((int)Math.Floor(workspace.RoiTop) - 1, workspace.BandTop, h - 1);
         double[] q = workspace.Trapezoid;
         byte* frameBase = (byte*)frame.DataPointer;
         long frameStep = frame.Step();
         byte* evBase = (byte*)evidence.DataPointer;
+        byte* blurBase = (byte*)workspace.Blurred.DataPointer;
+        long blurStep = workspace.Blurred.Step();
         long evStep = evidence.Step();
 
         // (1) Road statistics inside the trapezoid.
@@ -97,11 +101,12 @@ public sealed class ColorThresholdStage : IFrameStage
 
             byte* row = frameBase + (y * frameStep);
             byte* ev = evBase + (y * evStep);
+            byte* smooth = blurBase + ((y - workspace.BandTop) * blurStep);
             double scale = (y - vy) / (h - 1 - vy);
-            int d = Math.Max(1, (int)Math.Round(widthBottom * scale));
-            int c = Math.Max(0, d / 4);
+            int d = Math.Max(2, (int)Math.Round(widthBottom * scale));
+            int c = Math.Max(1, d / 4);
 
-            // Lightness and yellowness of the row span widened by the ridge reach, then prefix sums of L.
+            // Lightness and yellowness of the row span widened by the ridge reach, and prefix sums of the blurred grey.
             int a0 = Math.Max(0, x0 - (2 * d)), a1 = Math.Min(w - 1, x1 + (2 * d));
             pre[a0] = 0;
             for (int x = a0; x <= a1; x++)
@@ -111,8 +116,8 @@ public sealed class ColorThresholdStage : IFrameStage
                 int mx = Math.Max(b, Math.Max(g, r)), mn = Math.Min(b, Math.Min(g, r));
                 int l = (mx + mn) >> 1;
                 lum[x] = l;
-                yel[x] = ((r + g) >> 1) - b;
-                pre[x + 1] = pre[x] + l;
+                yel[x] = Math.Min(r, g) - b;
+                pre[x + 1] = pre[x] + smooth[x];
             }
 
             for (int x = x0; x <= x1; x++)
