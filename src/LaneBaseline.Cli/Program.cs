@@ -1,4 +1,5 @@
 using System.CommandLine;
+using LaneBaseline.Cli.Commands;
 
 namespace LaneBaseline.Cli;
 
@@ -13,8 +14,8 @@ internal static class Program
         RootCommand root = new(
             "LaneBaseline: a classical, explainable CPU lane-detection baseline and lane scorer.\n" + SafetyNotice.Text);
         // One line per command; keep the list sorted as the contract lists them.
-        // (commands are added here)
-        root.Subcommands.Add(Commands.DetectCommand.Create());
+        root.Subcommands.Add(DetectCommand.Create());
+        root.Subcommands.Add(ScoreCommand.Create());
         return root;
     }
 

@@ -250,14 +250,14 @@ internal static class LaneRecordParser
         var points = new List<LanePoint>();
         while (true)
         {
+            string pointKey = key + "[" + points.Count.ToString(CultureInfo.InvariantCulture) + "]";
+            state.Key = pointKey;
             reader.Read();
             if (reader.TokenType == JsonTokenType.EndArray)
             {
                 return points;
             }
 
-            string pointKey = key + "[" + points.Count.ToString(CultureInfo.InvariantCulture) + "]";
-            state.Key = pointKey;
             if (reader.TokenType != JsonTokenType.StartArray)
             {
                 throw state.Error(pointKey, "a point must be an array [x, y]");

@@ -4,8 +4,8 @@ namespace LaneBaseline.Vision.Pipeline;
 public interface IFrameStage : IDisposable
 {
     /// <summary>Stable identifier used in timings, stage sheets and reports.</summary>
-    public string Name { get; }
+    string Name { get; }
 
     /// <summary>Reads and writes the workspace buffers of the current frame; allocates nothing that can be reused.</summary>
-    public void Process(FrameWorkspace workspace);
+    void Process(FrameWorkspace workspace);
 }

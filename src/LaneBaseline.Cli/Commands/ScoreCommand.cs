@@ -1,0 +1,273 @@
+using System.CommandLine;
+using System.Diagnostics;
+using System.Globalization;
+using System.Text;
+using LaneBaseline.Core;
+using LaneBaseline.Core.Metrics;
+using LaneBaseline.Vision.Metrics;
+
+namespace LaneBaseline.Cli.Commands;
+
+/// <summary><c>lanebaseline score</c>: lane metrics of one or several prediction files against truth.</summary>
+internal static class ScoreCommand
+{
+    public static Command Create()
+    {
+        Option<string> truth = new("--truth") { Description = "Ground-truth lane file (*.lanes.jsonl).", Required = true };
+        Option<string[]> pred = new("--pred")
+        {
+            Description = "Prediction lane file; repeat as NAME=FILE to compare several systems on the same frames.",
+            Required = true,
+            AllowMultipleArgumentsPerToken = false,
+        };
+        Option<string?> json = new("--json") { Description = "Write the full results as JSON to this file." };
+        Option<string?> csv = new("--csv") { Description = "Write one row per frame (tp/fp/fn at IoU 0.50, mean matched IoU, point accuracy)." };
+        Option<int?> laneWidth = new("--lane-width-px") { Description = "Rasterised lane width in pixels (default round(30*width/1640))." };
+        Option<double?> tolerance = new("--tolerance-px") { Description = "Base point tolerance in pixels (default 20*width/1280)." };
+        Option<string[]> iou = new("--iou") { Description = "Extra IoU thresholds to report, e.g. --iou 0.4 --iou 0.6 or --iou 0.4,0.6." };
+        Option<int> bootstrap = new("--bootstrap") { Description = "Bootstrap resamples for 95 % intervals (0 disables).", DefaultValueFactory = _ => 1000 };
+        Option<ulong> seed = new("--seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
+        Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
+        Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+
+        Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.\n" + SafetyNotice.Text)
+        {
+            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, threads,
+        };
+
+        command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
+        {
+            var settings = new ScoreSettings
+            {
+                LaneWidthPx = parseResult.GetValue(laneWidth),
+                TolerancePx = parseResult.GetValue(tolerance),
+                ExtraThresholds = ParseThresholds(parseResult.GetValue(iou) ?? []),
+            };
+            if (settings.LaneWidthPx is <= 0)
+            {
+                throw new UsageException("--lane-width-px must be a positive whole number");
+            }
+
+            if (settings.TolerancePx is double tp && (!(tp > 0) || !double.IsFinite(tp)))
+            {
+                throw new UsageException("--tolerance-px must be a positive number");
+            }
+
+            int resamples = parseResult.GetValue(bootstrap);
+            if (resamples < 0)
+            {
+                throw new UsageException("--bootstrap must be 0 or more");
+            }
+
+            int threadCount = parseResult.GetValue(threads);
+            if (threadCount < 1)
+            {
+                throw new UsageException("--threads must be at least 1");
+            }
+
+            double? gate = parseResult.GetValue(minF1);
+            if (gate is double g && (g < 0 || g > 1 || double.IsNaN(g)))
+            {
+                throw new UsageException("--min-f1 must be in [0, 1]");
+            }
+
+            return Execute(
+                stdout,
+                stderr,
+                parseResult.GetRequiredValue(truth),
+                ParseSystems(parseResult.GetRequiredValue(pred)),
+                settings,
+                resamples,
+                parseResult.GetValue(seed),
+                threadCount,
+                parseResult.GetValue(json),
+                parseResult.GetValue(csv),
+                gate,
+                cancellationToken);
+        })));
+        return command;
+    }
+
+    internal static IReadOnlyList<IouThreshold> ParseThresholds(IEnumerable<string> values)
+    {
+        var list = new List<IouThreshold>();
+        foreach (string v in values)
+        {
+            foreach (string part in v.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
+            {
+                try
+                {
+                    list.Add(IouThreshold.Parse(part));
+                }
+                catch (FormatException ex)
+                {
+                    throw new UsageException("--iou: " + ex.Message);
+                }
+            }
+        }
+
+        return list;
+    }
+
+    internal static IReadOnlyList<ScoredSystem> ParseSystems(string[] values)
+    {
+        var systems = new List<ScoredSystem>();
+        foreach (string v in values)
+        {
+            int eq = v.IndexOf('=', StringComparison.Ordinal);
+            string name, path;
+            if (eq > 0 && v[..eq].IndexOfAny(['/', '\\']) < 0)
+            {
+                name = v[..eq];
+                path = v[(eq + 1)..];
+            }
+            else
+            {
+                path = v;
+                name = Path.GetFileName(v);
+                foreach (string suffix in new[] { ".lanes.jsonl", ".jsonl" })
+                {
+                    if (name.EndsWith(suffix, StringComparison.OrdinalIgnoreCase) && name.Length > suffix.Length)
+                    {
+                        name = name[..^suffix.Length];
+                        break;
+                    }
+                }
+            }
+
+            if (path.Length == 0)
+            {
+                throw new UsageException($"--pred {v}: no file after '='");
+            }
+
+            if (systems.Any(s => s.Name == name))
+            {
+                throw new UsageException($"--pred: the name '{name}' is given twice; name systems as NAME=FILE");
+            }
+
+            systems.Add(new ScoredSystem(name, path));
+        }
+
+        return systems;
+    }
+
+    private static int Execute(
+        TextWriter stdout,
+        TextWriter stderr,
+        string truthPath,
+        IReadOnlyList<ScoredSystem> systems,
+        ScoreSettings settings,
+        int resamples,
+        ulong seed,
+        int threads,
+        string? jsonPath,
+        string? csvPath,
+        double? minF1,
+        CancellationToken cancellationToken)
+    {
+        var clock = Stopwatch.StartNew();
+        using AtomicFile? csvFile = csvPath is null ? null : new AtomicFile(csvPath);
+        TextWriter? csvWriter = csvFile?.Writer;
+        csvWriter?.Write(CsvHeader(systems.Count > 1));
+        long lastReport = 0;
+        int halfIndex = settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
+        var run = new ScoreRun(truthPath, systems, settings)
+        {
+            Threads = threads,
+            OnFrame = csvWriter is null ? null : row => WriteCsvRows(csvWriter, systems, halfIndex, row),
+            OnProgress = (done, total) =>
+            {
+                long now = clock.ElapsedMilliseconds;
+                if (now - lastReport >= 2000 && done < total)
+                {
+                    lastReport = now;
+                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"score: {done}/{total} frames"));
+                }
+            },
+        };
+        IReadOnlyList<SystemScore> results = run.Execute(CreateRasterizer, cancellationToken);
+        double scoreSeconds = clock.Elapsed.TotalSeconds;
+
+        BootstrapResult? boot = null;
+        if (resamples > 0)
+        {
+            double[][][] samples = Bootstrap.Resample([.. results.Select(r => r.Series)], resamples, seed, threads);
+            var intervals = samples.Select(sys => sys.Select(stat => Bootstrap.Percentiles(stat, 0.95)).ToArray()).ToArray();
+            boot = new BootstrapResult { Resamples = resamples, Seed = seed, Intervals = intervals, Samples = samples };
+        }
+
+        if (results.Any(r => r.Overall.AllEmpty))
+        {
+            stderr.WriteLine("note: no truth and no predicted lanes at all in some system's frames; by definition it scores 1.0");
+        }
+
+        ScoreTableWriter.Write(stdout, truthPath, results, settings, boot);
+
+        if (csvWriter is not null)
+        {
+            csvFile!.Commit();
+        }
+
+        if (jsonPath is not null)
+        {
+            using var jsonFile = new AtomicFile(jsonPath);
+            ScoreJsonWriter.Write(jsonFile.Stream, results, settings, boot, truthPath);
+            jsonFile.Commit();
+        }
+
+        long frames = results[0].Overall.Frames;
+        stderr.WriteLine(string.Create(
+            CultureInfo.InvariantCulture,
+            $"score: {frames} frames x {results.Count} system(s) in {scoreSeconds:0.###} s ({frames * results.Count / Math.Max(scoreSeconds, 1e-9):0} frame-scores/s, {threads} thread(s)); total {clock.Elapsed.TotalSeconds:0.###} s"));
+
+        if (minF1 is double gate)
+        {
+            foreach (SystemScore r in results)
+            {
+                double f1 = r.Overall.At(IouThreshold.Half).F1;
+                if (f1 < gate)
+                {
+                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"quality gate failed: {r.System.Name} F1@0.50 = {f1:0.####} < --min-f1 {gate}"));
+                    return ExitCodes.GateFailed;
+                }
+            }
+        }
+
+        return ExitCodes.Success;
+    }
+
+#pragma warning disable IDISP005 // ScoreRun owns and disposes the rasterizers it creates
+    private static ILaneRasterizer CreateRasterizer() => new OpenCvLaneRasterizer();
+#pragma warning restore IDISP005
+
+    private static string CsvHeader(bool multi) =>
+        (multi ? "system," : string.Empty) + "frame,tags,tp,fp,fn,mean_matched_iou,point_accuracy\n";
+
+    private static void WriteCsvRows(TextWriter csv, IReadOnlyList<ScoredSystem> systems, int halfIndex, IReadOnlyList<FrameScore> row)
+    {
+        for (int s = 0; s < row.Count; s++)
+        {
+            FrameScore f = row[s];
+            int tp = f.TruePositives[halfIndex];
+            if (systems.Count > 1)
+            {
+                csv.Write(Csv(systems[s].Name));
+                csv.Write(',');
+            }
+
+            csv.Write(Csv(f.Frame));
+            csv.Write(',');
+            csv.Write(Csv(string.Join(';', f.Tags)));
+            csv.Write(string.Create(CultureInfo.InvariantCulture, $",{tp},{f.PredLanes - tp},{f.TruthLanes - tp},"));
+            double miou = f.MeanMatchedIou;
+            csv.Write(double.IsNaN(miou) ? string.Empty : miou.ToString("R", CultureInfo.InvariantCulture));
+            csv.Write(',');
+            double acc = f.FramePointAccuracy;
+            csv.Write(double.IsNaN(acc) ? string.Empty : acc.ToString("R", CultureInfo.InvariantCulture));
+            csv.Write('\n');
+        }
+    }
+
+    private static string Csv(string value) =>
+        value.AsSpan().IndexOfAny(",\"\n\r") >= 0 ? "\"" + value.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"" : value;
+}

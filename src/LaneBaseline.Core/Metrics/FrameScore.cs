@@ -1,0 +1,70 @@
+namespace LaneBaseline.Core.Metrics;
+
+/// <summary>The scores of one frame: the counts every aggregate and bootstrap resample is built from.</summary>
+public sealed class FrameScore
+{
+    /// <summary>Frame key.</summary>
+    public required string Frame { get; init; }
+
+    /// <summary>Tags of the truth record.</summary>
+    public required IReadOnlyList<string> Tags { get; init; }
+
+    /// <summary>Frame width in pixels.</summary>
+    public int Width { get; init; }
+
+    /// <summary>Frame height in pixels.</summary>
+    public int Height { get; init; }
+
+    /// <summary>Truth lanes in the frame.</summary>
+    public int TruthLanes { get; init; }
+
+    /// <summary>Predicted lanes in the frame.</summary>
+    public int PredLanes { get; init; }
+
+    /// <summary>True positives per threshold, in the order of <see cref="ScoreSettings.Thresholds"/>.</summary>
+    public required int[] TruePositives { get; init; }
+
+    /// <summary>IoU of each Hungarian-assigned truth/prediction pair (IoU matrix values, assignment order by truth row).</summary>
+    public required double[] AssignedIous { get; init; }
+
+    /// <summary>Sum over truth lanes of the assigned pair accuracy (0 when unassigned).</summary>
+    public double PointAccuracySum { get; init; }
+
+    /// <summary>Truth lanes whose assigned pair accuracy reaches 0.85 (equally, matched predictions).</summary>
+    public int PointMatched { get; init; }
+
+    /// <summary>
+    /// True positives at IoU 0.50 when only predictions with confidence &gt;= cutoff k/20 are kept (k = 0…19);
+    /// a lane without a confidence is always kept.
+    /// </summary>
+    public required int[] ConfidenceTruePositives { get; init; }
+
+    /// <summary>Predictions kept at each confidence cutoff k/20.</summary>
+    public required int[] ConfidencePredLanes { get; init; }
+
+    /// <summary>Whether any predicted lane in the frame carries a confidence.</summary>
+    public bool HasConfidence { get; init; }
+
+    /// <summary>Mean IoU of the assigned pairs with IoU &gt; 0, or NaN when there are none.</summary>
+    public double MeanMatchedIou
+    {
+        get
+        {
+            double sum = 0;
+            int n = 0;
+            foreach (double iou in AssignedIous)
+            {
+                if (iou > 0)
+                {
+                    sum += iou;
+                    n++;
+                }
+            }
+
+            return n == 0 ? double.NaN : sum / n;
+        }
+    }
+
+    /// <summary>Point accuracy of the frame alone (sum / truth lanes), or NaN without truth lanes.</summary>
+    public double FramePointAccuracy => TruthLanes == 0 ? double.NaN : PointAccuracySum / TruthLanes;
+}

@@ -1,0 +1,328 @@
+using System.Globalization;
+using System.Text.Encodings.Web;
+using System.Text.Json;
+
+namespace LaneBaseline.Core.Metrics;
+
+/// <summary>Bootstrap results for a run: per-system intervals and paired differences.</summary>
+public sealed class BootstrapResult
+{
+    /// <summary>Resamples drawn.</summary>
+    public int Resamples { get; init; }
+
+    /// <summary>Seed of the resampling.</summary>
+    public ulong Seed { get; init; }
+
+    /// <summary>Confidence level (0.95).</summary>
+    public double Level { get; init; } = 0.95;
+
+    /// <summary>Intervals per system and statistic: [system][statistic].</summary>
+    public required Interval[][] Intervals { get; init; }
+
+    /// <summary>Resampled statistic values: [system][statistic][b].</summary>
+    public required double[][][] Samples { get; init; }
+}
+
+/// <summary>Writes <c>score --json</c> output: stable keys of the score-json specification, plus documented extras.</summary>
+public static class ScoreJsonWriter
+{
+    private static readonly JsonWriterOptions Options = new()
+    {
+        Indented = true,
+        Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping,
+    };
+
+    /// <summary>Names of the bootstrap statistics as JSON keys.</summary>
+    public static string StatisticKey(BootstrapStatistic s) => s switch
+    {
+        BootstrapStatistic.F1 => "f1@0.50",
+        BootstrapStatistic.Precision => "precision@0.50",
+        BootstrapStatistic.Recall => "recall@0.50",
+        _ => "accuracy",
+    };
+
+    /// <summary>Writes the whole document to a stream.</summary>
+    public static void Write(
+        Stream stream,
+        IReadOnlyList<SystemScore> systems,
+        ScoreSettings settings,
+        BootstrapResult? bootstrap,
+        string truthPath)
+    {
+        ArgumentNullException.ThrowIfNull(systems);
+        ArgumentNullException.ThrowIfNull(settings);
+        using var json = new Utf8JsonWriter(stream, Options);
+        if (systems.Count == 1)
+        {
+            json.WriteStartObject();
+            WriteSystemBody(json, systems[0], 0, settings, bootstrap);
+            WriteSettings(json, systems, settings, bootstrap, truthPath);
+            json.WriteEndObject();
+            return;
+        }
+
+        json.WriteStartObject();
+        json.WriteStartObject("systems");
+        for (int s = 0; s < systems.Count; s++)
+        {
+            json.WriteStartObject(systems[s].System.Name);
+            WriteSystemBody(json, systems[s], s, settings, bootstrap);
+            json.WriteEndObject();
+        }
+
+        json.WriteEndObject();
+        json.WriteStartObject("paired");
+        for (int a = 0; a < systems.Count; a++)
+        {
+            for (int b = a + 1; b < systems.Count; b++)
+            {
+                json.WriteStartObject(PairKey(systems[a], systems[b]));
+                json.WriteString("a", systems[a].System.Name);
+                json.WriteString("b", systems[b].System.Name);
+                foreach (BootstrapStatistic stat in Enum.GetValues<BootstrapStatistic>())
+                {
+                    json.WriteStartObject(StatisticKey(stat));
+                    json.WritePropertyName("diff");
+                    WriteFloat(json, Statistic(systems[a].Overall, stat) - Statistic(systems[b].Overall, stat));
+                    if (bootstrap is not null && bootstrap.Resamples > 0)
+                    {
+                        Interval ci = PairedInterval(bootstrap, a, b, stat);
+                        json.WritePropertyName("ci95");
+                        WriteInterval(json, ci);
+                    }
+
+                    json.WriteEndObject();
+                }
+
+                json.WriteEndObject();
+            }
+        }
+
+        json.WriteEndObject();
+        WriteSettings(json, systems, settings, bootstrap, truthPath);
+        json.WriteEndObject();
+    }
+
+    /// <summary>The key of a paired comparison: "A - B".</summary>
+    public static string PairKey(SystemScore a, SystemScore b)
+    {
+        ArgumentNullException.ThrowIfNull(a);
+        ArgumentNullException.ThrowIfNull(b);
+        return a.System.Name + " - " + b.System.Name;
+    }
+
+    /// <summary>The interval of statistic(a) − statistic(b) over the joint resamples.</summary>
+    public static Interval PairedInterval(BootstrapResult bootstrap, int a, int b, BootstrapStatistic stat)
+    {
+        ArgumentNullException.ThrowIfNull(bootstrap);
+        double[] sa = bootstrap.Samples[a][(int)stat], sb = bootstrap.Samples[b][(int)stat];
+        var diff = new double[sa.Length];
+        for (int i = 0; i < diff.Length; i++)
+        {
+            diff[i] = sa[i] - sb[i];
+        }
+
+        return Bootstrap.Percentiles(diff, bootstrap.Level);
+    }
+
+    /// <summary>The full-sample value of a bootstrap statistic.</summary>
+    public static double Statistic(ScoreTally tally, BootstrapStatistic stat)
+    {
+        ArgumentNullException.ThrowIfNull(tally);
+        DetectionCounts c = tally.At(IouThreshold.Half);
+        return stat switch
+        {
+            BootstrapStatistic.F1 => c.F1,
+            BootstrapStatistic.Precision => c.Precision,
+            BootstrapStatistic.Recall => c.Recall,
+            _ => tally.PointAccuracy,
+        };
+    }
+
+    /// <summary>Formats a metric as a JSON float at full (round-trip) precision, always with a decimal point.</summary>
+    public static string FormatFloat(double value)
+    {
+        string s = value.ToString("R", CultureInfo.InvariantCulture);
+        return s.Contains('.', StringComparison.Ordinal) || s.Contains('E', StringComparison.Ordinal) ? s : s + ".0";
+    }
+
+    private static void WriteFloat(Utf8JsonWriter json, double value)
+    {
+        if (double.IsFinite(value))
+        {
+            json.WriteRawValue(FormatFloat(value), skipInputValidation: true);
+        }
+        else
+        {
+            json.WriteNullValue();
+        }
+    }
+
+    private static void WriteInterval(Utf8JsonWriter json, Interval ci)
+    {
+        json.WriteStartArray();
+        WriteFloat(json, ci.Low);
+        WriteFloat(json, ci.High);
+        json.WriteEndArray();
+    }
+
+    private static void WriteSystemBody(Utf8JsonWriter json, SystemScore system, int index, ScoreSettings settings, BootstrapResult? bootstrap)
+    {
+        WriteTally(json, system.Overall, settings, includeFrames: true);
+        if (bootstrap is not null && bootstrap.Resamples > 0)
+        {
+            json.WriteStartObject("intervals");
+            json.WriteString("method", "percentile bootstrap over frames");
+            json.WritePropertyName("level");
+            WriteFloat(json, bootstrap.Level);
+            json.WriteNumber("resamples", bootstrap.Resamples);
+            json.WriteNumber("seed", bootstrap.Seed);
+            foreach (BootstrapStatistic stat in Enum.GetValues<BootstrapStatistic>())
+            {
+                json.WritePropertyName(StatisticKey(stat));
+                WriteInterval(json, bootstrap.Intervals[index][(int)stat]);
+            }
+
+            json.WriteEndObject();
+        }
+
+        if (system.Overall.AnyConfidence)
+        {
+            json.WriteStartArray("confidence_sweep");
+            for (int k = 0; k < FrameScorer.ConfidenceCutoffs; k++)
+            {
+                DetectionCounts c = DetectionCounts.From(
+                    system.Overall.ConfidenceTruePositives[k], system.Overall.ConfidencePredLanes[k], system.Overall.TruthLanes);
+                json.WriteStartObject();
+                json.WritePropertyName("min_score");
+                WriteFloat(json, (double)(k * 0.05m));
+                WriteCounts(json, c);
+                json.WriteEndObject();
+            }
+
+            json.WriteEndArray();
+        }
+
+        json.WriteStartObject("by_tag");
+        foreach (KeyValuePair<string, ScoreTally> kv in system.ByTag)
+        {
+            json.WriteStartObject(kv.Key);
+            WriteTally(json, kv.Value, settings, includeFrames: true);
+            json.WriteEndObject();
+        }
+
+        json.WriteEndObject();
+    }
+
+    private static void WriteTally(Utf8JsonWriter json, ScoreTally tally, ScoreSettings settings, bool includeFrames)
+    {
+        if (includeFrames)
+        {
+            json.WriteNumber("frames", tally.Frames);
+        }
+
+        json.WriteNumber("truth_lanes", tally.TruthLanes);
+        json.WriteNumber("pred_lanes", tally.PredLanes);
+        json.WriteStartObject("iou_f1");
+        int? width = settings.LaneWidthPx ?? (tally.CommonWidth is int w ? settings.LaneWidthFor(w) : null);
+        if (width is int wp)
+        {
+            json.WriteNumber("width_px", wp);
+        }
+        else
+        {
+            json.WriteNull("width_px");
+        }
+
+        json.WriteStartObject("thresholds");
+        for (int k = 0; k < tally.Thresholds.Count; k++)
+        {
+            json.WriteStartObject(tally.Thresholds[k].Key);
+            WriteCounts(json, tally.At(k));
+            json.WriteEndObject();
+        }
+
+        json.WriteEndObject();
+        json.WritePropertyName("mf1");
+        WriteFloat(json, tally.MeanF1);
+        json.WriteEndObject();
+
+        json.WriteStartObject("point_accuracy");
+        double? tolerance = settings.TolerancePx ?? (tally.CommonWidth is int tw ? settings.ToleranceFor(tw) : null);
+        json.WritePropertyName("tolerance_px");
+        if (tolerance is double tol)
+        {
+            WriteFloat(json, tol);
+        }
+        else
+        {
+            json.WriteNullValue();
+        }
+
+        json.WritePropertyName("accuracy");
+        WriteFloat(json, tally.PointAccuracy);
+        json.WritePropertyName("fp_rate");
+        WriteFloat(json, tally.PointFpRate);
+        json.WritePropertyName("fn_rate");
+        WriteFloat(json, tally.PointFnRate);
+        json.WriteNumber("matched", tally.PointMatched);
+        json.WriteNumber("truth_lanes", tally.TruthLanes);
+        json.WriteNumber("pred_lanes", tally.PredLanes);
+        json.WriteEndObject();
+    }
+
+    private static void WriteCounts(Utf8JsonWriter json, DetectionCounts c)
+    {
+        json.WriteNumber("tp", c.TruePositives);
+        json.WriteNumber("fp", c.FalsePositives);
+        json.WriteNumber("fn", c.FalseNegatives);
+        json.WritePropertyName("precision");
+        WriteFloat(json, c.Precision);
+        json.WritePropertyName("recall");
+        WriteFloat(json, c.Recall);
+        json.WritePropertyName("f1");
+        WriteFloat(json, c.F1);
+    }
+
+    private static void WriteSettings(Utf8JsonWriter json, IReadOnlyList<SystemScore> systems, ScoreSettings settings, BootstrapResult? bootstrap, string truthPath)
+    {
+        json.WriteStartObject("settings");
+        json.WriteString("truth", truthPath);
+        json.WriteStartObject("predictions");
+        foreach (SystemScore s in systems)
+        {
+            json.WriteString(s.System.Name, s.System.Path);
+        }
+
+        json.WriteEndObject();
+        if (settings.LaneWidthPx is int lw)
+        {
+            json.WriteNumber("lane_width_px", lw);
+        }
+        else
+        {
+            json.WriteNull("lane_width_px");
+        }
+
+        json.WritePropertyName("tolerance_px");
+        if (settings.TolerancePx is double t)
+        {
+            WriteFloat(json, t);
+        }
+        else
+        {
+            json.WriteNullValue();
+        }
+
+        json.WriteStartArray("iou_thresholds");
+        foreach (IouThreshold th in settings.Thresholds)
+        {
+            json.WriteStringValue(th.Key);
+        }
+
+        json.WriteEndArray();
+        json.WriteNumber("bootstrap_resamples", bootstrap?.Resamples ?? 0);
+        json.WriteNumber("seed", bootstrap?.Seed ?? 0);
+        json.WriteEndObject();
+    }
+}

@@ -1,0 +1,288 @@
+using System.Globalization;
+using LaneBaseline.Core.LaneFiles;
+
+namespace LaneBaseline.Core.Metrics;
+
+/// <summary>A prediction source to score: a display name and a lane file.</summary>
+/// <param name="Name">Name used in tables, JSON and CSV.</param>
+/// <param name="Path">Lane file path as the user gave it.</param>
+public sealed record ScoredSystem(string Name, string Path);
+
+/// <summary>What one system scored: overall, per tag, and the per-frame series for the bootstrap.</summary>
+public sealed class SystemScore
+{
+    internal SystemScore(ScoredSystem system, IReadOnlyList<IouThreshold> thresholds)
+    {
+        System = system;
+        Overall = new ScoreTally(thresholds);
+    }
+
+    /// <summary>The system.</summary>
+    public ScoredSystem System { get; }
+
+    /// <summary>All frames.</summary>
+    public ScoreTally Overall { get; }
+
+    /// <summary>Frames by truth tag, in ordinal key order.</summary>
+    public SortedDictionary<string, ScoreTally> ByTag { get; } = new(StringComparer.Ordinal);
+
+    /// <summary>Per-frame statistics in truth order.</summary>
+    public BootstrapSeries Series { get; } = new();
+}
+
+/// <summary>
+/// Scores one or several prediction files against a truth file, streaming frame by frame. A first pass validates
+/// every file completely (so bad input is reported before any output is written) and keeps only frame keys; the
+/// second pass joins predictions to truth in truth order, buffering only records that arrive out of order.
+/// </summary>
+public sealed class ScoreRun
+{
+    private const int BatchSize = 256;
+    private readonly string truthPath;
+    private readonly IReadOnlyList<ScoredSystem> systems;
+    private readonly ScoreSettings settings;
+
+    /// <summary>Creates a run.</summary>
+    public ScoreRun(string truthPath, IReadOnlyList<ScoredSystem> systems, ScoreSettings settings)
+    {
+        this.truthPath = truthPath;
+        this.systems = systems;
+        this.settings = settings;
+    }
+
+    /// <summary>Worker threads for per-frame scoring (results do not depend on it).</summary>
+    public int Threads { get; init; } = 1;
+
+    /// <summary>Called after each frame, in truth order, with that frame's score for every system.</summary>
+    public Action<IReadOnlyList<FrameScore>>? OnFrame { get; init; }
+
+    /// <summary>Called with a progress line now and then.</summary>
+    public Action<long, long>? OnProgress { get; init; }
+
+    /// <summary>Runs the scoring.</summary>
+    /// <param name="rasterizerFactory">Creates one rasterizer per worker; disposed at the end when disposable.</param>
+    /// <param name="cancellationToken">Stops between batches.</param>
+    public IReadOnlyList<SystemScore> Execute(Func<ILaneRasterizer> rasterizerFactory, CancellationToken cancellationToken = default)
+    {
+        ArgumentNullException.ThrowIfNull(rasterizerFactory);
+
+        // Pass 1: validate everything, keep keys and sizes only.
+        var truthIndex = new Dictionary<string, int>(StringComparer.Ordinal);
+        var sizes = new List<(int W, int H)>();
+        using (LaneFileReader truth = LaneFileReader.Open(truthPath, sizeRequired: true))
+        {
+            while (truth.TryRead(out LaneRecord r))
+            {
+                truthIndex.Add(r.Frame, sizes.Count);
+                sizes.Add((r.Width!.Value, r.Height!.Value));
+            }
+        }
+
+        if (truthIndex.Count == 0)
+        {
+            throw BadInputException.At(truthPath, 0, null, "the truth file holds no records");
+        }
+
+        var predicted = new HashSet<int>[systems.Count];
+        for (int s = 0; s < systems.Count; s++)
+        {
+            predicted[s] = ValidatePredictions(systems[s].Path, truthIndex, sizes);
+        }
+
+        // Pass 2: score.
+        IouThreshold[] thresholds = [.. settings.Thresholds];
+        int halfIndex = Array.IndexOf(thresholds, IouThreshold.Half);
+        var results = systems.Select(s => new SystemScore(s, thresholds)).ToArray();
+        int workers = Math.Max(1, Threads);
+        var rasterizers = new ILaneRasterizer[workers];
+        var scorers = new FrameScorer[workers];
+        var readers = new List<LaneFileReader>();
+        try
+        {
+            for (int w = 0; w < workers; w++)
+            {
+                rasterizers[w] = rasterizerFactory();
+                scorers[w] = new FrameScorer(rasterizers[w], settings);
+            }
+
+            using LaneFileReader truth = LaneFileReader.Open(truthPath, sizeRequired: true);
+            var joiners = new PredictionJoiner[systems.Count];
+            for (int s = 0; s < systems.Count; s++)
+            {
+                LaneFileReader r = LaneFileReader.Open(systems[s].Path, sizeRequired: false);
+                readers.Add(r);
+                joiners[s] = new PredictionJoiner(r, truthIndex, predicted[s]);
+            }
+
+            var batch = new List<(LaneRecord Truth, LaneRecord?[] Preds)>(BatchSize);
+            var scored = new FrameScore[BatchSize][];
+            long done = 0;
+            int ordinal = 0;
+            while (truth.TryRead(out LaneRecord t))
+            {
+                var preds = new LaneRecord?[systems.Count];
+                for (int s = 0; s < systems.Count; s++)
+                {
+                    preds[s] = joiners[s].Take(ordinal);
+                }
+
+                ordinal++;
+                batch.Add((t, preds));
+                if (batch.Count == BatchSize)
+                {
+                    done += Flush(batch, scored, scorers, results, halfIndex, cancellationToken);
+                    OnProgress?.Invoke(done, truthIndex.Count);
+                }
+            }
+
+            done += Flush(batch, scored, scorers, results, halfIndex, cancellationToken);
+            OnProgress?.Invoke(done, truthIndex.Count);
+        }
+        finally
+        {
+            foreach (LaneFileReader r in readers)
+            {
+                r.Dispose();
+            }
+
+            foreach (ILaneRasterizer r in rasterizers)
+            {
+                (r as IDisposable)?.Dispose();
+            }
+        }
+
+        return results;
+    }
+
+    private int Flush(
+        List<(LaneRecord Truth, LaneRecord?[] Preds)> batch,
+        FrameScore[][] scored,
+        FrameScorer[] scorers,
+        SystemScore[] results,
+        int halfIndex,
+        CancellationToken cancellationToken)
+    {
+        cancellationToken.ThrowIfCancellationRequested();
+        int n = batch.Count;
+        int workers = Math.Min(scorers.Length, Math.Max(1, n));
+        void Work(int w)
+        {
+            int from = w * n / workers, to = (w + 1) * n / workers;
+            for (int i = from; i < to; i++)
+            {
+                var row = new FrameScore[results.Length];
+                for (int s = 0; s < results.Length; s++)
+                {
+                    row[s] = scorers[w].Score(batch[i].Truth, batch[i].Preds[s]);
+                }
+
+                scored[i] = row;
+            }
+        }
+
+        if (workers == 1)
+        {
+            Work(0);
+        }
+        else
+        {
+            Parallel.For(0, workers, new ParallelOptions { MaxDegreeOfParallelism = workers }, Work);
+        }
+
+        for (int i = 0; i < n; i++)
+        {
+            FrameScore[] row = scored[i];
+            for (int s = 0; s < results.Length; s++)
+            {
+                FrameScore f = row[s];
+                results[s].Overall.Add(f);
+                results[s].Series.Add(f, halfIndex);
+                foreach (string tag in f.Tags.Distinct(StringComparer.Ordinal))
+                {
+                    if (!results[s].ByTag.TryGetValue(tag, out ScoreTally? tally))
+                    {
+                        tally = new ScoreTally(results[s].Overall.Thresholds);
+                        results[s].ByTag.Add(tag, tally);
+                    }
+
+                    tally.Add(f);
+                }
+            }
+
+            OnFrame?.Invoke(row);
+        }
+
+        batch.Clear();
+        return n;
+    }
+
+    private static HashSet<int> ValidatePredictions(string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes)
+    {
+        var present = new HashSet<int>();
+        using LaneFileReader reader = LaneFileReader.Open(path, sizeRequired: false);
+        while (reader.TryRead(out LaneRecord r))
+        {
+            if (!truthIndex.TryGetValue(r.Frame, out int ordinal))
+            {
+                throw BadInputException.At(path, r.LineNumber, "frame", $"frame '{r.Frame}' is not in the truth file");
+            }
+
+            (int w, int h) = sizes[ordinal];
+            if (r.Width is int pw && pw != w)
+            {
+                throw BadInputException.At(path, r.LineNumber, "width", string.Create(CultureInfo.InvariantCulture, $"prediction width {pw} differs from the truth's {w} for frame '{r.Frame}'"));
+            }
+
+            if (r.Height is int ph && ph != h)
+            {
+                throw BadInputException.At(path, r.LineNumber, "height", string.Create(CultureInfo.InvariantCulture, $"prediction height {ph} differs from the truth's {h} for frame '{r.Frame}'"));
+            }
+
+            if (r.Width is null || r.Height is null)
+            {
+                r.ValidatePointRange(path, w, h);
+            }
+
+            present.Add(ordinal);
+        }
+
+        if (reader.RecordCount == 0)
+        {
+            throw BadInputException.At(path, 0, null, "the prediction file holds no records");
+        }
+
+        return present;
+    }
+
+    /// <summary>Joins a prediction file to truth order, buffering only out-of-order records.</summary>
+    private sealed class PredictionJoiner(LaneFileReader reader, Dictionary<string, int> truthIndex, HashSet<int> present)
+    {
+        private readonly Dictionary<int, LaneRecord> pending = [];
+
+        public LaneRecord? Take(int ordinal)
+        {
+            if (!present.Contains(ordinal))
+            {
+                return null;
+            }
+
+            if (pending.Remove(ordinal, out LaneRecord? found))
+            {
+                return found;
+            }
+
+            while (reader.TryRead(out LaneRecord r))
+            {
+                int o = truthIndex[r.Frame];
+                if (o == ordinal)
+                {
+                    return r;
+                }
+
+                pending.Add(o, r);
+            }
+
+            throw new InvalidOperationException($"{reader.DisplayName} changed while it was read");
+        }
+    }
+}

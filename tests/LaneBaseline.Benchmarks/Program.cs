@@ -1,0 +1,9 @@
+using BenchmarkDotNet.Running;
+
+namespace LaneBaseline.Benchmarks;
+
+/// <summary>Micro-benchmarks (BenchmarkDotNet); not run by dotnet test. Run: dotnet run -c Release --project tests/LaneBaseline.Benchmarks.</summary>
+internal static class Program
+{
+    private static void Main(string[] args) => BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+}
