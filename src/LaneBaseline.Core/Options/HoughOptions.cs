@@ -24,6 +24,12 @@ public sealed record HoughOptions
     /// <summary>Largest segment angle from the horizontal, in degrees (0–90). Default 88.</summary>
     public double MaxAngleDeg { get; init; } = 88;
 
+    /// <summary>
+    /// Canny and Hough run on the search band resized by this factor (0.25–1; 0.5 = half resolution, a quarter of
+    /// the pixels); the pixel values above stay in full-frame pixels and are scaled with it. Default 0.5.
+    /// </summary>
+    public double ImageScale { get; init; } = 0.5;
+
     /// <summary>Longest segments kept for the vanishing-point search (4–500). Default 60.</summary>
     public int MaxSegments { get; init; } = 60;
 
@@ -38,5 +44,6 @@ public sealed record HoughOptions
         OptionsChecks.Range(f, "hough.maxAngleDeg", MaxAngleDeg, 0, 90);
         OptionsChecks.Less(f, "hough.minAngleDeg", MinAngleDeg, "hough.maxAngleDeg", MaxAngleDeg);
         OptionsChecks.Range(f, "hough.maxSegments", MaxSegments, 4, 500);
+        OptionsChecks.Range(f, "hough.imageScale", ImageScale, 0.25, 1);
     }
 }

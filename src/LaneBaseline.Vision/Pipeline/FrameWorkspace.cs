@@ -22,11 +22,12 @@ public sealed class FrameWorkspace : IDisposable
     private readonly Mat gray = new Mat();
     private readonly Mat blurred = new Mat();
     private readonly Mat edges = new Mat();
+    private readonly Mat small = new Mat();
     private readonly Mat evidence = new Mat();
     private readonly Mat birdsEye = new Mat();
     private readonly Mat homographyMat = new Mat(3, 3, MatType.CV_64FC1, Scalar.All(0));
 
-    internal FrameWorkspace(int width, int height, int birdsEyeWidth, int birdsEyeHeight, int bandTop, int maxSegments)
+    internal FrameWorkspace(int width, int height, int birdsEyeWidth, int birdsEyeHeight, int bandTop, int maxSegments, double edgeScale)
     {
         Width = width;
         Height = height;
@@ -35,12 +36,13 @@ public sealed class FrameWorkspace : IDisposable
         BandTop = bandTop;
         gray.Create(height, width, MatType.CV_8UC1);
         blurred.Create(height - bandTop, width, MatType.CV_8UC1);
-        edges.Create(height - bandTop, width, MatType.CV_8UC1);
+        EdgeScale = edgeScale;
+        EdgeSize = new Size(Math.Max(8, (int)Math.Round(width * edgeScale)), Math.Max(8, (int)Math.Round((height - bandTop) * edgeScale)));
+        small.Create(EdgeSize, MatType.CV_8UC1);
+        edges.Create(EdgeSize, MatType.CV_8UC1);
         evidence.Create(height, width, MatType.CV_8UC1);
         birdsEye.Create(birdsEyeHeight, birdsEyeWidth, MatType.CV_8UC1);
         Segments = new HoughSegment[Math.Max(maxSegments, 4)];
-        Lightness = new int[width];
-        Yellowness = new int[width];
         Prefix = new int[width + 1];
         ColumnMass = new double[birdsEyeWidth];
         Smoothed = new double[birdsEyeWidth];
@@ -96,7 +98,16 @@ public sealed class FrameWorkspace : IDisposable
     /// <summary>Blurred grey band (rows <see cref="BandTop"/> and below).</summary>
     public Mat Blurred => blurred;
 
-    /// <summary>Canny edges of the band.</summary>
+    /// <summary>Scale of <see cref="Edges"/> relative to the frame (hough.imageScale).</summary>
+    public double EdgeScale { get; }
+
+    /// <summary>Size of <see cref="Edges"/> in pixels.</summary>
+    public Size EdgeSize { get; }
+
+    /// <summary>The blurred band resized to <see cref="EdgeSize"/>.</summary>
+    internal Mat SmallBand => small;
+
+    /// <summary>Canny edges of the band at <see cref="EdgeScale"/>.</summary>
     public Mat Edges => edges;
 
     /// <summary>Binary marking evidence (0 none, 255 strongest) in image pixels.</summary>
@@ -137,10 +148,6 @@ public sealed class FrameWorkspace : IDisposable
     internal double RoadSpread { get; set; }
 
     internal int[] Histogram { get; } = new int[256];
-
-    internal int[] Lightness { get; }
-
-    internal int[] Yellowness { get; }
 
     internal int[] Prefix { get; }
 
@@ -185,7 +192,7 @@ public sealed class FrameWorkspace : IDisposable
     public int LaneCount { get; internal set; }
 
     /// <summary>Every Mat the workspace owns (for ownership tests).</summary>
-    internal IReadOnlyList<Mat> OwnedBuffers => [gray, blurred, edges, evidence, birdsEye, homographyMat];
+    internal IReadOnlyList<Mat> OwnedBuffers => [gray, blurred, small, edges, evidence, birdsEye, homographyMat];
 
     /// <summary>The detected lane <paramref name="index"/> (loan until the next frame).</summary>
     public LaneEstimate GetLane(int index) => Lanes[index];
@@ -199,6 +206,7 @@ public sealed class FrameWorkspace : IDisposable
         gray.Dispose();
         blurred.Dispose();
         edges.Dispose();
+        small.Dispose();
         evidence.Dispose();
         birdsEye.Dispose();
         homographyMat.Dispose();

@@ -89,7 +89,7 @@ public sealed class LanePipeline : IDisposable
         DisposeStages();
         workspace?.Dispose();
         int bandTop = Math.Clamp((int)Math.Round(options.Region.SearchTopFraction * height), 0, height - 2);
-        workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments);
+        workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale);
         stages.Add(new GradientStage(options.Gradient));
         stages.Add(new HoughStage(options.Hough));
         stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled));

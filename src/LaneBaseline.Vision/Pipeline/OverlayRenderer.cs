@@ -96,8 +96,10 @@ public static class OverlayRenderer
             Draw(ws, overlay);
             using var edges = new Mat(ws.Height, ws.Width, MatType.CV_8UC3, Scalar.All(0));
             using (var band = new Mat(edges, new Rect(0, ws.BandTop, ws.Width, ws.Height - ws.BandTop)))
+            using (var big = new Mat())
             {
-                Cv2.CvtColor(ws.Edges, band, ColorConversionCodes.GRAY2BGR);
+                Cv2.Resize(ws.Edges, big, band.Size(), 0, 0, InterpolationFlags.Nearest);
+                Cv2.CvtColor(big, band, ColorConversionCodes.GRAY2BGR);
             }
 
             for (int i = 0; i < ws.SegmentCount; i++)

@@ -87,8 +87,6 @@ public sealed class ColorThresholdStage : IFrameStage
         double yellowC = color.YellowMinChroma;
         double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * spread);
         double widthBottom = gradient.MarkingWidthFraction * w;
-        int[] lum = workspace.Lightness;
-        int[] yel = workspace.Yellowness;
         int[] pre = workspace.Prefix;
 
         for (int y = top; y < h; y++)
@@ -106,35 +104,35 @@ public sealed class ColorThresholdStage : IFrameStage
             int d = Math.Max(2, (int)Math.Round(widthBottom * scale));
             int c = Math.Max(1, d / 4);
 
-            // Lightness and yellowness of the row span widened by the ridge reach, and prefix sums of the blurred grey.
+            // Prefix sums of the blurred grey over the row span widened by the ridge reach.
             int a0 = Math.Max(0, x0 - (2 * d)), a1 = Math.Min(w - 1, x1 + (2 * d));
             pre[a0] = 0;
             for (int x = a0; x <= a1; x++)
             {
-                byte* p = row + (3 * x);
-                int b = p[0], g = p[1], r = p[2];
-                int mx = Math.Max(b, Math.Max(g, r)), mn = Math.Min(b, Math.Min(g, r));
-                int l = (mx + mn) >> 1;
-                lum[x] = l;
-                yel[x] = Math.Min(r, g) - b;
                 pre[x + 1] = pre[x] + smooth[x];
             }
 
-            for (int x = x0; x <= x1; x++)
+            // Ridge in integers: centreMean - sideMean >= thr  <=>  centreSum*ns - sideSum*nc >= thr*nc*ns.
+            int nc = (2 * c) + 1, ns = d + 1;
+            long thrScaled = (long)Math.Ceiling(ridgeThr * nc * ns);
+            int xs = Math.Max(x0, a0 + (2 * d)), xe = Math.Min(x1, a1 - (2 * d));
+            for (int x = xs; x <= xe; x++)
             {
-                int l = lum[x];
-                bool white = l >= whiteThr;
-                bool yellow = yel[x] >= yellowC && l >= yellowL;
-                bool ridge = false;
-                int ll = x - (2 * d), lr = x - d, rl = x + d, rr = x + (2 * d);
-                if (ll >= a0 && rr <= a1)
+                long centre = (long)(pre[x + c + 1] - pre[x - c]) * ns;
+                long left = (long)(pre[x - d + 1] - pre[x - (2 * d)]) * nc;
+                long right = (long)(pre[x + (2 * d) + 1] - pre[x + d]) * nc;
+                byte* p = row + (3 * x);
+                int b = p[0], g = p[1], r = p[2];
+                bool yellowish = Math.Min(r, g) - b >= yellowC;
+                bool ridge = centre - left >= thrScaled && centre - right >= thrScaled;
+                if (!ridge && !yellowish)
                 {
-                    double centre = (double)(pre[Math.Min(a1, x + c) + 1] - pre[Math.Max(a0, x - c)]) / ((Math.Min(a1, x + c) - Math.Max(a0, x - c)) + 1);
-                    double left = (double)(pre[lr + 1] - pre[ll]) / (lr - ll + 1);
-                    double right = (double)(pre[rr + 1] - pre[rl]) / (rr - rl + 1);
-                    ridge = centre - left >= ridgeThr && centre - right >= ridgeThr;
+                    continue;
                 }
 
+                int l = (Math.Max(b, Math.Max(g, r)) + Math.Min(b, Math.Min(g, r))) >> 1;
+                bool white = l >= whiteThr;
+                bool yellow = yellowish && l >= yellowL;
                 ev[x] = ridge ? (white || yellow ? (byte)255 : (byte)160) : (yellow ? (byte)100 : (byte)0);
             }
         }

@@ -9,7 +9,9 @@ namespace LaneBaseline.Vision.Stages;
 /// Steps: (1) grey = 0.299 R + 0.587 G + 0.114 B of the whole frame; (2) Gaussian blur of the band with a
 /// <see cref="GradientOptions.BlurKernelPx"/> kernel; (3) Canny with lower threshold
 /// <see cref="GradientOptions.CannyLowThreshold"/> and upper threshold lower × <see cref="GradientOptions.CannyHysteresisRatio"/>,
-/// 3×3 Sobel, L1 gradient norm. Output: <see cref="FrameWorkspace.Edges"/> (band rows only). Pixel (x, y), y down.
+/// 3×3 Sobel, L1 gradient norm, on the band resized by hough.imageScale (area averaging). Output:
+/// <see cref="FrameWorkspace.Edges"/> (band rows only, at that scale) and the full-resolution blurred band used by the
+/// ridge gate. Pixel (x, y), y down.
 /// <para>References: [1] J. Canny, "A Computational Approach to Edge Detection", IEEE Trans. PAMI 8(6):679–698, 1986,
 /// DOI 10.1109/TPAMI.1986.4767851.</para>
 /// </remarks>
@@ -42,7 +44,14 @@ public sealed class GradientStage : IFrameStage
             band.CopyTo(workspace.Blurred);
         }
 
-        Cv2.Canny(workspace.Blurred, workspace.Edges, options.CannyLowThreshold, options.CannyLowThreshold * options.CannyHysteresisRatio);
+        Mat source = workspace.Blurred;
+        if (workspace.EdgeScale < 1)
+        {
+            Cv2.Resize(workspace.Blurred, workspace.SmallBand, workspace.EdgeSize, 0, 0, InterpolationFlags.Area);
+            source = workspace.SmallBand;
+        }
+
+        Cv2.Canny(source, workspace.Edges, options.CannyLowThreshold, options.CannyLowThreshold * options.CannyHysteresisRatio);
     }
 
     /// <inheritdoc />

@@ -10,7 +10,8 @@ namespace LaneBaseline.Vision.Stages;
 /// θ step <see cref="HoughOptions.ThetaStepDeg"/>, <see cref="HoughOptions.Votes"/>, minimum length and maximum gap;
 /// (2) keep segments whose angle from the horizontal lies in [<see cref="HoughOptions.MinAngleDeg"/>,
 /// <see cref="HoughOptions.MaxAngleDeg"/>] (lane boundaries recede towards the horizon; horizontal clutter does not);
-/// (3) keep the <see cref="HoughOptions.MaxSegments"/> longest, in image pixels (x, y down), longest first.
+/// (3) keep the <see cref="HoughOptions.MaxSegments"/> longest, in full-frame image pixels (x, y down), longest first.
+/// The transform runs at <see cref="HoughOptions.ImageScale"/>; votes and lengths are scaled with it.
 /// Lines are parameterised as ρ = x cos θ + y sin θ (Duda and Hart 1972).
 /// <para>References: [1] J. Matas, C. Galambos, J. Kittler, "Robust Detection of Lines Using the Progressive
 /// Probabilistic Hough Transform", Computer Vision and Image Understanding 78(1):119–137, 2000,
@@ -38,8 +39,14 @@ public sealed class HoughStage : IFrameStage
     public void Process(FrameWorkspace workspace)
     {
         ArgumentNullException.ThrowIfNull(workspace);
+        double k = workspace.EdgeScale;
         LineSegmentPoint[] lines = Cv2.HoughLinesP(
-            workspace.Edges, options.RhoPx, options.ThetaStepDeg * Math.PI / 180, options.Votes, options.MinLineLengthPx, options.MaxLineGapPx);
+            workspace.Edges,
+            options.RhoPx,
+            options.ThetaStepDeg * Math.PI / 180,
+            Math.Max(1, (int)Math.Round(options.Votes * k)),
+            options.MinLineLengthPx * k,
+            options.MaxLineGapPx * k);
         HoughSegment[] kept = workspace.Segments;
         int count = 0;
         int top = workspace.BandTop;
@@ -52,8 +59,8 @@ public sealed class HoughStage : IFrameStage
                 continue;
             }
 
-            double length = Math.Sqrt((dx * dx) + (dy * dy));
-            var segment = new HoughSegment(l.P1.X, l.P1.Y + top, l.P2.X, l.P2.Y + top, length);
+            double length = Math.Sqrt((dx * dx) + (dy * dy)) / k;
+            var segment = new HoughSegment(l.P1.X / k, (l.P1.Y / k) + top, l.P2.X / k, (l.P2.Y / k) + top, length);
 
             // Insertion into the fixed-size array, longest first (no allocation, small n).
             int pos = count < kept.Length ? count : kept.Length - 1;
