@@ -15,11 +15,18 @@ public sealed record FitOptions
     /// <summary>Vertical spacing of the output points, in image pixels (1–200). Default 20.</summary>
     public int PointSpacingPx { get; init; } = 20;
 
+    /// <summary>Whether each lane is drawn up to the far edge of the warped area (true) or only to its farthest window with evidence (false). Default true.</summary>
+    public bool ExtendToFarEdge { get; init; } = true;
+
+    /// <summary>Share of the rows between a lane's far end and the horizon over which it is continued along its image tangent (0–0.95; 0 = off). Default 0.75.</summary>
+    public double HorizonExtensionFraction { get; init; } = 0.75;
+
     internal void Validate(List<OptionsFinding> f)
     {
         OptionsChecks.Range(f, "fit.inlierTolerancePx", InlierTolerancePx, 0.5, 100);
         OptionsChecks.Range(f, "fit.minInlierWindows", MinInlierWindows, 3, 64);
         OptionsChecks.Range(f, "fit.maxCurvature", MaxCurvature, 0, 1);
         OptionsChecks.Range(f, "fit.pointSpacingPx", PointSpacingPx, 1, 200);
+        OptionsChecks.Range(f, "fit.horizonExtensionFraction", HorizonExtensionFraction, 0, 0.95);
     }
 }

@@ -28,8 +28,10 @@ namespace LaneBaseline.Vision.Stages;
 /// (6) slots: the nearest boundary left and right of the vehicle centre are −1 and +1 when their spacing is a
 /// plausible lane width; the next boundaries out are −2 and +2 when their spacing matches the ego lane within
 /// <see cref="SearchOptions.WidthTolerance"/>; (7) each lane is sampled every <see cref="FitOptions.PointSpacingPx"/>
-/// image rows from the bottom row up to its farthest supported window and mapped back with the inverse homography;
-/// points outside the frame are dropped (the longest run inside is kept).
+/// image rows from the bottom row up to its farthest supported window (or the far edge of the warped area, see
+/// <see cref="FitOptions.ExtendToFarEdge"/>) and mapped back with the inverse homography; points outside the frame are
+/// dropped (the longest run inside is kept); (8) the far end is continued along its image tangent towards the horizon
+/// over <see cref="FitOptions.HorizonExtensionFraction"/> of the remaining rows.
 /// <para>References: [1] M. A. Fischler, R. C. Bolles, "Random Sample Consensus: A Paradigm for Model Fitting with
 /// Applications to Image Analysis and Automated Cartography", Communications of the ACM 24(6):381–395, 1981,
 /// DOI 10.1145/358669.358692. [2] J. Matas, C. Galambos, J. Kittler, CVIU 78(1):119–137, 2000 (Hough seeds).</para>
@@ -585,7 +587,7 @@ public sealed class SlidingWindowFitStage : IFrameStage
 
         LaneEstimate e = ws.CandidateFits[candidate];
         int lane = ws.LaneCount;
-        int points = Sample(ws, e.Fit, ws.CandidateTopY[candidate], ws.LanePoints[lane]);
+        int points = Sample(ws, e.Fit, fit.ExtendToFarEdge ? 0 : ws.CandidateTopY[candidate], ws.LanePoints[lane]);
         if (points < 2)
         {
             return;
@@ -641,12 +643,57 @@ public sealed class SlidingWindowFitStage : IFrameStage
             }
         }
 
+        bool runReachesTop = bestLen >= 2 && bestStart + bestLen == total && runLen == bestLen;
         if (bestStart > 0)
         {
             Array.Copy(dst, 2 * bestStart, dst, 0, 2 * bestLen);
         }
 
+        if (runReachesTop && fit.HorizonExtensionFraction > 0)
+        {
+            bestLen = ExtendTowardsHorizon(ws, dst, bestLen);
+        }
+
         return bestLen;
+    }
+
+    /// <summary>
+    /// Continues the polyline beyond the warped area along its image tangent, over
+    /// <see cref="FitOptions.HorizonExtensionFraction"/> of the rows left between its far end and the horizon (far away
+    /// a road line is nearly straight in the image and its remaining pixel length is short).
+    /// </summary>
+    private int ExtendTowardsHorizon(FrameWorkspace ws, double[] dst, int count)
+    {
+        int capacity = dst.Length / 2;
+        double x1 = dst[2 * (count - 1)], y1 = dst[(2 * count) - 1];
+        double x0 = dst[2 * (count - 2)], y0 = dst[(2 * count) - 3];
+        double slope = (x1 - x0) / (y1 - y0);
+        double stop = ws.VanishingY + ((1 - fit.HorizonExtensionFraction) * (y1 - ws.VanishingY));
+        if (stop >= y1 - 1)
+        {
+            return count;
+        }
+
+        double spacing = fit.PointSpacingPx;
+        for (double y = y1 - spacing; count < capacity; y -= spacing)
+        {
+            double yy = Math.Max(y, stop);
+            double x = x1 + (slope * (yy - y1));
+            if (x < 0 || x > ws.Width - 1 || yy < 0)
+            {
+                break;
+            }
+
+            dst[2 * count] = x;
+            dst[(2 * count) + 1] = yy;
+            count++;
+            if (yy <= stop)
+            {
+                break;
+            }
+        }
+
+        return count;
     }
 
     /// <inheritdoc />

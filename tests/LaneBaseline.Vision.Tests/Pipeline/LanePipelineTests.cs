@@ -75,9 +75,9 @@ public sealed class LanePipelineTests
         using var pipeline = new LanePipeline(new PipelineOptions());
         FrameResult result = pipeline.Process(frame, 0);
 
-        // Tolerance: 8 px at 640 px width is about a third of the metric's 20 px-at-1280 point tolerance scaled
-        // to this width (10 px) minus the marking's own half width near the bottom (common practice).
-        AssertLanesFollowTruth(road, pipeline.Workspace!, [-1, 1], 8);
+        // Tolerance: the point metric's 20 px at 1280 px width scaled to this width, 10 px
+        // (Source: shared/spec/metrics.md, row-sampled point accuracy, step 2).
+        AssertLanesFollowTruth(road, pipeline.Workspace!, [-1, 1], 10);
         Assert.Equal(VanishingSource.Estimated, result.VanishingSource);
     }
 
@@ -88,7 +88,7 @@ public sealed class LanePipelineTests
         using Mat frame = road.Render();
         using var pipeline = new LanePipeline(new PipelineOptions());
         FrameResult result = pipeline.Process(frame, 0);
-        AssertLanesFollowTruth(road, pipeline.Workspace!, [-2, -1, 1, 2], 8);
+        AssertLanesFollowTruth(road, pipeline.Workspace!, [-2, -1, 1, 2], 10);
 
         // Vanishing point of lines parallel to the optical axis' ground track: (cx, cy - f tan θ)
         // (pinhole geometry, Hartley & Zisserman Sec. 8.6); allow 1 % of the width.
