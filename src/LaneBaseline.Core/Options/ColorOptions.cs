@@ -25,6 +25,9 @@ public sealed record ColorOptions
     /// <summary>Pixel stride of the road-statistics sample, in pixels (1–16). Default 4.</summary>
     public int StatisticsStridePx { get; init; } = 4;
 
+    /// <summary>Half width of the road-statistics wedge at the bottom row, as a fraction of the frame width (0.02–1). Default 0.25.</summary>
+    public double StatisticsHalfWidthFraction { get; init; } = 0.25;
+
     internal void Validate(List<OptionsFinding> f)
     {
         OptionsChecks.Range(f, "color.whiteMinContrast", WhiteMinContrast, 0, 255);
@@ -33,5 +36,6 @@ public sealed record ColorOptions
         OptionsChecks.Range(f, "color.yellowMinChroma", YellowMinChroma, 0, 255);
         OptionsChecks.Range(f, "color.yellowMinContrast", YellowMinContrast, 0, 255);
         OptionsChecks.Range(f, "color.statisticsStridePx", StatisticsStridePx, 1, 16);
+        OptionsChecks.Range(f, "color.statisticsHalfWidthFraction", StatisticsHalfWidthFraction, 0.02, 1);
     }
 }

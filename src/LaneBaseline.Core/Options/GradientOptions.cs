@@ -19,7 +19,7 @@ public sealed record GradientOptions
     /// <summary>Both steps of the ridge gate must rise by at least this many lightness units (0–255). Default 14.</summary>
     public double RidgeMinStep { get; init; } = 14;
 
-    /// <summary>Both ridge steps must also exceed this many road lightness spreads (dimensionless, 0–20). Default 2.</summary>
+    /// <summary>Both ridge steps must also exceed this many road texture sigmas (dimensionless, 0–20). Default 2.</summary>
     public double RidgeSpreadFactor { get; init; } = 2;
 
     /// <summary>Expected marking width at the bottom image row, as a fraction of the frame width (0.002–0.2). Default 0.025.</summary>

@@ -149,6 +149,8 @@ public sealed class FrameWorkspace : IDisposable
 
     internal int[] Histogram { get; } = new int[256];
 
+    internal int[] DiffHistogram { get; } = new int[256];
+
     internal int[] Prefix { get; }
 
     internal double[] ColumnMass { get; }

@@ -12,15 +12,18 @@ namespace LaneBaseline.Vision.Stages;
 /// Steps, one pass per image row below <see cref="FrameWorkspace.RoiTop"/> (and below the Hough search band's top)
 /// inside the region trapezoid:
 /// (1) road statistics: median and robust spread (interquartile range / 1.349) of the HLS lightness
-/// L = (max(R,G,B) + min(R,G,B)) / 2 sampled every <see cref="ColorOptions.StatisticsStridePx"/> pixels inside the
-/// trapezoid; (2) white: L ≥ max(<see cref="ColorOptions.WhiteMinLightness"/>, median +
+/// L = (max(R,G,B) + min(R,G,B)) / 2 sampled every <see cref="ColorOptions.StatisticsStridePx"/> pixels inside a wedge
+/// from the bottom centre (half width <see cref="ColorOptions.StatisticsHalfWidthFraction"/> × width) to the vanishing
+/// point, so verges and sky do not inflate the spread; (2) white: L ≥ max(<see cref="ColorOptions.WhiteMinLightness"/>, median +
 /// max(<see cref="ColorOptions.WhiteMinContrast"/>, <see cref="ColorOptions.WhiteSpreadFactor"/> × spread));
 /// yellow: min(R,G) − B ≥ <see cref="ColorOptions.YellowMinChroma"/> and L ≥ median + <see cref="ColorOptions.YellowMinContrast"/>;
 /// (3) ridge, on the Gaussian-blurred grey image of <see cref="GradientStage"/>: with d the expected marking width at
 /// the row (<see cref="GradientOptions.MarkingWidthFraction"/> × width at the bottom row, shrinking linearly towards
 /// the horizon, at least 2 px), the mean grey level over the centre must exceed the means over
 /// [x − 2d, x − d] and [x + d, x + 2d] by max(<see cref="GradientOptions.RidgeMinStep"/>,
-/// <see cref="GradientOptions.RidgeSpreadFactor"/> × spread) each: a rising step then a falling step in x (a Sobel-x
+/// <see cref="GradientOptions.RidgeSpreadFactor"/> × texture) each, where texture is the robust sigma of differences of
+/// blurred grey pixels <see cref="ColorOptions.StatisticsStridePx"/> apart in the road wedge (immune to the smooth
+/// brightness gradients of headlights and glare): a rising step then a falling step in x (a Sobel-x
 /// pair of opposite sign at the marking's scale), which rejects shadow edges, kerbs and bright areas wider than a
 /// marking; (4) evidence = 255 for ridge and paint colour, 160 for ridge alone, 100 for yellow without a ridge,
 /// 0 otherwise. Pixel (x, y), origin top-left, y down.
@@ -60,14 +63,20 @@ public sealed class ColorThresholdStage : IFrameStage
         long blurStep = workspace.Blurred.Step();
         long evStep = evidence.Step();
 
-        // (1) Road statistics inside the trapezoid.
+        // (1) Road statistics inside the road sample: a narrow wedge from the bottom centre towards the vanishing point.
         int[] hist = workspace.Histogram;
+        int[] diffHist = workspace.DiffHistogram;
         Array.Clear(hist);
+        Array.Clear(diffHist);
+        long diffs = 0;
         int stride = color.StatisticsStridePx;
         long total = 0;
+        double vx = workspace.VanishingX, halfBottom = color.StatisticsHalfWidthFraction * w;
         for (int y = top; y < h; y += stride)
         {
-            RowSpan(q, y, w, out int x0, out int x1);
+            double t = (y - vy) / (h - 1 - vy);
+            double xc = vx + ((((w - 1) / 2.0) - vx) * t);
+            int x0 = Math.Max(0, (int)(xc - (halfBottom * t))), x1 = Math.Min(w - 1, (int)(xc + (halfBottom * t)));
             byte* row = frameBase + (y * frameStep);
             for (int x = x0; x <= x1; x += stride)
             {
@@ -75,6 +84,12 @@ public sealed class ColorThresholdStage : IFrameStage
                 int mx = Math.Max(p[0], Math.Max(p[1], p[2])), mn = Math.Min(p[0], Math.Min(p[1], p[2]));
                 hist[(mx + mn) >> 1]++;
                 total++;
+                if (x + stride < w)
+                {
+                    byte* s = blurBase + ((y - workspace.BandTop) * blurStep);
+                    diffHist[Math.Abs(s[x + stride] - s[x])]++;
+                    diffs++;
+                }
             }
         }
 
@@ -85,7 +100,10 @@ public sealed class ColorThresholdStage : IFrameStage
         double whiteThr = Math.Max(color.WhiteMinLightness, median + Math.Max(color.WhiteMinContrast, color.WhiteSpreadFactor * spread));
         double yellowL = median + color.YellowMinContrast;
         double yellowC = color.YellowMinChroma;
-        double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * spread);
+        // Texture spread for the ridge: median absolute difference of blurred grey pixels a stride apart, as a
+        // Gaussian sigma (MAD x 1.4826, divided by sqrt 2 for a difference); smooth lighting gradients barely move it.
+        double texture = Math.Max(1.0, Percentile(diffHist, diffs, 0.5) * 1.4826 / Math.Sqrt(2));
+        double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * texture);
         double widthBottom = gradient.MarkingWidthFraction * w;
         int[] pre = workspace.Prefix;
 
