@@ -27,7 +27,8 @@ namespace LaneBaseline.Vision.Stages;
 /// (5) duplicates (mean separation below half <see cref="SearchOptions.MinSeparationPx"/>) keep the higher score;
 /// (6) slots: the nearest boundary left and right of the vehicle centre are −1 and +1 when their spacing is a
 /// plausible lane width; the next boundaries out are −2 and +2 when their spacing matches the ego lane within
-/// <see cref="SearchOptions.WidthTolerance"/>; (7) each lane is sampled every <see cref="FitOptions.PointSpacingPx"/>
+/// <see cref="SearchOptions.WidthTolerance"/>; every pair must also stay parallel (spacing at the far end of their
+/// common support within the same tolerance of the spacing at the bottom); (7) each lane is sampled every <see cref="FitOptions.PointSpacingPx"/>
 /// image rows from the bottom row up to its farthest supported window (or the far edge of the warped area, see
 /// <see cref="FitOptions.ExtendToFarEdge"/>) and mapped back with the inverse homography; points outside the frame are
 /// dropped (the longest run inside is kept); (8) the far end is continued along its image tangent towards the horizon
@@ -508,9 +509,9 @@ public sealed class SlidingWindowFitStage : IFrameStage
         if (l1 >= 0 && r1 >= 0)
         {
             double width = Xb(ws, r1) - Xb(ws, l1);
-            if (width < minW || width > maxW)
+            if (width < minW || width > maxW || !Parallel(ws, l1, r1))
             {
-                // Implausible ego lane: keep the stronger boundary only.
+                // Implausible ego lane (width, or boundaries not parallel on the ground): keep the stronger boundary only.
                 if (ws.CandidateFits[l1].Score >= ws.CandidateFits[r1].Score)
                 {
                     r1 = -1;
@@ -575,7 +576,20 @@ public sealed class SlidingWindowFitStage : IFrameStage
         bool plausible = double.IsNaN(egoWidth)
             ? width >= minW && width <= maxW
             : Math.Abs(width - egoWidth) <= search.WidthTolerance * egoWidth;
-        return plausible ? next : -1;
+        return plausible && Parallel(ws, from, next) ? next : -1;
+    }
+
+    /// <summary>
+    /// Whether two boundaries stay parallel on the ground: their bird's-eye spacing at the far end of their common
+    /// support differs from the spacing at the bottom row by at most <see cref="SearchOptions.WidthTolerance"/>.
+    /// </summary>
+    private bool Parallel(FrameWorkspace ws, int a, int b)
+    {
+        double yb = ws.BirdsEyeHeight - 1;
+        double top = Math.Max(ws.CandidateTopY[a], ws.CandidateTopY[b]);
+        double w0 = Math.Abs(ws.CandidateFits[a].Fit.At(yb) - ws.CandidateFits[b].Fit.At(yb));
+        double w1 = Math.Abs(ws.CandidateFits[a].Fit.At(top) - ws.CandidateFits[b].Fit.At(top));
+        return Math.Abs(w1 - w0) <= search.WidthTolerance * w0;
     }
 
     private void Emit(FrameWorkspace ws, int candidate, int slot, bool allowed)
