@@ -28,10 +28,11 @@ internal static class DetectCommand
         Option<bool> resume = new("--resume") { Description = "Keep the records already in the output file and process only the missing frames." };
         Option<bool> keepGoing = new("--keep-going") { Description = "Report a bad frame on stderr, skip it and continue; the skipped frames are listed at the end." };
         Option<int?> maxFrames = new("--max-frames") { Description = "Stop after N frames (after --shard)." };
+        Option<double> fps = new("--fps") { Description = "Frame rate of image sequences, for the tracker's timestamps (default 10; videos use their own).", DefaultValueFactory = _ => 10 };
 
         Command command = new("detect", "Run the classical lane pipeline over frames and write one lane-file record per frame.")
         {
-            frames, output, config, camera, overlays, stagesDir, stagesEvery, threads, shard, resume, keepGoing, maxFrames,
+            frames, output, config, camera, overlays, stagesDir, stagesEvery, threads, shard, resume, keepGoing, maxFrames, fps,
         };
 
         command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
@@ -59,6 +60,12 @@ internal static class DetectCommand
                 throw new UsageException("--max-frames must be at least 1");
             }
 
+            double rate = parse.GetValue(fps);
+            if (!double.IsFinite(rate) || rate <= 0 || rate > 10000)
+            {
+                throw new UsageException("--fps must be a positive frame rate");
+            }
+
             (int k, int total) = ParseShard(parse.GetValue(shard));
             var request = new DetectRequest
             {
@@ -75,6 +82,7 @@ internal static class DetectCommand
                 Resume = parse.GetValue(resume),
                 KeepGoing = parse.GetValue(keepGoing),
                 MaxFrames = limit,
+                ImageFps = rate,
             };
             DetectSummary summary = new DetectRunner(request, stderr).Run();
             stdout.WriteLine(string.Create(

@@ -30,6 +30,8 @@ internal sealed record DetectRequest
     public bool KeepGoing { get; init; }
 
     public int? MaxFrames { get; init; }
+
+    public double ImageFps { get; init; } = 10;
 }
 
 /// <summary>What a detect run did.</summary>

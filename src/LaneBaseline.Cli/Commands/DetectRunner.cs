@@ -15,7 +15,8 @@ namespace LaneBaseline.Cli.Commands;
 /// <summary>
 /// Runs detect: lists or decodes frames, processes them on <see cref="DetectRequest.Threads"/> workers (one pipeline
 /// each) and writes the records strictly in input order, flushing each, so the output does not depend on the thread
-/// count. With tracking on, frames form one sequence and run on one worker.
+/// count. With tracking on, the frames of each folder (or the video) form one sequence and run on one worker; image
+/// timestamps are index / --fps.
 /// </summary>
 internal sealed class DetectRunner
 {
@@ -126,10 +127,19 @@ internal sealed class DetectRunner
             workers[t] = Task.Run(() =>
             {
                 using var pipeline = new LanePipeline(request.Options);
+                string? sequence = null;
                 try
                 {
                     foreach (Work w in queue.GetConsumingEnumerable(cancel.Token))
                     {
+                        // With tracking on (one worker), frames of one folder form one sequence.
+                        string folder = w.Item.Key.Contains('/', StringComparison.Ordinal) ? w.Item.Key[..w.Item.Key.LastIndexOf('/')] : string.Empty;
+                        if (sequence is not null && folder != sequence)
+                        {
+                            pipeline.ResetSequence();
+                        }
+
+                        sequence = folder;
                         Outcome o = ProcessOne(pipeline, w, ref pipelineTicks);
                         results[w.Sequence] = o;
                         resultReady.Release();
@@ -243,7 +253,7 @@ internal sealed class DetectRunner
                 if (Wanted(item))
                 {
                     taken++;
-                    yield return new Work(0, item, null);
+                    yield return new Work(0, item with { TimestampSeconds = item.Index / request.ImageFps }, null);
                 }
             }
 

@@ -6,8 +6,8 @@ public sealed record TrackingOptions
     /// <summary>Whether frames form one sequence (tracking and vanishing-point smoothing on). Default false.</summary>
     public bool Enabled { get; init; }
 
-    /// <summary>Process noise of the lateral offset C, in bird's-eye pixels per √second (0–1000). Default 20.</summary>
-    public double OffsetNoisePxPerSqrtS { get; init; } = 20;
+    /// <summary>Process noise of the lateral offset C, in bird's-eye pixels per √second (0–1000). Default 60.</summary>
+    public double OffsetNoisePxPerSqrtS { get; init; } = 60;
 
     /// <summary>Measurement noise of the lateral offset C, in bird's-eye pixels (0.01–1000). Default 4.</summary>
     public double MeasurementNoisePx { get; init; } = 4;

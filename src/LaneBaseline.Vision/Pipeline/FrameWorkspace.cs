@@ -151,6 +151,11 @@ public sealed class FrameWorkspace : IDisposable
 
     internal int[] DiffHistogram { get; } = new int[256];
 
+    /// <summary>Bird's-eye bottom positions predicted by the tracker for this frame's search.</summary>
+    internal double[] PriorSeedX { get; } = new double[MaxLanes];
+
+    internal int PriorSeedCount { get; set; }
+
     internal int[] Prefix { get; }
 
     internal double[] ColumnMass { get; }

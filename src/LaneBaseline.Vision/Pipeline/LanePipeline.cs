@@ -9,7 +9,8 @@ namespace LaneBaseline.Vision.Pipeline;
 /// <summary>
 /// The classical lane pipeline for one stream of frames: owns its stages and its <see cref="FrameWorkspace"/>,
 /// builds them for the first frame's size (and again only if the size changes), and runs them in the fixed order
-/// gradient → hough → region → color → warp → search. Not thread-safe: use one pipeline per worker.
+/// gradient → hough → region → color → warp → search (→ track, when tracking is on). Not thread-safe: use one
+/// pipeline per worker.
 /// </summary>
 public sealed class LanePipeline : IDisposable
 {
@@ -84,6 +85,21 @@ public sealed class LanePipeline : IDisposable
         return new FrameResult(ws.LaneCount, ws.VanishingX, ws.VanishingY, ws.VanishingSource);
     }
 
+    /// <summary>Starts a new sequence: forgets tracks and the smoothed vanishing point (frames that follow are unrelated).</summary>
+    public void ResetSequence()
+    {
+        if (workspace is not null)
+        {
+            workspace.HasPreviousVanishing = false;
+            workspace.PriorSeedCount = 0;
+        }
+
+        foreach (IFrameStage s in stages)
+        {
+            (s as TemporalTracker)?.Reset();
+        }
+    }
+
     private void Build(int width, int height)
     {
         DisposeStages();
@@ -96,6 +112,10 @@ public sealed class LanePipeline : IDisposable
         stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
         stages.Add(new BirdsEyeWarpStage());
         stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));
+        if (options.Tracking.Enabled)
+        {
+            stages.Add(new TemporalTracker(options.Tracking, options.Fit));
+        }
         LastStageMs = new double[stages.Count];
     }
 

@@ -137,8 +137,8 @@ public static class OverlayRenderer
         {
             int cand = ws.LaneCandidate[i];
             Scalar color = SlotColor(ws.Lanes[i].Slot);
-            SearchWindow[] windows = ws.CandidateWindows[cand];
-            for (int k = 0; k < ws.WindowCount; k++)
+            SearchWindow[] windows = ws.CandidateWindows[Math.Max(0, cand)];
+            for (int k = 0; k < ws.WindowCount && cand >= 0; k++)
             {
                 SearchWindow win = windows[k];
                 if (win.Right <= win.Left)
