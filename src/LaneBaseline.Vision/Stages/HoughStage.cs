@@ -60,7 +60,9 @@ public sealed class HoughStage : IFrameStage
             }
 
             double length = Math.Sqrt((dx * dx) + (dy * dy)) / k;
-            var segment = new HoughSegment(l.P1.X / k, (l.P1.Y / k) + top, l.P2.X / k, (l.P2.Y / k) + top, length);
+            // Pixel centres: resized pixel i covers full-resolution [i/k, (i+1)/k), centre (i + 0.5)/k - 0.5.
+            var segment = new HoughSegment(
+                ((l.P1.X + 0.5) / k) - 0.5, ((l.P1.Y + 0.5) / k) - 0.5 + top, ((l.P2.X + 0.5) / k) - 0.5, ((l.P2.Y + 0.5) / k) - 0.5 + top, length);
 
             // Insertion into the fixed-size array, longest first (no allocation, small n).
             int pos = count < kept.Length ? count : kept.Length - 1;
