@@ -28,11 +28,15 @@ internal static class DetectCommand
         Option<bool> resume = new("--resume") { Description = "Keep the records already in the output file and process only the missing frames." };
         Option<bool> keepGoing = new("--keep-going") { Description = "Report a bad frame on stderr, skip it and continue; the skipped frames are listed at the end." };
         Option<int?> maxFrames = new("--max-frames") { Description = "Stop after N frames (after --shard)." };
+        Option<bool> timings = new("--timings")
+        {
+            Description = "Print per-stage milliseconds (median, p95) on stderr beside the cost of the bare OpenCV primitives (full-frame BGR->HLS conversion and perspective warp) on the same frames; sets OpenCV to one thread.",
+        };
         Option<double> fps = new("--fps") { Description = "Frame rate of image sequences, for the tracker's timestamps (default 10; videos use their own).", DefaultValueFactory = _ => 10 };
 
         Command command = new("detect", "Run the classical lane pipeline over frames and write one lane-file record per frame.")
         {
-            frames, output, config, camera, overlays, stagesDir, stagesEvery, threads, shard, resume, keepGoing, maxFrames, fps,
+            frames, output, config, camera, overlays, stagesDir, stagesEvery, threads, shard, resume, keepGoing, maxFrames, fps, timings,
         };
 
         command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
@@ -83,6 +87,7 @@ internal static class DetectCommand
                 KeepGoing = parse.GetValue(keepGoing),
                 MaxFrames = limit,
                 ImageFps = rate,
+                Timings = parse.GetValue(timings),
             };
             DetectSummary summary = new DetectRunner(request, stderr).Run();
             stdout.WriteLine(string.Create(

@@ -32,6 +32,8 @@ internal sealed record DetectRequest
     public int? MaxFrames { get; init; }
 
     public double ImageFps { get; init; } = 10;
+
+    public bool Timings { get; init; }
 }
 
 /// <summary>What a detect run did.</summary>

@@ -90,6 +90,12 @@ internal sealed class DetectRunner
         using var cancel = new CancellationTokenSource();
         using var queue = new BlockingCollection<Work>(Math.Max(2, 2 * threads));
         var results = new ConcurrentDictionary<int, Outcome>();
+        var timings = new ConcurrentQueue<double[]>();
+        string[] stageNames = [];
+        if (request.Timings)
+        {
+            Cv2.SetNumThreads(1);
+        }
         using var resultReady = new SemaphoreSlim(0);
         int produced = -1;
 
@@ -126,7 +132,8 @@ internal sealed class DetectRunner
         {
             workers[t] = Task.Run(() =>
             {
-                using var pipeline = new LanePipeline(request.Options);
+                using var pipeline = new LanePipeline(request.Options) { MeasureStages = request.Timings };
+                using var primitives = request.Timings ? new PrimitiveTimer() : null;
                 string? sequence = null;
                 try
                 {
@@ -140,7 +147,12 @@ internal sealed class DetectRunner
                         }
 
                         sequence = folder;
-                        Outcome o = ProcessOne(pipeline, w, ref pipelineTicks);
+                        Outcome o = ProcessOne(pipeline, w, ref pipelineTicks, primitives, timings);
+                        if (request.Timings && stageNames.Length == 0 && pipeline.Workspace is not null)
+                        {
+                            stageNames = [.. pipeline.StageNames];
+                        }
+
                         results[w.Sequence] = o;
                         resultReady.Release();
                     }
@@ -227,6 +239,11 @@ internal sealed class DetectRunner
         stderr.WriteLine(string.Create(
             CultureInfo.InvariantCulture,
             $"detect: {written} frames in {clock.Elapsed.TotalSeconds:0.00} s ({(written > 0 ? written / clock.Elapsed.TotalSeconds : 0):0.0} frames/s on {threads} thread(s)); pipeline {msPerFrame:0.00} ms/frame excluding decode"));
+        if (request.Timings)
+        {
+            PrintTimings(stageNames, timings);
+        }
+
         if (skipped.Count > 0)
         {
             stderr.WriteLine("detect: skipped " + skipped.Count.ToString(CultureInfo.InvariantCulture) + " bad frame(s): " + string.Join(", ", skipped));
@@ -280,7 +297,28 @@ internal sealed class DetectRunner
         }
     }
 
-    private Outcome ProcessOne(LanePipeline pipeline, Work w, ref long pipelineTicks)
+    private void PrintTimings(string[] names, ConcurrentQueue<double[]> rows)
+    {
+        // Row layout: one value per stage, then the pipeline total, then the two primitives and their sum.
+        double[][] all = [.. rows];
+        if (all.Length == 0)
+        {
+            return;
+        }
+
+        string[] labels = [.. names, "pipeline total", "primitive: BGR->HLS full frame", "primitive: warp full frame", "primitives total"];
+        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"timings over {all.Length} frames (ms, OpenCV on 1 thread):"));
+        stderr.WriteLine("  stage                              median      p95");
+        for (int c = 0; c < labels.Length && c < all[0].Length; c++)
+        {
+            double[] v = all.Select(r => r[c]).Order().ToArray();
+            double median = v[v.Length / 2];
+            double p95 = v[Math.Min(v.Length - 1, (int)Math.Ceiling(0.95 * v.Length) - 1)];
+            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {labels[c],-32} {median,8:0.00} {p95,8:0.00}"));
+        }
+    }
+
+    private Outcome ProcessOne(LanePipeline pipeline, Work w, ref long pipelineTicks, PrimitiveTimer? primitives, ConcurrentQueue<double[]> timings)
     {
         Mat? frame = w.Decoded;
         try
@@ -288,7 +326,15 @@ internal sealed class DetectRunner
             frame ??= FrameLoader.Load(w.Item.Path!, request.Options.Limits);
             long t0 = Stopwatch.GetTimestamp();
             FrameResult result = pipeline.Process(frame, w.Item.TimestampSeconds);
-            Interlocked.Add(ref pipelineTicks, Stopwatch.GetElapsedTime(t0).Ticks);
+            TimeSpan elapsed = Stopwatch.GetElapsedTime(t0);
+            Interlocked.Add(ref pipelineTicks, elapsed.Ticks);
+            if (primitives is not null)
+            {
+                (double hls, double warp) = primitives.Measure(frame);
+                double[] stageMs = pipeline.LastStageMs;
+                timings.Enqueue([.. stageMs, elapsed.TotalMilliseconds, hls, warp, hls + warp]);
+            }
+
             FrameWorkspace ws = pipeline.Workspace!;
             var lanes = new Lane[result.LaneCount];
             for (int i = 0; i < result.LaneCount; i++)

@@ -263,6 +263,32 @@ public sealed class DetectCommandTests : IDisposable
     }
 
     [Fact]
+    public void Detect_Timings_ListEveryStageAndThePrimitives()
+    {
+        string frames = WriteFrames(2);
+        var (code, _, err) = Run("detect", frames, "-o", Path.Combine(dir, "t.lanes.jsonl"), "--timings");
+        Assert.Equal(0, code);
+        foreach (string stage in new[] { "gradient", "hough", "region", "color", "warp", "search", "pipeline total", "primitive: warp full frame" })
+        {
+            Assert.Contains(stage, err, StringComparison.Ordinal);
+        }
+    }
+
+    [Fact]
+    public void Detect_WithTracking_RunsFoldersAsSequences_AndMatchesAcrossThreadCounts()
+    {
+        string frames = WriteFrames(4);
+        string preset = Path.Combine(dir, "track.yaml");
+        File.WriteAllText(preset, "tracking:\n  enabled: true\n");
+        string one = Path.Combine(dir, "one.lanes.jsonl"), two = Path.Combine(dir, "two.lanes.jsonl");
+        Assert.Equal(0, Run("detect", frames, "-o", one, "--config", preset).Code);
+        var (code, _, err) = Run("detect", frames, "-o", two, "--config", preset, "--threads", "2");
+        Assert.Equal(0, code);
+        Assert.Contains("one sequence", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllBytes(one), File.ReadAllBytes(two));
+    }
+
+    [Fact]
     public void Detect_BadThreads_IsAUsageError()
     {
         string frames = WriteFrames(1);
