@@ -30,7 +30,7 @@ public sealed record SearchOptions
     /// <summary>Allowed relative difference between neighbouring lane widths (0–1). Default 0.3.</summary>
     public double WidthTolerance { get; init; } = 0.3;
 
-    /// <summary>Largest number of boundaries reported (1–4: slots −1, +1, then −2, +2). Default 4.</summary>
+    /// <summary>Largest number of boundaries reported (1–6: slots −1, +1, then −2, +2, then −3, +3). Default 4.</summary>
     public int MaxLanes { get; init; } = 4;
 
     internal void Validate(List<OptionsFinding> f)
@@ -45,6 +45,6 @@ public sealed record SearchOptions
         OptionsChecks.Range(f, "search.maxLaneWidthFraction", MaxLaneWidthFraction, 0.01, 1);
         OptionsChecks.Less(f, "search.minLaneWidthFraction", MinLaneWidthFraction, "search.maxLaneWidthFraction", MaxLaneWidthFraction);
         OptionsChecks.Range(f, "search.widthTolerance", WidthTolerance, 0, 1);
-        OptionsChecks.Range(f, "search.maxLanes", MaxLanes, 1, 4);
+        OptionsChecks.Range(f, "search.maxLanes", MaxLanes, 1, 6);
     }
 }

@@ -13,8 +13,8 @@ public sealed class FrameWorkspace : IDisposable
     /// <summary>Most points written per lane.</summary>
     public const int MaxPointsPerLane = 256;
 
-    /// <summary>Most lanes per frame (slots −2, −1, +1, +2).</summary>
-    public const int MaxLanes = 4;
+    /// <summary>Most lanes per frame (slots −3 to +3 without 0).</summary>
+    public const int MaxLanes = 6;
 
     internal const int MaxCandidates = 12;
     internal const int MaxWindows = 64;

@@ -11,13 +11,15 @@ namespace LaneBaseline.Vision.Pipeline;
 /// </summary>
 public static class OverlayRenderer
 {
-    /// <summary>Line colour (BGR) of a slot: −2 teal, −1 amber, +1 violet, +2 lime; others grey.</summary>
+    /// <summary>Line colour (BGR) of a slot: −3 blue, −2 teal, −1 amber, +1 violet, +2 lime, +3 yellow; others grey.</summary>
     public static Scalar SlotColor(int slot) => slot switch
     {
         -2 => new Scalar(200, 190, 0),
         -1 => new Scalar(0, 170, 255),
         1 => new Scalar(255, 90, 200),
         2 => new Scalar(60, 230, 110),
+        -3 => new Scalar(230, 120, 40),
+        3 => new Scalar(40, 220, 230),
         _ => new Scalar(180, 180, 180),
     };
 

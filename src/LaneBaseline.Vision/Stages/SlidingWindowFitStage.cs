@@ -26,7 +26,8 @@ namespace LaneBaseline.Vision.Stages;
 /// min(1, coverage / <see cref="ConfidenceOptions.FullCoverage"/>) · exp(−rms / <see cref="ConfidenceOptions.ResidualScalePx"/>);
 /// (5) duplicates (mean separation below half <see cref="SearchOptions.MinSeparationPx"/>) keep the higher score;
 /// (6) slots: the nearest boundary left and right of the vehicle centre are −1 and +1 when their spacing is a
-/// plausible lane width; the next boundaries out are −2 and +2 when their spacing matches the ego lane within
+/// plausible lane width; the next boundaries out are −2 and +2 (then −3 and +3 when search.maxLanes allows) when
+/// their spacing matches the ego lane within
 /// <see cref="SearchOptions.WidthTolerance"/>; every pair must also stay parallel (spacing at the far end of their
 /// common support within the same tolerance of the spacing at the bottom); (7) each lane is sampled every <see cref="FitOptions.PointSpacingPx"/>
 /// image rows from the bottom row up to its farthest supported window (or the far edge of the warped area, see
@@ -548,13 +549,17 @@ public sealed class SlidingWindowFitStage : IFrameStage
         double egoWidth = l1 >= 0 && r1 >= 0 ? Xb(ws, r1) - Xb(ws, l1) : double.NaN;
         int l2 = l1 >= 0 ? Neighbour(ws, kept, l1, -1, egoWidth, minW, maxW) : -1;
         int r2 = r1 >= 0 ? Neighbour(ws, kept, r1, +1, egoWidth, minW, maxW) : -1;
+        int l3 = l2 >= 0 && search.MaxLanes >= 5 ? Neighbour(ws, kept, l2, -1, egoWidth, minW, maxW) : -1;
+        int r3 = r2 >= 0 && search.MaxLanes >= 6 ? Neighbour(ws, kept, r2, +1, egoWidth, minW, maxW) : -1;
 
         ws.LaneCount = 0;
         int max = search.MaxLanes;
+        Emit(ws, l3, -3, max >= 5);
         Emit(ws, l2, -2, max >= 3);
         Emit(ws, l1, -1, true);
         Emit(ws, r1, +1, max >= 2);
         Emit(ws, r2, +2, max >= 4);
+        Emit(ws, r3, +3, max >= 6);
     }
 
     private static bool Crosses(FrameWorkspace ws, int i, int j)

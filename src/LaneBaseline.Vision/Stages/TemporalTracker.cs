@@ -9,7 +9,7 @@ namespace LaneBaseline.Vision.Stages;
 /// frame's search around the previous fits; resets on a lane change. Only built when tracking is on.
 /// </summary>
 /// <remarks>
-/// Model (bird's-eye pixels, x = A·y² + B·y + C, y down): each coefficient of each slot (−2, −1, +1, +2) is a
+/// Model (bird's-eye pixels, x = A·y² + B·y + C, y down): each coefficient of each slot (−3 … +3) is a
 /// random walk, filtered independently: predict P ← P + q²·Δt with q = <see cref="TrackingOptions.OffsetNoisePxPerSqrtS"/>
 /// for C (divided by the bird's-eye height H for B and by H² for A), Δt from the frame timestamps; update with
 /// measurement variance r² (r = <see cref="TrackingOptions.MeasurementNoisePx"/>, scaled the same way), gain K = P / (P + r²),
@@ -23,16 +23,16 @@ namespace LaneBaseline.Vision.Stages;
 /// </remarks>
 public sealed class TemporalTracker : IFrameStage
 {
-    private static readonly int[] Slots = [-2, -1, 1, 2];
+    private static readonly int[] Slots = [-3, -2, -1, 1, 2, 3];
     private readonly TrackingOptions options;
     private readonly FitOptions fit;
-    private readonly double[] state = new double[12];
-    private readonly double[] variance = new double[12];
-    private readonly int[] missed = new int[4];
-    private readonly bool[] active = new bool[4];
-    private readonly double[] score = new double[4];
+    private readonly double[] state = new double[3 * 6];
+    private readonly double[] variance = new double[3 * 6];
+    private readonly int[] missed = new int[6];
+    private readonly bool[] active = new bool[6];
+    private readonly double[] score = new double[6];
     private readonly LaneEstimate[] scratch = new LaneEstimate[FrameWorkspace.MaxLanes];
-    private readonly int[] candidate = new int[4];
+    private readonly int[] candidate = new int[6];
     private readonly int[] candidateScratch = new int[FrameWorkspace.MaxLanes];
     private double lastTime = double.NaN;
 
@@ -72,7 +72,7 @@ public sealed class TemporalTracker : IFrameStage
         double q2 = options.OffsetNoisePxPerSqrtS * options.OffsetNoisePxPerSqrtS * dt;
         double r2 = options.MeasurementNoisePx * options.MeasurementNoisePx;
         Span<double> scale = [1 / (h * h), 1 / h, 1];
-        Span<bool> measured = stackalloc bool[4];
+        Span<bool> measured = stackalloc bool[6];
         for (int i = 0; i < ws.LaneCount; i++)
         {
             LaneEstimate lane = ws.Lanes[i];
@@ -109,7 +109,7 @@ public sealed class TemporalTracker : IFrameStage
 
         // Rebuild the lane list in slot order from the filtered (or coasting) tracks.
         int count = 0;
-        for (int t = 0; t < 4; t++)
+        for (int t = 0; t < Slots.Length; t++)
         {
             if (!active[t])
             {
@@ -150,7 +150,7 @@ public sealed class TemporalTracker : IFrameStage
 
         // Seeds for the next frame: the tracks' bottom positions.
         int seeds = 0;
-        for (int t = 0; t < 4; t++)
+        for (int t = 0; t < Slots.Length; t++)
         {
             if (active[t])
             {

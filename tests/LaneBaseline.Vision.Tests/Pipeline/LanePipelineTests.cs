@@ -98,6 +98,19 @@ public sealed class LanePipelineTests
     }
 
     [Fact]
+    public void Process_MultiLanePreset_KeepsTheFourDrawnBoundaries_AndInventsNoThird()
+    {
+        // The drawn road has boundaries at ±1.8 m and ±5.4 m only (asphalt to ±7.5 m): with slots ±3 allowed the
+        // four must still be found on their lines, and nothing may be reported as ±3.
+        SyntheticRoad road = Road(12);
+        using Mat frame = road.Render();
+        using var pipeline = new LanePipeline(KnownPresets.Load("multi-lane"));
+        pipeline.Process(frame, 0);
+        AssertLanesFollowTruth(road, pipeline.Workspace!, [-2, -1, 1, 2], 10);
+        Assert.Equal(4, pipeline.Workspace!.LaneCount);
+    }
+
+    [Fact]
     public void Process_BlankRoad_FindsNoLanes()
     {
         using Mat frame = (Road(7) with { Blank = true }).Render();
