@@ -347,7 +347,7 @@ internal sealed class DetectRunner
                     points[k] = new LanePoint(Math.Round(pts[2 * k], 2), Math.Round(pts[(2 * k) + 1], 2));
                 }
 
-                lanes[i] = new Lane { Points = points, Slot = e.Slot, Score = Math.Round(Math.Clamp(e.Score, 0, 1), 4) };
+                lanes[i] = new Lane { Points = points, Slot = e.Slot, Score = Math.Round(Math.Clamp(e.Score, 0, 1), 4), Kind = e.Kind };
             }
 
             var record = new LaneRecord

@@ -33,6 +33,9 @@ public sealed record SearchOptions
     /// <summary>Largest number of boundaries reported (1–6: slots −1, +1, then −2, +2, then −3, +3). Default 4.</summary>
     public int MaxLanes { get; init; } = 4;
 
+    /// <summary>Whether to estimate each lane's marking type (solid or dashed) from its window coverage (true/false). Default true.</summary>
+    public bool EstimateKind { get; init; } = true;
+
     internal void Validate(List<OptionsFinding> f)
     {
         OptionsChecks.Range(f, "search.windowCount", WindowCount, 4, 64);

@@ -8,6 +8,7 @@ namespace LaneBaseline.Core.Results;
 /// <param name="Coverage">Share of the search windows that held evidence and agreed with the fit (0–1).</param>
 /// <param name="RmsPx">Weighted RMS distance of the inlier window centroids from the curve, in bird's-eye pixels.</param>
 /// <param name="PointCount">Number of image points written for this lane.</param>
+/// <param name="Kind">Estimated marking type (<c>solid</c> or <c>dashed</c>), or null when not estimated.</param>
 public readonly record struct LaneEstimate(
     int Slot,
     double Score,
@@ -15,4 +16,5 @@ public readonly record struct LaneEstimate(
     double InlierMass,
     double Coverage,
     double RmsPx,
-    int PointCount);
+    int PointCount,
+    string? Kind = null);

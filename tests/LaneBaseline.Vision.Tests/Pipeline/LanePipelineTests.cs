@@ -111,6 +111,31 @@ public sealed class LanePipelineTests
     }
 
     [Fact]
+    public void Process_EstimatesSolidAndDashed()
+    {
+        // The drawn road has dashed ego boundaries (3 m strokes, 9 m gaps: US MUTCD 2003, Sec. 3A.05) and solid
+        // outer ones; a kind, when estimated, must name the drawn type. Full 1280x720 resolution: at 640 px the far
+        // solid lines thin to 2 px and the coverage rule abstains.
+        SyntheticRoad road = new() { Seed = 13 };
+        using Mat frame = road.Render();
+        using var pipeline = new LanePipeline(new PipelineOptions());
+        pipeline.Process(frame, 0);
+        FrameWorkspace ws = pipeline.Workspace!;
+        int named = 0;
+        for (int i = 0; i < ws.LaneCount; i++)
+        {
+            LaneEstimate lane = ws.GetLane(i);
+            if (lane.Kind is not null)
+            {
+                Assert.Equal(Math.Abs(lane.Slot) == 1 ? "dashed" : "solid", lane.Kind);
+                named++;
+            }
+        }
+
+        Assert.True(named >= 3, $"only {named} kinds estimated");
+    }
+
+    [Fact]
     public void Process_BlankRoad_FindsNoLanes()
     {
         using Mat frame = (Road(7) with { Blank = true }).Render();
