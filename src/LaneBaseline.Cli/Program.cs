@@ -16,6 +16,9 @@ internal static class Program
         // One line per command; keep the list sorted as the contract lists them.
         root.Subcommands.Add(DetectCommand.Create());
         root.Subcommands.Add(ScoreCommand.Create());
+        root.Subcommands.Add(RenderCommand.Create());
+        root.Subcommands.Add(ReportCommand.Create());
+        root.Subcommands.Add(MergeCommand.Create());
         return root;
     }
 

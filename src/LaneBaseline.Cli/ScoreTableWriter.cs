@@ -37,6 +37,25 @@ internal static class ScoreTableWriter
             o.WriteLine(F($"  {t.PointFpRate:0.0000}  {t.PointFnRate:0.0000}"));
         }
 
+        if (settings.Camera is not null)
+        {
+            o.WriteLine();
+            o.WriteLine("On the road plane (true positives at IoU 0.50; mean absolute errors):");
+            o.WriteLine("  " + "system".PadRight(nameWidth) + "  " + string.Join("  ", GroundErrors.DefaultLookAheadM.Select(d => F($"|dY|@{d:0}m").PadLeft(9))) + "  ego width  curvature");
+            foreach (SystemScore r in results)
+            {
+                GroundTally? g = r.Overall.Ground;
+                o.Write("  " + r.System.Name.PadRight(nameWidth));
+                for (int k = 0; k < GroundErrors.DefaultLookAheadM.Count; k++)
+                {
+                    o.Write("  " + (g is null || g.LateralCount[k] == 0 ? "-" : F($"{g.LateralAbsSumM[k] / g.LateralCount[k]:0.000} m")).PadLeft(9));
+                }
+
+                o.Write("  " + (g is null || g.EgoWidthFrames == 0 ? "-" : F($"{g.EgoWidthAbsSumM / g.EgoWidthFrames:0.000} m")).PadLeft(9));
+                o.WriteLine("  " + (g is null || g.CurvatureCount == 0 ? "-" : F($"{g.CurvatureAbsSum / g.CurvatureCount:0.00000}/m")).PadLeft(9));
+            }
+        }
+
         foreach (IouThreshold extra in settings.ExtraThresholds.Distinct().Order())
         {
             o.WriteLine();

@@ -2,8 +2,12 @@ using System.CommandLine;
 using System.Diagnostics;
 using System.Globalization;
 using System.Text;
+using LaneBaseline.Cli.Reports;
 using LaneBaseline.Core;
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Sharding;
+using LaneBaseline.Reporting.Score;
 using LaneBaseline.Vision.Metrics;
 
 namespace LaneBaseline.Cli.Commands;
@@ -28,11 +32,16 @@ internal static class ScoreCommand
         Option<int> bootstrap = new("--bootstrap") { Description = "Bootstrap resamples for 95 % intervals (0 disables).", DefaultValueFactory = _ => 1000 };
         Option<ulong> seed = new("--seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
         Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
+        Option<string?> report = new("--report") { Description = "Also write the HTML report (as 'lanebaseline report') to this file." };
+        Option<string?> frames = new("--frames") { Description = "Folder of the frame images, for the report's worst-frame gallery (needs --report)." };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<string?> shard = new("--shard") { Description = "Score only shard K/N of the frames (stable hash of the frame key), e.g. 0/4." };
+        Option<string?> camera = new("--camera") { Description = "camera.json: also report metric-space errors (lateral error at 5/10/20/30 m, ego-lane width, curvature) on the road plane." };
+        Option<string?> partial = new("--partial") { Description = "Write this shard's sufficient statistics to a state file for 'merge' (instead of final results)." };
 
         Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.\n" + SafetyNotice.Text)
         {
-            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, threads,
+            truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, report, frames, threads, shard, partial, camera,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -42,6 +51,7 @@ internal static class ScoreCommand
                 LaneWidthPx = parseResult.GetValue(laneWidth),
                 TolerancePx = parseResult.GetValue(tolerance),
                 ExtraThresholds = ParseThresholds(parseResult.GetValue(iou) ?? []),
+                Camera = parseResult.GetValue(camera) is string cameraPath ? CameraModel.Load(cameraPath) : null,
             };
             if (settings.LaneWidthPx is <= 0)
             {
@@ -71,9 +81,27 @@ internal static class ScoreCommand
                 throw new UsageException("--min-f1 must be in [0, 1]");
             }
 
-            return Execute(
-                stdout,
-                stderr,
+            string? reportPath = parseResult.GetValue(report);
+            string? framesDir = parseResult.GetValue(frames);
+            if (framesDir is not null && reportPath is null)
+            {
+                throw new UsageException("--frames draws the report's gallery and needs --report");
+            }
+
+            ShardSpec? shardSpec = null;
+            if (parseResult.GetValue(shard) is string shardText)
+            {
+                try
+                {
+                    shardSpec = ShardSpec.Parse(shardText);
+                }
+                catch (FormatException ex)
+                {
+                    throw new UsageException("--shard: " + ex.Message);
+                }
+            }
+
+            var request = new ScoreRequest(
                 parseResult.GetRequiredValue(truth),
                 ParseSystems(parseResult.GetRequiredValue(pred)),
                 settings,
@@ -82,8 +110,14 @@ internal static class ScoreCommand
                 threadCount,
                 parseResult.GetValue(json),
                 parseResult.GetValue(csv),
-                gate,
-                cancellationToken);
+                gate)
+            {
+                Report = reportPath is null ? null : (reportPath, framesDir),
+            };
+            string? partialPath = parseResult.GetValue(partial);
+            return partialPath is null
+                ? Execute(stdout, stderr, request, shardSpec, cancellationToken)
+                : WritePartial(stderr, request, shardSpec ?? new ShardSpec(0, 1), partialPath, cancellationToken);
         })));
         return command;
     }
@@ -151,30 +185,19 @@ internal static class ScoreCommand
         return systems;
     }
 
-    private static int Execute(
-        TextWriter stdout,
-        TextWriter stderr,
-        string truthPath,
-        IReadOnlyList<ScoredSystem> systems,
-        ScoreSettings settings,
-        int resamples,
-        ulong seed,
-        int threads,
-        string? jsonPath,
-        string? csvPath,
-        double? minF1,
-        CancellationToken cancellationToken)
+    private static int Execute(TextWriter stdout, TextWriter stderr, ScoreRequest request, ShardSpec? shard, CancellationToken cancellationToken)
     {
         var clock = Stopwatch.StartNew();
-        using AtomicFile? csvFile = csvPath is null ? null : new AtomicFile(csvPath);
+        using AtomicFile? csvFile = request.CsvPath is null ? null : new AtomicFile(request.CsvPath);
         TextWriter? csvWriter = csvFile?.Writer;
-        csvWriter?.Write(CsvHeader(systems.Count > 1));
+        csvWriter?.Write(CsvHeader(request.Systems.Count > 1));
         long lastReport = 0;
-        int halfIndex = settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
-        var run = new ScoreRun(truthPath, systems, settings)
+        int halfIndex = request.Settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
+        var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
         {
-            Threads = threads,
-            OnFrame = csvWriter is null ? null : row => WriteCsvRows(csvWriter, systems, halfIndex, row),
+            Threads = request.Threads,
+            Shard = shard,
+            OnFrame = csvWriter is null ? null : row => WriteCsvRows(csvWriter, request.Systems, halfIndex, row),
             OnProgress = (done, total) =>
             {
                 long now = clock.ElapsedMilliseconds;
@@ -187,13 +210,22 @@ internal static class ScoreCommand
         };
         IReadOnlyList<SystemScore> results = run.Execute(CreateRasterizer, cancellationToken);
         double scoreSeconds = clock.Elapsed.TotalSeconds;
+        long frames = results[0].Overall.Frames;
+        stderr.WriteLine(string.Create(
+            CultureInfo.InvariantCulture,
+            $"score: {frames} frames x {results.Count} system(s) in {scoreSeconds:0.###} s ({frames * results.Count / Math.Max(scoreSeconds, 1e-9):0} frame-scores/s, {request.Threads} thread(s))"));
+        return Finish(stdout, stderr, request, results, csvFile);
+    }
 
+    /// <summary>Bootstrap, table, CSV commit, JSON and gate: shared by <c>score</c> and <c>merge</c>.</summary>
+    internal static int Finish(TextWriter stdout, TextWriter stderr, ScoreRequest request, IReadOnlyList<SystemScore> results, AtomicFile? csvFile)
+    {
         BootstrapResult? boot = null;
-        if (resamples > 0)
+        if (request.Resamples > 0)
         {
-            double[][][] samples = Bootstrap.Resample([.. results.Select(r => r.Series)], resamples, seed, threads);
+            double[][][] samples = Bootstrap.Resample([.. results.Select(r => r.Series)], request.Resamples, request.Seed, request.Threads);
             var intervals = samples.Select(sys => sys.Select(stat => Bootstrap.Percentiles(stat, 0.95)).ToArray()).ToArray();
-            boot = new BootstrapResult { Resamples = resamples, Seed = seed, Intervals = intervals, Samples = samples };
+            boot = new BootstrapResult { Resamples = request.Resamples, Seed = request.Seed, Intervals = intervals, Samples = samples };
         }
 
         if (results.Any(r => r.Overall.AllEmpty))
@@ -201,26 +233,26 @@ internal static class ScoreCommand
             stderr.WriteLine("note: no truth and no predicted lanes at all in some system's frames; by definition it scores 1.0");
         }
 
-        ScoreTableWriter.Write(stdout, truthPath, results, settings, boot);
-
-        if (csvWriter is not null)
+        ScoreTableWriter.Write(stdout, request.TruthPath, results, request.Settings, boot);
+        csvFile?.Commit();
+        if (request.JsonPath is not null)
         {
-            csvFile!.Commit();
-        }
-
-        if (jsonPath is not null)
-        {
-            using var jsonFile = new AtomicFile(jsonPath);
-            ScoreJsonWriter.Write(jsonFile.Stream, results, settings, boot, truthPath);
+            using var jsonFile = new AtomicFile(request.JsonPath);
+            ScoreJsonWriter.Write(jsonFile.Stream, results, request.Settings, boot, request.TruthPath);
             jsonFile.Commit();
         }
 
-        long frames = results[0].Overall.Frames;
-        stderr.WriteLine(string.Create(
-            CultureInfo.InvariantCulture,
-            $"score: {frames} frames x {results.Count} system(s) in {scoreSeconds:0.###} s ({frames * results.Count / Math.Max(scoreSeconds, 1e-9):0} frame-scores/s, {threads} thread(s)); total {clock.Elapsed.TotalSeconds:0.###} s"));
+        if (request.Report is (string reportPath, var framesDir))
+        {
+            using var buffer = new MemoryStream();
+            ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
+            ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
+            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems);
+            ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", gallery, DateTimeOffset.UtcNow, CancellationToken.None);
+            stderr.WriteLine("score: wrote report " + reportPath);
+        }
 
-        if (minF1 is double gate)
+        if (request.MinF1 is double gate)
         {
             foreach (SystemScore r in results)
             {
@@ -236,14 +268,69 @@ internal static class ScoreCommand
         return ExitCodes.Success;
     }
 
+    private static int WritePartial(TextWriter stderr, ScoreRequest request, ShardSpec shard, string partialPath, CancellationToken cancellationToken)
+    {
+        if (request.Settings.Camera is not null)
+        {
+            throw new UsageException("--camera is not supported with --partial yet; score metric-space errors unsharded");
+        }
+
+        if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null || request.Report is not null)
+        {
+            throw new UsageException("--partial writes a state for 'merge'; give --json, --csv and --min-f1 to merge instead");
+        }
+
+        var clock = Stopwatch.StartNew();
+        long frames;
+        using var file = new AtomicFile(partialPath);
+        ScoreStateWriter? writer = null;
+        int truthFrames = 0;
+        try
+        {
+            var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
+            {
+                Threads = request.Threads,
+                Shard = shard,
+                OnValidated = n =>
+                {
+                    truthFrames = n;
+#pragma warning disable IDISP004, IDISP003 // called once; NonClosingStream only forwards to the AtomicFile's stream
+                    writer = new ScoreStateWriter(new NonClosingStream(file.Stream), new ScoreStateHeader
+                    {
+                        Shard = shard,
+                        Truth = request.TruthPath,
+                        TruthFrames = n,
+                        Systems = request.Systems,
+                        Settings = request.Settings,
+                        Resamples = request.Resamples,
+                        Seed = request.Seed,
+                    });
+#pragma warning restore IDISP004, IDISP003
+                },
+                OnFrame = row => writer!.Write(row),
+            };
+            frames = run.Execute(CreateRasterizer, cancellationToken)[0].Overall.Frames;
+        }
+        finally
+        {
+            writer?.Dispose();
+        }
+
+        file.Commit();
+        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"score: shard {shard}: {frames} of {truthFrames} frames in {clock.Elapsed.TotalSeconds:0.###} s -> {partialPath}"));
+        return ExitCodes.Success;
+    }
+
 #pragma warning disable IDISP005 // ScoreRun owns and disposes the rasterizers it creates
     private static ILaneRasterizer CreateRasterizer() => new OpenCvLaneRasterizer();
 #pragma warning restore IDISP005
 
+    internal static void WriteCsvHeader(TextWriter csv, bool multi) => csv.Write(CsvHeader(multi));
+
     private static string CsvHeader(bool multi) =>
         (multi ? "system," : string.Empty) + "frame,tags,tp,fp,fn,mean_matched_iou,point_accuracy\n";
 
-    private static void WriteCsvRows(TextWriter csv, IReadOnlyList<ScoredSystem> systems, int halfIndex, IReadOnlyList<FrameScore> row)
+    internal static void WriteCsvRows(TextWriter csv, IReadOnlyList<ScoredSystem> systems, int halfIndex, IReadOnlyList<FrameScore> row)
     {
         for (int s = 0; s < row.Count; s++)
         {
@@ -270,4 +357,20 @@ internal static class ScoreCommand
 
     private static string Csv(string value) =>
         value.AsSpan().IndexOfAny(",\"\n\r") >= 0 ? "\"" + value.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"" : value;
+}
+
+/// <summary>Everything a score or merge run writes with.</summary>
+internal sealed record ScoreRequest(
+    string TruthPath,
+    IReadOnlyList<ScoredSystem> Systems,
+    ScoreSettings Settings,
+    int Resamples,
+    ulong Seed,
+    int Threads,
+    string? JsonPath,
+    string? CsvPath,
+    double? MinF1)
+{
+    /// <summary>HTML report path and optional frames folder for its gallery.</summary>
+    public (string Path, string? FramesDir)? Report { get; init; }
 }

@@ -23,6 +23,12 @@ public sealed class LaneFileReader : IDisposable
     /// <summary>The file name used in messages.</summary>
     public string DisplayName { get; }
 
+    /// <summary>When true, <see cref="RawLine"/> holds the exact bytes of the last record read (for verbatim copies).</summary>
+    public bool KeepRawLine { get; init; }
+
+    /// <summary>The last record's line without its line ending, when <see cref="KeepRawLine"/> is set.</summary>
+    public byte[]? RawLine { get; private set; }
+
     /// <summary>Number of records read so far.</summary>
     public long RecordCount { get; private set; }
 
@@ -30,7 +36,10 @@ public sealed class LaneFileReader : IDisposable
     /// <param name="path">Path as the user gave it (used in messages).</param>
     /// <param name="sizeRequired">True for ground truth, where <c>width</c> and <c>height</c> are required.</param>
     /// <returns>A reader the caller owns.</returns>
-    public static LaneFileReader Open(string path, bool sizeRequired)
+    public static LaneFileReader Open(string path, bool sizeRequired) => Open(path, sizeRequired, keepRawLine: false);
+
+    /// <summary>Opens a lane file for reading, optionally keeping each record's raw line.</summary>
+    public static LaneFileReader Open(string path, bool sizeRequired, bool keepRawLine)
     {
         if (Directory.Exists(path))
         {
@@ -44,7 +53,10 @@ public sealed class LaneFileReader : IDisposable
 
         try
         {
-            return new LaneFileReader(path, new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16, FileOptions.SequentialScan), sizeRequired);
+            return new LaneFileReader(path, new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16, FileOptions.SequentialScan), sizeRequired)
+            {
+                KeepRawLine = keepRawLine,
+            };
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
         {
@@ -72,6 +84,11 @@ public sealed class LaneFileReader : IDisposable
             }
 
             record = LaneRecordParser.Parse(line, DisplayName, lines.LineNumber, sizeRequired);
+            if (KeepRawLine)
+            {
+                RawLine = line.ToArray();
+            }
+
             if (!seenFrames.TryAdd(record.Frame, record.LineNumber))
             {
                 throw BadInputException.At(

@@ -3,6 +3,9 @@ namespace LaneBaseline.Core.Metrics;
 /// <summary>The scores of one frame: the counts every aggregate and bootstrap resample is built from.</summary>
 public sealed class FrameScore
 {
+    /// <summary>Zero-based position of the frame in the truth file.</summary>
+    public int Ordinal { get; internal set; }
+
     /// <summary>Frame key.</summary>
     public required string Frame { get; init; }
 
@@ -41,6 +44,9 @@ public sealed class FrameScore
 
     /// <summary>Predictions kept at each confidence cutoff k/20.</summary>
     public required int[] ConfidencePredLanes { get; init; }
+
+    /// <summary>Metric-space errors when a camera is given, else null.</summary>
+    public FrameGroundErrors? Ground { get; init; }
 
     /// <summary>Whether any predicted lane in the frame carries a confidence.</summary>
     public bool HasConfidence { get; init; }

@@ -17,6 +17,7 @@ public sealed class FrameScorer
     private readonly IouThreshold[] thresholds;
     private readonly List<int> rows = [];
     private readonly List<double> xs = [];
+    private readonly GroundErrors? ground;
 
     /// <summary>Creates a scorer on a rasterizer the caller owns.</summary>
     public FrameScorer(ILaneRasterizer rasterizer, ScoreSettings settings)
@@ -25,6 +26,7 @@ public sealed class FrameScorer
         this.rasterizer = rasterizer;
         this.settings = settings;
         thresholds = [.. settings.Thresholds];
+        ground = settings.Camera is null ? null : new GroundErrors(settings.Camera);
     }
 
     /// <summary>The thresholds, in the order of <see cref="FrameScore.TruePositives"/>.</summary>
@@ -64,6 +66,7 @@ public sealed class FrameScorer
         int[] assign = Hungarian.Maximize(iou, nt, np);
         var tp = new int[thresholds.Length];
         var assigned = new List<double>(Math.Min(nt, np));
+        var halfPairs = ground is null ? null : new List<(int, int)>();
         for (int i = 0; i < nt; i++)
         {
             int j = assign[i];
@@ -75,6 +78,11 @@ public sealed class FrameScorer
             assigned.Add(iou[(i * np) + j]);
             long n = inter[(i * np) + j];
             long u = areaT[i] + areaP[j] - n;
+            if (halfPairs is not null && IouThreshold.Half.IsMetBy(n, u))
+            {
+                halfPairs.Add((i, j));
+            }
+
             for (int k = 0; k < thresholds.Length; k++)
             {
                 if (thresholds[k].IsMetBy(n, u))
@@ -160,6 +168,7 @@ public sealed class FrameScorer
             ConfidenceTruePositives = confTp,
             ConfidencePredLanes = confPred,
             HasConfidence = hasConfidence,
+            Ground = ground?.Measure(t, p, halfPairs!),
         };
     }
 

@@ -269,6 +269,50 @@ public static class ScoreJsonWriter
         json.WriteNumber("truth_lanes", tally.TruthLanes);
         json.WriteNumber("pred_lanes", tally.PredLanes);
         json.WriteEndObject();
+        if (tally.Ground is { } g)
+        {
+            WriteGround(json, g);
+        }
+    }
+
+    private static void WriteGround(Utf8JsonWriter json, GroundTally g)
+    {
+        json.WriteStartObject("ground");
+        json.WriteString("pairs", "true positives at IoU 0.50");
+        json.WriteStartObject("lateral_abs_error_m");
+        for (int k = 0; k < g.LateralCount.Length; k++)
+        {
+            json.WriteStartObject(GroundErrors.DefaultLookAheadM[k].ToString("0.##", CultureInfo.InvariantCulture));
+            json.WriteNumber("pairs", g.LateralCount[k]);
+            json.WritePropertyName("mean");
+            WriteMean(json, g.LateralAbsSumM[k], g.LateralCount[k]);
+            json.WriteEndObject();
+        }
+
+        json.WriteEndObject();
+        json.WriteStartObject("ego_width_abs_error_m");
+        json.WriteNumber("frames", g.EgoWidthFrames);
+        json.WritePropertyName("mean");
+        WriteMean(json, g.EgoWidthAbsSumM, g.EgoWidthFrames);
+        json.WriteEndObject();
+        json.WriteStartObject("curvature_abs_error_per_m");
+        json.WriteNumber("pairs", g.CurvatureCount);
+        json.WritePropertyName("mean");
+        WriteMean(json, g.CurvatureAbsSum, g.CurvatureCount);
+        json.WriteEndObject();
+        json.WriteEndObject();
+    }
+
+    private static void WriteMean(Utf8JsonWriter json, double sum, long count)
+    {
+        if (count == 0)
+        {
+            json.WriteNullValue();
+        }
+        else
+        {
+            WriteFloat(json, sum / count);
+        }
     }
 
     private static void WriteCounts(Utf8JsonWriter json, DetectionCounts c)
@@ -321,6 +365,17 @@ public static class ScoreJsonWriter
         }
 
         json.WriteEndArray();
+        if (settings.Camera is not null)
+        {
+            json.WriteStartArray("lookahead_m");
+            foreach (double d in GroundErrors.DefaultLookAheadM)
+            {
+                WriteFloat(json, d);
+            }
+
+            json.WriteEndArray();
+        }
+
         json.WriteNumber("bootstrap_resamples", bootstrap?.Resamples ?? 0);
         json.WriteNumber("seed", bootstrap?.Seed ?? 0);
         json.WriteEndObject();

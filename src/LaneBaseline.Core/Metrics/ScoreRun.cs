@@ -50,11 +50,20 @@ public sealed class ScoreRun
         this.settings = settings;
     }
 
+    /// <summary>Only frames of this shard are scored (all frames when null); validation still covers every frame.</summary>
+    public Sharding.ShardSpec? Shard { get; init; }
+
+    /// <summary>Number of records in the truth file (known after <see cref="Execute"/>).</summary>
+    public int TruthFrames { get; private set; }
+
     /// <summary>Worker threads for per-frame scoring (results do not depend on it).</summary>
     public int Threads { get; init; } = 1;
 
     /// <summary>Called after each frame, in truth order, with that frame's score for every system.</summary>
     public Action<IReadOnlyList<FrameScore>>? OnFrame { get; init; }
+
+    /// <summary>Called once every input has been validated, with the number of truth frames, before any frame is scored.</summary>
+    public Action<int>? OnValidated { get; init; }
 
     /// <summary>Called with a progress line now and then.</summary>
     public Action<long, long>? OnProgress { get; init; }
@@ -73,11 +82,19 @@ public sealed class ScoreRun
         {
             while (truth.TryRead(out LaneRecord r))
             {
+                if (settings.Camera is { } cam && (cam.ImageWidth != r.Width || cam.ImageHeight != r.Height))
+                {
+                    throw BadInputException.At(truthPath, r.LineNumber, "width", string.Create(
+                        CultureInfo.InvariantCulture,
+                        $"frame '{r.Frame}' is {r.Width}x{r.Height} but the camera file describes {cam.ImageWidth}x{cam.ImageHeight} images"));
+                }
+
                 truthIndex.Add(r.Frame, sizes.Count);
                 sizes.Add((r.Width!.Value, r.Height!.Value));
             }
         }
 
+        TruthFrames = truthIndex.Count;
         if (truthIndex.Count == 0)
         {
             throw BadInputException.At(truthPath, 0, null, "the truth file holds no records");
@@ -88,6 +105,8 @@ public sealed class ScoreRun
         {
             predicted[s] = ValidatePredictions(systems[s].Path, truthIndex, sizes);
         }
+
+        OnValidated?.Invoke(truthIndex.Count);
 
         // Pass 2: score.
         IouThreshold[] thresholds = [.. settings.Thresholds];
@@ -114,7 +133,7 @@ public sealed class ScoreRun
                 joiners[s] = new PredictionJoiner(r, truthIndex, predicted[s]);
             }
 
-            var batch = new List<(LaneRecord Truth, LaneRecord?[] Preds)>(BatchSize);
+            var batch = new List<(LaneRecord Truth, LaneRecord?[] Preds, int Ordinal)>(BatchSize);
             var scored = new FrameScore[BatchSize][];
             long done = 0;
             int ordinal = 0;
@@ -126,8 +145,12 @@ public sealed class ScoreRun
                     preds[s] = joiners[s].Take(ordinal);
                 }
 
+                if (Shard is not { } shard || shard.Contains(t.Frame))
+                {
+                    batch.Add((t, preds, ordinal));
+                }
+
                 ordinal++;
-                batch.Add((t, preds));
                 if (batch.Count == BatchSize)
                 {
                     done += Flush(batch, scored, scorers, results, halfIndex, cancellationToken);
@@ -155,7 +178,7 @@ public sealed class ScoreRun
     }
 
     private int Flush(
-        List<(LaneRecord Truth, LaneRecord?[] Preds)> batch,
+        List<(LaneRecord Truth, LaneRecord?[] Preds, int Ordinal)> batch,
         FrameScore[][] scored,
         FrameScorer[] scorers,
         SystemScore[] results,
@@ -174,6 +197,7 @@ public sealed class ScoreRun
                 for (int s = 0; s < results.Length; s++)
                 {
                     row[s] = scorers[w].Score(batch[i].Truth, batch[i].Preds[s]);
+                    row[s].Ordinal = batch[i].Ordinal;
                 }
 
                 scored[i] = row;
@@ -191,29 +215,43 @@ public sealed class ScoreRun
 
         for (int i = 0; i < n; i++)
         {
-            FrameScore[] row = scored[i];
-            for (int s = 0; s < results.Length; s++)
-            {
-                FrameScore f = row[s];
-                results[s].Overall.Add(f);
-                results[s].Series.Add(f, halfIndex);
-                foreach (string tag in f.Tags.Distinct(StringComparer.Ordinal))
-                {
-                    if (!results[s].ByTag.TryGetValue(tag, out ScoreTally? tally))
-                    {
-                        tally = new ScoreTally(results[s].Overall.Thresholds);
-                        results[s].ByTag.Add(tag, tally);
-                    }
-
-                    tally.Add(f);
-                }
-            }
-
-            OnFrame?.Invoke(row);
+            Accumulate(results, scored[i], halfIndex);
+            OnFrame?.Invoke(scored[i]);
         }
 
         batch.Clear();
         return n;
+    }
+
+    /// <summary>Creates empty per-system results for replaying stored frame scores (used by merge).</summary>
+    public static SystemScore[] CreateResults(IReadOnlyList<ScoredSystem> systems, ScoreSettings settings)
+    {
+        ArgumentNullException.ThrowIfNull(settings);
+        IouThreshold[] thresholds = [.. settings.Thresholds];
+        return [.. systems.Select(s => new SystemScore(s, thresholds))];
+    }
+
+    /// <summary>Adds one frame's scores (one per system) to the results, in truth order.</summary>
+    public static void Accumulate(SystemScore[] results, IReadOnlyList<FrameScore> row, int halfIndex)
+    {
+        ArgumentNullException.ThrowIfNull(results);
+        ArgumentNullException.ThrowIfNull(row);
+        for (int s = 0; s < results.Length; s++)
+        {
+            FrameScore f = row[s];
+            results[s].Overall.Add(f);
+            results[s].Series.Add(f, halfIndex);
+            foreach (string tag in f.Tags.Distinct(StringComparer.Ordinal))
+            {
+                if (!results[s].ByTag.TryGetValue(tag, out ScoreTally? tally))
+                {
+                    tally = new ScoreTally(results[s].Overall.Thresholds);
+                    results[s].ByTag.Add(tag, tally);
+                }
+
+                tally.Add(f);
+            }
+        }
     }
 
     private static HashSet<int> ValidatePredictions(string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes)

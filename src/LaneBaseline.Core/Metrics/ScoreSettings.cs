@@ -9,6 +9,9 @@ public sealed record ScoreSettings
     /// <summary>Fixed base point tolerance in pixels, or null for <c>20 * width / 1280</c>.</summary>
     public double? TolerancePx { get; init; }
 
+    /// <summary>Camera for metric-space errors (lanes projected to the road plane), or null.</summary>
+    public Geometry.CameraModel? Camera { get; init; }
+
     /// <summary>Extra IoU thresholds reported beside the defaults (from <c>--iou</c>).</summary>
     public IReadOnlyList<IouThreshold> ExtraThresholds { get; init; } = [];
 

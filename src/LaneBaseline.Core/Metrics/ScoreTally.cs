@@ -38,6 +38,9 @@ public sealed class ScoreTally
     /// <summary>Kept predictions per confidence cutoff.</summary>
     public long[] ConfidencePredLanes { get; } = new long[FrameScorer.ConfidenceCutoffs];
 
+    /// <summary>Metric-space error sums (present when a camera was given).</summary>
+    public GroundTally? Ground { get; private set; }
+
     /// <summary>Whether any prediction carried a confidence.</summary>
     public bool AnyConfidence { get; private set; }
 
@@ -84,6 +87,10 @@ public sealed class ScoreTally
         }
 
         AnyConfidence |= frame.HasConfidence;
+        if (frame.Ground is { } g)
+        {
+            (Ground ??= new GroundTally(g.LateralCount.Length)).Add(g);
+        }
     }
 
     /// <summary>Detection counts and rates at threshold index <paramref name="k"/>.</summary>
@@ -115,6 +122,52 @@ public sealed class ScoreTally
 
     /// <summary>Unmatched truth lanes / truth lanes.</summary>
     public double PointFnRate => Metrics.Ratio(TruthLanes - PointMatched, TruthLanes);
+}
+
+/// <summary>Sums of metric-space errors over frames.</summary>
+public sealed class GroundTally
+{
+    internal GroundTally(int distances)
+    {
+        LateralAbsSumM = new double[distances];
+        LateralCount = new long[distances];
+    }
+
+    /// <summary>Σ |ΔY| per look-ahead distance, metres.</summary>
+    public double[] LateralAbsSumM { get; }
+
+    /// <summary>Pairs per look-ahead distance.</summary>
+    public long[] LateralCount { get; }
+
+    /// <summary>Σ |ΔW| of the ego lane, metres.</summary>
+    public double EgoWidthAbsSumM { get; private set; }
+
+    /// <summary>Frames with an ego width on both sides.</summary>
+    public long EgoWidthFrames { get; private set; }
+
+    /// <summary>Σ |Δκ|, 1/m.</summary>
+    public double CurvatureAbsSum { get; private set; }
+
+    /// <summary>Pairs with curvature on both sides.</summary>
+    public long CurvatureCount { get; private set; }
+
+    internal void Add(FrameGroundErrors g)
+    {
+        for (int k = 0; k < LateralCount.Length; k++)
+        {
+            LateralAbsSumM[k] += g.LateralAbsSumM[k];
+            LateralCount[k] += g.LateralCount[k];
+        }
+
+        if (!double.IsNaN(g.EgoWidthAbsErrorM))
+        {
+            EgoWidthAbsSumM += g.EgoWidthAbsErrorM;
+            EgoWidthFrames++;
+        }
+
+        CurvatureAbsSum += g.CurvatureAbsSum;
+        CurvatureCount += g.CurvatureCount;
+    }
 }
 
 /// <summary>TP/FP/FN and the rates derived from them.</summary>

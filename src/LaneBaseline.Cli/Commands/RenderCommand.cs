@@ -1,0 +1,218 @@
+using System.CommandLine;
+using System.Diagnostics;
+using System.Globalization;
+using LaneBaseline.Core.Geometry;
+using LaneBaseline.Vision.Synthetic;
+
+namespace LaneBaseline.Cli.Commands;
+
+/// <summary><c>render --out DIR</c>: synthetic road scenes with exact ground truth and a camera file, from a seed.</summary>
+internal static class RenderCommand
+{
+    public static Command Create()
+    {
+        Option<string> outDir = new("--out", "-o") { Description = "Output folder (frames, truth.lanes.jsonl, camera.json).", Required = true };
+        Option<ulong> seed = new("--seed") { Description = "Seed of everything random (default 1).", DefaultValueFactory = _ => 1UL };
+        Option<int> count = new("--count") { Description = "Number of scenes (default 10).", DefaultValueFactory = _ => 10 };
+        Option<string> size = new("--size") { Description = "Frame size WxH (default 1280x720).", DefaultValueFactory = _ => "1280x720" };
+        Option<string?> conditions = new("--conditions")
+        {
+            Description = "Comma-separated conditions for every scene, or 'none' (default: clean and each condition in turn). Known: " +
+                string.Join(", ", KnownConditions.All) + ".",
+        };
+        Option<double?> severity = new("--severity") { Description = "Severity in [0, 1] for the chosen conditions (default: seeded random per scene)." };
+        Option<int> sequenceLength = new("--sequence-length") { Description = "Frames per scene; 1 renders stills (default 1).", DefaultValueFactory = _ => 1 };
+        Option<double> fps = new("--fps") { Description = "Frame rate of sequences (default 10).", DefaultValueFactory = _ => 10.0 };
+        Option<string> format = new("--format") { Description = "Frame format: jpg or png (default jpg).", DefaultValueFactory = _ => "jpg" };
+        Option<int> quality = new("--quality") { Description = "JPEG quality 1-100 (default 92).", DefaultValueFactory = _ => 92 };
+        Option<string?> sweep = new("--sweep") { Description = "Render every scene at severities 0, 0.25, 0.5, 0.75, 1 of this condition, tagged severity=X." };
+        Option<int> threads = new("--threads") { Description = "Worker threads (output is identical for any value; default: CPU count).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<string?> cameraFile = new("--camera") { Description = "camera.json to render through (sets the frame size; default: 1.5 m high, 2° pitch, f = 0.78125·width)." };
+        Option<string?> overlays = new("--overlays") { Description = "Also write PNG frames with the truth drawn over them to this folder." };
+
+        Command command = new("render", "Render synthetic road scenes with exact lane truth and a camera file, from a seed.")
+        {
+            outDir, seed, count, size, conditions, severity, sequenceLength, fps, format, quality, sweep, threads, cameraFile, overlays,
+        };
+
+        command.SetAction(parseResult => CommandRunner.Run(parseResult, (stdout, stderr) =>
+        {
+            int n = parseResult.GetValue(count);
+            int len = parseResult.GetValue(sequenceLength);
+            int threadCount = parseResult.GetValue(threads);
+            double frameRate = parseResult.GetValue(fps);
+            string fmt = parseResult.GetValue(format)!.ToLowerInvariant();
+            string? sweepName = parseResult.GetValue(sweep);
+            string? conditionText = parseResult.GetValue(conditions);
+            double? sev = parseResult.GetValue(severity);
+            int q = parseResult.GetValue(quality);
+            if (n < 1 || n > 100000)
+            {
+                throw new UsageException("--count must be between 1 and 100000.");
+            }
+
+            if (len < 1 || len > 100000)
+            {
+                throw new UsageException("--sequence-length must be between 1 and 100000.");
+            }
+
+            if (threadCount < 1 || threadCount > 256)
+            {
+                throw new UsageException("--threads must be between 1 and 256.");
+            }
+
+            if (!(frameRate > 0 && frameRate <= 1000))
+            {
+                throw new UsageException("--fps must be in (0, 1000].");
+            }
+
+            if (fmt is not ("jpg" or "jpeg" or "png"))
+            {
+                throw new UsageException($"--format must be jpg or png, not '{fmt}'.");
+            }
+
+            if (q < 1 || q > 100)
+            {
+                throw new UsageException("--quality must be between 1 and 100.");
+            }
+
+            if (sev is double sv && !(sv >= 0 && sv <= 1))
+            {
+                throw new UsageException("--severity must be in [0, 1].");
+            }
+
+            IReadOnlyList<string>? conditionList = ParseConditions(conditionText);
+            if (sweepName is not null)
+            {
+                if (!KnownConditions.IsKnown(sweepName))
+                {
+                    throw new UsageException($"--sweep: unknown condition '{sweepName}'. Known: {string.Join(", ", KnownConditions.All)}.");
+                }
+
+                if (conditionList is not null || sev is not null)
+                {
+                    throw new UsageException("--sweep varies one condition by itself; do not combine it with --conditions or --severity.");
+                }
+            }
+
+            CameraModel camera;
+            string? cameraPath = parseResult.GetValue(cameraFile);
+            if (cameraPath is not null)
+            {
+                if (parseResult.GetResult(size) is { Implicit: false })
+                {
+                    throw new UsageException("--size and --camera both set the frame size; give one of them.");
+                }
+
+                camera = CameraModel.Load(cameraPath);
+            }
+            else
+            {
+                (int w, int h) = ParseSize(parseResult.GetValue(size)!);
+                camera = CameraModel.CreateDefault(w, h);
+            }
+
+            var options = new RenderJobOptions
+            {
+                OutDir = parseResult.GetValue(outDir)!,
+                Seed = parseResult.GetValue(seed),
+                Count = n,
+                SequenceLength = len,
+                FramesPerSecond = frameRate,
+                Camera = camera,
+                Conditions = conditionList,
+                Severity = sev,
+                Sweep = sweepName,
+                Format = fmt == "png" ? "png" : "jpg",
+                JpegQuality = q,
+                Threads = threadCount,
+                OverlayDir = parseResult.GetValue(overlays),
+            };
+            if (File.Exists(options.OutDir))
+            {
+                throw new UsageException($"--out {options.OutDir}: is a file; give a folder.");
+            }
+
+            if (options.OverlayDir is not null && File.Exists(options.OverlayDir))
+            {
+                throw new UsageException($"--overlays {options.OverlayDir}: is a file; give a folder.");
+            }
+
+            var clock = Stopwatch.StartNew();
+            long lastReport = -1;
+            int frames;
+            try
+            {
+                frames = RenderJob.Run(options, (done, total) =>
+                {
+                    long second = clock.ElapsedMilliseconds / 2000;
+                    if (done == total || second != lastReport)
+                    {
+                        lastReport = second;
+                        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"render: {done}/{total} frames ({100.0 * done / total:0}%)"));
+                    }
+                });
+            }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+            {
+                throw new UsageException($"--out {options.OutDir}: cannot write there: {ex.Message}", ex);
+            }
+            double seconds = clock.Elapsed.TotalSeconds;
+            stdout.WriteLine(string.Create(
+                CultureInfo.InvariantCulture,
+                $"rendered {frames} frames ({camera.ImageWidth}x{camera.ImageHeight}) in {seconds:0.0} s ({frames / Math.Max(seconds, 1e-9):0.0} frames/s) to {options.OutDir}"));
+            stdout.WriteLine("truth: " + Path.Combine(options.OutDir, "truth.lanes.jsonl"));
+            stdout.WriteLine("camera: " + Path.Combine(options.OutDir, "camera.json"));
+            return ExitCodes.Success;
+        }));
+        return command;
+    }
+
+    internal static IReadOnlyList<string>? ParseConditions(string? text)
+    {
+        if (text is null)
+        {
+            return null;
+        }
+
+        string trimmed = text.Trim();
+        if (trimmed.Length == 0 || trimmed is "none" or "clean")
+        {
+            return [];
+        }
+
+        var list = new List<string>();
+        foreach (string part in trimmed.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
+        {
+            if (!KnownConditions.IsKnown(part))
+            {
+                throw new UsageException($"--conditions: unknown condition '{part}'. Known: {string.Join(", ", KnownConditions.All)} (or 'none').");
+            }
+
+            if (!list.Contains(part, StringComparer.Ordinal))
+            {
+                list.Add(part);
+            }
+        }
+
+        return list;
+    }
+
+    internal static (int Width, int Height) ParseSize(string text)
+    {
+        string[] parts = text.Split('x', 'X');
+        if (parts.Length != 2 ||
+            !int.TryParse(parts[0], NumberStyles.None, CultureInfo.InvariantCulture, out int w) ||
+            !int.TryParse(parts[1], NumberStyles.None, CultureInfo.InvariantCulture, out int h))
+        {
+            throw new UsageException($"--size must look like 1280x720, not '{text}'.");
+        }
+
+        if (w < 64 || h < 64 || w > 8192 || h > 8192)
+        {
+            throw new UsageException($"--size {w}x{h}: each side must be between 64 and 8192 pixels.");
+        }
+
+        return (w, h);
+    }
+}

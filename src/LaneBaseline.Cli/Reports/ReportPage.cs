@@ -1,0 +1,92 @@
+using System.Globalization;
+using System.Reflection;
+using System.Runtime.InteropServices;
+using LaneBaseline.Core.Metrics;
+using LaneBaseline.Reporting;
+using LaneBaseline.Reporting.Score;
+
+namespace LaneBaseline.Cli.Reports;
+
+/// <summary>What the gallery needs: the images and the lane files the score came from.</summary>
+/// <param name="FramesDir">Folder the frame keys are relative to.</param>
+/// <param name="TruthPath">Truth lane file.</param>
+/// <param name="Systems">Prediction lane files with their names.</param>
+internal sealed record GalleryRequest(string FramesDir, string TruthPath, IReadOnlyList<ScoredSystem> Systems);
+
+/// <summary>Builds the whole page in memory (every input checked first) and then writes it atomically.</summary>
+internal static class ReportPage
+{
+    public static void Write(
+        string outputPath,
+        ScoreDocument score,
+        string scoreSource,
+        GalleryRequest? gallery,
+        DateTimeOffset generatedAt,
+        CancellationToken cancellationToken)
+    {
+        var reportSettings = new List<KeyValuePair<string, string>> { new("report.score", scoreSource) };
+        Gallery? built = null;
+        if (gallery is not null)
+        {
+            ScoreSettings settings = SettingsOf(score);
+            built = WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, cancellationToken);
+            reportSettings.Add(new("report.frames", gallery.FramesDir));
+            reportSettings.Add(new("report.truth", gallery.TruthPath));
+            foreach (ScoredSystem s in gallery.Systems)
+            {
+                reportSettings.Add(new("report.pred." + s.Name, s.Path));
+            }
+
+            reportSettings.Add(new("report.gallery", built.Selection));
+        }
+
+        var versions = new List<KeyValuePair<string, string>>
+        {
+            new("lanebaseline", ToolVersion),
+            new(".NET runtime", RuntimeInformation.FrameworkDescription),
+        };
+        if (gallery is not null)
+        {
+            versions.Add(new("OpenCV (thumbnails)", OpenCvSharp.Cv2.GetVersionString() ?? "unknown"));
+        }
+
+        string html = HtmlReportWriter.Render(new ReportInput
+        {
+            Score = score,
+            ScoreSource = scoreSource,
+            GeneratedAt = generatedAt,
+            Versions = versions,
+            ReportSettings = reportSettings,
+            Gallery = built,
+        });
+
+        using var file = new AtomicFile(outputPath);
+        file.Writer.Write(html);
+        file.Commit();
+    }
+
+    /// <summary>The tool's informational version.</summary>
+    public static string ToolVersion =>
+        typeof(ReportPage).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion ?? "unknown";
+
+    /// <summary>Parses an injected "generated at" time (ISO 8601); null means now.</summary>
+    public static DateTimeOffset ParseGeneratedAt(string? text)
+    {
+        if (text is null)
+        {
+            return DateTimeOffset.UtcNow;
+        }
+
+        return DateTimeOffset.TryParse(text, CultureInfo.InvariantCulture, DateTimeStyles.AssumeUniversal | DateTimeStyles.AdjustToUniversal, out DateTimeOffset t)
+            ? t
+            : throw new UsageException($"--generated-at '{text}' is not an ISO 8601 time such as 2026-01-31T12:00:00Z");
+    }
+
+    /// <summary>The scoring settings recorded in the score file (lane width and tolerance), so the gallery ranks frames as the score did.</summary>
+    private static ScoreSettings SettingsOf(ScoreDocument score)
+    {
+        int? width = int.TryParse(score.Setting("lane_width_px"), NumberStyles.Integer, CultureInfo.InvariantCulture, out int w) && w > 0 ? w : null;
+        double? tol = double.TryParse(score.Setting("tolerance_px"), NumberStyles.Float, CultureInfo.InvariantCulture, out double t) && t > 0 ? t : null;
+        return new ScoreSettings { LaneWidthPx = width, TolerancePx = tol };
+    }
+}

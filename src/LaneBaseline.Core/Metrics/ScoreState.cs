@@ -1,0 +1,456 @@
+using System.Buffers;
+using System.Globalization;
+using System.Text;
+using System.Text.Encodings.Web;
+using System.Text.Json;
+using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Core.Sharding;
+
+namespace LaneBaseline.Core.Metrics;
+
+/// <summary>The run parameters a partial score state carries, which every shard of one job must share.</summary>
+public sealed record ScoreStateHeader
+{
+    /// <summary>Format marker written as the first key.</summary>
+    public const string FormatName = "lanebaseline-score-state";
+
+    /// <summary>The shard that wrote the state.</summary>
+    public required ShardSpec Shard { get; init; }
+
+    /// <summary>Truth path as given to score.</summary>
+    public required string Truth { get; init; }
+
+    /// <summary>Records in the truth file.</summary>
+    public required int TruthFrames { get; init; }
+
+    /// <summary>Systems scored, in order.</summary>
+    public required IReadOnlyList<ScoredSystem> Systems { get; init; }
+
+    /// <summary>Scoring settings.</summary>
+    public required ScoreSettings Settings { get; init; }
+
+    /// <summary>Bootstrap resamples the merged result uses.</summary>
+    public required int Resamples { get; init; }
+
+    /// <summary>Bootstrap seed the merged result uses.</summary>
+    public required ulong Seed { get; init; }
+
+    /// <summary>Canonical JSON of everything but the shard index (equal for every shard of one job).</summary>
+    public string JobKey()
+    {
+        var b = new StringBuilder();
+        b.Append(Truth).Append('\n').Append(TruthFrames).Append('\n').Append(Shard.Count).Append('\n');
+        foreach (ScoredSystem s in Systems)
+        {
+            b.Append(s.Name).Append('=').Append(s.Path).Append('\n');
+        }
+
+        b.Append(Settings.LaneWidthPx?.ToString(CultureInfo.InvariantCulture)).Append('\n')
+            .Append(Settings.TolerancePx?.ToString("R", CultureInfo.InvariantCulture)).Append('\n')
+            .Append(string.Join(',', Settings.ExtraThresholds.Select(t => t.Key))).Append('\n')
+            .Append(Resamples).Append('\n').Append(Seed);
+        return b.ToString();
+    }
+}
+
+/// <summary>
+/// Partial score state (<c>score --partial</c>): the sufficient statistics of one shard as JSON Lines — a header line,
+/// then one line per scored frame in truth order holding every per-frame count the aggregates, the per-tag tallies,
+/// the bootstrap and the CSV are built from. <c>merge</c> replays the frames of all shards in truth order and so
+/// writes exactly what one unsharded run writes.
+/// </summary>
+public sealed class ScoreStateWriter : IDisposable
+{
+    private static readonly JsonWriterOptions Options = new() { Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
+    private readonly Stream stream;
+    private readonly ArrayBufferWriter<byte> buffer = new(4096);
+
+    /// <summary>Creates a writer on a stream it then owns, and writes the header.</summary>
+    public ScoreStateWriter(Stream stream, ScoreStateHeader header)
+    {
+        ArgumentNullException.ThrowIfNull(header);
+        this.stream = stream;
+        using (var json = new Utf8JsonWriter(buffer, Options))
+        {
+            json.WriteStartObject();
+            json.WriteString("format", ScoreStateHeader.FormatName);
+            json.WriteNumber("version", 1);
+            json.WriteNumber("shard_index", header.Shard.Index);
+            json.WriteNumber("shard_count", header.Shard.Count);
+            json.WriteString("truth", header.Truth);
+            json.WriteNumber("truth_frames", header.TruthFrames);
+            json.WriteStartArray("systems");
+            foreach (ScoredSystem s in header.Systems)
+            {
+                json.WriteStartObject();
+                json.WriteString("name", s.Name);
+                json.WriteString("path", s.Path);
+                json.WriteEndObject();
+            }
+
+            json.WriteEndArray();
+            if (header.Settings.LaneWidthPx is int lw)
+            {
+                json.WriteNumber("lane_width_px", lw);
+            }
+
+            if (header.Settings.TolerancePx is double tol)
+            {
+                json.WritePropertyName("tolerance_px");
+                json.WriteRawValue(tol.ToString("R", CultureInfo.InvariantCulture));
+            }
+
+            json.WriteStartArray("extra_iou");
+            foreach (IouThreshold t in header.Settings.ExtraThresholds)
+            {
+                json.WriteStringValue(t.Key);
+            }
+
+            json.WriteEndArray();
+            json.WriteNumber("bootstrap", header.Resamples);
+            json.WriteNumber("seed", header.Seed);
+            json.WriteEndObject();
+        }
+
+        Emit();
+    }
+
+    /// <summary>Appends one frame (one score per system).</summary>
+    public void Write(IReadOnlyList<FrameScore> row)
+    {
+        ArgumentNullException.ThrowIfNull(row);
+        using (var json = new Utf8JsonWriter(buffer, Options))
+        {
+            FrameScore f0 = row[0];
+            json.WriteStartObject();
+            json.WriteNumber("o", f0.Ordinal);
+            json.WriteString("frame", f0.Frame);
+            json.WriteStartArray("tags");
+            foreach (string t in f0.Tags)
+            {
+                json.WriteStringValue(t);
+            }
+
+            json.WriteEndArray();
+            json.WriteNumber("w", f0.Width);
+            json.WriteNumber("h", f0.Height);
+            json.WriteStartArray("s");
+            foreach (FrameScore f in row)
+            {
+                json.WriteStartObject();
+                json.WriteNumber("nt", f.TruthLanes);
+                json.WriteNumber("np", f.PredLanes);
+                Ints(json, "tp", f.TruePositives);
+                json.WriteStartArray("iou");
+                foreach (double v in f.AssignedIous)
+                {
+                    json.WriteRawValue(v.ToString("R", CultureInfo.InvariantCulture));
+                }
+
+                json.WriteEndArray();
+                json.WritePropertyName("acc");
+                json.WriteRawValue(f.PointAccuracySum.ToString("R", CultureInfo.InvariantCulture));
+                json.WriteNumber("m", f.PointMatched);
+                Ints(json, "ctp", f.ConfidenceTruePositives);
+                Ints(json, "cp", f.ConfidencePredLanes);
+                json.WriteBoolean("conf", f.HasConfidence);
+                json.WriteEndObject();
+            }
+
+            json.WriteEndArray();
+            json.WriteEndObject();
+        }
+
+        Emit();
+    }
+
+    private static void Ints(Utf8JsonWriter json, string name, int[] values)
+    {
+        json.WriteStartArray(name);
+        foreach (int v in values)
+        {
+            json.WriteNumberValue(v);
+        }
+
+        json.WriteEndArray();
+    }
+
+    private void Emit()
+    {
+        buffer.Write("\n"u8);
+        stream.Write(buffer.WrittenSpan);
+        buffer.ResetWrittenCount();
+    }
+
+    /// <inheritdoc />
+    public void Dispose()
+    {
+        stream.Flush();
+#pragma warning disable IDISP007 // the writer owns the stream it was given (documented contract)
+        stream.Dispose();
+#pragma warning restore IDISP007
+    }
+}
+
+#pragma warning disable IDISP004 // JsonElement array enumerators own no resources
+
+/// <summary>Reads a partial score state written by <see cref="ScoreStateWriter"/>, frame by frame.</summary>
+public sealed class ScoreStateReader : IDisposable
+{
+    private readonly StreamReader reader;
+    private readonly string path;
+    private readonly int thresholdCount;
+    private long line;
+
+    private ScoreStateReader(string path, StreamReader reader, ScoreStateHeader header)
+    {
+        this.path = path;
+        this.reader = reader;
+        Header = header;
+        thresholdCount = header.Settings.Thresholds.Count;
+        line = 1;
+    }
+
+    /// <summary>The header.</summary>
+    public ScoreStateHeader Header { get; }
+
+    /// <summary>Opens a state file and reads its header.</summary>
+    public static ScoreStateReader Open(string path)
+    {
+        if (!File.Exists(path))
+        {
+            throw BadInputException.At(path, 0, null, Directory.Exists(path) ? "is a directory, expected a score state file" : "file not found");
+        }
+
+        var reader = new StreamReader(path, new UTF8Encoding(false, true));
+        try
+        {
+            string? first = reader.ReadLine();
+            if (first is null)
+            {
+                throw BadInputException.At(path, 1, null, "empty file, expected a score state written by score --partial");
+            }
+
+            return new ScoreStateReader(path, reader, ParseHeader(path, first));
+        }
+        catch
+        {
+            reader.Dispose();
+            throw;
+        }
+    }
+
+    /// <summary>Reads the next frame's scores (one per system), or null at the end.</summary>
+    public FrameScore[]? Next()
+    {
+        string? text;
+        try
+        {
+            text = reader.ReadLine();
+        }
+        catch (DecoderFallbackException)
+        {
+            throw BadInputException.At(path, line + 1, null, "not valid UTF-8 text");
+        }
+
+        if (text is null)
+        {
+            return null;
+        }
+
+        line++;
+        try
+        {
+            using JsonDocument doc = JsonDocument.Parse(text);
+            JsonElement r = doc.RootElement;
+            int ordinal = r.GetProperty("o").GetInt32();
+            string frame = r.GetProperty("frame").GetString()!;
+            string[] tags = [.. r.GetProperty("tags").EnumerateArray().Select(t => t.GetString()!)];
+            int w = r.GetProperty("w").GetInt32(), h = r.GetProperty("h").GetInt32();
+            var row = new List<FrameScore>();
+            foreach (JsonElement s in r.GetProperty("s").EnumerateArray())
+            {
+                int[] tp = Ints(s.GetProperty("tp"));
+                if (tp.Length != thresholdCount)
+                {
+                    throw BadInputException.At(path, line, "s.tp", "threshold count does not match the header");
+                }
+
+                row.Add(new FrameScore
+                {
+                    Ordinal = ordinal,
+                    Frame = frame,
+                    Tags = tags,
+                    Width = w,
+                    Height = h,
+                    TruthLanes = s.GetProperty("nt").GetInt32(),
+                    PredLanes = s.GetProperty("np").GetInt32(),
+                    TruePositives = tp,
+                    AssignedIous = [.. s.GetProperty("iou").EnumerateArray().Select(v => v.GetDouble())],
+                    PointAccuracySum = s.GetProperty("acc").GetDouble(),
+                    PointMatched = s.GetProperty("m").GetInt32(),
+                    ConfidenceTruePositives = Ints(s.GetProperty("ctp")),
+                    ConfidencePredLanes = Ints(s.GetProperty("cp")),
+                    HasConfidence = s.GetProperty("conf").GetBoolean(),
+                });
+            }
+
+            if (row.Count != Header.Systems.Count)
+            {
+                throw BadInputException.At(path, line, "s", "system count does not match the header");
+            }
+
+            return [.. row];
+        }
+        catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
+        {
+            throw BadInputException.At(path, line, null, "not a score state record: " + ex.Message);
+        }
+    }
+
+    private static int[] Ints(JsonElement e) => [.. e.EnumerateArray().Select(v => v.GetInt32())];
+
+    private static ScoreStateHeader ParseHeader(string path, string text)
+    {
+        try
+        {
+            using JsonDocument doc = JsonDocument.Parse(text);
+            JsonElement r = doc.RootElement;
+            if (r.GetProperty("format").GetString() != ScoreStateHeader.FormatName || r.GetProperty("version").GetInt32() != 1)
+            {
+                throw BadInputException.At(path, 1, "format", "not a version-1 score state written by score --partial");
+            }
+
+            return new ScoreStateHeader
+            {
+                Shard = new ShardSpec(r.GetProperty("shard_index").GetInt32(), r.GetProperty("shard_count").GetInt32()),
+                Truth = r.GetProperty("truth").GetString()!,
+                TruthFrames = r.GetProperty("truth_frames").GetInt32(),
+                Systems = [.. r.GetProperty("systems").EnumerateArray().Select(s => new ScoredSystem(s.GetProperty("name").GetString()!, s.GetProperty("path").GetString()!))],
+                Settings = new ScoreSettings
+                {
+                    LaneWidthPx = r.TryGetProperty("lane_width_px", out JsonElement lw) ? lw.GetInt32() : null,
+                    TolerancePx = r.TryGetProperty("tolerance_px", out JsonElement tol) ? tol.GetDouble() : null,
+                    ExtraThresholds = [.. r.GetProperty("extra_iou").EnumerateArray().Select(t => IouThreshold.Parse(t.GetString()!))],
+                },
+                Resamples = r.GetProperty("bootstrap").GetInt32(),
+                Seed = r.GetProperty("seed").GetUInt64(),
+            };
+        }
+        catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
+        {
+            throw BadInputException.At(path, 1, null, "not a score state header: " + ex.Message);
+        }
+    }
+
+    /// <inheritdoc />
+    public void Dispose() => reader.Dispose();
+}
+
+#pragma warning restore IDISP004
+
+/// <summary>Merges partial score states of shards 0..N−1 back into the results of one unsharded run.</summary>
+public static class ScoreStateMerge
+{
+    /// <summary>
+    /// Checks that the states belong to one job and cover every shard once, then replays their frames in truth
+    /// order (a k-way merge on the frame ordinal; each state is already in that order).
+    /// </summary>
+    /// <param name="paths">State files.</param>
+    /// <param name="onHeader">Called once the headers are checked, before any frame.</param>
+    /// <param name="onFrame">Called for each frame in truth order (e.g. to write the CSV).</param>
+    public static (ScoreStateHeader Header, SystemScore[] Results) Merge(
+        IReadOnlyList<string> paths, Action<ScoreStateHeader>? onHeader = null, Action<IReadOnlyList<FrameScore>>? onFrame = null)
+    {
+        ArgumentNullException.ThrowIfNull(paths);
+        if (paths.Count == 0)
+        {
+            throw new BadInputException("merge: no state files given");
+        }
+
+        var readers = new List<ScoreStateReader>();
+        try
+        {
+            foreach (string p in paths)
+            {
+                readers.Add(ScoreStateReader.Open(p));
+            }
+
+            ScoreStateHeader h0 = readers[0].Header;
+            var seen = new HashSet<int>();
+            for (int i = 0; i < readers.Count; i++)
+            {
+                ScoreStateHeader h = readers[i].Header;
+                if (h.JobKey() != h0.JobKey())
+                {
+                    throw BadInputException.At(paths[i], 1, null, $"belongs to a different job than {paths[0]} (truth, systems, settings or shard count differ)");
+                }
+
+                if (!seen.Add(h.Shard.Index))
+                {
+                    throw BadInputException.At(paths[i], 1, "shard_index", $"shard {h.Shard} is given twice");
+                }
+            }
+
+            if (seen.Count != h0.Shard.Count)
+            {
+                var missing = Enumerable.Range(0, h0.Shard.Count).Where(k => !seen.Contains(k)).Select(k => k.ToString(CultureInfo.InvariantCulture));
+                throw new BadInputException($"merge: shards {string.Join(", ", missing)} of {h0.Shard.Count} are missing");
+            }
+
+            onHeader?.Invoke(h0);
+            SystemScore[] results = ScoreRun.CreateResults(h0.Systems, h0.Settings);
+            int halfIndex = h0.Settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
+            var heads = new FrameScore[]?[readers.Count];
+            for (int i = 0; i < readers.Count; i++)
+            {
+                heads[i] = readers[i].Next();
+            }
+
+            int expected = 0;
+            while (true)
+            {
+                int best = -1;
+                for (int i = 0; i < heads.Length; i++)
+                {
+                    if (heads[i] is { } hd && (best < 0 || hd[0].Ordinal < heads[best]![0].Ordinal))
+                    {
+                        best = i;
+                    }
+                }
+
+                if (best < 0)
+                {
+                    break;
+                }
+
+                FrameScore[] row = heads[best]!;
+                if (row[0].Ordinal != expected)
+                {
+                    throw BadInputException.At(paths[best], 0, null, string.Create(
+                        CultureInfo.InvariantCulture,
+                        $"frame '{row[0].Frame}' has ordinal {row[0].Ordinal} where {expected} was expected (a state is incomplete, duplicated or out of order)"));
+                }
+
+                ScoreRun.Accumulate(results, row, halfIndex);
+                onFrame?.Invoke(row);
+                expected++;
+                heads[best] = readers[best].Next();
+            }
+
+            if (expected != h0.TruthFrames)
+            {
+                throw new BadInputException(string.Create(CultureInfo.InvariantCulture, $"merge: the states hold {expected} frames but the truth has {h0.TruthFrames} (a shard run was interrupted?)"));
+            }
+
+            return (h0, results);
+        }
+        finally
+        {
+            foreach (ScoreStateReader r in readers)
+            {
+                r.Dispose();
+            }
+        }
+    }
+}

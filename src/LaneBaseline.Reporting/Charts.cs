@@ -1,0 +1,228 @@
+using System.Globalization;
+using System.Text.RegularExpressions;
+using LaneBaseline.Reporting.Score;
+using ScottPlot;
+
+// IDISP004: plottables returned by plot.Add.* are owned and disposed by the Plot, which each chart disposes.
+#pragma warning disable IDISP004
+
+namespace LaneBaseline.Reporting;
+
+/// <summary>
+/// The report's charts, drawn with ScottPlot 5 and returned as inline SVG. ScottPlot numbers its clip-path ids with
+/// a process-wide counter, so each SVG's ids are renumbered under a per-chart prefix: the same inputs then give the
+/// same bytes, and several charts can share one page without id clashes.
+/// </summary>
+internal static partial class Charts
+{
+    /// <summary>Series colours, one per system in file order (our own palette; cycles after six).</summary>
+    public static readonly string[] SystemColors = ["#1F5FA8", "#D9480F", "#2B8A3E", "#862E9C", "#5C5F66", "#C2255C"];
+
+    private const string Font = "DejaVu Sans";
+
+    public static string SystemColor(int index) => SystemColors[index % SystemColors.Length];
+
+    /// <summary>F1 against the IoU threshold, one curve per system.</summary>
+    public static string F1VersusIou(IReadOnlyList<SystemResult> systems, string idPrefix)
+    {
+        using var plot = NewPlot();
+        for (int s = 0; s < systems.Count; s++)
+        {
+            ThresholdRow[] rows = [.. systems[s].Overall.Thresholds.Where(r => double.IsFinite(r.Counts.F1))];
+            if (rows.Length == 0)
+            {
+                continue;
+            }
+
+            var line = plot.Add.Scatter(rows.Select(r => r.Value).ToArray(), rows.Select(r => r.Counts.F1).ToArray());
+            line.LegendText = systems[s].Name;
+            line.Color = Color.FromHex(SystemColor(s));
+            line.LineWidth = 2;
+            line.MarkerSize = 6;
+        }
+
+        plot.XLabel("IoU threshold");
+        plot.YLabel("F1");
+        plot.Axes.SetLimits(0, 1, 0, 1.05);
+        plot.ShowLegend(Alignment.LowerLeft);
+        return ToSvg(plot, 900, 420, idPrefix, "F1 against IoU threshold");
+    }
+
+    /// <summary>Precision against recall as the minimum lane confidence rises (IoU 0.50).</summary>
+    public static string PrecisionRecall(IReadOnlyList<SystemResult> systems, string idPrefix)
+    {
+        using var plot = NewPlot();
+        for (int s = 0; s < systems.Count; s++)
+        {
+            SweepPoint[] pts = [.. systems[s].ConfidenceSweep.Where(p => double.IsFinite(p.Counts.Precision) && double.IsFinite(p.Counts.Recall))];
+            if (pts.Length == 0)
+            {
+                continue;
+            }
+
+            var line = plot.Add.Scatter(pts.Select(p => p.Counts.Recall).ToArray(), pts.Select(p => p.Counts.Precision).ToArray());
+            line.LegendText = systems[s].Name;
+            line.Color = Color.FromHex(SystemColor(s));
+            line.LineWidth = 2;
+            line.MarkerSize = 6;
+        }
+
+        plot.XLabel("Recall at IoU 0.50");
+        plot.YLabel("Precision at IoU 0.50");
+        plot.Axes.SetLimits(0, 1.02, 0, 1.05);
+        plot.ShowLegend(Alignment.LowerLeft);
+        return ToSvg(plot, 900, 420, idPrefix, "Precision against recall over lane confidence");
+    }
+
+    /// <summary>F1 at IoU 0.50 per tag, grouped bars with one bar per system.</summary>
+    public static string TagBars(IReadOnlyList<SystemResult> systems, IReadOnlyList<string> tags, string idPrefix)
+    {
+        using var plot = NewPlot();
+        int n = systems.Count;
+        var bars = new List<Bar>();
+        for (int t = 0; t < tags.Count; t++)
+        {
+            for (int s = 0; s < n; s++)
+            {
+                Tally? tally = systems[s].ByTag.FirstOrDefault(kv => kv.Key == tags[t]).Value;
+                double f1 = tally?.At("0.50")?.F1 ?? double.NaN;
+                if (!double.IsFinite(f1))
+                {
+                    continue;
+                }
+
+                bars.Add(new Bar
+                {
+                    Position = (t * (n + 1)) + s,
+                    Value = f1,
+                    FillColor = Color.FromHex(SystemColor(s)),
+                    LineWidth = 0,
+                });
+            }
+        }
+
+        plot.Add.Bars(bars);
+        plot.Axes.Bottom.SetTicks(
+            [.. Enumerable.Range(0, tags.Count).Select(t => (t * (n + 1)) + ((n - 1) / 2.0))],
+            [.. tags]);
+        AddSystemLegend(plot, systems);
+        plot.YLabel("F1 at IoU 0.50");
+        plot.Axes.SetLimits(-0.8, (tags.Count * (n + 1)) - 1.2, 0, 1.1);
+        return ToSvg(plot, 900, 400, idPrefix, "F1 at IoU 0.50 per tag");
+    }
+
+    /// <summary>Paired differences A − B with their 95 % intervals (bar = interval, dot = full-sample difference).</summary>
+    public static string PairedDifferences(IReadOnlyList<PairedResult> pairs, string idPrefix)
+    {
+        using var plot = NewPlot();
+        var positions = new List<double>();
+        var labels = new List<string>();
+        var bars = new List<Bar>();
+        var xs = new List<double>();
+        var ys = new List<double>();
+        int x = 0;
+        for (int p = 0; p < pairs.Count; p++)
+        {
+            foreach (PairedStatistic st in pairs[p].Statistics)
+            {
+                if (st.Ci95 is Ci ci && double.IsFinite(ci.Low) && double.IsFinite(ci.High))
+                {
+                    bars.Add(new Bar
+                    {
+                        Position = x,
+                        ValueBase = ci.Low,
+                        Value = ci.High,
+                        Size = 0.45,
+                        FillColor = Color.FromHex(SystemColor(p)).WithAlpha(0.35),
+                        LineWidth = 0,
+                    });
+                }
+
+                if (double.IsFinite(st.Diff))
+                {
+                    xs.Add(x);
+                    ys.Add(st.Diff);
+                }
+
+                positions.Add(x);
+                labels.Add(st.Key + (pairs.Count > 1 ? "\n" + pairs[p].Key : string.Empty));
+                x++;
+            }
+
+            x++;
+        }
+
+        if (bars.Count > 0)
+        {
+            plot.Add.Bars(bars);
+        }
+
+        var zero = plot.Add.HorizontalLine(0);
+        zero.LineColor = Color.FromHex("#444444");
+        zero.LineWidth = 1;
+        if (xs.Count > 0)
+        {
+            var dots = plot.Add.Markers(xs.ToArray(), ys.ToArray());
+            dots.MarkerSize = 9;
+            dots.Color = Color.FromHex("#111111");
+        }
+
+        plot.Axes.Bottom.SetTicks([.. positions], [.. labels]);
+        plot.YLabel(pairs.Count == 1 ? "Difference " + pairs[0].Key : "Difference A − B");
+        double lo = Math.Min(0, bars.Select(b => b.ValueBase).Concat(ys).DefaultIfEmpty(0).Min());
+        double hi = Math.Max(0, bars.Select(b => b.Value).Concat(ys).DefaultIfEmpty(0).Max());
+        double pad = Math.Max(0.05, (hi - lo) * 0.1);
+        plot.Axes.SetLimits(-0.8, Math.Max(1, x - 1.2), lo - pad, hi + pad);
+        return ToSvg(plot, 900, 380, idPrefix, "Paired differences with 95 % intervals");
+    }
+
+    private static void AddSystemLegend(Plot plot, IReadOnlyList<SystemResult> systems)
+    {
+        for (int s = 0; s < systems.Count; s++)
+        {
+            plot.Legend.ManualItems.Add(new LegendItem { LabelText = systems[s].Name, FillColor = Color.FromHex(SystemColor(s)) });
+        }
+
+        plot.ShowLegend(Alignment.UpperRight);
+    }
+
+    private static Plot NewPlot()
+    {
+        var plot = new Plot();
+        plot.Font.Set(Font);
+        return plot;
+    }
+
+    /// <summary>Renders and normalises the SVG: no XML prolog, a viewBox for fluid width, stable ids.</summary>
+    internal static string ToSvg(Plot plot, int width, int height, string idPrefix, string label)
+    {
+        string svg = plot.GetSvgXml(width, height);
+        int start = svg.IndexOf("<svg", StringComparison.Ordinal);
+        svg = svg[start..].Trim();
+        var ids = new Dictionary<string, string>(StringComparer.Ordinal);
+        svg = ClipId().Replace(svg, m =>
+        {
+            if (!ids.TryGetValue(m.Value, out string? id))
+            {
+                id = idPrefix + "-" + ids.Count.ToString(CultureInfo.InvariantCulture);
+                ids.Add(m.Value, id);
+            }
+
+            return id;
+        });
+        svg = TrailingListComma().Replace(svg, "$1=\"$2\"");
+        string size = string.Create(CultureInfo.InvariantCulture, $"width=\"{width}\" height=\"{height}\"");
+        int tagEnd = svg.IndexOf('>', StringComparison.Ordinal);
+        string openTag = svg[..tagEnd].Replace(
+            size,
+            string.Create(CultureInfo.InvariantCulture, $"viewBox=\"0 0 {width} {height}\" {size} role=\"img\" aria-label=\"{System.Net.WebUtility.HtmlEncode(label)}\""),
+            StringComparison.Ordinal);
+        return openTag + svg[tagEnd..];
+    }
+
+    [GeneratedRegex("cl_[0-9A-Za-z]+")]
+    private static partial Regex ClipId();
+
+    [GeneratedRegex("( [xy])=\"([^\"]*?),\\s*\"")]
+    private static partial Regex TrailingListComma();
+}

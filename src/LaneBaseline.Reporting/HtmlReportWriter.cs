@@ -1,0 +1,350 @@
+using System.Globalization;
+using System.Net;
+using System.Text;
+using LaneBaseline.Core;
+using LaneBaseline.Reporting.Score;
+
+namespace LaneBaseline.Reporting;
+
+/// <summary>
+/// Writes the report as one self-contained HTML page: inline CSS, charts as inline SVG (ScottPlot 5), thumbnails as
+/// JPEG data URIs; no script and no external resource. The output depends only on <see cref="ReportInput"/>: numbers
+/// use the invariant culture at fixed precision, keys keep their file (or ordinal) order, and the time printed is the
+/// injected <see cref="ReportInput.GeneratedAt"/>.
+/// </summary>
+public static class HtmlReportWriter
+{
+    /// <summary>Section ids, in page order (every one is always present; empty ones say why).</summary>
+    public static readonly IReadOnlyList<string> SectionIds =
+        ["headline", "iou-curve", "confidence", "tags", "paired", "gallery", "configuration", "caution"];
+
+    /// <summary>The version of the charting library, for the versions table.</summary>
+    public static string ChartLibraryVersion =>
+        typeof(ScottPlot.Plot).Assembly.GetName().Version?.ToString(3) ?? "unknown";
+
+    /// <summary>Renders the page to a string (the caller writes it atomically).</summary>
+    public static string Render(ReportInput input)
+    {
+        ArgumentNullException.ThrowIfNull(input);
+        var h = new StringBuilder(1 << 16);
+        ScoreDocument doc = input.Score;
+        IReadOnlyList<SystemResult> systems = doc.Systems;
+
+        h.Append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
+         .Append("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n")
+         .Append("<title>Lane scoring report: ").Append(E(string.Join(", ", systems.Select(s => s.Name)))).Append("</title>\n")
+         .Append("<style>\n:root { --truth:").Append(OverlayColors.TruthHex).Append("; --pred:").Append(OverlayColors.PredictionHex).Append("; }\n").Append(Css).Append("</style>\n</head>\n<body>\n");
+
+        h.Append("<header>\n<h1>Lane scoring report</h1>\n<p class=\"meta\">")
+         .Append(Count(systems.Count, "system")).Append(" · ").Append(Count(systems[0].Overall.Frames, "frame"))
+         .Append(" · source <code>").Append(E(input.ScoreSource)).Append("</code> · generated <time datetime=\"")
+         .Append(Time(input.GeneratedAt)).Append("\">").Append(Time(input.GeneratedAt)).Append("</time></p>\n")
+         .Append("<p class=\"caution-banner\">").Append(E(SafetyNotice.Text)).Append("</p>\n</header>\n");
+
+        h.Append("<nav><a href=\"#headline\">Headline</a><a href=\"#iou-curve\">F1 vs IoU</a><a href=\"#confidence\">Confidence</a>")
+         .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#gallery\">Worst frames</a>")
+         .Append("<a href=\"#configuration\">Configuration</a><a href=\"#caution\">Caution</a></nav>\n<main>\n");
+
+        WriteHeadline(h, systems);
+        WriteIouCurve(h, systems);
+        WriteConfidence(h, systems);
+        WriteTags(h, systems);
+        WritePaired(h, doc);
+        WriteGallery(h, input.Gallery);
+        WriteConfiguration(h, input);
+
+        h.Append("<section id=\"caution\">\n<h2>Safety caution</h2>\n<p>").Append(E(SafetyNotice.Text)).Append("</p>\n</section>\n");
+        h.Append("</main>\n<footer>LaneBaseline report · ").Append(Time(input.GeneratedAt)).Append("</footer>\n</body>\n</html>\n");
+        return h.ToString();
+    }
+
+    private static void WriteHeadline(StringBuilder h, IReadOnlyList<SystemResult> systems)
+    {
+        h.Append("<section id=\"headline\">\n<h2>Headline</h2>\n");
+        h.Append("<p>F1 at IoU 0.50 on rasterised lanes, mF1 (mean F1 over IoU 0.50–0.95) and row-sampled point accuracy. ")
+         .Append("Brackets hold the 95 % bootstrap interval over frames where the score run computed one.</p>\n");
+        h.Append("<div class=\"scroll\"><table id=\"headline-table\">\n<thead><tr><th>System</th><th>Frames</th><th>Truth lanes</th><th>Predicted lanes</th>")
+         .Append("<th>F1@0.50</th><th>Precision @0.50</th><th>Recall @0.50</th><th>mF1</th><th>Point accuracy</th><th>Point FP rate</th><th>Point FN rate</th></tr></thead>\n<tbody>\n");
+        for (int s = 0; s < systems.Count; s++)
+        {
+            SystemResult r = systems[s];
+            DetectionSummary? half = r.Overall.At("0.50");
+            h.Append("<tr data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(Swatch(s)).Append(E(r.Name)).Append("</th>")
+             .Append(Td("frames", r.Overall.Frames)).Append(Td("truth_lanes", r.Overall.TruthLanes)).Append(Td("pred_lanes", r.Overall.PredLanes))
+             .Append(TdCi("f1@0.50", half?.F1 ?? double.NaN, r.Intervals?.Get("f1@0.50")))
+             .Append(TdCi("precision@0.50", half?.Precision ?? double.NaN, r.Intervals?.Get("precision@0.50")))
+             .Append(TdCi("recall@0.50", half?.Recall ?? double.NaN, r.Intervals?.Get("recall@0.50")))
+             .Append(TdCi("mf1", r.Overall.MeanF1, null))
+             .Append(TdCi("accuracy", r.Overall.Point.Accuracy, r.Intervals?.Get("accuracy")))
+             .Append(TdCi("fp_rate", r.Overall.Point.FpRate, null))
+             .Append(TdCi("fn_rate", r.Overall.Point.FnRate, null))
+             .Append("</tr>\n");
+        }
+
+        h.Append("</tbody>\n</table></div>\n");
+        IntervalSet? iv = systems.Select(s => s.Intervals).FirstOrDefault(i => i is not null);
+        h.Append("<p class=\"note\">").Append(iv is null
+            ? "No intervals: the score run had bootstrap resampling switched off."
+            : string.Create(CultureInfo.InvariantCulture, $"Intervals: {iv.Method}, {iv.Resamples} resamples, seed {iv.Seed}, level {F(iv.Level, "0.##")}."))
+         .Append("</p>\n</section>\n");
+    }
+
+    private static void WriteIouCurve(StringBuilder h, IReadOnlyList<SystemResult> systems)
+    {
+        h.Append("<section id=\"iou-curve\">\n<h2>F1 against IoU threshold</h2>\n");
+        h.Append("<p>How F1 falls as the overlap a prediction needs to count rises; a curve that drops early means lanes are found but placed loosely.</p>\n");
+        h.Append("<figure class=\"chart\" id=\"chart-iou\">").Append(Charts.F1VersusIou(systems, "c1")).Append("<figcaption>F1 against the IoU threshold, one curve per system.</figcaption></figure>\n");
+        var keys = systems.SelectMany(s => s.Overall.Thresholds).GroupBy(t => t.Key).Select(g => g.First()).OrderBy(t => t.Value).Select(t => t.Key).ToList();
+        h.Append("<div class=\"scroll\"><table id=\"iou-table\">\n<thead><tr><th>System</th>");
+        foreach (string k in keys)
+        {
+            h.Append("<th>").Append(E(k)).Append("</th>");
+        }
+
+        h.Append("</tr></thead>\n<tbody>\n");
+        foreach (SystemResult r in systems)
+        {
+            h.Append("<tr data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(E(r.Name)).Append("</th>");
+            foreach (string k in keys)
+            {
+                h.Append(TdCi(k, r.Overall.At(k)?.F1 ?? double.NaN, null));
+            }
+
+            h.Append("</tr>\n");
+        }
+
+        h.Append("</tbody>\n</table></div>\n</section>\n");
+    }
+
+    private static void WriteConfidence(StringBuilder h, IReadOnlyList<SystemResult> systems)
+    {
+        h.Append("<section id=\"confidence\">\n<h2>Precision and recall over lane confidence</h2>\n");
+        SystemResult[] with = [.. systems.Where(s => s.ConfidenceSweep.Count > 0)];
+        if (with.Length == 0)
+        {
+            h.Append("<p class=\"empty\">No predicted lane carries a confidence (<code>score</code>), so there is no sweep to show.</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<p>Each point keeps only lanes whose confidence reaches a cutoff (0.00, 0.05, … 0.95); lanes without a confidence are always kept. IoU threshold 0.50.</p>\n");
+        h.Append("<figure class=\"chart\" id=\"chart-confidence\">").Append(Charts.PrecisionRecall(systems, "c2")).Append("<figcaption>Precision against recall as the confidence cutoff rises.</figcaption></figure>\n");
+        h.Append("<details><summary>Sweep table (one row per system and cutoff)</summary>\n<div class=\"scroll\"><table id=\"confidence-table\">\n<thead><tr><th>System</th><th>Min confidence</th><th>TP</th><th>FP</th><th>FN</th><th>Precision</th><th>Recall</th><th>F1</th></tr></thead>\n<tbody>\n");
+        foreach (SystemResult r in with)
+        {
+            foreach (SweepPoint p in r.ConfidenceSweep)
+            {
+                h.Append("<tr data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(E(r.Name)).Append("</th>")
+                 .Append("<td>").Append(F(p.MinScore, "0.00")).Append("</td>")
+                 .Append(Td("tp", p.Counts.Tp)).Append(Td("fp", p.Counts.Fp)).Append(Td("fn", p.Counts.Fn))
+                 .Append(TdCi("precision", p.Counts.Precision, null)).Append(TdCi("recall", p.Counts.Recall, null)).Append(TdCi("f1", p.Counts.F1, null))
+                 .Append("</tr>\n");
+            }
+        }
+
+        h.Append("</tbody>\n</table></div>\n</details>\n</section>\n");
+    }
+
+    private static void WriteTags(StringBuilder h, IReadOnlyList<SystemResult> systems)
+    {
+        h.Append("<section id=\"tags\">\n<h2>By tag</h2>\n");
+        var tags = systems.SelectMany(s => s.ByTag.Select(kv => kv.Key)).Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal).ToList();
+        if (tags.Count == 0)
+        {
+            h.Append("<p class=\"empty\">The truth file carries no tags, so there is no per-condition breakdown.</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<p>Frames are counted under every tag their truth record carries, so the tags overlap and need not add up to the whole.</p>\n");
+        h.Append("<figure class=\"chart\" id=\"chart-tags\">").Append(Charts.TagBars(systems, tags, "c3")).Append("<figcaption>F1 at IoU 0.50 per tag and system.</figcaption></figure>\n");
+        h.Append("<div class=\"scroll\"><table id=\"tag-table\">\n<thead><tr><th>Tag</th><th>System</th><th>Frames</th><th>Truth lanes</th><th>F1@0.50</th><th>mF1</th><th>Point accuracy</th></tr></thead>\n<tbody>\n");
+        foreach (string tag in tags)
+        {
+            foreach (SystemResult r in systems)
+            {
+                Tally? t = r.ByTag.FirstOrDefault(kv => kv.Key == tag).Value;
+                if (t is null)
+                {
+                    continue;
+                }
+
+                h.Append("<tr data-tag=\"").Append(E(tag)).Append("\" data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(E(tag)).Append("</th><td class=\"t\">").Append(E(r.Name)).Append("</td>")
+                 .Append(Td("frames", t.Frames)).Append(Td("truth_lanes", t.TruthLanes))
+                 .Append(TdCi("f1@0.50", t.At("0.50")?.F1 ?? double.NaN, null)).Append(TdCi("mf1", t.MeanF1, null)).Append(TdCi("accuracy", t.Point.Accuracy, null))
+                 .Append("</tr>\n");
+            }
+        }
+
+        h.Append("</tbody>\n</table></div>\n</section>\n");
+    }
+
+    private static void WritePaired(StringBuilder h, ScoreDocument doc)
+    {
+        h.Append("<section id=\"paired\">\n<h2>Paired differences</h2>\n");
+        if (doc.Paired.Count == 0)
+        {
+            h.Append("<p class=\"empty\">").Append(doc.Systems.Count < 2
+                ? "One system only: score several predictions on the same frames (<code>--pred NAME=FILE</code> repeated) to compare them."
+                : "The score file holds no paired comparison.").Append("</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<p>Difference A − B on the same frames; the interval resamples frames jointly for both systems, so an interval that excludes 0 is a difference the frame sample supports.</p>\n");
+        h.Append("<figure class=\"chart\" id=\"chart-paired\">").Append(Charts.PairedDifferences(doc.Paired, "c4")).Append("<figcaption>Dots: full-sample difference; shaded bars: 95 % interval.</figcaption></figure>\n");
+        h.Append("<div class=\"scroll\"><table id=\"paired-table\">\n<thead><tr><th>A − B</th><th>Statistic</th><th>Difference</th><th>95 % interval</th><th>Reading</th></tr></thead>\n<tbody>\n");
+        foreach (PairedResult p in doc.Paired)
+        {
+            foreach (PairedStatistic st in p.Statistics)
+            {
+                string reading = st.Ci95 is Ci ci && double.IsFinite(ci.Low) && double.IsFinite(ci.High)
+                    ? ci.Low > 0 ? E(p.A) + " higher" : ci.High < 0 ? E(p.B) + " higher" : "no clear difference"
+                    : "no interval";
+                h.Append("<tr data-pair=\"").Append(E(p.Key)).Append("\" data-stat=\"").Append(E(st.Key)).Append("\"><th scope=\"row\">").Append(E(p.Key)).Append("</th><td class=\"t\">").Append(E(st.Key)).Append("</td>")
+                 .Append("<td data-value=\"").Append(R(st.Diff)).Append("\">").Append(F(st.Diff, "+0.000;-0.000;0.000")).Append("</td>")
+                 .Append("<td>").Append(st.Ci95 is Ci c ? "[" + F(c.Low, "+0.000;-0.000;0.000") + ", " + F(c.High, "+0.000;-0.000;0.000") + "]" : "–").Append("</td>")
+                 .Append("<td class=\"t\">").Append(reading).Append("</td></tr>\n");
+            }
+        }
+
+        h.Append("</tbody>\n</table></div>\n</section>\n");
+    }
+
+    private static void WriteGallery(StringBuilder h, Gallery? gallery)
+    {
+        h.Append("<section id=\"gallery\">\n<h2>Worst frames</h2>\n");
+        if (gallery is null)
+        {
+            h.Append("<p class=\"empty\">Not requested: pass <code>--frames DIR --truth FILE --pred FILE</code> to <code>report</code> to draw the worst frames.</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<p>").Append(E(gallery.Selection)).Append("</p>\n");
+        h.Append("<p class=\"legend\"><span class=\"key\"><span class=\"line truth\"></span>ground truth</span><span class=\"key\"><span class=\"line pred\"></span>prediction (dots at its points)</span></p>\n");
+        if (gallery.Frames.Count == 0)
+        {
+            h.Append("<p class=\"empty\">Every frame scores perfectly: there is no failure to show.</p>\n</section>\n");
+            return;
+        }
+
+        foreach (IGrouping<string, GalleryFrame> group in gallery.Frames.GroupBy(f => f.System))
+        {
+            h.Append("<h3>").Append(E(group.Key)).Append("</h3>\n<div class=\"gallery\">\n");
+            foreach (GalleryFrame f in group)
+            {
+                h.Append("<figure class=\"thumb\" data-frame=\"").Append(E(f.Frame)).Append("\" data-system=\"").Append(E(f.System)).Append("\">")
+                 .Append("<img alt=\"").Append(E(f.Frame)).Append(" with truth and prediction drawn\" width=\"").Append(I(f.Width)).Append("\" height=\"").Append(I(f.Height))
+                 .Append("\" src=\"data:image/jpeg;base64,").Append(Convert.ToBase64String(f.Jpeg.Span)).Append("\">")
+                 .Append("<figcaption><code>").Append(E(f.Frame)).Append("</code><br>F1@0.50 ").Append(F(f.F1, "0.000"))
+                 .Append(" (TP ").Append(I(f.Tp)).Append(", FP ").Append(I(f.Fp)).Append(", FN ").Append(I(f.Fn)).Append(") · point acc. ").Append(F(f.PointAccuracy, "0.000"));
+                if (f.Tags.Count > 0)
+                {
+                    h.Append("<br>tags: ").Append(E(string.Join(", ", f.Tags)));
+                }
+
+                h.Append("</figcaption></figure>\n");
+            }
+
+            h.Append("</div>\n");
+        }
+
+        h.Append("</section>\n");
+    }
+
+    private static void WriteConfiguration(StringBuilder h, ReportInput input)
+    {
+        h.Append("<section id=\"configuration\">\n<h2>Configuration and versions</h2>\n");
+        h.Append("<p>The effective settings of the score run (from its results) and of this report, so the page can be reproduced from its inputs. <code>null</code> means the per-frame default of the metrics specification.</p>\n");
+        h.Append("<div class=\"scroll\"><table id=\"settings-table\">\n<thead><tr><th>Setting</th><th>Value</th></tr></thead>\n<tbody>\n");
+        foreach (KeyValuePair<string, string> kv in input.Score.Settings.Select(kv => new KeyValuePair<string, string>("score." + kv.Key, kv.Value)).Concat(input.ReportSettings))
+        {
+            h.Append("<tr><th scope=\"row\"><code>").Append(E(kv.Key)).Append("</code></th><td>").Append(E(kv.Value)).Append("</td></tr>\n");
+        }
+
+        h.Append("</tbody>\n</table></div>\n");
+        h.Append("<div class=\"scroll\"><table id=\"versions-table\">\n<thead><tr><th>Component</th><th>Version</th></tr></thead>\n<tbody>\n");
+        foreach (KeyValuePair<string, string> kv in input.Versions.Append(new("ScottPlot (charts)", ChartLibraryVersion)))
+        {
+            h.Append("<tr><th scope=\"row\">").Append(E(kv.Key)).Append("</th><td>").Append(E(kv.Value)).Append("</td></tr>\n");
+        }
+
+        h.Append("</tbody>\n</table></div>\n</section>\n");
+    }
+
+    private static string Swatch(int system) =>
+        "<span class=\"swatch\" style=\"background:" + Charts.SystemColor(system) + "\"></span>";
+
+    private static string Td(string key, long value) =>
+        "<td data-key=\"" + E(key) + "\">" + I(value) + "</td>";
+
+    private static string TdCi(string key, double value, Ci? ci)
+    {
+        var sb = new StringBuilder("<td data-key=\"").Append(E(key)).Append("\" data-value=\"").Append(R(value)).Append("\">").Append(F(value, "0.000"));
+        if (ci is Ci c)
+        {
+            sb.Append(" <span class=\"ci\">[").Append(F(c.Low, "0.000")).Append(", ").Append(F(c.High, "0.000")).Append("]</span>");
+        }
+
+        return sb.Append("</td>").ToString();
+    }
+
+    /// <summary>Fixed-precision invariant text; "–" for a missing (NaN) value.</summary>
+    internal static string F(double value, string format) =>
+        double.IsFinite(value) ? value.ToString(format, CultureInfo.InvariantCulture) : "–";
+
+    /// <summary>Round-trip invariant text for data attributes; empty for NaN.</summary>
+    internal static string R(double value) =>
+        double.IsFinite(value) ? value.ToString("R", CultureInfo.InvariantCulture) : string.Empty;
+
+    private static string I(long value) => value.ToString(CultureInfo.InvariantCulture);
+
+    private static string Count(long n, string noun) => I(n) + " " + noun + (n == 1 ? string.Empty : "s");
+
+    private static string Time(DateTimeOffset t) => t.UtcDateTime.ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture);
+
+    private static string E(string text) => WebUtility.HtmlEncode(text);
+
+    private const string Css = """
+        :root { --ink:#1d232b; --muted:#5b6470; --rule:#d6dbe1; --band:#f3f5f8; --accent:#1F5FA8; }
+        * { box-sizing:border-box; }
+        body { margin:0 auto; max-width:1200px; padding:16px 24px 40px; color:var(--ink); background:#fff;
+               font:15px/1.5 "DejaVu Sans", "Segoe UI", Helvetica, Arial, sans-serif; }
+        h1 { font-size:1.8em; margin:0.2em 0; } h2 { font-size:1.3em; margin:0 0 0.4em; border-bottom:2px solid var(--rule); padding-bottom:0.2em; }
+        h3 { font-size:1.05em; margin:1em 0 0.4em; }
+        .meta { color:var(--muted); margin:0 0 0.6em; }
+        .caution-banner { background:#fff4e5; border-left:5px solid #d9480f; padding:8px 12px; margin:0.6em 0; }
+        nav { position:sticky; top:0; background:#fff; border-bottom:1px solid var(--rule); padding:6px 0; z-index:1;
+              display:flex; flex-wrap:wrap; gap:4px 14px; }
+        nav a { color:var(--accent); text-decoration:none; font-size:0.92em; }
+        section { margin:28px 0; }
+        .scroll { overflow-x:auto; }
+        table { border-collapse:collapse; margin:8px 0; font-variant-numeric:tabular-nums; }
+        th, td { border-bottom:1px solid var(--rule); padding:5px 10px; text-align:right; white-space:nowrap; vertical-align:top; }
+        th:first-child, thead th { text-align:left; } thead th { background:var(--band); white-space:normal; vertical-align:bottom; }
+        #headline-table thead th { max-width:7.5em; }
+        #settings-table td, #versions-table td { text-align:left; white-space:normal; word-break:break-all; }
+        td.t { text-align:left; }
+        .ci { display:block; color:var(--muted); font-size:0.82em; }
+        .swatch { display:inline-block; width:0.8em; height:0.8em; border-radius:2px; margin-right:6px; vertical-align:baseline; }
+        figure { margin:8px 0; }
+        figure.chart svg { display:block; width:100%; max-width:900px; height:auto; }
+        figcaption { color:var(--muted); font-size:0.88em; }
+        .note, .empty { color:var(--muted); }
+        .legend .key { margin-right:18px; white-space:nowrap; }
+        .legend .line { display:inline-block; width:28px; vertical-align:middle; margin-right:6px; border-top-style:solid; }
+        .legend .truth { border-top-width:5px; border-top-color:var(--truth); }
+        .legend .pred { border-top-width:2px; border-top-color:var(--pred); }
+        .gallery { display:grid; grid-template-columns:repeat(auto-fill, minmax(260px, 1fr)); gap:12px; }
+        .thumb { margin:0; border:1px solid var(--rule); padding:6px; background:var(--band); }
+        .thumb img { display:block; width:100%; height:auto; }
+        .thumb figcaption { margin-top:4px; word-break:break-all; }
+        details > summary { cursor:pointer; color:var(--accent); margin:6px 0; }
+        footer { color:var(--muted); font-size:0.85em; border-top:1px solid var(--rule); padding-top:8px; }
+        @media (max-width:700px) { body { padding:8px 10px 24px; font-size:14px; } th, td { padding:4px 6px; } h1 { font-size:1.4em; } }
+        @media print {
+          body { max-width:none; padding:0; font-size:11pt; } nav { display:none; }
+          section, figure, table, .thumb { break-inside:avoid; } h2 { break-after:avoid; }
+          .scroll { overflow:visible; } .gallery { grid-template-columns:repeat(3, 1fr); }
+          .caution-banner { border:1px solid #d9480f; } details > summary { display:none; }
+        }
+
+        """;
+}

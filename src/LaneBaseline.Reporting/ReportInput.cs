@@ -1,0 +1,73 @@
+using LaneBaseline.Reporting.Score;
+
+namespace LaneBaseline.Reporting;
+
+/// <summary>Everything the HTML report shows. Nothing in it is read from the clock or the machine by the writer.</summary>
+public sealed record ReportInput
+{
+    /// <summary>The parsed score results.</summary>
+    public required ScoreDocument Score { get; init; }
+
+    /// <summary>Where the score results came from, as the user named it.</summary>
+    public required string ScoreSource { get; init; }
+
+    /// <summary>The "generated at" time printed in the page (injected, so the page is reproducible).</summary>
+    public required DateTimeOffset GeneratedAt { get; init; }
+
+    /// <summary>Versions of the tool and the libraries that made the page, in display order.</summary>
+    public IReadOnlyList<KeyValuePair<string, string>> Versions { get; init; } = [];
+
+    /// <summary>Settings of the report itself (inputs, caps), in display order.</summary>
+    public IReadOnlyList<KeyValuePair<string, string>> ReportSettings { get; init; } = [];
+
+    /// <summary>The worst-frame gallery, or null when it was not requested.</summary>
+    public Gallery? Gallery { get; init; }
+}
+
+/// <summary>The worst-frame gallery: thumbnails already drawn (the report itself draws nothing on images).</summary>
+/// <param name="Frames">Thumbnails grouped by system, worst first within a system.</param>
+/// <param name="Selection">One sentence saying how frames were chosen and the size caps.</param>
+public sealed record Gallery(IReadOnlyList<GalleryFrame> Frames, string Selection);
+
+/// <summary>One thumbnail of the gallery with the scores that ranked it.</summary>
+/// <param name="System">System whose prediction is drawn.</param>
+/// <param name="Frame">Frame key.</param>
+/// <param name="Tags">Truth tags of the frame.</param>
+/// <param name="Tp">True positives at IoU 0.50.</param>
+/// <param name="Fp">False positives at IoU 0.50.</param>
+/// <param name="Fn">False negatives at IoU 0.50.</param>
+/// <param name="F1">Frame F1 at IoU 0.50.</param>
+/// <param name="PointAccuracy">Frame point accuracy, NaN without truth lanes.</param>
+/// <param name="Jpeg">The thumbnail, JPEG-encoded.</param>
+/// <param name="Width">Thumbnail width in pixels.</param>
+/// <param name="Height">Thumbnail height in pixels.</param>
+public sealed record GalleryFrame(
+    string System,
+    string Frame,
+    IReadOnlyList<string> Tags,
+    long Tp,
+    long Fp,
+    long Fn,
+    double F1,
+    double PointAccuracy,
+    ReadOnlyMemory<byte> Jpeg,
+    int Width,
+    int Height);
+
+/// <summary>The colours of the overlays, shared by the drawing code and the page's legend.</summary>
+public static class OverlayColors
+{
+    /// <summary>Ground truth: a broad sea-green band.</summary>
+    public const string TruthHex = "#19C37D";
+
+    /// <summary>Prediction: a thinner magenta line with dots at its points.</summary>
+    public const string PredictionHex = "#E8368F";
+
+    /// <summary>Parses <c>#RRGGBB</c> into its components.</summary>
+    public static (byte R, byte G, byte B) Rgb(string hex)
+    {
+        ArgumentNullException.ThrowIfNull(hex);
+        int v = int.Parse(hex.AsSpan(1), System.Globalization.NumberStyles.HexNumber, System.Globalization.CultureInfo.InvariantCulture);
+        return ((byte)(v >> 16), (byte)(v >> 8), (byte)v);
+    }
+}
