@@ -19,7 +19,7 @@ internal static class DetectCommand
             Description = "Preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file. Default: default.",
             DefaultValueFactory = _ => "default",
         };
-        Option<string?> camera = new("--camera") { Description = "Camera file (camera.json) for the region and warp; not available in this build." };
+        Option<string?> camera = new("--camera") { Description = "Camera file (camera.json): the horizon and vanishing point come from it instead of being estimated; frames must have its size." };
         Option<string?> overlays = new("--overlays") { Description = "Folder for one overlay PNG per frame (frame key + .png)." };
         Option<string?> stagesDir = new("--stages") { Description = "Folder for a contact sheet of every stage's image (frame key + .stages.png)." };
         Option<int> stagesEvery = new("--stages-every") { Description = "With --stages: a sheet for every N-th frame (default 1: every frame).", DefaultValueFactory = _ => 1 };
@@ -41,11 +41,6 @@ internal static class DetectCommand
 
         command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
         {
-            if (parse.GetValue(camera) is not null)
-            {
-                throw new UsageException("--camera is not available in this build yet; without it the region and warp come from the estimated vanishing point");
-            }
-
             int n = parse.GetValue(threads);
             if (n < 1 || n > 256)
             {
@@ -88,6 +83,8 @@ internal static class DetectCommand
                 MaxFrames = limit,
                 ImageFps = rate,
                 Timings = parse.GetValue(timings),
+                Camera = parse.GetValue(camera) is string cameraPath ? Core.Geometry.CameraModel.Load(cameraPath) : null,
+                CameraPath = parse.GetValue(camera),
             };
             DetectSummary summary = new DetectRunner(request, stderr).Run();
             stdout.WriteLine(string.Create(

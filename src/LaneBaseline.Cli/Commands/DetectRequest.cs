@@ -34,6 +34,11 @@ internal sealed record DetectRequest
     public double ImageFps { get; init; } = 10;
 
     public bool Timings { get; init; }
+
+    /// <summary>Camera file, when given: frames must have its size; the region and warp follow its horizon.</summary>
+    public Core.Geometry.CameraModel? Camera { get; init; }
+
+    public string? CameraPath { get; init; }
 }
 
 /// <summary>What a detect run did.</summary>

@@ -29,7 +29,10 @@ internal sealed class DetectRunner
     {
         this.request = request;
         this.stderr = stderr;
-        configHash = PresetLoader.Hash(request.Options);
+        configHash = request.Camera is null
+            ? PresetLoader.Hash(request.Options)
+            : "sha256:" + Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(
+                Encoding.UTF8.GetBytes(PresetLoader.ToYaml(request.Options) + "\n" + request.Camera.ToJson())).AsSpan(0, 8));
         configJson = "\"" + configHash + "\"";
     }
 
@@ -132,7 +135,7 @@ internal sealed class DetectRunner
         {
             workers[t] = Task.Run(() =>
             {
-                using var pipeline = new LanePipeline(request.Options) { MeasureStages = request.Timings };
+                using var pipeline = new LanePipeline(request.Options, CameraVanishingPoint()) { MeasureStages = request.Timings };
                 using var primitives = request.Timings ? new PrimitiveTimer() : null;
                 string? sequence = null;
                 try
@@ -297,6 +300,18 @@ internal sealed class DetectRunner
         }
     }
 
+    /// <summary>The image of the point at infinity straight ahead on the road (ground X → ∞, Y = 0), from the camera file.</summary>
+    private (double X, double Y)? CameraVanishingPoint()
+    {
+        if (request.Camera is not { } cam)
+        {
+            return null;
+        }
+
+        (double u, double v) = cam.ProjectGroundToImage(1e7, 0);
+        return (u, v);
+    }
+
     private void PrintTimings(string[] names, ConcurrentQueue<double[]> rows)
     {
         // Row layout: one value per stage, then the pipeline total, then the two primitives and their sum.
@@ -324,6 +339,15 @@ internal sealed class DetectRunner
         try
         {
             frame ??= FrameLoader.Load(w.Item.Path!, request.Options.Limits);
+            if (request.Camera is { } cam && (frame.Cols != cam.ImageWidth || frame.Rows != cam.ImageHeight))
+            {
+                throw BadInputException.At(
+                    w.Item.Path ?? w.Item.Key,
+                    0,
+                    null,
+                    string.Create(CultureInfo.InvariantCulture, $"frame size {frame.Cols}x{frame.Rows} differs from the camera file's {cam.ImageWidth}x{cam.ImageHeight} ({request.CameraPath})"));
+            }
+
             long t0 = Stopwatch.GetTimestamp();
             FrameResult result = pipeline.Process(frame, w.Item.TimestampSeconds);
             TimeSpan elapsed = Stopwatch.GetElapsedTime(t0);
@@ -412,6 +436,15 @@ internal sealed class DetectRunner
         text.Append("# Effective configuration of a lanebaseline detect run (preset or file: ").Append(request.ConfigSource).Append(").\n");
         text.Append("# Every record of ").Append(Path.GetFileName(request.Output)).Append(" carries \"config\": \"").Append(configHash)
             .Append("\" (SHA-256 of the YAML below, first 16 hex digits).\n");
+        if (request.Camera is not null)
+        {
+            text.Append("# The hash also covers the camera file given with --camera (").Append(request.CameraPath).Append("), reproduced here:\n");
+            foreach (string line in request.Camera.ToJson().Split('\n'))
+            {
+                text.Append("#   ").Append(line.TrimEnd('\r')).Append('\n');
+            }
+        }
+
         text.Append(PresetLoader.ToYaml(request.Options));
         string tmp = path + ".tmp";
         File.WriteAllText(tmp, text.ToString(), new UTF8Encoding(false));

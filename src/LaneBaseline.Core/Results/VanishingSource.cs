@@ -11,4 +11,7 @@ public enum VanishingSource
 
     /// <summary>Estimated and smoothed over the sequence.</summary>
     Smoothed = 2,
+
+    /// <summary>From the camera file: the image of the point at infinity straight ahead on the road.</summary>
+    Camera = 3,
 }

@@ -16,12 +16,16 @@ public sealed class LanePipeline : IDisposable
 {
     private readonly PipelineOptions options;
     private readonly List<IFrameStage> stages = [];
+    private readonly (double X, double Y)? cameraVanishingPoint;
     private FrameWorkspace? workspace;
 
     /// <summary>Creates a pipeline; stages are built on the first frame.</summary>
+    /// <param name="options">Validated options.</param>
+    /// <param name="cameraVanishingPoint">Vanishing point from a camera file (image pixels), or null to estimate it per frame.</param>
     /// <exception cref="BadInputException">The options are invalid.</exception>
-    public LanePipeline(PipelineOptions options)
+    public LanePipeline(PipelineOptions options, (double X, double Y)? cameraVanishingPoint = null)
     {
+        this.cameraVanishingPoint = cameraVanishingPoint;
         ArgumentNullException.ThrowIfNull(options);
         IReadOnlyList<OptionsFinding> findings = options.Validate();
         if (findings.Count > 0)
@@ -108,7 +112,7 @@ public sealed class LanePipeline : IDisposable
         workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale);
         stages.Add(new GradientStage(options.Gradient));
         stages.Add(new HoughStage(options.Hough));
-        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled));
+        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, cameraVanishingPoint));
         stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
         stages.Add(new BirdsEyeWarpStage());
         stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));

@@ -8,7 +8,8 @@ namespace LaneBaseline.Vision.Stages;
 /// Vanishing point, horizon, region of interest and the bird's-eye homography of the frame.
 /// </summary>
 /// <remarks>
-/// Steps: (1) hypotheses: every pair of Hough segments with opposite lean (one left boundary going up-right,
+/// With a camera file the vanishing point is the image of the point at infinity straight ahead on the road and steps
+/// (1)–(4) are skipped. Otherwise: (1) hypotheses: every pair of Hough segments with opposite lean (one left boundary going up-right,
 /// one right boundary going up-left) is intersected; an intersection outside the plausible band (horizon within
 /// [<see cref="RegionOptions.MinHorizonFraction"/>, <see cref="RegionOptions.MaxHorizonFraction"/>] of the height,
 /// column within <see cref="RegionOptions.MaxVanishingOffsetFraction"/> of the width from the centre) is dropped;
@@ -31,13 +32,19 @@ public sealed class RegionStage : IFrameStage
     private readonly RegionOptions region;
     private readonly WarpOptions warp;
     private readonly bool smooth;
+    private readonly (double X, double Y)? fixedPoint;
 
     /// <summary>Creates the stage.</summary>
-    public RegionStage(RegionOptions region, WarpOptions warp, bool smoothOverSequence)
+    /// <param name="region">Region options.</param>
+    /// <param name="warp">Warp options.</param>
+    /// <param name="smoothOverSequence">Whether to smooth the vanishing point over a sequence.</param>
+    /// <param name="cameraVanishingPoint">The vanishing point from a camera file (image pixels), used instead of estimation.</param>
+    public RegionStage(RegionOptions region, WarpOptions warp, bool smoothOverSequence, (double X, double Y)? cameraVanishingPoint = null)
     {
         this.region = region;
         this.warp = warp;
         smooth = smoothOverSequence;
+        fixedPoint = cameraVanishingPoint;
     }
 
     /// <inheritdoc />
@@ -47,6 +54,15 @@ public sealed class RegionStage : IFrameStage
     public void Process(FrameWorkspace workspace)
     {
         ArgumentNullException.ThrowIfNull(workspace);
+        if (fixedPoint is (double cxFixed, double cyFixed))
+        {
+            workspace.VanishingX = cxFixed;
+            workspace.VanishingY = cyFixed;
+            workspace.VanishingSource = VanishingSource.Camera;
+            SetGeometry(workspace, cxFixed, cyFixed);
+            return;
+        }
+
         int w = workspace.Width, h = workspace.Height;
         double vx = region.DefaultVanishingXFraction * w;
         double vy = region.DefaultHorizonFraction * h;
