@@ -14,6 +14,7 @@ internal static class Program
         RootCommand root = new(
             "LaneBaseline: a classical, explainable CPU lane-detection baseline and lane scorer.\n" + SafetyNotice.Text);
         // One line per command; keep the list sorted as the contract lists them.
+        root.Subcommands.Add(DetectCommand.Create());
         root.Subcommands.Add(ScoreCommand.Create());
         root.Subcommands.Add(AuditCommand.Create());
         root.Subcommands.Add(ConvertCommand.Create());

@@ -1,0 +1,50 @@
+namespace LaneBaseline.Core.Options;
+
+/// <summary>
+/// Region of interest and vanishing point. Without a camera file the vanishing point (and so the horizon row) is
+/// estimated from the Hough segments of each frame; when that fails, the preset point
+/// (<see cref="DefaultVanishingXFraction"/>, <see cref="DefaultHorizonFraction"/>) is the last resort.
+/// Fractions are of the frame width (x) or height (y), origin top-left, y down.
+/// </summary>
+public sealed record RegionOptions
+{
+    /// <summary>Whether to estimate the vanishing point from the frame (true) or always use the preset point (false). Default true.</summary>
+    public bool EstimateVanishingPoint { get; init; } = true;
+
+    /// <summary>Top of the band searched for Hough segments, as a fraction of the frame height (0–0.95). Default 0.35.</summary>
+    public double SearchTopFraction { get; init; } = 0.35;
+
+    /// <summary>Preset horizon row, as a fraction of the frame height (0.05–0.9). Default 0.5.</summary>
+    public double DefaultHorizonFraction { get; init; } = 0.5;
+
+    /// <summary>Preset vanishing-point column, as a fraction of the frame width (0–1). Default 0.5.</summary>
+    public double DefaultVanishingXFraction { get; init; } = 0.5;
+
+    /// <summary>Highest plausible horizon, as a fraction of the frame height (0–1). Default 0.2.</summary>
+    public double MinHorizonFraction { get; init; } = 0.2;
+
+    /// <summary>Lowest plausible horizon, as a fraction of the frame height (0–1). Default 0.7.</summary>
+    public double MaxHorizonFraction { get; init; } = 0.7;
+
+    /// <summary>Largest plausible offset of the vanishing point from the frame centre column, as a fraction of the width (0–1). Default 0.25.</summary>
+    public double MaxVanishingOffsetFraction { get; init; } = 0.25;
+
+    /// <summary>A segment supports a vanishing point when its line passes within this fraction of the frame width (0.001–0.2). Default 0.012.</summary>
+    public double VanishingToleranceFraction { get; init; } = 0.012;
+
+    /// <summary>Weight of the previous vanishing point when smoothing over a sequence (0–0.99; tracking only). Default 0.8.</summary>
+    public double Smoothing { get; init; } = 0.8;
+
+    internal void Validate(List<OptionsFinding> f)
+    {
+        OptionsChecks.Range(f, "region.searchTopFraction", SearchTopFraction, 0, 0.95);
+        OptionsChecks.Range(f, "region.defaultHorizonFraction", DefaultHorizonFraction, 0.05, 0.9);
+        OptionsChecks.Range(f, "region.defaultVanishingXFraction", DefaultVanishingXFraction, 0, 1);
+        OptionsChecks.Range(f, "region.minHorizonFraction", MinHorizonFraction, 0, 1);
+        OptionsChecks.Range(f, "region.maxHorizonFraction", MaxHorizonFraction, 0, 1);
+        OptionsChecks.Less(f, "region.minHorizonFraction", MinHorizonFraction, "region.maxHorizonFraction", MaxHorizonFraction);
+        OptionsChecks.Range(f, "region.maxVanishingOffsetFraction", MaxVanishingOffsetFraction, 0, 1);
+        OptionsChecks.Range(f, "region.vanishingToleranceFraction", VanishingToleranceFraction, 0.001, 0.2);
+        OptionsChecks.Range(f, "region.smoothing", Smoothing, 0, 0.99);
+    }
+}

@@ -1,0 +1,143 @@
+using LaneBaseline.Core;
+using LaneBaseline.Core.Options;
+using LaneBaseline.Core.Results;
+using LaneBaseline.Vision.Stages;
+using OpenCvSharp;
+
+namespace LaneBaseline.Vision.Pipeline;
+
+/// <summary>
+/// The classical lane pipeline for one stream of frames: owns its stages and its <see cref="FrameWorkspace"/>,
+/// builds them for the first frame's size (and again only if the size changes), and runs them in the fixed order
+/// gradient → hough → region → color → warp → search (→ track, when tracking is on). Not thread-safe: use one
+/// pipeline per worker.
+/// </summary>
+public sealed class LanePipeline : IDisposable
+{
+    private readonly PipelineOptions options;
+    private readonly List<IFrameStage> stages = [];
+    private readonly (double X, double Y)? cameraVanishingPoint;
+    private FrameWorkspace? workspace;
+
+    /// <summary>Creates a pipeline; stages are built on the first frame.</summary>
+    /// <param name="options">Validated options.</param>
+    /// <param name="cameraVanishingPoint">Vanishing point from a camera file (image pixels), or null to estimate it per frame.</param>
+    /// <exception cref="BadInputException">The options are invalid.</exception>
+    public LanePipeline(PipelineOptions options, (double X, double Y)? cameraVanishingPoint = null)
+    {
+        this.cameraVanishingPoint = cameraVanishingPoint;
+        ArgumentNullException.ThrowIfNull(options);
+        IReadOnlyList<OptionsFinding> findings = options.Validate();
+        if (findings.Count > 0)
+        {
+            throw new BadInputException("invalid options: " + string.Join("; ", findings.Select(f => f.Key + ": " + f.Problem)));
+        }
+
+        this.options = options;
+    }
+
+    /// <summary>The workspace of the current stream (null before the first frame). Its buffers are loans.</summary>
+    public FrameWorkspace? Workspace => workspace;
+
+    /// <summary>Stage names in run order (after the first frame).</summary>
+    public IReadOnlyList<string> StageNames => stages.Select(s => s.Name).ToArray();
+
+    /// <summary>Per-stage elapsed milliseconds of the last frame, in stage order (filled when <see cref="MeasureStages"/> is on).</summary>
+    public double[] LastStageMs { get; private set; } = [];
+
+    /// <summary>Whether to time each stage (for the benchmark).</summary>
+    public bool MeasureStages { get; set; }
+
+    /// <summary>Processes one 8-bit BGR frame (borrowed for the call).</summary>
+    /// <param name="frame">Frame, 8-bit, 3 channels (BGR).</param>
+    /// <param name="timestampSeconds">Frame time in seconds (drives tracking; ignored for stills).</param>
+    /// <returns>The frame summary; lanes are read with <see cref="FrameWorkspace.GetLane"/> until the next call.</returns>
+    public FrameResult Process(Mat frame, double timestampSeconds)
+    {
+        ArgumentNullException.ThrowIfNull(frame);
+        if (frame.Type() != MatType.CV_8UC3)
+        {
+            throw new ArgumentException("the pipeline expects an 8-bit 3-channel BGR frame", nameof(frame));
+        }
+
+        int w = frame.Cols, h = frame.Rows;
+        if (workspace is null || workspace.Width != w || workspace.Height != h)
+        {
+            Build(w, h);
+        }
+
+        FrameWorkspace ws = workspace!;
+        ws.Frame = frame;
+        ws.TimestampSeconds = timestampSeconds;
+        if (MeasureStages)
+        {
+            for (int i = 0; i < stages.Count; i++)
+            {
+                long t0 = System.Diagnostics.Stopwatch.GetTimestamp();
+                stages[i].Process(ws);
+                LastStageMs[i] = System.Diagnostics.Stopwatch.GetElapsedTime(t0).TotalMilliseconds;
+            }
+        }
+        else
+        {
+            for (int i = 0; i < stages.Count; i++)
+            {
+                stages[i].Process(ws);
+            }
+        }
+
+        return new FrameResult(ws.LaneCount, ws.VanishingX, ws.VanishingY, ws.VanishingSource);
+    }
+
+    /// <summary>Starts a new sequence: forgets tracks and the smoothed vanishing point (frames that follow are unrelated).</summary>
+    public void ResetSequence()
+    {
+        if (workspace is not null)
+        {
+            workspace.HasPreviousVanishing = false;
+            workspace.PriorSeedCount = 0;
+        }
+
+        foreach (IFrameStage s in stages)
+        {
+            (s as TemporalTracker)?.Reset();
+        }
+    }
+
+    private void Build(int width, int height)
+    {
+        DisposeStages();
+        workspace?.Dispose();
+        int bandTop = Math.Clamp((int)Math.Round(options.Region.SearchTopFraction * height), 0, height - 2);
+        workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale);
+        stages.Add(new GradientStage(options.Gradient));
+        stages.Add(new HoughStage(options.Hough));
+        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, cameraVanishingPoint));
+        stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
+        stages.Add(new BirdsEyeWarpStage());
+        stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));
+        if (options.Tracking.Enabled)
+        {
+            stages.Add(new TemporalTracker(options.Tracking, options.Fit));
+        }
+        LastStageMs = new double[stages.Count];
+    }
+
+    private void DisposeStages()
+    {
+        foreach (IFrameStage s in stages)
+        {
+            s.Dispose();
+        }
+
+        stages.Clear();
+    }
+
+    /// <inheritdoc />
+    public void Dispose()
+    {
+        DisposeStages();
+        workspace?.Dispose();
+        workspace = null;
+    }
+}

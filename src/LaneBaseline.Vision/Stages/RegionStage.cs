@@ -1,0 +1,250 @@
+using LaneBaseline.Core.Options;
+using LaneBaseline.Core.Results;
+using LaneBaseline.Vision.Pipeline;
+
+namespace LaneBaseline.Vision.Stages;
+
+/// <summary>
+/// Vanishing point, horizon, region of interest and the bird's-eye homography of the frame.
+/// </summary>
+/// <remarks>
+/// With a camera file the vanishing point is the image of the point at infinity straight ahead on the road and steps
+/// (1)–(4) are skipped. Otherwise: (1) hypotheses: every pair of Hough segments with opposite lean (one left boundary going up-right,
+/// one right boundary going up-left) is intersected; an intersection outside the plausible band (horizon within
+/// [<see cref="RegionOptions.MinHorizonFraction"/>, <see cref="RegionOptions.MaxHorizonFraction"/>] of the height,
+/// column within <see cref="RegionOptions.MaxVanishingOffsetFraction"/> of the width from the centre) is dropped;
+/// (2) verification: a hypothesis scores the summed length of segments whose line passes within
+/// <see cref="RegionOptions.VanishingToleranceFraction"/> × width of it (hypothesise-and-verify as in RANSAC,
+/// enumerating all pairs so the result is deterministic); (3) refinement: weighted least-squares point closest to
+/// the inlier lines (weights = length), kept only when inliers lean both ways; (4) on sequences (tracking on) the
+/// point is smoothed exponentially with weight <see cref="RegionOptions.Smoothing"/> on the previous one; without
+/// evidence the preset point is the last resort; (5) the region is the trapezoid whose sides meet at the vanishing
+/// point, from the row <see cref="WarpOptions.FarRowFraction"/> of the way from the horizon to the bottom row, down
+/// to the bottom row, <see cref="WarpOptions.BottomSpanFraction"/> × width wide at the bottom and centred on the
+/// frame centre; (6) its homography to the bird's-eye rectangle maps lines through the vanishing point (road lines
+/// parallel to the vehicle) to vertical columns. Pixel (x, y), origin top-left, y down.
+/// <para>References: [1] M. A. Fischler, R. C. Bolles, "Random Sample Consensus", Communications of the ACM
+/// 24(6):381–395, 1981, DOI 10.1145/358669.358692. [2] R. Hartley, A. Zisserman, Multiple View Geometry in Computer
+/// Vision, 2nd ed., 2004, Sec. 8.6 (vanishing points and lines).</para>
+/// </remarks>
+public sealed class RegionStage : IFrameStage
+{
+    private readonly RegionOptions region;
+    private readonly WarpOptions warp;
+    private readonly bool smooth;
+    private readonly (double X, double Y)? fixedPoint;
+
+    /// <summary>Creates the stage.</summary>
+    /// <param name="region">Region options.</param>
+    /// <param name="warp">Warp options.</param>
+    /// <param name="smoothOverSequence">Whether to smooth the vanishing point over a sequence.</param>
+    /// <param name="cameraVanishingPoint">The vanishing point from a camera file (image pixels), used instead of estimation.</param>
+    public RegionStage(RegionOptions region, WarpOptions warp, bool smoothOverSequence, (double X, double Y)? cameraVanishingPoint = null)
+    {
+        this.region = region;
+        this.warp = warp;
+        smooth = smoothOverSequence;
+        fixedPoint = cameraVanishingPoint;
+    }
+
+    /// <inheritdoc />
+    public string Name => "region";
+
+    /// <inheritdoc />
+    public void Process(FrameWorkspace workspace)
+    {
+        ArgumentNullException.ThrowIfNull(workspace);
+        if (fixedPoint is (double cxFixed, double cyFixed))
+        {
+            workspace.VanishingX = cxFixed;
+            workspace.VanishingY = cyFixed;
+            workspace.VanishingSource = VanishingSource.Camera;
+            SetGeometry(workspace, cxFixed, cyFixed);
+            return;
+        }
+
+        int w = workspace.Width, h = workspace.Height;
+        double vx = region.DefaultVanishingXFraction * w;
+        double vy = region.DefaultHorizonFraction * h;
+        VanishingSource source = VanishingSource.Preset;
+        if (region.EstimateVanishingPoint && TryEstimate(workspace, out double ex, out double ey))
+        {
+            vx = ex;
+            vy = ey;
+            source = VanishingSource.Estimated;
+        }
+
+        if (smooth && workspace.HasPreviousVanishing)
+        {
+            double a = region.Smoothing;
+            if (source == VanishingSource.Estimated)
+            {
+                vx = (a * workspace.VanishingX) + ((1 - a) * vx);
+                vy = (a * workspace.VanishingY) + ((1 - a) * vy);
+                source = VanishingSource.Smoothed;
+            }
+            else
+            {
+                vx = workspace.VanishingX;
+                vy = workspace.VanishingY;
+                source = workspace.VanishingSource;
+            }
+        }
+
+        workspace.VanishingX = vx;
+        workspace.VanishingY = vy;
+        workspace.VanishingSource = source;
+        workspace.HasPreviousVanishing = source != VanishingSource.Preset || workspace.HasPreviousVanishing;
+        SetGeometry(workspace, vx, vy);
+    }
+
+    private void SetGeometry(FrameWorkspace ws, double vx, double vy)
+    {
+        int w = ws.Width, h = ws.Height;
+        double yb = h - 1;
+        double yt = vy + (warp.FarRowFraction * (yb - vy));
+        double half = warp.BottomSpanFraction * w / 2;
+        double cx = (w - 1) / 2.0;
+        double t = (yt - vy) / (yb - vy);
+        double xlb = cx - half, xrb = cx + half;
+        double xlt = vx + ((xlb - vx) * t), xrt = vx + ((xrb - vx) * t);
+        double[] q = ws.Trapezoid;
+        q[0] = xlt; q[1] = yt; q[2] = xrt; q[3] = yt; q[4] = xrb; q[5] = yb; q[6] = xlb; q[7] = yb;
+        double bw = ws.BirdsEyeWidth - 1, bh = ws.BirdsEyeHeight - 1;
+        Span<double> dst = [0, 0, bw, 0, bw, bh, 0, bh];
+        if (!PlaneHomography.TryFromPoints(q, dst, out PlaneHomography hm))
+        {
+            throw new InvalidOperationException("degenerate region trapezoid");
+        }
+
+        ws.RoiTop = yt;
+        ws.ImageToBirdsEye = hm;
+        ws.BirdsEyeToImage = hm.Inverse();
+        var m = ws.HomographyMat;
+        m.Set(0, 0, hm.M00); m.Set(0, 1, hm.M01); m.Set(0, 2, hm.M02);
+        m.Set(1, 0, hm.M10); m.Set(1, 1, hm.M11); m.Set(1, 2, hm.M12);
+        m.Set(2, 0, hm.M20); m.Set(2, 1, hm.M21); m.Set(2, 2, hm.M22);
+    }
+
+    private bool TryEstimate(FrameWorkspace ws, out double bestX, out double bestY)
+    {
+        int n = ws.SegmentCount;
+        HoughSegment[] s = ws.Segments;
+        int w = ws.Width, h = ws.Height;
+        double tol = region.VanishingToleranceFraction * w;
+        double minY = region.MinHorizonFraction * h, maxY = region.MaxHorizonFraction * h;
+        double maxOff = region.MaxVanishingOffsetFraction * w, cx = (w - 1) / 2.0;
+        double bestScore = 0;
+        bestX = bestY = 0;
+        for (int i = 0; i < n; i++)
+        {
+            double li = Lean(s[i]);
+            for (int j = i + 1; j < n; j++)
+            {
+                if (li * Lean(s[j]) >= 0)
+                {
+                    continue;
+                }
+
+                if (!Intersect(s[i], s[j], out double px, out double py) || py < minY || py > maxY || Math.Abs(px - cx) > maxOff)
+                {
+                    continue;
+                }
+
+                double score = 0;
+                for (int k = 0; k < n; k++)
+                {
+                    if (Distance(s[k], px, py) <= tol)
+                    {
+                        score += s[k].Length;
+                    }
+                }
+
+                if (score > bestScore)
+                {
+                    bestScore = score;
+                    bestX = px;
+                    bestY = py;
+                }
+            }
+        }
+
+        if (bestScore <= 0)
+        {
+            return false;
+        }
+
+        // Weighted least squares: minimise sum of w_k (n_k . p - c_k)^2 over inlier lines (unit normals n_k).
+        double a11 = 0, a12 = 0, a22 = 0, b1 = 0, b2 = 0;
+        bool left = false, right = false;
+        for (int k = 0; k < n; k++)
+        {
+            HoughSegment g = s[k];
+            if (Distance(g, bestX, bestY) > tol)
+            {
+                continue;
+            }
+
+            double dx = g.X2 - g.X1, dy = g.Y2 - g.Y1, len = g.Length;
+            double nx = -dy / len, ny = dx / len, c = (nx * g.X1) + (ny * g.Y1), wt = len;
+            a11 += wt * nx * nx; a12 += wt * nx * ny; a22 += wt * ny * ny; b1 += wt * nx * c; b2 += wt * ny * c;
+            if (Lean(g) < 0)
+            {
+                left = true;
+            }
+            else
+            {
+                right = true;
+            }
+        }
+
+        double det = (a11 * a22) - (a12 * a12);
+        if (!left || !right || Math.Abs(det) < 1e-9)
+        {
+            return false;
+        }
+
+        double rx = ((b1 * a22) - (a12 * b2)) / det, ry = ((a11 * b2) - (a12 * b1)) / det;
+        if (ry >= minY && ry <= maxY && Math.Abs(rx - cx) <= maxOff)
+        {
+            bestX = rx;
+            bestY = ry;
+        }
+
+        return true;
+    }
+
+    /// <summary>dx/dy sign: negative for a left boundary (x grows as y shrinks), positive for a right one.</summary>
+    private static double Lean(HoughSegment g)
+    {
+        double dy = g.Y2 - g.Y1;
+        return dy == 0 ? 0 : (g.X2 - g.X1) / dy;
+    }
+
+    private static bool Intersect(HoughSegment a, HoughSegment b, out double x, out double y)
+    {
+        double d1x = a.X2 - a.X1, d1y = a.Y2 - a.Y1, d2x = b.X2 - b.X1, d2y = b.Y2 - b.Y1;
+        double den = (d1x * d2y) - (d1y * d2x);
+        if (Math.Abs(den) < 1e-9)
+        {
+            x = y = 0;
+            return false;
+        }
+
+        double t = (((b.X1 - a.X1) * d2y) - ((b.Y1 - a.Y1) * d2x)) / den;
+        x = a.X1 + (t * d1x);
+        y = a.Y1 + (t * d1y);
+        return true;
+    }
+
+    private static double Distance(HoughSegment g, double x, double y)
+    {
+        double dx = g.X2 - g.X1, dy = g.Y2 - g.Y1;
+        return Math.Abs((dy * (x - g.X1)) - (dx * (y - g.Y1))) / g.Length;
+    }
+
+    /// <inheritdoc />
+    public void Dispose()
+    {
+    }
+}

@@ -1,0 +1,146 @@
+using LaneBaseline.Core.Options;
+using LaneBaseline.Core.Results;
+using LaneBaseline.Vision.Pipeline;
+using LaneBaseline.Vision.Stages;
+using OpenCvSharp;
+using Xunit;
+
+namespace LaneBaseline.Vision.Tests.Stages;
+
+/// <summary>Single-stage checks on small frames drawn here (T1: 320x180, milliseconds each).</summary>
+public sealed class StageTests
+{
+    private const int W = 320, H = 180;
+
+    private static FrameWorkspace Workspace(PipelineOptions o, int bandTop) =>
+        new(W, H, o.Warp.WidthPx, o.Warp.HeightPx, bandTop, o.Hough.MaxSegments, o.Hough.ImageScale);
+
+    private static void RunUpTo(FrameWorkspace ws, PipelineOptions o, Mat frame, int stages)
+    {
+        ws.Frame = frame;
+        IFrameStage[] all =
+        [
+            new GradientStage(o.Gradient), new HoughStage(o.Hough), new RegionStage(o.Region, o.Warp, false),
+            new ColorThresholdStage(o.Color, o.Gradient), new BirdsEyeWarpStage(),
+            new SlidingWindowFitStage(o.Search, o.Fit, o.Confidence),
+        ];
+        for (int i = 0; i < stages; i++)
+        {
+            all[i].Process(ws);
+        }
+
+        foreach (IFrameStage s in all)
+        {
+            s.Dispose();
+        }
+    }
+
+    [Fact]
+    public void Hough_BlankFrame_FindsNoSegments()
+    {
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
+        RunUpTo(ws, o, frame, 2);
+        Assert.Equal(0, ws.SegmentCount);
+    }
+
+    [Fact]
+    public void Hough_DrawnLine_SegmentsLieOnIt()
+    {
+        // A 3 px white line from (60, 179) to (150, 70) on grey: every segment's midpoint must lie within 6 px of the
+        // drawn line and its direction within 5 degrees of it. Canny finds the line's two borders 1.5 px either side,
+        // the 5x5 blur widens them by about 1 px, the half-resolution Hough quantises to 2 px and its 1-degree
+        // angle step lets a segment drift by up to another 1-2 px along its length (common practice).
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
+        Cv2.Line(frame, new Point(60, 179), new Point(150, 70), Scalar.All(230), 3);
+        RunUpTo(ws, o, frame, 2);
+        Assert.True(ws.SegmentCount >= 1);
+        double dx = 90, dy = -109, len = Math.Sqrt((dx * dx) + (dy * dy));
+        for (int i = 0; i < ws.SegmentCount; i++)
+        {
+            HoughSegment s = ws.Segments[i];
+            double mx = (s.X1 + s.X2) / 2, my = (s.Y1 + s.Y2) / 2;
+            double dist = Math.Abs((dy * (mx - 60)) - (dx * (my - 179))) / len;
+            Assert.True(dist <= 6, $"segment midpoint ({mx}, {my}) is {dist:0.0} px off the line");
+            double cos = Math.Abs((((s.X2 - s.X1) * dx) + ((s.Y2 - s.Y1) * dy)) / (s.Length * len));
+            Assert.True(cos >= Math.Cos(5 * Math.PI / 180), "segment direction differs from the line");
+        }
+    }
+
+    [Fact]
+    public void Hough_HorizontalLine_IsFilteredByAngle()
+    {
+        // hough.minAngleDeg (10°) rejects horizontal clutter such as shadows across the road or the horizon.
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
+        Cv2.Line(frame, new Point(20, 120), new Point(300, 125), Scalar.All(230), 3);
+        RunUpTo(ws, o, frame, 2);
+        Assert.Equal(0, ws.SegmentCount);
+    }
+
+    [Fact]
+    public void Region_WithoutLineEvidence_FallsBackToThePresetPoint()
+    {
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
+        RunUpTo(ws, o, frame, 3);
+        Assert.Equal(VanishingSource.Preset, ws.VanishingSource);
+        Assert.Equal(o.Region.DefaultHorizonFraction * H, ws.VanishingY);
+        Assert.Equal(o.Region.DefaultVanishingXFraction * W, ws.VanishingX);
+    }
+
+    [Fact]
+    public void Color_MarkingOutsideTheRegion_YieldsNoEvidence()
+    {
+        // A bright bar above the horizon (sky) and one below: only the one inside the region may give evidence.
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
+        Cv2.Line(frame, new Point(100, 10), new Point(110, 60), Scalar.All(230), 4);    // above the preset horizon (90)
+        Cv2.Line(frame, new Point(100, 179), new Point(140, 120), Scalar.All(230), 5);  // on the road
+        RunUpTo(ws, o, frame, 4);
+        using Mat top = ws.Evidence.RowRange(0, 90);
+        using Mat bottom = ws.Evidence.RowRange(120, 180);
+        Assert.Equal(0, Cv2.CountNonZero(top));
+        Assert.True(Cv2.CountNonZero(bottom) > 50);
+    }
+
+    [Fact]
+    public void Color_WideBrightArea_IsNotAMarking()
+    {
+        // The ridge gate needs a darker road on both sides within two marking widths: a bright patch much wider
+        // than a marking (a sunlit area, a white car roof) must not produce evidence in its interior.
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
+        Cv2.Rectangle(frame, new Rect(100, 130, 120, 50), Scalar.All(230), -1);
+        RunUpTo(ws, o, frame, 4);
+        using Mat inner = new Mat(ws.Evidence, new Rect(130, 140, 60, 40));
+        Assert.Equal(0, Cv2.CountNonZero(inner));
+    }
+
+    [Fact]
+    public void Warp_MapsRoadLinesThroughTheVanishingPointToColumns()
+    {
+        // Lines through the vanishing point are images of road lines parallel to the vehicle; the warp must make them
+        // vertical: the bird's-eye x of two points of such a line agree (projective geometry, Hartley & Zisserman 2.3).
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
+        RunUpTo(ws, o, frame, 3);
+        double vx = ws.VanishingX, vy = ws.VanishingY;
+        foreach (double bottomX in new[] { -100.0, 40, 160, 300, 500 })
+        {
+            double x1 = bottomX, y1 = H - 1;
+            double x2 = vx + ((x1 - vx) * 0.3), y2 = vy + ((y1 - vy) * 0.3);
+            Assert.True(ws.ImageToBirdsEye.TryMap(x1, y1, out double u1, out _));
+            Assert.True(ws.ImageToBirdsEye.TryMap(x2, y2, out double u2, out _));
+            Assert.Equal(u1, u2, 6);
+        }
+    }
+}
