@@ -31,7 +31,7 @@ public sealed record SearchOptions
     public double WidthTolerance { get; init; } = 0.3;
 
     /// <summary>Largest number of boundaries reported (1–6: slots −1, +1, then −2, +2, then −3, +3). Default 4.</summary>
-    public int MaxLanes { get; init; } = 4;
+    public int MaxLanes { get; init; } = 6;
 
     /// <summary>Whether to estimate each lane's marking type (solid or dashed) from its window coverage (true/false). Default true.</summary>
     public bool EstimateKind { get; init; } = true;

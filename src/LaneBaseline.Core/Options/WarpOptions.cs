@@ -7,7 +7,7 @@ namespace LaneBaseline.Core.Options;
 public sealed record WarpOptions
 {
     /// <summary>Width of the bird's-eye image, in pixels (64–2048). Default 320.</summary>
-    public int WidthPx { get; init; } = 320;
+    public int WidthPx { get; init; } = 480;
 
     /// <summary>Height of the bird's-eye image, in pixels (64–2048). Default 320.</summary>
     public int HeightPx { get; init; } = 320;
@@ -16,7 +16,7 @@ public sealed record WarpOptions
     public double FarRowFraction { get; init; } = 0.1;
 
     /// <summary>Width of the trapezoid at the bottom row, as a multiple of the frame width (0.5–6). Default 2.6.</summary>
-    public double BottomSpanFraction { get; init; } = 2.6;
+    public double BottomSpanFraction { get; init; } = 4.2;
 
     internal void Validate(List<OptionsFinding> f)
     {

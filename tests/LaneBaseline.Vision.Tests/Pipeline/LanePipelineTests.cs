@@ -104,7 +104,7 @@ public sealed class LanePipelineTests
         // four must still be found on their lines, and nothing may be reported as ±3.
         SyntheticRoad road = Road(12);
         using Mat frame = road.Render();
-        using var pipeline = new LanePipeline(KnownPresets.Load("multi-lane"));
+        using var pipeline = new LanePipeline(KnownPresets.Load("default"));
         pipeline.Process(frame, 0);
         AssertLanesFollowTruth(road, pipeline.Workspace!, [-2, -1, 1, 2], 10);
         Assert.Equal(4, pipeline.Workspace!.LaneCount);
