@@ -41,16 +41,33 @@ public sealed record PipelineOptions
     public IReadOnlyList<OptionsFinding> Validate()
     {
         var findings = new List<OptionsFinding>();
-        Color.Validate(findings);
-        Gradient.Validate(findings);
-        Region.Validate(findings);
-        Hough.Validate(findings);
-        Warp.Validate(findings);
-        Search.Validate(findings);
-        Fit.Validate(findings);
-        Confidence.Validate(findings);
-        Tracking.Validate(findings);
-        Limits.Validate(findings);
+
+        // A section written with no keys ("gradient:" alone) deserializes as null: report it instead of crashing.
+        (string Key, object? Section, Action<List<OptionsFinding>>? Check)[] sections =
+        [
+            ("color", Color, Color is null ? null : Color.Validate),
+            ("gradient", Gradient, Gradient is null ? null : Gradient.Validate),
+            ("region", Region, Region is null ? null : Region.Validate),
+            ("hough", Hough, Hough is null ? null : Hough.Validate),
+            ("warp", Warp, Warp is null ? null : Warp.Validate),
+            ("search", Search, Search is null ? null : Search.Validate),
+            ("fit", Fit, Fit is null ? null : Fit.Validate),
+            ("confidence", Confidence, Confidence is null ? null : Confidence.Validate),
+            ("tracking", Tracking, Tracking is null ? null : Tracking.Validate),
+            ("limits", Limits, Limits is null ? null : Limits.Validate),
+        ];
+        foreach ((string key, object? section, Action<List<OptionsFinding>>? check) in sections)
+        {
+            if (section is null || check is null)
+            {
+                findings.Add(new OptionsFinding(key, "section is empty: give its keys or leave the section out"));
+            }
+            else
+            {
+                check(findings);
+            }
+        }
+
         return findings;
     }
 }
