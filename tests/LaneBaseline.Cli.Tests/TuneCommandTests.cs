@@ -159,6 +159,28 @@ public sealed partial class TuneCommandTests : IClassFixture<DimFrames>, IDispos
         Assert.False(File.Exists(best));
     }
 
+    [Fact]
+    public void Invalid_presets_are_scored_worst_and_logged_and_an_all_invalid_space_exits_3()
+    {
+        // whiteMinContrast is valid in 0-255 (configs/presets/default.yaml); 250-400 mixes valid and invalid values.
+        string space = work.File("mixed.yaml");
+        File.WriteAllText(space, "parameters:\n  - key: color.whiteMinContrast\n    min: 250\n    max: 400\n    type: int\n");
+        string best = work.File("mixed-best.yaml");
+        (int exit, _, string err) = Tune(best, "--space", space, "--budget", "5", "--seed", "2");
+        Assert.True(exit == 0, err);
+        string[] invalid = [.. File.ReadAllLines(best + ".trials.jsonl").Where(l => l.Contains("\"invalid\":", StringComparison.Ordinal))];
+        Assert.NotEmpty(invalid);
+        Assert.All(invalid, l => Assert.Contains("\"objective\":-1,", l, StringComparison.Ordinal));
+        Assert.InRange(PresetLoader.Parse(File.ReadAllText(best), best).Color.WhiteMinContrast, 250, 255);
+
+        File.WriteAllText(space, "parameters:\n  - key: color.whiteMinContrast\n    min: 300\n    max: 400\n    type: int\n");
+        (int all, _, string why) = Tune(work.File("none.yaml"), "--space", space, "--budget", "3");
+        Assert.Equal(3, all);
+        Assert.Contains("mixed.yaml", why, StringComparison.Ordinal);
+        Assert.Contains("every trial", why, StringComparison.Ordinal);
+        Assert.False(File.Exists(work.File("none.yaml")));
+    }
+
     private static string[] Log(string output) =>
         [.. File.ReadAllLines(output + ".trials.jsonl").Select(l => SecondsField().Replace(l, "\"seconds\":_"))];
 

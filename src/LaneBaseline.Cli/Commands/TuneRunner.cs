@@ -125,18 +125,26 @@ internal sealed class TuneRunner
                 WriteLine(log, header);
             }
 
-            trials = tuner.Run(
-                values => Objective(values, tuning),
-                previous,
-                trial =>
-                {
-                    notes.TryGetValue(ValuesKey(trial.Values), out TrialNote? note);
-                    WriteLine(log, TrialJson(trial, note));
-                    best = Math.Max(best, trial.Score);
-                    stderr.WriteLine(string.Create(
-                        CultureInfo.InvariantCulture,
-                        $"tune: trial {trial.Index + 1}/{request.Budget} ({trial.Phase}) {request.Objective} {trial.Score:0.0000}, best {best:0.0000}, {note?.Seconds ?? 0:0.00} s{(note?.Invalid is string why ? ", invalid: " + why : string.Empty)}"));
-                });
+            try
+            {
+                trials = tuner.Run(
+                    values => Objective(values, tuning),
+                    previous,
+                    trial =>
+                    {
+                        notes.TryGetValue(ValuesKey(trial.Values), out TrialNote? note);
+                        WriteLine(log, TrialJson(trial, note));
+                        best = Math.Max(best, trial.Score);
+                        stderr.WriteLine(string.Create(
+                            CultureInfo.InvariantCulture,
+                            $"tune: trial {trial.Index + 1}/{request.Budget} ({trial.Phase}) {request.Objective} {trial.Score:0.0000}, best {best:0.0000}, {note?.Seconds ?? 0:0.00} s{(note?.Invalid is string why ? ", invalid: " + why : string.Empty)}"));
+                    });
+            }
+            catch (AggregateException ex) when (ex.InnerExceptions.Count > 0 && ex.InnerExceptions[0] is BadInputException bad)
+            {
+                // A frame that became unreadable during the search (sets decoded again per trial): exit 3, not 1.
+                throw bad;
+            }
         }
 
         Trial winner = Tuner.Best(trials);
@@ -295,6 +303,11 @@ internal sealed class TuneRunner
                 if (keep && !decoded.ContainsKey(r.Frame))
                 {
                     decoded.Add(r.Frame, Decode(item, r));
+                }
+                else if (!keep)
+                {
+                    // Too many pixels to keep: decode once now anyway, so a bad frame stops the run before any trial.
+                    Decode(item, r).Dispose();
                 }
 
                 into.Add(new Sample(item, r, decoded.TryGetValue(r.Frame, out Mat? frame) ? frame : null));
