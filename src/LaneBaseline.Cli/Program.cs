@@ -17,6 +17,7 @@ internal static class Program
         root.Subcommands.Add(DetectCommand.Create());
         root.Subcommands.Add(ScoreCommand.Create());
         root.Subcommands.Add(AuditCommand.Create());
+        root.Subcommands.Add(TuneCommand.Create());
         root.Subcommands.Add(ConvertCommand.Create());
         root.Subcommands.Add(RenderCommand.Create());
         root.Subcommands.Add(ReportCommand.Create());

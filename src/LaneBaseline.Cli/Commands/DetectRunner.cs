@@ -360,20 +360,7 @@ internal sealed class DetectRunner
             }
 
             FrameWorkspace ws = pipeline.Workspace!;
-            var lanes = new Lane[result.LaneCount];
-            for (int i = 0; i < result.LaneCount; i++)
-            {
-                LaneEstimate e = ws.GetLane(i);
-                ReadOnlySpan<double> pts = ws.GetLanePoints(i);
-                var points = new LanePoint[e.PointCount];
-                for (int k = 0; k < e.PointCount; k++)
-                {
-                    points[k] = new LanePoint(Math.Round(pts[2 * k], 2), Math.Round(pts[(2 * k) + 1], 2));
-                }
-
-                lanes[i] = new Lane { Points = points, Slot = e.Slot, Score = Math.Round(Math.Clamp(e.Score, 0, 1), 4), Kind = e.Kind };
-            }
-
+            Lane[] lanes = LanesOf(ws, result);
             var record = new LaneRecord
             {
                 Frame = w.Item.Key,
@@ -394,6 +381,30 @@ internal sealed class DetectRunner
         {
             frame?.Dispose();
         }
+    }
+
+    /// <summary>
+    /// The lanes of the frame just processed, as written to lane files (points rounded to 0.01 px, scores to 4
+    /// digits). Shared by detect and tune so both score exactly what detect would write.
+    /// </summary>
+    public static Lane[] LanesOf(FrameWorkspace ws, FrameResult result)
+    {
+        ArgumentNullException.ThrowIfNull(ws);
+        var lanes = new Lane[result.LaneCount];
+        for (int i = 0; i < result.LaneCount; i++)
+        {
+            LaneEstimate e = ws.GetLane(i);
+            ReadOnlySpan<double> pts = ws.GetLanePoints(i);
+            var points = new LanePoint[e.PointCount];
+            for (int k = 0; k < e.PointCount; k++)
+            {
+                points[k] = new LanePoint(Math.Round(pts[2 * k], 2), Math.Round(pts[(2 * k) + 1], 2));
+            }
+
+            lanes[i] = new Lane { Points = points, Slot = e.Slot, Score = Math.Round(Math.Clamp(e.Score, 0, 1), 4), Kind = e.Kind };
+        }
+
+        return lanes;
     }
 
     private void WriteImages(FrameWorkspace ws, FrameItem item)

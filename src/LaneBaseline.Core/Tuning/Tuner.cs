@@ -52,7 +52,14 @@ public sealed class Tuner
     /// <summary>Parallel evaluations per batch.</summary>
     public int Threads { get; }
 
-    /// <summary>Trials spent exploring before refinement.</summary>
+    /// <summary>
+    /// Optional starting point (search-space order), evaluated first as trial 0 with phase <c>start</c>, e.g. the
+    /// base preset's own values, so the search can only improve on it and refinement can start from it. Values are
+    /// clamped into the declared ranges.
+    /// </summary>
+    public IReadOnlyList<double>? Start { get; init; }
+
+    /// <summary>Trials spent exploring before refinement (including the start point).</summary>
     public int ExploreBudget => Math.Max(1, (int)Math.Ceiling(Budget * 0.6));
 
     /// <summary>
@@ -76,6 +83,17 @@ public sealed class Tuner
         // Phase 1: shifted Halton points.
         int explore = Math.Min(Budget, ExploreBudget);
         var candidates = new List<double[]>();
+        if (Start is { } start)
+        {
+            if (start.Count != d)
+            {
+                throw new InvalidOperationException("the start point needs one value per parameter");
+            }
+
+            Evaluate([[.. space.Parameters.Select((p, k) => p.WholeNumbers ? Math.Round(Math.Clamp(start[k], p.Min, p.Max), MidpointRounding.ToEven) : Math.Clamp(start[k], p.Min, p.Max))]], "start", objective, previous, onTrial, done, cancellationToken);
+            explore--;
+        }
+
         for (int i = 0; i < explore; i++)
         {
             var v = new double[d];

@@ -42,6 +42,20 @@ public sealed class TunerTests
     }
 
     [Fact]
+    public void Run_WithStart_EvaluatesTheClampedStartFirst_AndNeverEndsBelowIt()
+    {
+        // Start outside the box on two axes: x = 12 clamps to 10, n = 64.6 rounds to 65, s = 0.5 stays.
+        // Source: common practice (a pattern search started at a feasible point never returns a worse point).
+        IReadOnlyList<Trial> trials = new Tuner(Space, 12, seed: 4, threads: 2) { Start = [12, 64.6, 0.5] }.Run(Objective);
+        Assert.Equal(12, trials.Count);
+        Assert.Equal("start", trials[0].Phase);
+        Assert.Equal([10, 65, 0.5], trials[0].Values);
+        Assert.Equal(Objective([10, 65, 0.5]), trials[0].Score, 12);
+        Assert.True(Tuner.Best(trials).Score >= trials[0].Score);
+        Assert.Equal(12 - 1 - (int)Math.Ceiling(12 * 0.6) + 1, trials.Count(t => t.Phase == "refine"));
+    }
+
+    [Fact]
     public void Run_SameSeed_SameTrialsWhateverThreads()
     {
         IReadOnlyList<Trial> a = new Tuner(Space, 40, seed: 9, threads: 1).Run(Objective);

@@ -1,0 +1,143 @@
+using System.CommandLine;
+using System.Globalization;
+using LaneBaseline.Core.Options;
+
+namespace LaneBaseline.Cli.Commands;
+
+/// <summary><c>lanebaseline tune --frames DIR --truth T -o best.yaml</c>: search preset parameters on labelled frames.</summary>
+internal static class TuneCommand
+{
+    public static Command Create()
+    {
+        Option<string> frames = new("--frames") { Description = "Folder (recursive), .txt/.lst list or single image of the labelled frames.", Required = true };
+        Option<string> truth = new("--truth") { Description = "Truth lane file for the frames (split into tuning and holdout frames).", Required = true };
+        Option<string?> space = new("--space") { Description = "Search-space YAML (default: the built-in configs/tune-space.yaml)." };
+        Option<string> config = new("--config", "-c")
+        {
+            Description = "Base preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file; trial values are set on it. Default: default.",
+            DefaultValueFactory = _ => "default",
+        };
+        Option<int> budget = new("--budget") { Description = "Trials to evaluate (default 40).", DefaultValueFactory = _ => 40 };
+        Option<ulong> seed = new("--seed") { Description = "Seed of the search (default 1).", DefaultValueFactory = _ => 1UL };
+        Option<string> objective = new("--objective") { Description = "f1 (F1 at IoU 0.5), mf1 (mean F1 over IoU 0.50:0.05:0.95) or accuracy (row-sampled point accuracy). Default f1.", DefaultValueFactory = _ => "f1" };
+        Option<double?> holdout = new("--holdout") { Description = "Fraction of the truth frames kept out of tuning, chosen by a hash of the frame key (default 0.3)." };
+        Option<string?> holdoutTruth = new("--holdout-truth") { Description = "A separate truth file of holdout frames (replaces --holdout; its frames are looked up under --frames)." };
+        Option<bool> allowOverlap = new("--allow-overlap") { Description = "Allow reporting the score on frames that were also used for tuning." };
+        Option<int> threads = new("--threads", "-j") { Description = "Trials evaluated in parallel (results do not depend on it). Default 1.", DefaultValueFactory = _ => 1 };
+        Option<bool> resume = new("--resume") { Description = "Reuse the trials already in OUT.trials.jsonl and continue the search." };
+        Option<string?> date = new("--date") { Description = "Date written in the output header (ISO 8601, UTC; default now), e.g. for reproducible files." };
+        Option<string> output = new("--output", "-o") { Description = "Preset YAML to write; the trial log goes to OUT.trials.jsonl beside it.", Required = true };
+
+        Command command = new("tune", "Search preset parameters for the best score on labelled frames, keeping holdout frames out of the search.")
+        {
+            frames, truth, space, config, budget, seed, objective, holdout, holdoutTruth, allowOverlap, threads, resume, date, output,
+        };
+
+        command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
+        {
+            int n = parse.GetValue(threads);
+            if (n < 1 || n > 256)
+            {
+                throw new UsageException("--threads must be between 1 and 256");
+            }
+
+            int b = parse.GetValue(budget);
+            if (b < 1 || b > 100_000)
+            {
+                throw new UsageException("--budget must be between 1 and 100000");
+            }
+
+            string obj = parse.GetValue(objective)!;
+            if (obj is not ("f1" or "mf1" or "accuracy"))
+            {
+                throw new UsageException("--objective must be f1, mf1 or accuracy, got '" + obj + "'");
+            }
+
+            double? fraction = parse.GetValue(holdout);
+            string? second = parse.GetValue(holdoutTruth);
+            if (fraction is not null && second is not null)
+            {
+                throw new UsageException("give either --holdout or --holdout-truth, not both");
+            }
+
+            if (fraction is double f && (!(f >= 0) || f >= 1))
+            {
+                throw new UsageException("--holdout must be a fraction in [0, 1)");
+            }
+
+            var request = new TuneRequest
+            {
+                Frames = parse.GetValue(frames)!,
+                Truth = parse.GetValue(truth)!,
+                SpacePath = parse.GetValue(space),
+                ConfigSource = parse.GetValue(config)!,
+                Budget = b,
+                Seed = parse.GetValue(seed),
+                Objective = obj,
+                HoldoutFraction = second is null ? fraction ?? 0.3 : 0,
+                HoldoutTruth = second,
+                AllowOverlap = parse.GetValue(allowOverlap),
+                Threads = n,
+                Resume = parse.GetValue(resume),
+                Date = ParseDate(parse.GetValue(date)),
+                Output = parse.GetValue(output)!,
+            };
+            TuneSummary summary = new TuneRunner(request, stderr).Run();
+            stdout.WriteLine(string.Create(
+                CultureInfo.InvariantCulture,
+                $"{request.Objective}: base {summary.BaseTuning:0.0000} -> tuned {summary.TunedTuning:0.0000} on {summary.TuningFrames} tuning frames; base {summary.BaseHoldout:0.0000} -> tuned {summary.TunedHoldout:0.0000} on {summary.HoldoutFrames} holdout frames{(summary.Overlap ? " (the same frames: --allow-overlap)" : string.Empty)}; preset written to {request.Output}"));
+            return ExitCodes.Success;
+        }));
+        return command;
+    }
+
+    private static string ParseDate(string? text)
+    {
+        if (text is null)
+        {
+            return DateTime.UtcNow.ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture);
+        }
+
+        if (!DateTimeOffset.TryParse(text, CultureInfo.InvariantCulture, DateTimeStyles.AssumeUniversal, out DateTimeOffset d))
+        {
+            throw new UsageException("--date must be an ISO 8601 date or time, got '" + text + "'");
+        }
+
+        return d.UtcDateTime.ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture);
+    }
+}
+
+/// <summary>Everything one tune run needs, parsed and checked.</summary>
+internal sealed record TuneRequest
+{
+    public required string Frames { get; init; }
+
+    public required string Truth { get; init; }
+
+    public string? SpacePath { get; init; }
+
+    public required string ConfigSource { get; init; }
+
+    public int Budget { get; init; } = 40;
+
+    public ulong Seed { get; init; } = 1;
+
+    public string Objective { get; init; } = "f1";
+
+    public double HoldoutFraction { get; init; } = 0.3;
+
+    public string? HoldoutTruth { get; init; }
+
+    public bool AllowOverlap { get; init; }
+
+    public int Threads { get; init; } = 1;
+
+    public bool Resume { get; init; }
+
+    public required string Date { get; init; }
+
+    public required string Output { get; init; }
+}
+
+/// <summary>What a tune run measured (objective values).</summary>
+internal sealed record TuneSummary(double BaseTuning, double TunedTuning, double BaseHoldout, double TunedHoldout, int TuningFrames, int HoldoutFrames, bool Overlap);
