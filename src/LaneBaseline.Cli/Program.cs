@@ -6,7 +6,11 @@ namespace LaneBaseline.Cli;
 /// <summary>Entry point: builds the command tree and maps parse errors to exit code 2.</summary>
 internal static class Program
 {
-    private static int Main(string[] args) => Invoke(args, Console.Out, Console.Error);
+    private static int Main(string[] args)
+    {
+        NativeLibraryResolver.Install();
+        return Invoke(args, Console.Out, Console.Error);
+    }
 
     /// <summary>Builds the root command with every subcommand.</summary>
     public static RootCommand CreateRoot()
@@ -22,6 +26,7 @@ internal static class Program
         root.Subcommands.Add(RenderCommand.Create());
         root.Subcommands.Add(ReportCommand.Create());
         root.Subcommands.Add(MergeCommand.Create());
+        root.Subcommands.Add(BenchCommand.Create());
         return root;
     }
 

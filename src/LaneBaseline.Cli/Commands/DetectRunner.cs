@@ -2,6 +2,7 @@ using System.Collections.Concurrent;
 using System.Diagnostics;
 using System.Globalization;
 using System.Text;
+using LaneBaseline.Cli.Bench;
 using LaneBaseline.Core;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Options;
@@ -136,7 +137,7 @@ internal sealed class DetectRunner
             workers[t] = Task.Run(() =>
             {
                 using var pipeline = new LanePipeline(request.Options, CameraVanishingPoint()) { MeasureStages = request.Timings };
-                using var primitives = request.Timings ? new PrimitiveTimer() : null;
+                using var primitives = request.Timings ? new FloorPrimitives() : null;
                 string? sequence = null;
                 try
                 {
@@ -321,19 +322,17 @@ internal sealed class DetectRunner
             return;
         }
 
-        string[] labels = [.. names, "pipeline total", "primitive: BGR->HLS full frame", "primitive: warp full frame", "primitives total"];
+        string[] labels = [.. names, "pipeline total", .. FloorPrimitives.Names.Select(n => "primitive: " + n), "primitives total"];
         stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"timings over {all.Length} frames (ms, OpenCV on 1 thread):"));
         stderr.WriteLine("  stage                              median      p95");
         for (int c = 0; c < labels.Length && c < all[0].Length; c++)
         {
-            double[] v = all.Select(r => r[c]).Order().ToArray();
-            double median = v[v.Length / 2];
-            double p95 = v[Math.Min(v.Length - 1, (int)Math.Ceiling(0.95 * v.Length) - 1)];
-            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {labels[c],-32} {median,8:0.00} {p95,8:0.00}"));
+            TimingStats s = TimingStats.From(all.Select(r => r[c]).ToArray());
+            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {labels[c],-32} {s.Median,8:0.00} {s.P95,8:0.00}"));
         }
     }
 
-    private Outcome ProcessOne(LanePipeline pipeline, Work w, ref long pipelineTicks, PrimitiveTimer? primitives, ConcurrentQueue<double[]> timings)
+    private Outcome ProcessOne(LanePipeline pipeline, Work w, ref long pipelineTicks, FloorPrimitives? primitives, ConcurrentQueue<double[]> timings)
     {
         Mat? frame = w.Decoded;
         try

@@ -1,0 +1,135 @@
+using System.CommandLine;
+using System.Globalization;
+using LaneBaseline.Cli.Bench;
+using LaneBaseline.Core.Options;
+
+namespace LaneBaseline.Cli.Commands;
+
+/// <summary><c>lanebaseline bench</c>: per-stage latency, throughput and memory beside the bare OpenCV floor.</summary>
+internal static class BenchCommand
+{
+    public static Command Create()
+    {
+        Option<string?> frames = new("--frames") { Description = "Frames to measure: a folder of images, a .txt/.lst list, one image or a video. Default: rendered scenes (--render)." };
+        Option<int?> render = new("--render") { Description = "Render N scenes (seeded) at the largest --size (default 1280x720) and measure them. Default 24 when --frames is not given." };
+        Option<ulong> seed = new("--seed") { Description = "Seed of the rendered scenes (default 1).", DefaultValueFactory = _ => 1UL };
+        Option<string[]> size = new("--size")
+        {
+            Description = "Processing size WxH; repeat or separate by commas for several (frames are resized to each). Default: the frames' own size.",
+            AllowMultipleArgumentsPerToken = false,
+        };
+        Option<string> threads = new("--threads", "-j") { Description = "Worker counts to measure, comma-separated (e.g. 1,2); one pipeline per worker, OpenCV on one thread in each. Default 1.", DefaultValueFactory = _ => "1" };
+        Option<string> config = new("--config", "-c")
+        {
+            Description = "Preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file. Default: default.",
+            DefaultValueFactory = _ => "default",
+        };
+        Option<int> warmup = new("--warmup") { Description = "Frame calls per worker before measuring (not recorded). Default 5.", DefaultValueFactory = _ => 5 };
+        Option<int> passes = new("--passes") { Description = "Measured passes over the frames. Default 3.", DefaultValueFactory = _ => 3 };
+        Option<int> maxFrames = new("--max-frames") { Description = "Most frames read from --frames (they are held decoded in memory). Default 60.", DefaultValueFactory = _ => 60 };
+        Option<string?> json = new("--json") { Description = "Also write the figures as JSON (schema in docs/bench.md)." };
+
+        Command command = new("bench", "Measure per-stage latency, frames per second and memory beside the bare OpenCV primitives on the same frames.")
+        {
+            frames, render, seed, size, threads, config, warmup, passes, maxFrames, json,
+        };
+
+        command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
+        {
+            string? framesPath = parse.GetValue(frames);
+            int? renderCount = parse.GetValue(render);
+            if (framesPath is not null && renderCount is not null)
+            {
+                throw new UsageException("give either --frames or --render, not both");
+            }
+
+            if (renderCount is < 1 or > 10000)
+            {
+                throw new UsageException("--render must be between 1 and 10000 scenes");
+            }
+
+            int warm = parse.GetValue(warmup);
+            if (warm < 0 || warm > 100000)
+            {
+                throw new UsageException("--warmup must be between 0 and 100000");
+            }
+
+            int passCount = parse.GetValue(passes);
+            if (passCount < 1 || passCount > 10000)
+            {
+                throw new UsageException("--passes must be between 1 and 10000");
+            }
+
+            int max = parse.GetValue(maxFrames);
+            if (max < 1)
+            {
+                throw new UsageException("--max-frames must be at least 1");
+            }
+
+            var request = new BenchRequest
+            {
+                FramesPath = framesPath,
+                RenderCount = renderCount ?? 24,
+                Seed = parse.GetValue(seed),
+                Sizes = ParseSizes(parse.GetValue(size) ?? []),
+                Threads = ParseThreads(parse.GetValue(threads)!),
+                Options = KnownPresets.Resolve(parse.GetValue(config)!),
+                ConfigSource = parse.GetValue(config)!,
+                Warmup = warm,
+                Passes = passCount,
+                MaxFrames = max,
+            };
+
+            string? jsonPath = parse.GetValue(json);
+            using AtomicFile? jsonFile = jsonPath is null ? null : new AtomicFile(jsonPath);
+            BenchResult result = new BenchRunner(request, stderr).Run();
+            BenchReportWriter.WriteTable(result, stdout);
+            if (jsonFile is not null)
+            {
+                BenchReportWriter.WriteJson(result, jsonFile.Stream);
+                jsonFile.Commit();
+                stderr.WriteLine("bench: figures written to " + jsonPath);
+            }
+
+            return ExitCodes.Success;
+        }));
+        return command;
+    }
+
+    internal static IReadOnlyList<(int Width, int Height)> ParseSizes(IEnumerable<string> values)
+    {
+        var sizes = new List<(int, int)>();
+        foreach (string value in values)
+        {
+            foreach (string part in value.Split(',', StringSplitOptions.TrimEntries))
+            {
+                (int w, int h) = RenderCommand.ParseSize(part);
+                if (!sizes.Contains((w, h)))
+                {
+                    sizes.Add((w, h));
+                }
+            }
+        }
+
+        return sizes;
+    }
+
+    internal static IReadOnlyList<int> ParseThreads(string text)
+    {
+        var list = new List<int>();
+        foreach (string part in text.Split(',', StringSplitOptions.TrimEntries))
+        {
+            if (!int.TryParse(part, NumberStyles.None, CultureInfo.InvariantCulture, out int n) || n < 1 || n > 256)
+            {
+                throw new UsageException("--threads must be a comma-separated list of worker counts between 1 and 256 (e.g. 1,2), got '" + text + "'");
+            }
+
+            if (!list.Contains(n))
+            {
+                list.Add(n);
+            }
+        }
+
+        return list;
+    }
+}
