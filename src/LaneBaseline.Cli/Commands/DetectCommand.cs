@@ -24,7 +24,7 @@ internal static class DetectCommand
         Option<string?> stagesDir = new("--stages") { Description = "Folder for a contact sheet of every stage's image (frame key + .stages.png)." };
         Option<int> stagesEvery = new("--stages-every") { Description = "With --stages: a sheet for every N-th frame (default 1: every frame).", DefaultValueFactory = _ => 1 };
         Option<int> threads = new("--threads", "-j") { Description = "Frames processed in parallel (output order and bytes do not depend on it). Default 1.", DefaultValueFactory = _ => 1 };
-        Option<string?> shard = new("--shard") { Description = "K/N: process only frames whose index i satisfies i mod N = K-1 (K in 1..N)." };
+        Option<string?> shard = new("--shard") { Description = "K/N (0 <= K < N): process only the frames whose key hashes to shard K (stable FNV-1a hash, as score --shard); join shards with 'merge'." };
         Option<bool> resume = new("--resume") { Description = "Keep the records already in the output file and process only the missing frames." };
         Option<bool> keepGoing = new("--keep-going") { Description = "Report a bad frame on stderr, skip it and continue; the skipped frames are listed at the end." };
         Option<int?> maxFrames = new("--max-frames") { Description = "Stop after N frames (after --shard)." };
@@ -99,18 +99,17 @@ internal static class DetectCommand
     {
         if (text is null)
         {
-            return (1, 1);
+            return (0, 1);
         }
 
-        string[] parts = text.Split('/');
-        if (parts.Length != 2
-            || !int.TryParse(parts[0], NumberStyles.None, CultureInfo.InvariantCulture, out int k)
-            || !int.TryParse(parts[1], NumberStyles.None, CultureInfo.InvariantCulture, out int n)
-            || n < 1 || k < 1 || k > n)
+        try
         {
-            throw new UsageException("--shard must be K/N with 1 <= K <= N (e.g. 2/4), got '" + text + "'");
+            LaneBaseline.Core.Sharding.ShardSpec spec = LaneBaseline.Core.Sharding.ShardSpec.Parse(text);
+            return (spec.Index, spec.Count);
         }
-
-        return (k, n);
+        catch (FormatException ex)
+        {
+            throw new UsageException("--shard: " + ex.Message);
+        }
     }
 }

@@ -21,7 +21,7 @@ internal sealed record DetectRequest
 
     public int Threads { get; init; } = 1;
 
-    public int ShardIndex { get; init; } = 1;
+    public int ShardIndex { get; init; }
 
     public int ShardCount { get; init; } = 1;
 

@@ -260,7 +260,7 @@ internal sealed class DetectRunner
     {
         int taken = 0;
         bool Wanted(FrameItem item) =>
-            item.Index % request.ShardCount == request.ShardIndex - 1 && !done.Contains(item.Key);
+            new LaneBaseline.Core.Sharding.ShardSpec(request.ShardIndex, request.ShardCount).Contains(item.Key) && !done.Contains(item.Key);
 
         if (images is not null)
         {
