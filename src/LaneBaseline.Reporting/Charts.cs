@@ -204,7 +204,8 @@ internal static partial class Charts
         {
             plot.Axes.Bottom.TickLabelStyle.Rotation = -45;
             plot.Axes.Bottom.TickLabelStyle.Alignment = Alignment.MiddleRight;
-            plot.Axes.Bottom.MinimumSize = 120;
+            // Room for the slanted labels: about 7 px per character at 45 degrees (12 px DejaVu Sans, common practice).
+            plot.Axes.Bottom.MinimumSize = 24 + (5.2f * labels.Max(l => Shorten(l).Length));
         }
 
         return crowded;

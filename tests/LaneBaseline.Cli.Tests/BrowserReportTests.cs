@@ -23,7 +23,7 @@ public sealed class BrowserReportTests : IDisposable
         string json = dir.File("s.json"), page = dir.File("report.html"), shot = dir.File("shot.png");
         Assert.Equal(0, CliRunner.Run("score", "--truth", scene.Truth, "--pred", "baseline=" + scene.Baseline, "--pred", "net=" + scene.Net, "--json", json, "--bootstrap", "100").Exit);
         string findings = dir.File("f.jsonl");
-        Assert.Equal(0, CliRunner.Run("audit", "--pred", scene.Net, "-o", findings, "--threads", "1").Exit);
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", scene.Net, "-o", findings, "--size", "640x360", "--threads", "1").Exit);
         (int exit, _, string err) = CliRunner.Run("report", "--score", json, "--audit", findings, "-o", page, "--generated-at", "2026-01-31T12:00:00Z",
             "--frames", scene.Frames, "--truth", scene.Truth, "--pred", "baseline=" + scene.Baseline, "--pred", "net=" + scene.Net);
         Assert.True(exit == 0, err);
