@@ -14,8 +14,9 @@ lb detect sample-frames -o "$out/baseline.lanes.jsonl" --config default --overla
 lb audit --pred "$out/baseline.lanes.jsonl" --camera sample-frames/camera.json --design-speed-kmh 80 \
   -o "$out/findings.jsonl" >"$out/audit.txt" || true
 lb score --truth sample-frames/truth.lanes.jsonl --pred baseline="$out/baseline.lanes.jsonl" \
-  --camera sample-frames/camera.json --json "$out/score.json" --csv "$out/frames.csv" \
-  --report "$out/report.html" --frames sample-frames
+  --camera sample-frames/camera.json --json "$out/score.json" --csv "$out/frames.csv"
+lb report --score "$out/score.json" --audit "$out/findings.jsonl" -o "$out/report.html" \
+  --frames sample-frames --truth sample-frames/truth.lanes.jsonl --pred baseline="$out/baseline.lanes.jsonl"
 echo
 echo "report:   $out/report.html"
 echo "overlays: $out/overlays/"

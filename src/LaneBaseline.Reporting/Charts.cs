@@ -102,14 +102,123 @@ internal static partial class Charts
         }
 
         plot.Add.Bars(bars);
-        plot.Axes.Bottom.SetTicks(
-            [.. Enumerable.Range(0, tags.Count).Select(t => (t * (n + 1)) + ((n - 1) / 2.0))],
-            [.. tags]);
+        bool crowded = CategoryTicks(plot, [.. Enumerable.Range(0, tags.Count).Select(t => (t * (n + 1)) + ((n - 1) / 2.0))], tags);
         AddSystemLegend(plot, systems);
         plot.YLabel("F1 at IoU 0.50");
         plot.Axes.SetLimits(-0.8, (tags.Count * (n + 1)) - 1.2, 0, 1.1);
-        return ToSvg(plot, 900, 400, idPrefix, "F1 at IoU 0.50 per tag");
+        return ToSvg(plot, 900, crowded ? 480 : 400, idPrefix, "F1 at IoU 0.50 per tag");
     }
+
+    /// <summary>Severity values of <c>severity=X</c> tags (as written by <c>render --sweep</c>), ascending, with their tag keys.</summary>
+    public static IReadOnlyList<(double Severity, string Tag)> SeverityTags(IEnumerable<string> tags) =>
+        [.. tags.Where(t => t.StartsWith(SeverityPrefix, StringComparison.Ordinal))
+            .Select(t => (Ok: double.TryParse(t.AsSpan(SeverityPrefix.Length), NumberStyles.Float, CultureInfo.InvariantCulture, out double v) && double.IsFinite(v), Value: v, Tag: t))
+            .Where(x => x.Ok)
+            .OrderBy(x => x.Value)
+            .Select(x => (x.Value, x.Tag))];
+
+    /// <summary>The tag prefix of rendered severity sweeps.</summary>
+    public const string SeverityPrefix = "severity=";
+
+    /// <summary>F1 at IoU 0.50 against sweep severity, one curve per system.</summary>
+    public static string SeverityCurves(IReadOnlyList<SystemResult> systems, IReadOnlyList<(double Severity, string Tag)> levels, string idPrefix)
+    {
+        using var plot = NewPlot();
+        for (int s = 0; s < systems.Count; s++)
+        {
+            var xs = new List<double>();
+            var ys = new List<double>();
+            foreach ((double sev, string tag) in levels)
+            {
+                double f1 = systems[s].ByTag.FirstOrDefault(kv => kv.Key == tag).Value?.At("0.50")?.F1 ?? double.NaN;
+                if (double.IsFinite(f1))
+                {
+                    xs.Add(sev);
+                    ys.Add(f1);
+                }
+            }
+
+            if (xs.Count == 0)
+            {
+                continue;
+            }
+
+            var line = plot.Add.Scatter(xs.ToArray(), ys.ToArray());
+            line.LegendText = systems[s].Name;
+            line.Color = Color.FromHex(SystemColor(s));
+            line.LineWidth = 2;
+            line.MarkerSize = 7;
+        }
+
+        plot.XLabel("Condition severity (render --sweep)");
+        plot.YLabel("F1 at IoU 0.50");
+        double lo = Math.Min(0, levels.Min(l => l.Severity)), hi = Math.Max(1, levels.Max(l => l.Severity));
+        plot.Axes.SetLimits(lo - 0.03, hi + 0.03, 0, 1.05);
+        plot.ShowLegend(Alignment.LowerLeft);
+        return ToSvg(plot, 900, 380, idPrefix, "F1 at IoU 0.50 against condition severity");
+    }
+
+    /// <summary>Findings per audit rule, one bar per rule coloured by severity.</summary>
+    public static string AuditRuleBars(IReadOnlyList<Audit.AuditRuleCount> rules, string idPrefix)
+    {
+        using var plot = NewPlot();
+        var bars = new List<Bar>();
+        for (int i = 0; i < rules.Count; i++)
+        {
+            bars.Add(new Bar { Position = i, Value = rules[i].Findings, FillColor = Color.FromHex(SeverityColor(rules[i].Severity)), LineWidth = 0 });
+        }
+
+        plot.Add.Bars(bars);
+        bool crowded = CategoryTicks(plot, [.. Enumerable.Range(0, rules.Count).Select(i => (double)i)], [.. rules.Select(r => r.Id)]);
+        foreach (string severity in SeverityNames.Where(s => rules.Any(r => r.Severity == s)))
+        {
+            plot.Legend.ManualItems.Add(new LegendItem { LabelText = severity, FillColor = Color.FromHex(SeverityColor(severity)) });
+        }
+
+        plot.ShowLegend(Alignment.UpperRight);
+        plot.YLabel("Findings");
+        double max = rules.Select(r => (double)r.Findings).DefaultIfEmpty(0).Max();
+        plot.Axes.SetLimits(-0.8, Math.Max(1, rules.Count - 0.2), 0, Math.Max(1, max * 1.15));
+        return ToSvg(plot, 900, crowded ? 440 : 380, idPrefix, "Audit findings per rule");
+    }
+
+    private static readonly string[] SeverityNames = ["error", "warning", "info"];
+
+    /// <summary>Our severity colours (error red-brown, warning amber, info grey-blue).</summary>
+    public static string SeverityColor(string severity) => severity switch
+    {
+        "error" => "#B02A1E",
+        "warning" => "#E0A100",
+        _ => "#6C7A89",
+    };
+
+    /// <summary>
+    /// Sets category ticks; with more than <see cref="CrowdedLabels"/> labels they are shortened to
+    /// <see cref="MaxLabelChars"/> characters and rotated 45° so they do not overlap. Returns whether they were.
+    /// </summary>
+    internal static bool CategoryTicks(Plot plot, double[] positions, IReadOnlyList<string> labels)
+    {
+        bool crowded = labels.Count > CrowdedLabels;
+        plot.Axes.Bottom.SetTicks(positions, [.. labels.Select(l => crowded ? Shorten(l) : l)]);
+        if (crowded)
+        {
+            plot.Axes.Bottom.TickLabelStyle.Rotation = -45;
+            plot.Axes.Bottom.TickLabelStyle.Alignment = Alignment.MiddleRight;
+            // Room for the slanted labels: about 7 px per character at 45 degrees (12 px DejaVu Sans, common practice).
+            plot.Axes.Bottom.MinimumSize = 24 + (5.2f * labels.Max(l => Shorten(l).Length));
+        }
+
+        return crowded;
+    }
+
+    /// <summary>Above this many category labels the x labels are rotated and shortened.</summary>
+    internal const int CrowdedLabels = 8;
+
+    /// <summary>Longest rotated label; longer ones keep their start and end around an ellipsis.</summary>
+    internal const int MaxLabelChars = 18;
+
+    internal static string Shorten(string label) =>
+        label.Length <= MaxLabelChars ? label : string.Concat(label.AsSpan(0, 10), "…", label.AsSpan(label.Length - (MaxLabelChars - 11)));
 
     /// <summary>Paired differences A − B with their 95 % intervals (bar = interval, dot = full-sample difference).</summary>
     public static string PairedDifferences(IReadOnlyList<PairedResult> pairs, string idPrefix)

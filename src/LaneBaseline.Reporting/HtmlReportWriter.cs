@@ -2,6 +2,7 @@ using System.Globalization;
 using System.Net;
 using System.Text;
 using LaneBaseline.Core;
+using LaneBaseline.Reporting.Audit;
 using LaneBaseline.Reporting.Score;
 
 namespace LaneBaseline.Reporting;
@@ -14,9 +15,12 @@ namespace LaneBaseline.Reporting;
 /// </summary>
 public static class HtmlReportWriter
 {
-    /// <summary>Section ids, in page order (every one is always present; empty ones say why).</summary>
+    /// <summary>Section ids of a page with score results, in page order (every one is always present; empty ones say why).</summary>
     public static readonly IReadOnlyList<string> SectionIds =
-        ["headline", "iou-curve", "confidence", "tags", "paired", "gallery", "configuration", "caution"];
+        ["headline", "iou-curve", "confidence", "tags", "paired", "gallery", "audit", "configuration", "caution"];
+
+    /// <summary>Section ids of a page made from audit findings alone.</summary>
+    public static readonly IReadOnlyList<string> AuditOnlySectionIds = ["audit", "configuration", "caution"];
 
     /// <summary>The version of the charting library, for the versions table.</summary>
     public static string ChartLibraryVersion =>
@@ -26,31 +30,58 @@ public static class HtmlReportWriter
     public static string Render(ReportInput input)
     {
         ArgumentNullException.ThrowIfNull(input);
+        ScoreDocument? doc = input.Score;
+        if (doc is null && input.Audit is null)
+        {
+            throw new ArgumentException("a report needs score results, audit findings or both", nameof(input));
+        }
+
         var h = new StringBuilder(1 << 16);
-        ScoreDocument doc = input.Score;
-        IReadOnlyList<SystemResult> systems = doc.Systems;
+        IReadOnlyList<SystemResult> systems = doc?.Systems ?? [];
+        string title = doc is null ? "Lane audit report" : "Lane scoring report";
+        string subject = doc is null ? input.Audit!.Source : string.Join(", ", systems.Select(s => s.Name));
 
         h.Append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
          .Append("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n")
-         .Append("<title>Lane scoring report: ").Append(E(string.Join(", ", systems.Select(s => s.Name)))).Append("</title>\n")
+         .Append("<title>").Append(title).Append(": ").Append(E(subject)).Append("</title>\n")
          .Append("<style>\n:root { --truth:").Append(OverlayColors.TruthHex).Append("; --pred:").Append(OverlayColors.PredictionHex).Append("; }\n").Append(Css).Append("</style>\n</head>\n<body>\n");
 
-        h.Append("<header>\n<h1>Lane scoring report</h1>\n<p class=\"meta\">")
-         .Append(Count(systems.Count, "system")).Append(" · ").Append(Count(systems[0].Overall.Frames, "frame"))
-         .Append(" · source <code>").Append(E(input.ScoreSource)).Append("</code> · generated <time datetime=\"")
+        h.Append("<header>\n<h1>").Append(title).Append("</h1>\n<p class=\"meta\">");
+        if (doc is not null)
+        {
+            h.Append(Count(systems.Count, "system")).Append(" · ").Append(Count(systems[0].Overall.Frames, "frame"))
+             .Append(" · source <code>").Append(E(input.ScoreSource ?? string.Empty)).Append("</code>");
+        }
+
+        if (input.Audit is AuditSummary a)
+        {
+            h.Append(doc is null ? string.Empty : " · ").Append(Count(a.Findings, "audit finding")).Append(" from <code>").Append(E(a.Source)).Append("</code>");
+        }
+
+        h.Append(" · generated <time datetime=\"")
          .Append(Time(input.GeneratedAt)).Append("\">").Append(Time(input.GeneratedAt)).Append("</time></p>\n")
          .Append("<p class=\"caution-banner\">").Append(E(SafetyNotice.Text)).Append("</p>\n</header>\n");
 
-        h.Append("<nav><a href=\"#headline\">Headline</a><a href=\"#iou-curve\">F1 vs IoU</a><a href=\"#confidence\">Confidence</a>")
-         .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#gallery\">Worst frames</a>")
-         .Append("<a href=\"#configuration\">Configuration</a><a href=\"#caution\">Caution</a></nav>\n<main>\n");
+        h.Append("<nav>");
+        if (doc is not null)
+        {
+            h.Append("<a href=\"#headline\">Headline</a><a href=\"#iou-curve\">F1 vs IoU</a><a href=\"#confidence\">Confidence</a>")
+             .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#gallery\">Worst frames</a>");
+        }
 
-        WriteHeadline(h, systems);
-        WriteIouCurve(h, systems);
-        WriteConfidence(h, systems);
-        WriteTags(h, systems);
-        WritePaired(h, doc);
-        WriteGallery(h, input.Gallery);
+        h.Append("<a href=\"#audit\">Audit</a><a href=\"#configuration\">Configuration</a><a href=\"#caution\">Caution</a></nav>\n<main>\n");
+
+        if (doc is not null)
+        {
+            WriteHeadline(h, systems);
+            WriteIouCurve(h, systems);
+            WriteConfidence(h, systems);
+            WriteTags(h, systems);
+            WritePaired(h, doc);
+            WriteGallery(h, input.Gallery);
+        }
+
+        WriteAudit(h, input.Audit);
         WriteConfiguration(h, input);
 
         h.Append("<section id=\"caution\">\n<h2>Safety caution</h2>\n<p>").Append(E(SafetyNotice.Text)).Append("</p>\n</section>\n");
@@ -155,7 +186,15 @@ public static class HtmlReportWriter
         }
 
         h.Append("<p>Frames are counted under every tag their truth record carries, so the tags overlap and need not add up to the whole.</p>\n");
-        h.Append("<figure class=\"chart\" id=\"chart-tags\">").Append(Charts.TagBars(systems, tags, "c3")).Append("<figcaption>F1 at IoU 0.50 per tag and system.</figcaption></figure>\n");
+        h.Append("<figure class=\"chart\" id=\"chart-tags\">").Append(Charts.TagBars(systems, tags, "c3")).Append("<figcaption>F1 at IoU 0.50 per tag and system")
+         .Append(tags.Count > Charts.CrowdedLabels ? string.Create(CultureInfo.InvariantCulture, $"; with more than {Charts.CrowdedLabels} tags the labels are slanted and names longer than {Charts.MaxLabelChars} characters shortened (the table has them in full).") : ".")
+         .Append("</figcaption></figure>\n");
+        IReadOnlyList<(double Severity, string Tag)> levels = Charts.SeverityTags(tags);
+        if (levels.Count > 0)
+        {
+            WriteSeverity(h, systems, levels);
+        }
+
         h.Append("<div class=\"scroll\"><table id=\"tag-table\">\n<thead><tr><th>Tag</th><th>System</th><th>Frames</th><th>Truth lanes</th><th>F1@0.50</th><th>mF1</th><th>Point accuracy</th></tr></thead>\n<tbody>\n");
         foreach (string tag in tags)
         {
@@ -249,12 +288,79 @@ public static class HtmlReportWriter
         h.Append("</section>\n");
     }
 
+    private static void WriteSeverity(StringBuilder h, IReadOnlyList<SystemResult> systems, IReadOnlyList<(double Severity, string Tag)> levels)
+    {
+        h.Append("<h3 id=\"severity\">Severity sweep</h3>\n<p>Frames rendered at rising severity of one condition (<code>render --sweep</code> tags them <code>severity=X</code>): F1 at IoU 0.50 per level.</p>\n");
+        h.Append("<figure class=\"chart\" id=\"chart-severity\">").Append(Charts.SeverityCurves(systems, levels, "c6")).Append("<figcaption>F1 at IoU 0.50 against severity, one curve per system.</figcaption></figure>\n");
+        h.Append("<div class=\"scroll\"><table id=\"severity-table\">\n<thead><tr><th>System</th>");
+        foreach ((double sev, _) in levels)
+        {
+            h.Append("<th>").Append(F(sev, "0.00")).Append("</th>");
+        }
+
+        h.Append("</tr></thead>\n<tbody>\n");
+        foreach (SystemResult r in systems)
+        {
+            h.Append("<tr data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(E(r.Name)).Append("</th>");
+            foreach ((_, string tag) in levels)
+            {
+                h.Append(TdCi(tag, r.ByTag.FirstOrDefault(kv => kv.Key == tag).Value?.At("0.50")?.F1 ?? double.NaN, null));
+            }
+
+            h.Append("</tr>\n");
+        }
+
+        h.Append("</tbody>\n</table></div>\n");
+    }
+
+    private static void WriteAudit(StringBuilder h, AuditSummary? audit)
+    {
+        h.Append("<section id=\"audit\">\n<h2>Audit findings</h2>\n");
+        if (audit is null)
+        {
+            h.Append("<p class=\"empty\">Not requested: pass <code>--audit FINDINGS.jsonl</code> (the output of <code>audit</code>) to show findings by rule.</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<p>").Append(Count(audit.Findings, "finding")).Append(" on ").Append(Count(audit.FlaggedFrames, "frame"))
+         .Append(" from <code>").Append(E(audit.Source)).Append("</code>. The audit checks predicted lanes without truth (docs/audit.md lists each rule and where its limit comes from).</p>\n");
+        h.Append("<figure class=\"chart\" id=\"chart-audit\">").Append(Charts.AuditRuleBars(audit.Rules, "c5")).Append("<figcaption>Findings per rule, coloured by severity.</figcaption></figure>\n");
+        h.Append("<div class=\"scroll\"><table id=\"audit-rules-table\">\n<thead><tr><th>Rule</th><th>Name</th><th>Severity</th><th>Findings</th><th>Frames</th></tr></thead>\n<tbody>\n");
+        foreach (AuditRuleCount r in audit.Rules)
+        {
+            h.Append("<tr data-rule=\"").Append(E(r.Id)).Append("\"><th scope=\"row\">").Append(E(r.Id)).Append("</th><td class=\"t\">").Append(E(r.Name))
+             .Append("</td><td class=\"t\"><span class=\"swatch\" style=\"background:").Append(Charts.SeverityColor(r.Severity)).Append("\"></span>").Append(E(r.Severity)).Append("</td>")
+             .Append(Td("findings", r.Findings)).Append(Td("frames", r.Frames)).Append("</tr>\n");
+        }
+
+        h.Append("</tbody>\n</table></div>\n");
+        if (audit.Top.Count == 0)
+        {
+            h.Append("<p class=\"empty\">No findings: every audited frame passed every rule that ran.</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<h3>First ").Append(Count(audit.Top.Count, "finding")).Append(" (worst frames first)</h3>\n");
+        h.Append("<div class=\"scroll\"><table id=\"audit-top-table\">\n<thead><tr><th>Rank</th><th>Frame</th><th>Rule</th><th>Severity</th><th>Lane</th><th>Value</th><th>Limit</th><th>Unit</th><th>Message</th></tr></thead>\n<tbody>\n");
+        foreach (AuditTopFinding f in audit.Top)
+        {
+            h.Append("<tr data-rule=\"").Append(E(f.Rule)).Append("\" data-frame=\"").Append(E(f.Frame)).Append("\"><th scope=\"row\">").Append(I(f.Rank)).Append("</th>")
+             .Append("<td class=\"t\"><code>").Append(E(f.Frame)).Append("</code></td><td class=\"t\">").Append(E(f.Rule)).Append("</td><td class=\"t\">").Append(E(f.Severity)).Append("</td>")
+             .Append("<td>").Append(f.Lane is int lane ? I(lane) : "–").Append("</td>")
+             .Append("<td data-key=\"value\" data-value=\"").Append(R(f.Value)).Append("\">").Append(F(f.Value, "0.###")).Append("</td>")
+             .Append("<td data-key=\"limit\" data-value=\"").Append(R(f.Limit)).Append("\">").Append(F(f.Limit, "0.###")).Append("</td>")
+             .Append("<td class=\"t\">").Append(E(f.Unit)).Append("</td><td class=\"t msg\">").Append(E(f.Message)).Append("</td></tr>\n");
+        }
+
+        h.Append("</tbody>\n</table></div>\n</section>\n");
+    }
+
     private static void WriteConfiguration(StringBuilder h, ReportInput input)
     {
         h.Append("<section id=\"configuration\">\n<h2>Configuration and versions</h2>\n");
-        h.Append("<p>The effective settings of the score run (from its results) and of this report, so the page can be reproduced from its inputs. <code>null</code> means the per-frame default of the metrics specification.</p>\n");
+        h.Append("<p>The effective settings of the score run (from its results, when given) and of this report, so the page can be reproduced from its inputs. <code>null</code> means the per-frame default of the metrics specification.</p>\n");
         h.Append("<div class=\"scroll\"><table id=\"settings-table\">\n<thead><tr><th>Setting</th><th>Value</th></tr></thead>\n<tbody>\n");
-        foreach (KeyValuePair<string, string> kv in input.Score.Settings.Select(kv => new KeyValuePair<string, string>("score." + kv.Key, kv.Value)).Concat(input.ReportSettings))
+        foreach (KeyValuePair<string, string> kv in (input.Score?.Settings ?? []).Select(kv => new KeyValuePair<string, string>("score." + kv.Key, kv.Value)).Concat(input.ReportSettings))
         {
             h.Append("<tr><th scope=\"row\"><code>").Append(E(kv.Key)).Append("</code></th><td>").Append(E(kv.Value)).Append("</td></tr>\n");
         }
@@ -321,7 +427,7 @@ public static class HtmlReportWriter
         th:first-child, thead th { text-align:left; } thead th { background:var(--band); white-space:normal; vertical-align:bottom; }
         #headline-table thead th { max-width:7.5em; }
         #settings-table td, #versions-table td { text-align:left; white-space:normal; word-break:break-all; }
-        td.t { text-align:left; }
+        td.t { text-align:left; } td.msg { white-space:normal; min-width:16em; }
         .ci { display:block; color:var(--muted); font-size:0.82em; }
         .swatch { display:inline-block; width:0.8em; height:0.8em; border-radius:2px; margin-right:6px; vertical-align:baseline; }
         figure { margin:8px 0; }

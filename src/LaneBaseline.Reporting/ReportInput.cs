@@ -5,11 +5,14 @@ namespace LaneBaseline.Reporting;
 /// <summary>Everything the HTML report shows. Nothing in it is read from the clock or the machine by the writer.</summary>
 public sealed record ReportInput
 {
-    /// <summary>The parsed score results.</summary>
-    public required ScoreDocument Score { get; init; }
+    /// <summary>The parsed score results, or null for a page of audit findings only.</summary>
+    public ScoreDocument? Score { get; init; }
 
-    /// <summary>Where the score results came from, as the user named it.</summary>
-    public required string ScoreSource { get; init; }
+    /// <summary>Where the score results came from, as the user named it (null without score results).</summary>
+    public string? ScoreSource { get; init; }
+
+    /// <summary>The summarised audit findings, or null when none were given.</summary>
+    public Audit.AuditSummary? Audit { get; init; }
 
     /// <summary>The "generated at" time printed in the page (injected, so the page is reproducible).</summary>
     public required DateTimeOffset GeneratedAt { get; init; }

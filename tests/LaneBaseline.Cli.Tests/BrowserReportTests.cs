@@ -22,19 +22,21 @@ public sealed class BrowserReportTests : IDisposable
         var scene = new ReportScene(dir);
         string json = dir.File("s.json"), page = dir.File("report.html"), shot = dir.File("shot.png");
         Assert.Equal(0, CliRunner.Run("score", "--truth", scene.Truth, "--pred", "baseline=" + scene.Baseline, "--pred", "net=" + scene.Net, "--json", json, "--bootstrap", "100").Exit);
-        (int exit, _, string err) = CliRunner.Run("report", "--score", json, "-o", page, "--generated-at", "2026-01-31T12:00:00Z",
+        string findings = dir.File("f.jsonl");
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", scene.Net, "-o", findings, "--size", "640x360", "--threads", "1").Exit);
+        (int exit, _, string err) = CliRunner.Run("report", "--score", json, "--audit", findings, "-o", page, "--generated-at", "2026-01-31T12:00:00Z",
             "--frames", scene.Frames, "--truth", scene.Truth, "--pred", "baseline=" + scene.Baseline, "--pred", "net=" + scene.Net);
         Assert.True(exit == 0, err);
         string source = File.ReadAllText(page);
 
         (int code, string dom, string chromeErr) = HeadlessChromium.Run(page, "--dump-dom");
         Assert.True(code == 0, chromeErr);
-        foreach (string chart in new[] { "chart-iou", "chart-confidence", "chart-tags", "chart-paired" })
+        foreach (string chart in new[] { "chart-iou", "chart-confidence", "chart-tags", "chart-paired", "chart-audit" })
         {
             Assert.Matches($"<figure class=\"chart\" id=\"{chart}\"><svg[^>]*viewBox=", dom);
         }
 
-        foreach (string table in new[] { "headline-table", "iou-table", "confidence-table", "tag-table", "paired-table", "settings-table", "versions-table" })
+        foreach (string table in new[] { "headline-table", "iou-table", "confidence-table", "tag-table", "paired-table", "audit-rules-table", "settings-table", "versions-table" })
         {
             Assert.Contains($"<table id=\"{table}\">", dom, StringComparison.Ordinal);
         }

@@ -1,11 +1,13 @@
 using System.CommandLine;
 using System.Diagnostics;
 using System.Globalization;
+using LaneBaseline.Cli.Reports;
 using LaneBaseline.Core;
 using LaneBaseline.Core.Audit;
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Reporting.Audit;
 using LaneBaseline.Vision.Audit;
 using LaneBaseline.Vision.Masks;
 using LaneBaseline.Vision.Metrics;
@@ -31,11 +33,13 @@ internal static class AuditCommand
         Option<int> minMaskRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };
         Option<string?> camera = new("--camera") { Description = "camera.json of the frames: enables the ground-geometry rules (lane width, curve radius, parallelism) and fixes the horizon row." };
         Option<double> speed = new("--design-speed-kmh") { Description = "Design speed for the curve-radius rule, R = V^2 / (127 (e + f)) with e 0.08, f 0.12.", DefaultValueFactory = _ => 100.0 };
+        Option<string?> report = new("--report") { Description = "Also write a self-contained HTML page of the findings (per rule and the first findings)." };
+        Option<string?> generatedAt = new("--generated-at") { Description = "Time printed as 'generated' in the --report page (ISO 8601), for reproducible pages; default now." };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
 
         Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.\n" + SafetyNotice.Text)
         {
-            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, threads,
+            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads,
         };
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
@@ -84,6 +88,8 @@ internal static class AuditCommand
                 HorizonRow = parseResult.GetValue(horizon),
                 FramesPerSecond = rate,
             };
+            string? reportPath = parseResult.GetValue(report);
+            DateTimeOffset at = ReportPage.ParseGeneratedAt(parseResult.GetValue(generatedAt));
             return Execute(
                 stdout,
                 stderr,
@@ -97,6 +103,7 @@ internal static class AuditCommand
                 gateSeverity,
                 rows,
                 threadCount,
+                reportPath is null ? null : (reportPath, at),
                 cancellationToken);
         })));
         return command;
@@ -115,6 +122,7 @@ internal static class AuditCommand
         AuditSeverity? gate,
         int minMaskRows,
         int threads,
+        (string Path, DateTimeOffset At)? report,
         CancellationToken cancellationToken)
     {
         var clock = Stopwatch.StartNew();
@@ -154,6 +162,13 @@ internal static class AuditCommand
         if (overlays > 0)
         {
             WriteOverlays(stem + ".overlays", result, predPath, baselinePath, framesRoot, settings, opener, overlays, cancellationToken);
+        }
+
+        if (report is (string reportPath, DateTimeOffset at))
+        {
+            // Read back what was written: the page shows exactly the findings file, streamed like `report --audit`.
+            ReportPage.Write(reportPath, null, null, AuditFindingsReader.Read(outPath), null, at, cancellationToken);
+            stderr.WriteLine("audit: wrote " + reportPath);
         }
 
         WriteSummary(stdout, result, outPath, settings.Camera is not null);

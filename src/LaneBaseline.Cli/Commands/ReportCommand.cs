@@ -1,5 +1,6 @@
 using System.CommandLine;
 using LaneBaseline.Cli.Reports;
+using LaneBaseline.Reporting.Audit;
 using LaneBaseline.Reporting.Score;
 
 namespace LaneBaseline.Cli.Commands;
@@ -9,21 +10,28 @@ internal static class ReportCommand
 {
     public static Command Create()
     {
-        Option<string> score = new("--score") { Description = "Results of 'score --json' (one or several systems).", Required = true };
+        Option<string?> score = new("--score") { Description = "Results of 'score --json' (one or several systems). At least one of --score and --audit." };
+        Option<string?> audit = new("--audit") { Description = "Findings of 'audit' (JSON Lines): adds findings per rule and the first findings." };
         Option<string> output = new("--output", "-o") { Description = "The HTML page to write.", Required = true };
         Option<string?> frames = new("--frames") { Description = "Folder of the frame images (frame keys are relative to it); with --truth and --pred, draws the worst frames." };
         Option<string?> truth = new("--truth") { Description = "Ground-truth lane file, for the worst-frame gallery." };
         Option<string[]> pred = new("--pred") { Description = "Prediction lane file for the gallery; repeat as NAME=FILE for several systems.", AllowMultipleArgumentsPerToken = false };
         Option<string?> generatedAt = new("--generated-at") { Description = "Time printed as 'generated' (ISO 8601), for reproducible pages; default now." };
 
-        Command command = new("report", "Write one self-contained HTML page (tables, charts, worst frames, settings) from score results.\n" + SafetyNotice.Text)
+        Command command = new("report", "Write one self-contained HTML page (tables, charts, worst frames, audit findings, settings) from score results and/or audit findings.\n" + SafetyNotice.Text)
         {
-            score, output, frames, truth, pred, generatedAt,
+            score, audit, output, frames, truth, pred, generatedAt,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
-            string scorePath = parseResult.GetRequiredValue(score);
+            string? scorePath = parseResult.GetValue(score);
+            string? auditPath = parseResult.GetValue(audit);
+            if (scorePath is null && auditPath is null)
+            {
+                throw new UsageException("report needs --score, --audit or both");
+            }
+
             string outPath = parseResult.GetRequiredValue(output);
             string? framesDir = parseResult.GetValue(frames);
             string? truthPath = parseResult.GetValue(truth);
@@ -35,9 +43,15 @@ internal static class ReportCommand
                 throw new UsageException("the worst-frame gallery needs --frames, --truth and --pred together");
             }
 
+            if (given == 3 && scorePath is null)
+            {
+                throw new UsageException("the worst-frame gallery ranks frames by score: it needs --score");
+            }
+
             GalleryRequest? gallery = given == 3 ? new GalleryRequest(framesDir!, truthPath!, ScoreCommand.ParseSystems(preds)) : null;
-            ScoreDocument doc = ScoreDocumentReader.Read(scorePath);
-            ReportPage.Write(outPath, doc, scorePath, gallery, at, cancellationToken);
+            ScoreDocument? doc = scorePath is null ? null : ScoreDocumentReader.Read(scorePath);
+            AuditSummary? findings = auditPath is null ? null : AuditFindingsReader.Read(auditPath);
+            ReportPage.Write(outPath, doc, scorePath, findings, gallery, at, cancellationToken);
             stderr.WriteLine("report: wrote " + outPath);
             return ExitCodes.Success;
         })));

@@ -283,7 +283,7 @@ internal static class ScoreCommand
             ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
             ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
             GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems);
-            ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", gallery, DateTimeOffset.UtcNow, CancellationToken.None);
+            ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", null, gallery, DateTimeOffset.UtcNow, CancellationToken.None);
             stderr.WriteLine("score: wrote report " + reportPath);
         }
 

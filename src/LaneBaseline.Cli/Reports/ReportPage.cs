@@ -3,6 +3,7 @@ using System.Reflection;
 using System.Runtime.InteropServices;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Reporting;
+using LaneBaseline.Reporting.Audit;
 using LaneBaseline.Reporting.Score;
 
 namespace LaneBaseline.Cli.Reports;
@@ -18,15 +19,27 @@ internal static class ReportPage
 {
     public static void Write(
         string outputPath,
-        ScoreDocument score,
-        string scoreSource,
+        ScoreDocument? score,
+        string? scoreSource,
+        AuditSummary? audit,
         GalleryRequest? gallery,
         DateTimeOffset generatedAt,
         CancellationToken cancellationToken)
     {
-        var reportSettings = new List<KeyValuePair<string, string>> { new("report.score", scoreSource) };
+        var reportSettings = new List<KeyValuePair<string, string>>();
+        if (scoreSource is not null)
+        {
+            reportSettings.Add(new("report.score", scoreSource));
+        }
+
+        if (audit is not null)
+        {
+            reportSettings.Add(new("report.audit", audit.Source));
+            reportSettings.Add(new("report.audit_top", audit.Top.Count.ToString(CultureInfo.InvariantCulture) + " first findings listed (cap " + AuditFindingsReader.DefaultTop.ToString(CultureInfo.InvariantCulture) + ")"));
+        }
+
         Gallery? built = null;
-        if (gallery is not null)
+        if (gallery is not null && score is not null)
         {
             ScoreSettings settings = SettingsOf(score);
             built = WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, cancellationToken);
@@ -54,6 +67,7 @@ internal static class ReportPage
         {
             Score = score,
             ScoreSource = scoreSource,
+            Audit = audit,
             GeneratedAt = generatedAt,
             Versions = versions,
             ReportSettings = reportSettings,
