@@ -15,7 +15,9 @@ lb audit --pred "$out/baseline.lanes.jsonl" --camera sample-frames/camera.json -
   -o "$out/findings.jsonl" >"$out/audit.txt" || true
 lb score --truth sample-frames/truth.lanes.jsonl --pred baseline="$out/baseline.lanes.jsonl" \
   --camera sample-frames/camera.json --json "$out/score.json" --csv "$out/frames.csv"
-lb report --score "$out/score.json" --audit "$out/findings.jsonl" -o "$out/report.html" \
+lb bench --frames sample-frames --size 1280x720,640x360 --threads 1 --max-frames 12 --warmup 3 --passes 1 \
+  --json "$out/bench.json" >"$out/bench.txt"
+lb report --score "$out/score.json" --audit "$out/findings.jsonl" --bench "$out/bench.json" -o "$out/report.html" \
   --frames sample-frames --truth sample-frames/truth.lanes.jsonl --pred baseline="$out/baseline.lanes.jsonl"
 echo
 echo "report:   $out/report.html"

@@ -159,6 +159,34 @@ internal static partial class Charts
     }
 
     /// <summary>Findings per audit rule, one bar per rule coloured by severity.</summary>
+    /// <summary>Grouped bars: median milliseconds per pipeline stage, one colour per bench configuration.</summary>
+    public static string StageBars(IReadOnlyList<Bench.BenchRun> runs, string idPrefix)
+    {
+        ArgumentNullException.ThrowIfNull(runs);
+        using var plot = NewPlot();
+        string[] stages = [.. runs.SelectMany(r => r.Stages.Select(s => s.Stage)).Distinct()];
+        double width = 0.8 / Math.Max(1, runs.Count);
+        var bars = new List<Bar>();
+        for (int k = 0; k < runs.Count; k++)
+        {
+            for (int i = 0; i < stages.Length; i++)
+            {
+                double v = runs[k].Stages.Where(s => s.Stage == stages[i]).Select(s => s.MedianMs).DefaultIfEmpty(0).First();
+                bars.Add(new Bar { Position = i - 0.4 + (width * (k + 0.5)), Value = v, Size = width * 0.9, FillColor = Color.FromHex(SystemColor(k)), LineWidth = 0 });
+            }
+
+            plot.Legend.ManualItems.Add(new LegendItem { LabelText = runs[k].Label, FillColor = Color.FromHex(SystemColor(k)) });
+        }
+
+        plot.Add.Bars(bars);
+        CategoryTicks(plot, [.. Enumerable.Range(0, stages.Length).Select(i => (double)i)], stages);
+        plot.ShowLegend(Alignment.UpperRight);
+        plot.YLabel("Median ms");
+        double max = bars.Select(b => b.Value).DefaultIfEmpty(0).Max();
+        plot.Axes.SetLimits(-0.6, stages.Length - 0.4, 0, Math.Max(0.1, max * 1.2));
+        return ToSvg(plot, 900, 380, idPrefix, "Median milliseconds per stage");
+    }
+
     public static string AuditRuleBars(IReadOnlyList<Audit.AuditRuleCount> rules, string idPrefix)
     {
         using var plot = NewPlot();

@@ -69,7 +69,7 @@ public static class HtmlReportWriter
              .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#gallery\">Worst frames</a>");
         }
 
-        h.Append("<a href=\"#audit\">Audit</a><a href=\"#configuration\">Configuration</a><a href=\"#caution\">Caution</a></nav>\n<main>\n");
+        h.Append("<a href=\"#audit\">Audit</a>").Append(input.Bench is null ? string.Empty : "<a href=\"#bench\">Cost</a>").Append("<a href=\"#configuration\">Configuration</a><a href=\"#caution\">Caution</a></nav>\n<main>\n");
 
         if (doc is not null)
         {
@@ -82,6 +82,11 @@ public static class HtmlReportWriter
         }
 
         WriteAudit(h, input.Audit);
+        if (input.Bench is { } bench)
+        {
+            WriteBench(h, bench);
+        }
+
         WriteConfiguration(h, input);
 
         h.Append("<section id=\"caution\">\n<h2>Safety caution</h2>\n<p>").Append(E(SafetyNotice.Text)).Append("</p>\n</section>\n");
@@ -311,6 +316,21 @@ public static class HtmlReportWriter
         }
 
         h.Append("</tbody>\n</table></div>\n");
+    }
+
+    private static void WriteBench(StringBuilder h, Bench.BenchSummary bench)
+    {
+        h.Append("<section id=\"bench\">\n<h2>Cost per stage</h2>\n<p>From <code>").Append(E(bench.Source)).Append("</code> (")
+         .Append(E(bench.Machine)).Append("). Medians after warm-up; the floor is the bare OpenCV primitives the pipeline needs, measured on the same frames in alternation; decode time is excluded.</p>\n");
+        h.Append("<figure class=\"chart\" id=\"chart-bench\">").Append(Charts.StageBars(bench.Runs, "c6")).Append("<figcaption>Median milliseconds per stage, one bar per measured configuration.</figcaption></figure>\n");
+        h.Append("<div class=\"scroll\"><table id=\"bench-table\">\n<thead><tr><th>Configuration</th><th>Frame median ms</th><th>Frame p95 ms</th><th>Floor median ms</th><th>Pipeline/floor</th><th>Frames/s</th><th>Managed bytes/frame</th></tr></thead>\n<tbody>\n");
+        foreach (Bench.BenchRun r in bench.Runs)
+        {
+            h.Append("<tr><th scope=\"row\">").Append(E(r.Label)).Append("</th>")
+             .Append(string.Create(CultureInfo.InvariantCulture, $"<td>{r.FrameMedianMs:0.00}</td><td>{r.FrameP95Ms:0.00}</td><td>{r.FloorMedianMs:0.00}</td><td>{r.Ratio:0.00}</td><td>{r.FramesPerSecond:0.0}</td><td>{r.BytesPerFrame:0}</td></tr>\n"));
+        }
+
+        h.Append("</tbody>\n</table></div>\n</section>\n");
     }
 
     private static void WriteAudit(StringBuilder h, AuditSummary? audit)

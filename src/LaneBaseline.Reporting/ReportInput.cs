@@ -14,6 +14,9 @@ public sealed record ReportInput
     /// <summary>The summarised audit findings, or null when none were given.</summary>
     public Audit.AuditSummary? Audit { get; init; }
 
+    /// <summary>Per-stage cost from <c>bench --json</c>, or null when not given.</summary>
+    public Bench.BenchSummary? Bench { get; init; }
+
     /// <summary>The "generated at" time printed in the page (injected, so the page is reproducible).</summary>
     public required DateTimeOffset GeneratedAt { get; init; }
 

@@ -1,6 +1,7 @@
 using System.CommandLine;
 using LaneBaseline.Cli.Reports;
 using LaneBaseline.Reporting.Audit;
+using LaneBaseline.Reporting.Bench;
 using LaneBaseline.Reporting.Score;
 
 namespace LaneBaseline.Cli.Commands;
@@ -12,6 +13,7 @@ internal static class ReportCommand
     {
         Option<string?> score = new("--score") { Description = "Results of 'score --json' (one or several systems). At least one of --score and --audit." };
         Option<string?> audit = new("--audit") { Description = "Findings of 'audit' (JSON Lines): adds findings per rule and the first findings." };
+        Option<string?> bench = new("--bench") { Description = "Results of 'bench --json': adds per-stage cost bars beside the OpenCV floor (needs --score)." };
         Option<string> output = new("--output", "-o") { Description = "The HTML page to write.", Required = true };
         Option<string?> frames = new("--frames") { Description = "Folder of the frame images (frame keys are relative to it); with --truth and --pred, draws the worst frames." };
         Option<string?> truth = new("--truth") { Description = "Ground-truth lane file, for the worst-frame gallery." };
@@ -20,7 +22,7 @@ internal static class ReportCommand
 
         Command command = new("report", "Write one self-contained HTML page (tables, charts, worst frames, audit findings, settings) from score results and/or audit findings.\n" + SafetyNotice.Text)
         {
-            score, audit, output, frames, truth, pred, generatedAt,
+            score, audit, bench, output, frames, truth, pred, generatedAt,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -51,7 +53,14 @@ internal static class ReportCommand
             GalleryRequest? gallery = given == 3 ? new GalleryRequest(framesDir!, truthPath!, ScoreCommand.ParseSystems(preds)) : null;
             ScoreDocument? doc = scorePath is null ? null : ScoreDocumentReader.Read(scorePath);
             AuditSummary? findings = auditPath is null ? null : AuditFindingsReader.Read(auditPath);
-            ReportPage.Write(outPath, doc, scorePath, findings, gallery, at, cancellationToken);
+            string? benchPath = parseResult.GetValue(bench);
+            if (benchPath is not null && scorePath is null)
+            {
+                throw new UsageException("--bench adds a section to a scoring report: it needs --score");
+            }
+
+            BenchSummary? cost = benchPath is null ? null : BenchSummaryReader.Read(benchPath);
+            ReportPage.Write(outPath, doc, scorePath, findings, gallery, at, cancellationToken, cost);
             stderr.WriteLine("report: wrote " + outPath);
             return ExitCodes.Success;
         })));

@@ -24,7 +24,8 @@ internal static class ReportPage
         AuditSummary? audit,
         GalleryRequest? gallery,
         DateTimeOffset generatedAt,
-        CancellationToken cancellationToken)
+        CancellationToken cancellationToken,
+        LaneBaseline.Reporting.Bench.BenchSummary? bench = null)
     {
         var reportSettings = new List<KeyValuePair<string, string>>();
         if (scoreSource is not null)
@@ -36,6 +37,11 @@ internal static class ReportPage
         {
             reportSettings.Add(new("report.audit", audit.Source));
             reportSettings.Add(new("report.audit_top", audit.Top.Count.ToString(CultureInfo.InvariantCulture) + " first findings listed (cap " + AuditFindingsReader.DefaultTop.ToString(CultureInfo.InvariantCulture) + ")"));
+        }
+
+        if (bench is not null)
+        {
+            reportSettings.Add(new("report.bench", bench.Source));
         }
 
         Gallery? built = null;
@@ -72,6 +78,7 @@ internal static class ReportPage
             Versions = versions,
             ReportSettings = reportSettings,
             Gallery = built,
+            Bench = bench,
         });
 
         using var file = new AtomicFile(outputPath);

@@ -1,0 +1,107 @@
+using System.Globalization;
+using System.Text.Json;
+using LaneBaseline.Core;
+
+namespace LaneBaseline.Reporting.Bench;
+
+/// <summary>One measured configuration of <c>bench --json</c>: frame size, workers, per-stage and whole-frame cost.</summary>
+/// <param name="Label">e.g. "1280x720, 1 worker".</param>
+/// <param name="Stages">Stage name with median and p95 in milliseconds, in run order.</param>
+/// <param name="FrameMedianMs">Whole-frame median of the pipeline, ms.</param>
+/// <param name="FrameP95Ms">Whole-frame p95 of the pipeline, ms.</param>
+/// <param name="FloorMedianMs">Median of the bare OpenCV primitives on the same frames, ms.</param>
+/// <param name="Ratio">Pipeline/floor, median of per-frame pairs.</param>
+/// <param name="FramesPerSecond">Pipeline-only throughput.</param>
+/// <param name="BytesPerFrame">Managed bytes allocated per frame.</param>
+public sealed record BenchRun(
+    string Label,
+    IReadOnlyList<(string Stage, double MedianMs, double P95Ms)> Stages,
+    double FrameMedianMs,
+    double FrameP95Ms,
+    double FloorMedianMs,
+    double Ratio,
+    double FramesPerSecond,
+    double BytesPerFrame);
+
+/// <summary>What the report shows of a bench run.</summary>
+/// <param name="Source">The JSON file as the user named it.</param>
+/// <param name="Machine">One line describing the machine and the OpenCV build.</param>
+/// <param name="Runs">The measured configurations, in file order.</param>
+public sealed record BenchSummary(string Source, string Machine, IReadOnlyList<BenchRun> Runs);
+
+#pragma warning disable IDISP004 // JsonElement array enumerators own no resources
+
+/// <summary>Reads the parts of a <c>bench --json</c> file (schema version 1, docs/bench.md) that the report shows.</summary>
+public static class BenchSummaryReader
+{
+    /// <summary>Reads and checks a bench JSON file; errors name the file and the key.</summary>
+    public static BenchSummary Read(string path)
+    {
+        if (!File.Exists(path))
+        {
+            throw BadInputException.At(path, 0, null, Directory.Exists(path) ? "is a directory, expected bench --json output" : "file not found");
+        }
+
+        string key = "json";
+        try
+        {
+            using JsonDocument doc = JsonDocument.Parse(File.ReadAllBytes(path));
+            JsonElement root = doc.RootElement;
+            key = "schemaVersion";
+            if (root.GetProperty("schemaVersion").GetInt32() != 1)
+            {
+                throw BadInputException.At(path, 0, key, "only schema version 1 is understood");
+            }
+
+            key = "machine";
+            JsonElement m = root.GetProperty("machine");
+            JsonElement cv = m.GetProperty("opencv");
+            string machine = string.Create(
+                CultureInfo.InvariantCulture,
+                $"{m.GetProperty("cpuModel").GetString()} · {m.GetProperty("logicalCores").GetInt32()} cores · {m.GetProperty("os").GetString()} · {m.GetProperty("dotnet").GetString()} · OpenCV {cv.GetProperty("version").GetString()}");
+            var runs = new List<BenchRun>();
+            int i = 0;
+            foreach (JsonElement r in root.GetProperty("runs").EnumerateArray())
+            {
+                key = "runs[" + i.ToString(CultureInfo.InvariantCulture) + "]";
+                JsonElement pipe = r.GetProperty("pipeline");
+                var stages = pipe.GetProperty("stages").EnumerateArray()
+                    .Select(s => (s.GetProperty("name").GetString()!, Finite(s.GetProperty("medianMs")), Finite(s.GetProperty("p95Ms"))))
+                    .ToList();
+                int workers = r.GetProperty("workers").GetInt32();
+                runs.Add(new BenchRun(
+                    string.Create(CultureInfo.InvariantCulture, $"{r.GetProperty("width").GetInt32()}x{r.GetProperty("height").GetInt32()}, {workers} worker{(workers == 1 ? string.Empty : "s")}"),
+                    stages,
+                    Finite(pipe.GetProperty("frameMs").GetProperty("median")),
+                    Finite(pipe.GetProperty("frameMs").GetProperty("p95")),
+                    Finite(r.GetProperty("floor").GetProperty("frameMs").GetProperty("median")),
+                    Finite(r.GetProperty("ratio").GetProperty("medianOfPairs")),
+                    Finite(r.GetProperty("framesPerSecond")),
+                    Finite(r.GetProperty("allocatedBytesPerFrame"))));
+                i++;
+            }
+
+            if (runs.Count == 0)
+            {
+                throw BadInputException.At(path, 0, "runs", "no measured runs");
+            }
+
+            return new BenchSummary(path, machine, runs);
+        }
+        catch (JsonException ex)
+        {
+            throw BadInputException.At(path, (ex.LineNumber ?? -1) + 1, key, "not valid bench JSON: " + ex.Message.Split(" LineNumber:", 2)[0]);
+        }
+        catch (Exception ex) when (ex is KeyNotFoundException or InvalidOperationException or FormatException)
+        {
+            throw BadInputException.At(path, 0, key, "missing or mistyped value (expected bench --json output, schema 1): " + ex.Message);
+        }
+    }
+
+    private static double Finite(JsonElement e)
+    {
+        double v = e.GetDouble();
+        return double.IsFinite(v) ? v : throw new FormatException("non-finite number");
+    }
+}
+#pragma warning restore IDISP004
