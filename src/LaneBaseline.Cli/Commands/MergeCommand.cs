@@ -47,7 +47,7 @@ internal static class MergeCommand
                     h =>
                     {
                         systems = h.Systems;
-                        halfIndex = h.Settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
+                        halfIndex = h.Settings.HalfIndex;
                         if (csvWriter is not null)
                         {
                             ScoreCommand.WriteCsvHeader(csvWriter, h.Systems.Count > 1);

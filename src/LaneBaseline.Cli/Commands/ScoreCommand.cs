@@ -214,7 +214,7 @@ internal static class ScoreCommand
         TextWriter? csvWriter = csvFile?.Writer;
         csvWriter?.Write(CsvHeader(request.Systems.Count > 1));
         long lastReport = 0;
-        int halfIndex = request.Settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
+        int halfIndex = request.Settings.HalfIndex;
         var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
         {
             Threads = request.Threads,

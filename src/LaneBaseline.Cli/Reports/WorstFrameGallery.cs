@@ -41,7 +41,7 @@ internal static class WorstFrameGallery
             throw BadInputException.At(framesDir, 0, null, "frames folder not found");
         }
 
-        int half = settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
+        int half = settings.HalfIndex;
         var ranked = systems.Select(_ => new List<Candidate>()).ToArray();
         int ordinal = 0;
         var run = new ScoreRun(truthPath, systems, settings)

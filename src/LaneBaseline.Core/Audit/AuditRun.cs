@@ -233,7 +233,7 @@ public sealed class AuditRun
 
         var reference = new LaneRecord { Frame = pred.Frame, Width = width, Height = height, Lanes = confident };
         FrameScore score = scorer.Score(reference, pred);
-        int tp = score.TruePositives[scorer.Thresholds.ToList().IndexOf(IouThreshold.Half)];
+        int tp = score.TruePositives[scorer.HalfIndex];
         double f1 = 2.0 * tp / (confident.Count + pred.Lanes.Count);
         if (f1 < settings.MinAgreementF1)
         {

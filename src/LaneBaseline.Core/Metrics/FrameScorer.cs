@@ -26,8 +26,12 @@ public sealed class FrameScorer
         this.rasterizer = rasterizer;
         this.settings = settings;
         thresholds = [.. settings.Thresholds];
+        HalfIndex = Array.IndexOf(thresholds, IouThreshold.Half);
         ground = settings.Camera is null ? null : new GroundErrors(settings.Camera);
     }
+
+    /// <summary>Position of IoU 0.50 in <see cref="Thresholds"/>.</summary>
+    public int HalfIndex { get; }
 
     /// <summary>The thresholds, in the order of <see cref="FrameScore.TruePositives"/>.</summary>
     public IReadOnlyList<IouThreshold> Thresholds => thresholds;
@@ -101,10 +105,9 @@ public sealed class FrameScorer
             hasConfidence |= lane.Score.HasValue;
         }
 
-        int halfIndex = Array.IndexOf(thresholds, IouThreshold.Half);
         if (!hasConfidence)
         {
-            Array.Fill(confTp, tp[halfIndex]);
+            Array.Fill(confTp, tp[HalfIndex]);
             Array.Fill(confPred, np);
         }
         else

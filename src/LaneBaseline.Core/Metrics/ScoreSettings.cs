@@ -22,6 +22,9 @@ public sealed record ScoreSettings
     public IReadOnlyList<IouThreshold> Thresholds =>
         [.. IouThreshold.Reported.Concat(IouThreshold.MeanF1Set).Concat(ExtraThresholds).Distinct().Order()];
 
+    /// <summary>Position of IoU 0.50 in <see cref="Thresholds"/> (the gate, the intervals and the CSV use it).</summary>
+    public int HalfIndex => Thresholds.ToList().IndexOf(IouThreshold.Half);
+
     /// <summary>The rasterisation line width for a frame width: the override, else <c>round(30 * w / 1640)</c>, at least 1.</summary>
     public int LaneWidthFor(int frameWidth) =>
         LaneWidthPx ?? Math.Max(1, (int)Math.Round(30.0 * frameWidth / 1640.0, MidpointRounding.ToEven));

@@ -400,7 +400,7 @@ public static class ScoreStateMerge
 
             onHeader?.Invoke(h0);
             SystemScore[] results = ScoreRun.CreateResults(h0.Systems, h0.Settings);
-            int halfIndex = h0.Settings.Thresholds.ToList().IndexOf(IouThreshold.Half);
+            int halfIndex = h0.Settings.HalfIndex;
             var heads = new FrameScore[]?[readers.Count];
             for (int i = 0; i < readers.Count; i++)
             {

@@ -38,10 +38,8 @@ public readonly record struct ShardSpec(int Index, int Count)
     {
         ArgumentNullException.ThrowIfNull(text);
         ulong hash = 0xcbf29ce484222325UL;
-        Span<byte> buffer = stackalloc byte[256];
-        byte[]? rented = null;
         int max = Encoding.UTF8.GetMaxByteCount(text.Length);
-        Span<byte> bytes = max <= buffer.Length ? buffer : (rented = new byte[max]);
+        Span<byte> bytes = max <= 256 ? stackalloc byte[256] : new byte[max];
         int n = Encoding.UTF8.GetBytes(text, bytes);
         foreach (byte b in bytes[..n])
         {
