@@ -7,6 +7,7 @@ using LaneBaseline.Core.Audit;
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Sharding;
 using LaneBaseline.Reporting.Audit;
 using LaneBaseline.Vision.Audit;
 using LaneBaseline.Vision.Masks;
@@ -22,7 +23,7 @@ internal static class AuditCommand
     {
         Option<string> pred = new("--pred") { Description = "Lanes to audit: a lane file, a mask folder or an OpenLABEL file.", Required = true };
         Option<string?> baseline = new("--baseline") { Description = "The classical baseline's lanes on the same frames; frames where they disagree are ranked for labelling." };
-        Option<string> output = new("--out", "-o") { Description = "Findings file (JSON Lines, ranked worst frame first).", Required = true };
+        Option<string?> output = new("--out", "-o") { Description = "Findings file (JSON Lines, ranked worst frame first); required unless --partial is given." };
         Option<string?> frames = new("--frames") { Description = "Frames root: overlays are drawn on FRAMES/<frame key> when it exists." };
         Option<string?> size = new("--size") { Description = "Frame size WxH for records without one." };
         Option<double?> horizon = new("--horizon-row") { Description = "Horizon row in pixels (default: estimated per frame from the lanes' vanishing point)." };
@@ -36,10 +37,12 @@ internal static class AuditCommand
         Option<string?> report = new("--report") { Description = "Also write a self-contained HTML page of the findings (per rule and the first findings)." };
         Option<string?> generatedAt = new("--generated-at") { Description = "Time printed as 'generated' in the --report page (ISO 8601), for reproducible pages; default now." };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<string?> shard = new("--shard") { Description = "Audit only shard K/N: whole sequences (frame key without its trailing number) by a stable hash, e.g. 0/4." };
+        Option<string?> partial = new("--partial") { Description = "Write this shard's findings and frame scores to a state file for 'merge' (instead of the findings file)." };
 
         Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.\n" + SafetyNotice.Text)
         {
-            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads,
+            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads, shard, partial,
         };
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
@@ -80,59 +83,114 @@ internal static class AuditCommand
                 throw new UsageException("--design-speed-kmh must be a positive number");
             }
 
+            string? outPath = parseResult.GetValue(output), partialPath = parseResult.GetValue(partial), reportPath = parseResult.GetValue(report);
+            ShardSpec? shardSpec = ParseShard(parseResult.GetValue(shard));
+            if (partialPath is not null)
+            {
+                if (outPath is not null || n > 0 || m > 0 || gateSeverity is not null || reportPath is not null)
+                {
+                    throw new UsageException("--partial writes a state for 'merge': give -o, --overlays, --mine, --fail-on and --report to merge instead");
+                }
+            }
+            else if (outPath is null)
+            {
+                throw new UsageException("give -o FINDINGS.jsonl (or --partial STATE with --shard)");
+            }
+
+            string? cameraPath = parseResult.GetValue(camera), sizeText = parseResult.GetValue(size);
             var settings = new AuditSettings
             {
-                Camera = parseResult.GetValue(camera) is string cameraPath ? CameraModel.Load(cameraPath) : null,
+                Camera = cameraPath is null ? null : CameraModel.Load(cameraPath),
                 DesignSpeedKmh = designSpeed,
-                Size = LaneInputs.ParseSize(parseResult.GetValue(size), "--size"),
+                Size = LaneInputs.ParseSize(sizeText, "--size"),
                 HorizonRow = parseResult.GetValue(horizon),
                 FramesPerSecond = rate,
             };
-            string? reportPath = parseResult.GetValue(report);
+            string predPath = parseResult.GetRequiredValue(pred);
+            string? baselinePath = parseResult.GetValue(baseline);
             DateTimeOffset at = ReportPage.ParseGeneratedAt(parseResult.GetValue(generatedAt));
-            return Execute(
-                stdout,
-                stderr,
-                parseResult.GetRequiredValue(pred),
-                parseResult.GetValue(baseline),
-                parseResult.GetRequiredValue(output),
-                parseResult.GetValue(frames),
-                settings,
-                n,
-                m,
-                gateSeverity,
-                rows,
-                threadCount,
-                reportPath is null ? null : (reportPath, at),
-                cancellationToken);
+            var clock = Stopwatch.StartNew();
+            LaneSourceOpener opener = LaneInputs.Opener(settings.Size, rows, stderr);
+            AuditResult result = Run(stderr, predPath, baselinePath, settings, opener, shardSpec, threadCount, clock, cancellationToken);
+            int exit;
+            if (partialPath is not null)
+            {
+                var header = new AuditStateHeader
+                {
+                    Shard = shardSpec ?? new ShardSpec(0, 1),
+                    Job = JobOf(predPath, baselinePath, cameraPath, settings, sizeText, rows),
+                    InputFrames = result.InputFrames,
+                    Frames = result.Frames,
+                    ComparedFrames = result.ComparedFrames,
+                };
+                using (var state = new AtomicFile(partialPath))
+                {
+                    AuditStateWriter.Write(state.Stream, header, result);
+                    state.Commit();
+                }
+
+                stdout.WriteLine(F($"Audited shard {header.Shard}: {result.Frames} of {result.InputFrames} frames, {result.Findings.Count} findings -> {partialPath} (join the shards with 'lanebaseline merge')"));
+                exit = ExitCodes.Success;
+            }
+            else
+            {
+                var outputs = new AuditOutputs(outPath!, parseResult.GetValue(frames), n, m, gateSeverity, reportPath is null ? null : (reportPath, at));
+                exit = Finish(stdout, stderr, result, outputs, predPath, baselinePath, settings, opener, settings.Camera is not null, cancellationToken);
+            }
+
+            stderr.WriteLine(F($"audit: {result.Frames} frames in {clock.Elapsed.TotalSeconds:0.###} s ({threadCount} thread(s))"));
+            return exit;
         })));
         return command;
     }
 
-    private static int Execute(
-        TextWriter stdout,
+    /// <summary>The job entries of a partial state: every input and option that changes a finding.</summary>
+    internal static List<KeyValuePair<string, string>> JobOf(string predPath, string? baselinePath, string? cameraPath, AuditSettings settings, string? sizeText, int minMaskRows) =>
+    [
+        new("pred", predPath),
+        new("baseline", baselinePath ?? string.Empty),
+        new("camera", cameraPath ?? string.Empty),
+        new("design_speed_kmh", settings.DesignSpeedKmh.ToString("R", CultureInfo.InvariantCulture)),
+        new("size", sizeText ?? string.Empty),
+        new("horizon_row", settings.HorizonRow?.ToString("R", CultureInfo.InvariantCulture) ?? string.Empty),
+        new("fps", settings.FramesPerSecond.ToString("R", CultureInfo.InvariantCulture)),
+        new("min_mask_rows", minMaskRows.ToString(CultureInfo.InvariantCulture)),
+    ];
+
+    private static ShardSpec? ParseShard(string? text)
+    {
+        if (text is null)
+        {
+            return null;
+        }
+
+        try
+        {
+            return ShardSpec.Parse(text);
+        }
+        catch (FormatException ex)
+        {
+            throw new UsageException("--shard: " + ex.Message);
+        }
+    }
+
+    private static AuditResult Run(
         TextWriter stderr,
         string predPath,
         string? baselinePath,
-        string outPath,
-        string? framesRoot,
         AuditSettings settings,
-        int overlays,
-        int mine,
-        AuditSeverity? gate,
-        int minMaskRows,
+        LaneSourceOpener opener,
+        ShardSpec? shard,
         int threads,
-        (string Path, DateTimeOffset At)? report,
+        Stopwatch clock,
         CancellationToken cancellationToken)
     {
-        var clock = Stopwatch.StartNew();
-        using var findingsFile = new AtomicFile(outPath);
-        LaneSourceOpener opener = LaneInputs.Opener(settings.Size, minMaskRows, stderr);
         long lastReport = 0;
         var run = new AuditRun(settings)
         {
             Threads = threads,
             Opener = opener,
+            Shard = shard,
             OnProgress = done =>
             {
                 long now = clock.ElapsedMilliseconds;
@@ -143,14 +201,34 @@ internal static class AuditCommand
                 }
             },
         };
-        AuditResult result = run.Execute(predPath, baselinePath, CreateRasterizer, cancellationToken);
+        return run.Execute(predPath, baselinePath, CreateRasterizer, cancellationToken);
+    }
+
+    /// <summary>
+    /// Writes everything an audit gives from its result — findings, labelling list, overlays, page, summary — and
+    /// applies the gate. <c>audit</c> and <c>merge</c> (of audit states) share it, so their outputs are the same bytes.
+    /// </summary>
+    internal static int Finish(
+        TextWriter stdout,
+        TextWriter stderr,
+        AuditResult result,
+        AuditOutputs outputs,
+        string predPath,
+        string? baselinePath,
+        AuditSettings settings,
+        LaneSourceOpener opener,
+        bool groundRules,
+        CancellationToken cancellationToken)
+    {
+        string outPath = outputs.OutPath;
+        using var findingsFile = new AtomicFile(outPath);
         AuditJsonWriter.Write(findingsFile.Stream, result);
 
         string stem = outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? outPath[..^6] : outPath;
-        if (mine > 0)
+        if (outputs.Mine > 0)
         {
             using var mineFile = new AtomicFile(stem + ".mine.txt");
-            foreach (AuditFrameScore f in result.Mine(mine))
+            foreach (AuditFrameScore f in result.Mine(outputs.Mine))
             {
                 mineFile.Writer.Write(f.Frame + "\n");
             }
@@ -159,21 +237,20 @@ internal static class AuditCommand
         }
 
         findingsFile.Commit();
-        if (overlays > 0)
+        if (outputs.Overlays > 0)
         {
-            WriteOverlays(stem + ".overlays", result, predPath, baselinePath, framesRoot, settings, opener, overlays, cancellationToken);
+            WriteOverlays(stem + ".overlays", result, predPath, baselinePath, outputs.FramesRoot, settings, opener, outputs.Overlays, cancellationToken);
         }
 
-        if (report is (string reportPath, DateTimeOffset at))
+        if (outputs.Report is (string reportPath, DateTimeOffset at))
         {
             // Read back what was written: the page shows exactly the findings file, streamed like `report --audit`.
             ReportPage.Write(reportPath, null, null, AuditFindingsReader.Read(outPath), null, at, cancellationToken);
             stderr.WriteLine("audit: wrote " + reportPath);
         }
 
-        WriteSummary(stdout, result, outPath, settings.Camera is not null);
-        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"audit: {result.Frames} frames in {clock.Elapsed.TotalSeconds:0.###} s ({threads} thread(s))"));
-        if (gate is AuditSeverity g && result.Findings.Any(f => f.Severity >= g))
+        WriteSummary(stdout, result, outPath, groundRules);
+        if (outputs.Gate is AuditSeverity g && result.Findings.Any(f => f.Severity >= g))
         {
             stderr.WriteLine("quality gate failed: findings of severity " + AuditJsonWriter.SeverityName(g) + " or worse (--fail-on)");
             return ExitCodes.GateFailed;
@@ -274,3 +351,12 @@ internal static class AuditCommand
 
     private static string F(FormattableString s) => s.ToString(CultureInfo.InvariantCulture);
 }
+
+/// <summary>Where an audit's outputs go and which gate applies.</summary>
+/// <param name="OutPath">Findings file.</param>
+/// <param name="FramesRoot">Frames root for overlays, or null.</param>
+/// <param name="Overlays">Worst frames to draw.</param>
+/// <param name="Mine">Frames to list for labelling.</param>
+/// <param name="Gate">Severity that fails the run, or null.</param>
+/// <param name="Report">HTML page and its printed time, or null.</param>
+internal sealed record AuditOutputs(string OutPath, string? FramesRoot, int Overlays, int Mine, AuditSeverity? Gate, (string Path, DateTimeOffset At)? Report);

@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
 using LaneBaseline.Core;
+using LaneBaseline.Core.Audit;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
 
@@ -8,8 +9,9 @@ namespace LaneBaseline.Cli.Commands;
 
 /// <summary>
 /// <c>lanebaseline merge</c>: joins the outputs of sharded runs into what one unsharded run writes — partial score
-/// states (from <c>score --partial</c>) into the score JSON/CSV/table, or lane files (from <c>detect --shard</c>) into
-/// one lane file, byte for byte.
+/// states (from <c>score --partial</c>) into the score JSON/CSV/table, partial audit states (from
+/// <c>audit --partial</c>) into the findings, labelling list, page and summary, or lane files (from
+/// <c>detect --shard</c>) into one lane file, byte for byte.
 /// </summary>
 internal static class MergeCommand
 {
@@ -20,23 +22,46 @@ internal static class MergeCommand
         Option<string?> csv = new("--csv") { Description = "States only: also write the per-frame CSV." };
         Option<double?> minF1 = new("--min-f1") { Description = "States only: quality gate, exit 4 when F1@0.50 is below this." };
         Option<int> threads = new("--threads") { Description = "Threads for the bootstrap (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<int> mine = new("--mine") { Description = "Audit states only: also write the N frames most worth labelling to OUT.mine.txt.", DefaultValueFactory = _ => 0 };
+        Option<int> overlays = new("--overlays") { Description = "Audit states only: draw the N worst frames to OUT.overlays/ (reads the predictions named in the states).", DefaultValueFactory = _ => 0 };
+        Option<string?> frames = new("--frames") { Description = "Audit states only: frames root for --overlays." };
+        Option<string> failOn = new("--fail-on") { Description = "Audit states only: exit 4 when a finding of this severity or worse exists (none, warning, error).", DefaultValueFactory = _ => "none" };
+        Option<string?> report = new("--report") { Description = "Audit states only: also write the findings page (HTML)." };
+        Option<string?> generatedAt = new("--generated-at") { Description = "Audit states only: time printed in the --report page (ISO 8601)." };
 
-        Command command = new("merge", "Join the outputs of sharded runs (score states or lane files) into the output of one unsharded run.")
+        Command command = new("merge", "Join the outputs of sharded runs (score states, audit states or lane files) into the output of one unsharded run.")
         {
-            inputs, output, csv, minF1, threads,
+            inputs, output, csv, minF1, threads, mine, overlays, frames, failOn, report, generatedAt,
         };
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
             string[] paths = parseResult.GetRequiredValue(inputs);
             string outPath = parseResult.GetRequiredValue(output);
             int threadCount = Math.Max(1, parseResult.GetValue(threads));
-            bool[] isState = [.. paths.Select(IsScoreState)];
-            if (isState.Distinct().Count() > 1)
+            InputKind[] kinds = [.. paths.Select(KindOf)];
+            if (kinds.Distinct().Count() > 1)
             {
-                throw new UsageException("merge: give either score states or lane files, not both");
+                throw new UsageException("merge: give inputs of one kind (score states, audit states or lane files), not a mix");
             }
 
-            if (isState[0])
+            bool auditOptions = parseResult.GetValue(mine) != 0 || parseResult.GetValue(overlays) != 0 || parseResult.GetValue(frames) is not null
+                || parseResult.GetValue(failOn) != "none" || parseResult.GetValue(report) is not null || parseResult.GetValue(generatedAt) is not null;
+            if (kinds[0] != InputKind.AuditState && auditOptions)
+            {
+                throw new UsageException("--mine, --overlays, --frames, --fail-on, --report and --generated-at apply to audit states only");
+            }
+
+            if (kinds[0] == InputKind.AuditState)
+            {
+                if (parseResult.GetValue(csv) is not null || parseResult.GetValue(minF1) is not null)
+                {
+                    throw new UsageException("--csv and --min-f1 apply to score states only");
+                }
+
+                return MergeAudit(stdout, stderr, paths, outPath, parseResult.GetValue(mine), parseResult.GetValue(overlays), parseResult.GetValue(frames), parseResult.GetValue(failOn)!, parseResult.GetValue(report), parseResult.GetValue(generatedAt), cancellationToken);
+            }
+
+            if (kinds[0] == InputKind.ScoreState)
             {
                 using AtomicFile? csvFile = parseResult.GetValue(csv) is string c ? new AtomicFile(c) : null;
                 TextWriter? csvWriter = csvFile?.Writer;
@@ -79,7 +104,14 @@ internal static class MergeCommand
         return command;
     }
 
-    private static bool IsScoreState(string path)
+    private enum InputKind
+    {
+        LaneFile,
+        ScoreState,
+        AuditState,
+    }
+
+    private static InputKind KindOf(string path)
     {
         if (!File.Exists(path))
         {
@@ -89,6 +121,56 @@ internal static class MergeCommand
         using var stream = File.OpenRead(path);
         var head = new byte[64];
         int n = stream.Read(head, 0, head.Length);
-        return head.AsSpan(0, n).IndexOf("\"format\":\"lanebaseline-score-state\""u8) >= 0;
+        ReadOnlySpan<byte> span = head.AsSpan(0, n);
+        return span.IndexOf("\"format\":\"lanebaseline-score-state\""u8) >= 0 ? InputKind.ScoreState
+            : span.IndexOf("\"format\":\"lanebaseline-audit-state\""u8) >= 0 ? InputKind.AuditState
+            : InputKind.LaneFile;
+    }
+
+    private static int MergeAudit(
+        TextWriter stdout,
+        TextWriter stderr,
+        string[] paths,
+        string outPath,
+        int mine,
+        int overlays,
+        string? framesRoot,
+        string failOn,
+        string? reportPath,
+        string? generatedAt,
+        CancellationToken cancellationToken)
+    {
+        AuditSeverity? gate = failOn.ToLowerInvariant() switch
+        {
+            "none" => null,
+            "warning" => AuditSeverity.Warning,
+            "error" => AuditSeverity.Error,
+            _ => throw new UsageException("--fail-on must be none, warning or error"),
+        };
+        if (mine < 0 || overlays < 0)
+        {
+            throw new UsageException("--overlays and --mine must be 0 or more");
+        }
+
+        DateTimeOffset at = Reports.ReportPage.ParseGeneratedAt(generatedAt);
+        (AuditStateHeader header, AuditResult result) = AuditStateMerge.Merge(paths);
+        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"merge: {result.Frames} audited frames from {paths.Length} shard state(s)"));
+        string sizeText = header.JobValue("size") ?? string.Empty;
+        var settings = new AuditSettings { Size = LaneInputs.ParseSize(sizeText.Length == 0 ? null : sizeText, "size (from the state)") };
+        int minMaskRows = int.TryParse(header.JobValue("min_mask_rows"), NumberStyles.None, CultureInfo.InvariantCulture, out int rows) ? rows : 10;
+        LaneSourceOpener opener = LaneInputs.Opener(settings.Size, minMaskRows, stderr);
+        string baseline = header.JobValue("baseline") ?? string.Empty;
+        var outputs = new AuditOutputs(outPath, framesRoot, overlays, mine, gate, reportPath is null ? null : (reportPath, at));
+        return AuditCommand.Finish(
+            stdout,
+            stderr,
+            result,
+            outputs,
+            header.JobValue("pred") ?? string.Empty,
+            baseline.Length == 0 ? null : baseline,
+            settings,
+            opener,
+            !string.IsNullOrEmpty(header.JobValue("camera")),
+            cancellationToken);
     }
 }

@@ -23,6 +23,9 @@ public sealed class AuditResult
     /// <summary>Frames audited.</summary>
     public long Frames { get; internal set; }
 
+    /// <summary>Records in the prediction input, including those of other shards.</summary>
+    public long InputFrames { get; internal set; }
+
     /// <summary>Frames compared with the baseline.</summary>
     public long ComparedFrames { get; internal set; }
 
@@ -65,6 +68,12 @@ public sealed class AuditRun
     /// <summary>Called after each batch with the number of frames audited so far.</summary>
     public Action<long>? OnProgress { get; init; }
 
+    /// <summary>
+    /// Audit only this shard: frames whose sequence (<see cref="TemporalRules.ShardKey"/>) hashes to it. Ordinals stay
+    /// positions in the whole prediction file, so <c>merge</c> can rank the union exactly as one run would.
+    /// </summary>
+    public Sharding.ShardSpec? Shard { get; init; }
+
     /// <summary>Opens inputs (lane files by default).</summary>
     public LaneSourceOpener Opener { get; init; } = LaneSources.OpenLaneFile;
 
@@ -101,19 +110,27 @@ public sealed class AuditRun
             using ILaneRecordSource pred = Opener(predPath, request);
             using ILaneRecordSource? baseline = baselinePath is null ? null : Opener(baselinePath, request);
             var pending = new Dictionary<string, LaneRecord>(StringComparer.Ordinal);
-            var batch = new List<(LaneRecord Pred, LaneRecord? Base, long Ordinal, int Width, int Height)>(BatchSize);
+            var batch = new List<(LaneRecord Pred, LaneRecord? Base, long Ordinal, int Width, int Height, bool BreakBefore)>(BatchSize);
             var perFrame = new List<AuditFinding>[BatchSize];
             var agreement = new double?[BatchSize];
             long ordinal = 0;
-            bool more = true;
+            bool more = true, skipped = false; // skipped: a frame of another shard came since the last kept one
             while (more)
             {
                 batch.Clear();
                 while (batch.Count < BatchSize && (more = pred.TryRead(out LaneRecord r)))
                 {
+                    if (!InShard(r.Frame))
+                    {
+                        ordinal++;
+                        skipped = true;
+                        continue;
+                    }
+
                     LaneRecord? b = baseline is null ? null : Join(baseline, pending, r.Frame);
                     (int width, int height) = SizeOf(pred.DisplayName, r, b);
-                    batch.Add((r, b, ordinal++, width, height));
+                    batch.Add((r, b, ordinal++, width, height, skipped));
+                    skipped = false;
                 }
 
                 cancellationToken.ThrowIfCancellationRequested();
@@ -123,7 +140,7 @@ public sealed class AuditRun
                 {
                     for (int i = w * n / used; i < (w + 1) * n / used; i++)
                     {
-                        (LaneRecord p, LaneRecord? b, long o, int width, int height) = batch[i];
+                        (LaneRecord p, LaneRecord? b, long o, int width, int height, _) = batch[i];
                         var list = new List<AuditFinding>();
                         ImageRules.Check(p, o, width, height, imageSettings, list);
                         if (projection is Geometry.GroundProjection gp)
@@ -152,6 +169,11 @@ public sealed class AuditRun
 
                 for (int i = 0; i < n; i++)
                 {
+                    if (batch[i].BreakBefore)
+                    {
+                        temporal.Break();
+                    }
+
                     temporal.Push(batch[i].Pred, batch[i].Ordinal, perFrame[i]);
                     findings.AddRange(perFrame[i]);
                     if (agreement[i] is not null)
@@ -162,10 +184,11 @@ public sealed class AuditRun
                     frames.Add(new AuditFrameScore(batch[i].Pred.Frame, batch[i].Ordinal, 0, agreement[i] is double f1 ? 1 - f1 : null));
                 }
 
+                result.Frames += n;
                 OnProgress?.Invoke(ordinal);
             }
 
-            result.Frames = ordinal;
+            result.InputFrames = ordinal;
         }
         finally
         {
@@ -179,7 +202,8 @@ public sealed class AuditRun
         return result;
     }
 
-    private static void Rank(AuditResult result, List<AuditFinding> findings, List<AuditFrameScore> frames)
+    /// <summary>Ranks findings and frames (worst frame first, ties by file position) into <paramref name="result"/>.</summary>
+    internal static void Rank(AuditResult result, List<AuditFinding> findings, IEnumerable<AuditFrameScore> frames)
     {
         var badness = new Dictionary<long, double>();
         foreach (AuditFinding f in findings)
@@ -244,7 +268,9 @@ public sealed class AuditRun
         return f1;
     }
 
-    private static LaneRecord? Join(ILaneRecordSource baseline, Dictionary<string, LaneRecord> pending, string frame)
+    private bool InShard(string frame) => Shard is not Sharding.ShardSpec s || s.Contains(TemporalRules.ShardKey(frame));
+
+    private LaneRecord? Join(ILaneRecordSource baseline, Dictionary<string, LaneRecord> pending, string frame)
     {
         if (pending.Remove(frame, out LaneRecord? found))
         {
@@ -258,7 +284,10 @@ public sealed class AuditRun
                 return r;
             }
 
-            pending[r.Frame] = r;
+            if (InShard(r.Frame))
+            {
+                pending[r.Frame] = r; // another shard's baseline records are never needed: drop them
+            }
         }
 
         return null;

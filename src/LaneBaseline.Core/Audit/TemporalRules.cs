@@ -159,6 +159,22 @@ public sealed partial class TemporalRules
         return result;
     }
 
+    /// <summary>
+    /// Forgets the frames seen so far, as if a frame of another sequence came next: a sharded audit calls it for every
+    /// frame of another shard, so the findings on the frames it keeps equal those of an unsharded run.
+    /// </summary>
+    public void Break()
+    {
+        older = null;
+        previous = null;
+    }
+
+    /// <summary>
+    /// The key a sharded audit partitions by: the sequence name of a numbered frame key, else the key itself, so every
+    /// frame of a sequence lands in one shard and the temporal rules see the whole sequence.
+    /// </summary>
+    public static string ShardKey(string frame) => Parse(frame)?.Name ?? frame;
+
     /// <summary>Splits a frame key into a sequence name and frame number, or null when it does not end in a number.</summary>
     public static (string Name, long Number)? Parse(string frame)
     {

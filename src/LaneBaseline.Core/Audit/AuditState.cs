@@ -1,0 +1,346 @@
+using System.Buffers;
+using System.Globalization;
+using System.Text.Encodings.Web;
+using System.Text.Json;
+using LaneBaseline.Core.Sharding;
+
+namespace LaneBaseline.Core.Audit;
+
+/// <summary>What a partial audit state says about the shard and the job that wrote it.</summary>
+public sealed record AuditStateHeader
+{
+    /// <summary>Format marker written as the first key.</summary>
+    public const string FormatName = "lanebaseline-audit-state";
+
+    /// <summary>The shard that wrote the state.</summary>
+    public required ShardSpec Shard { get; init; }
+
+    /// <summary>
+    /// The job's inputs and settings as canonical text (paths as given, every option that changes a finding); equal for
+    /// every shard of one job.
+    /// </summary>
+    public required IReadOnlyList<KeyValuePair<string, string>> Job { get; init; }
+
+    /// <summary>Records in the prediction input (every shard reads all of them).</summary>
+    public required long InputFrames { get; init; }
+
+    /// <summary>Frames this shard audited.</summary>
+    public required long Frames { get; init; }
+
+    /// <summary>Frames this shard compared with the baseline.</summary>
+    public required long ComparedFrames { get; init; }
+
+    /// <summary>Value of a job entry, or null.</summary>
+    public string? JobValue(string key) => Job.FirstOrDefault(kv => kv.Key == key).Value;
+
+    internal string JobKey() =>
+        string.Join('\n', Job.Select(kv => kv.Key + "=" + kv.Value)) + "\n" + InputFrames.ToString(CultureInfo.InvariantCulture) + "\n" + Shard.Count.ToString(CultureInfo.InvariantCulture);
+}
+
+/// <summary>
+/// Partial audit state (<c>audit --shard K/N --partial FILE</c>): JSON Lines — a header, then one <c>frame</c> line
+/// for every frame with findings or a baseline comparison (its key, position in the prediction file and
+/// disagreement), then one <c>finding</c> line per finding with every field at full precision. That is all
+/// <see cref="AuditResult"/> ranking needs, so <see cref="AuditStateMerge"/> rebuilds exactly what one unsharded run
+/// writes.
+/// </summary>
+public static class AuditStateWriter
+{
+    private static readonly JsonWriterOptions Options = new() { Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
+
+    /// <summary>Writes the state of one shard's result.</summary>
+    public static void Write(Stream stream, AuditStateHeader header, AuditResult result)
+    {
+        ArgumentNullException.ThrowIfNull(stream);
+        ArgumentNullException.ThrowIfNull(header);
+        ArgumentNullException.ThrowIfNull(result);
+        var buffer = new ArrayBufferWriter<byte>(1024);
+        void Line(Action<Utf8JsonWriter> body)
+        {
+            buffer.ResetWrittenCount();
+            using (var json = new Utf8JsonWriter(buffer, Options))
+            {
+                json.WriteStartObject();
+                body(json);
+                json.WriteEndObject();
+            }
+
+            buffer.Write("\n"u8);
+            stream.Write(buffer.WrittenSpan);
+        }
+
+        Line(json =>
+        {
+            json.WriteString("format", AuditStateHeader.FormatName);
+            json.WriteNumber("version", 1);
+            json.WriteNumber("shard_index", header.Shard.Index);
+            json.WriteNumber("shard_count", header.Shard.Count);
+            json.WriteNumber("input_frames", header.InputFrames);
+            json.WriteNumber("frames", header.Frames);
+            json.WriteNumber("compared_frames", header.ComparedFrames);
+            json.WriteStartObject("job");
+            foreach ((string key, string value) in header.Job)
+            {
+                json.WriteString(key, value);
+            }
+
+            json.WriteEndObject();
+        });
+        foreach (AuditFrameScore f in result.RankedFrames.OrderBy(f => f.Ordinal))
+        {
+            Line(json =>
+            {
+                json.WriteString("t", "frame");
+                json.WriteString("frame", f.Frame);
+                json.WriteNumber("ordinal", f.Ordinal);
+                WriteDouble(json, "disagreement", f.Disagreement);
+            });
+        }
+
+        foreach (AuditFinding f in result.Findings.OrderBy(f => f.Ordinal))
+        {
+            Line(json =>
+            {
+                json.WriteString("t", "finding");
+                json.WriteString("frame", f.Frame);
+                json.WriteNumber("ordinal", f.Ordinal);
+                json.WriteString("rule", f.Rule);
+                json.WriteString("severity", AuditJsonWriter.SeverityName(f.Severity));
+                WriteInt(json, "lane", f.Lane);
+                WriteInt(json, "other_lane", f.OtherLane);
+                WriteDouble(json, "value", f.Value);
+                WriteDouble(json, "limit", f.Limit);
+                json.WriteString("unit", f.Unit);
+                json.WriteString("message", f.Message);
+            });
+        }
+    }
+
+    private static void WriteInt(Utf8JsonWriter json, string name, int? value)
+    {
+        if (value is int v)
+        {
+            json.WriteNumber(name, v);
+        }
+        else
+        {
+            json.WriteNull(name);
+        }
+    }
+
+    // Shortest round-trip text of finite values; non-finite ones as strings ("NaN", "Infinity", "-Infinity").
+    private static void WriteDouble(Utf8JsonWriter json, string name, double? value)
+    {
+        if (value is not double v)
+        {
+            json.WriteNull(name);
+        }
+        else if (double.IsFinite(v))
+        {
+            json.WriteNumber(name, v);
+        }
+        else
+        {
+            json.WriteString(name, v.ToString("R", CultureInfo.InvariantCulture));
+        }
+    }
+}
+
+/// <summary>Merges partial audit states of shards 0..N−1 into the result of one unsharded run.</summary>
+public static class AuditStateMerge
+{
+    /// <summary>
+    /// Checks that the states belong to one job, cover every shard once and together audited every input frame, then
+    /// ranks the union of their frames and findings as <see cref="AuditRun"/> does.
+    /// </summary>
+    /// <exception cref="BadInputException">A state is malformed, from another job, repeated or missing, or incomplete.</exception>
+    public static (AuditStateHeader Header, AuditResult Result) Merge(IReadOnlyList<string> paths)
+    {
+        ArgumentNullException.ThrowIfNull(paths);
+        if (paths.Count == 0)
+        {
+            throw new BadInputException("merge: no audit states given");
+        }
+
+        var findings = new List<AuditFinding>();
+        var frames = new List<AuditFrameScore>();
+        var seen = new HashSet<int>();
+        var ordinals = new Dictionary<long, string>();
+        AuditStateHeader? first = null;
+        long audited = 0, compared = 0;
+        foreach (string path in paths)
+        {
+            AuditStateHeader h = Read(path, frames, findings, ordinals);
+            if (first is null)
+            {
+                first = h;
+            }
+            else if (h.JobKey() != first.JobKey())
+            {
+                throw BadInputException.At(path, 1, null, $"belongs to a different audit job than {paths[0]} (inputs, settings, input frames or shard count differ)");
+            }
+
+            if (!seen.Add(h.Shard.Index))
+            {
+                throw BadInputException.At(path, 1, "shard_index", $"shard {h.Shard} is given twice");
+            }
+
+            audited += h.Frames;
+            compared += h.ComparedFrames;
+        }
+
+        if (seen.Count != first!.Shard.Count)
+        {
+            var missing = Enumerable.Range(0, first.Shard.Count).Where(k => !seen.Contains(k)).Select(k => k.ToString(CultureInfo.InvariantCulture));
+            throw new BadInputException($"merge: audit shards {string.Join(", ", missing)} of {first.Shard.Count} are missing");
+        }
+
+        if (audited != first.InputFrames)
+        {
+            throw new BadInputException(string.Create(CultureInfo.InvariantCulture, $"merge: the audit states cover {audited} frames but the predictions hold {first.InputFrames}"));
+        }
+
+        var result = new AuditResult { Frames = audited, InputFrames = first.InputFrames, ComparedFrames = compared };
+        AuditRun.Rank(result, findings, frames);
+        return (first, result);
+    }
+
+    private static AuditStateHeader Read(string path, List<AuditFrameScore> frames, List<AuditFinding> findings, Dictionary<long, string> ordinals)
+    {
+        AuditStateHeader? header = null;
+        long line = 0;
+        string? key = null;
+        try
+        {
+            using var reader = new StreamReader(path);
+            while (reader.ReadLine() is string text)
+            {
+                line++;
+                key = null;
+                using var doc = JsonDocument.Parse(text);
+                JsonElement r = doc.RootElement;
+                if (header is null)
+                {
+                    key = "format";
+                    if (r.ValueKind != JsonValueKind.Object || !r.TryGetProperty("format", out JsonElement fmt) || fmt.GetString() != AuditStateHeader.FormatName)
+                    {
+                        throw BadInputException.At(path, line, "format", $"not an audit state (expected \"format\": \"{AuditStateHeader.FormatName}\")");
+                    }
+
+                    key = "version";
+                    if (r.GetProperty("version").GetInt32() != 1)
+                    {
+                        throw BadInputException.At(path, line, key, "unsupported version (this build reads 1)");
+                    }
+
+                    key = "shard_count";
+                    int count = r.GetProperty(key).GetInt32();
+                    key = "shard_index";
+                    int index = r.GetProperty(key).GetInt32();
+                    if (count < 1 || index < 0 || index >= count)
+                    {
+                        throw BadInputException.At(path, line, key, "shard index must be in 0..shard_count-1");
+                    }
+
+                    key = "job";
+                    var job = new List<KeyValuePair<string, string>>();
+#pragma warning disable IDISP004 // misreads foreach over JsonElement.EnumerateObject(): foreach disposes the enumerator
+                    foreach (JsonProperty p in r.GetProperty(key).EnumerateObject())
+#pragma warning restore IDISP004
+                    {
+                        job.Add(new(p.Name, p.Value.GetString() ?? string.Empty));
+                    }
+
+                    key = "input_frames";
+                    long input = r.GetProperty(key).GetInt64();
+                    key = "frames";
+                    long audited = r.GetProperty(key).GetInt64();
+                    key = "compared_frames";
+                    long compared = r.GetProperty(key).GetInt64();
+                    header = new AuditStateHeader { Shard = new ShardSpec(index, count), Job = job, InputFrames = input, Frames = audited, ComparedFrames = compared };
+                    continue;
+                }
+
+                key = "t";
+                string kind = r.GetProperty(key).GetString() ?? string.Empty;
+                key = "frame";
+                string frame = r.GetProperty(key).GetString() ?? throw new FormatException("must be a string");
+                key = "ordinal";
+                long ordinal = r.GetProperty(key).GetInt64();
+                if (ordinal < 0 || ordinal >= header.InputFrames)
+                {
+                    throw BadInputException.At(path, line, key, "outside the prediction file");
+                }
+
+                if (ordinals.TryGetValue(ordinal, out string? owner) && owner != path)
+                {
+                    throw BadInputException.At(path, line, key, $"frame position {ordinal} also appears in {owner}");
+                }
+
+                ordinals[ordinal] = path;
+                switch (kind)
+                {
+                    case "frame":
+                        key = "disagreement";
+                        frames.Add(new AuditFrameScore(frame, ordinal, 0, ReadDouble(r.GetProperty(key))));
+                        break;
+                    case "finding":
+                        key = "rule";
+                        string rule = r.GetProperty(key).GetString() ?? string.Empty;
+                        if (!AuditRules.All.Any(x => x.Id == rule))
+                        {
+                            throw new FormatException($"unknown rule '{rule}'");
+                        }
+
+                        key = "severity";
+                        AuditSeverity severity = r.GetProperty(key).GetString() switch
+                        {
+                            "error" => AuditSeverity.Error,
+                            "warning" => AuditSeverity.Warning,
+                            "info" => AuditSeverity.Info,
+                            _ => throw new FormatException("must be error, warning or info"),
+                        };
+                        key = "lane";
+                        int? lane = ReadInt(r.GetProperty(key));
+                        key = "other_lane";
+                        int? other = ReadInt(r.GetProperty(key));
+                        key = "value";
+                        double value = ReadDouble(r.GetProperty(key)) ?? throw new FormatException("must be a number");
+                        key = "limit";
+                        double limit = ReadDouble(r.GetProperty(key)) ?? throw new FormatException("must be a number");
+                        key = "unit";
+                        string unit = r.GetProperty(key).GetString() ?? string.Empty;
+                        key = "message";
+                        string message = r.GetProperty(key).GetString() ?? string.Empty;
+                        findings.Add(new AuditFinding(frame, ordinal, rule, severity, lane, other, value, limit, unit, message));
+                        break;
+                    default:
+                        throw BadInputException.At(path, line, "t", $"unknown line type '{kind}' (frame or finding)");
+                }
+            }
+        }
+        catch (BadInputException)
+        {
+            throw;
+        }
+        catch (Exception ex) when (ex is JsonException or InvalidOperationException or KeyNotFoundException or FormatException or ArgumentException)
+        {
+            throw BadInputException.At(path, line, key, ex is KeyNotFoundException ? "missing" : ex.Message);
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            throw BadInputException.At(path, 0, null, ex is FileNotFoundException ? "file not found" : ex.Message);
+        }
+
+        return header ?? throw BadInputException.At(path, 0, null, "empty file: not an audit state");
+    }
+
+    private static int? ReadInt(JsonElement e) => e.ValueKind == JsonValueKind.Null ? null : e.GetInt32();
+
+    private static double? ReadDouble(JsonElement e) => e.ValueKind switch
+    {
+        JsonValueKind.Null => null,
+        JsonValueKind.String => double.Parse(e.GetString()!, NumberStyles.Float, CultureInfo.InvariantCulture),
+        _ => e.GetDouble(),
+    };
+}
