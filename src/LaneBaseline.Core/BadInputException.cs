@@ -23,6 +23,14 @@ public class BadInputException : Exception
     {
     }
 
+    /// <summary>Names a list of inputs in a message: all of up to three, else the first three and how many more.</summary>
+    public static string Files(IReadOnlyList<string> paths)
+    {
+        ArgumentNullException.ThrowIfNull(paths);
+        string shown = string.Join(", ", paths.Take(3));
+        return paths.Count <= 3 ? "given: " + shown : string.Create(System.Globalization.CultureInfo.InvariantCulture, $"given: {shown} and {paths.Count - 3} more");
+    }
+
     /// <summary>Formats the project's standard location prefix: <c>FILE:LINE: key: problem</c>.</summary>
     /// <param name="file">File as the user named it.</param>
     /// <param name="line">One-based line number, or 0 when the problem concerns the whole file.</param>

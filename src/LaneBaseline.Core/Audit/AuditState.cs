@@ -192,12 +192,12 @@ public static class AuditStateMerge
         if (seen.Count != first!.Shard.Count)
         {
             var missing = Enumerable.Range(0, first.Shard.Count).Where(k => !seen.Contains(k)).Select(k => k.ToString(CultureInfo.InvariantCulture));
-            throw new BadInputException($"merge: audit shards {string.Join(", ", missing)} of {first.Shard.Count} are missing");
+            throw new BadInputException($"merge: audit shards {string.Join(", ", missing)} of {first.Shard.Count} are missing ({BadInputException.Files(paths)})");
         }
 
         if (audited != first.InputFrames)
         {
-            throw new BadInputException(string.Create(CultureInfo.InvariantCulture, $"merge: the audit states cover {audited} frames but the predictions hold {first.InputFrames}"));
+            throw new BadInputException(string.Create(CultureInfo.InvariantCulture, $"merge: the audit states cover {audited} frames but the predictions hold {first.InputFrames} ({BadInputException.Files(paths)})"));
         }
 
         var result = new AuditResult { Frames = audited, InputFrames = first.InputFrames, ComparedFrames = compared };
@@ -212,7 +212,7 @@ public static class AuditStateMerge
         string? key = null;
         try
         {
-            using var reader = new StreamReader(path);
+            using var reader = new StreamReader(path, new System.Text.UTF8Encoding(false, true));
             while (reader.ReadLine() is string text)
             {
                 line++;
@@ -323,7 +323,11 @@ public static class AuditStateMerge
         {
             throw;
         }
-        catch (Exception ex) when (ex is JsonException or InvalidOperationException or KeyNotFoundException or FormatException or ArgumentException)
+        catch (System.Text.DecoderFallbackException)
+        {
+            throw BadInputException.At(path, line + 1, null, "not valid UTF-8 text");
+        }
+        catch (Exception ex) when (ex is JsonException or InvalidOperationException or KeyNotFoundException or FormatException or ArgumentException or OverflowException)
         {
             throw BadInputException.At(path, line, key, ex is KeyNotFoundException ? "missing" : ex.Message);
         }

@@ -233,6 +233,11 @@ public sealed class ScoreStateReader : IDisposable
 
             return new ScoreStateReader(path, reader, ParseHeader(path, first));
         }
+        catch (DecoderFallbackException)
+        {
+            reader.Dispose();
+            throw BadInputException.At(path, 1, null, "not valid UTF-8 text");
+        }
         catch
         {
             reader.Dispose();
@@ -276,6 +281,18 @@ public sealed class ScoreStateReader : IDisposable
                     throw BadInputException.At(path, line, "s.tp", "threshold count does not match the header");
                 }
 
+                int[] ctp = Ints(s.GetProperty("ctp")), cp = Ints(s.GetProperty("cp"));
+                if (ctp.Length != FrameScorer.ConfidenceCutoffs || cp.Length != FrameScorer.ConfidenceCutoffs)
+                {
+                    throw BadInputException.At(path, line, "s.ctp", "confidence cut-off count does not match this build");
+                }
+
+                int nt = s.GetProperty("nt").GetInt32(), np = s.GetProperty("np").GetInt32();
+                if (nt < 0 || np < 0 || tp.Any(v => v < 0 || v > Math.Min(nt, np)))
+                {
+                    throw BadInputException.At(path, line, "s.tp", "counts are negative or exceed the lane counts");
+                }
+
                 row.Add(new FrameScore
                 {
                     Ordinal = ordinal,
@@ -283,14 +300,14 @@ public sealed class ScoreStateReader : IDisposable
                     Tags = tags,
                     Width = w,
                     Height = h,
-                    TruthLanes = s.GetProperty("nt").GetInt32(),
-                    PredLanes = s.GetProperty("np").GetInt32(),
+                    TruthLanes = nt,
+                    PredLanes = np,
                     TruePositives = tp,
                     AssignedIous = [.. s.GetProperty("iou").EnumerateArray().Select(v => v.GetDouble())],
                     PointAccuracySum = s.GetProperty("acc").GetDouble(),
                     PointMatched = s.GetProperty("m").GetInt32(),
-                    ConfidenceTruePositives = Ints(s.GetProperty("ctp")),
-                    ConfidencePredLanes = Ints(s.GetProperty("cp")),
+                    ConfidenceTruePositives = ctp,
+                    ConfidencePredLanes = cp,
                     HasConfidence = s.GetProperty("conf").GetBoolean(),
                 });
             }
@@ -302,7 +319,7 @@ public sealed class ScoreStateReader : IDisposable
 
             return [.. row];
         }
-        catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
+        catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException or ArgumentException or OverflowException)
         {
             throw BadInputException.At(path, line, null, "not a score state record: " + ex.Message);
         }
@@ -395,7 +412,7 @@ public static class ScoreStateMerge
             if (seen.Count != h0.Shard.Count)
             {
                 var missing = Enumerable.Range(0, h0.Shard.Count).Where(k => !seen.Contains(k)).Select(k => k.ToString(CultureInfo.InvariantCulture));
-                throw new BadInputException($"merge: shards {string.Join(", ", missing)} of {h0.Shard.Count} are missing");
+                throw new BadInputException($"merge: shards {string.Join(", ", missing)} of {h0.Shard.Count} are missing ({BadInputException.Files(paths)})");
             }
 
             onHeader?.Invoke(h0);
@@ -440,7 +457,7 @@ public static class ScoreStateMerge
 
             if (expected != h0.TruthFrames)
             {
-                throw new BadInputException(string.Create(CultureInfo.InvariantCulture, $"merge: the states hold {expected} frames but the truth has {h0.TruthFrames} (a shard run was interrupted?)"));
+                throw new BadInputException(string.Create(CultureInfo.InvariantCulture, $"merge: the states hold {expected} frames but the truth has {h0.TruthFrames} (a shard run was interrupted?) ({BadInputException.Files(paths)})"));
             }
 
             return (h0, results);

@@ -1,0 +1,61 @@
+using CsCheck;
+using LaneBaseline.Core;
+using LaneBaseline.Core.Audit;
+using LaneBaseline.Core.Metrics;
+using LaneBaseline.Testing;
+using Xunit;
+
+namespace LaneBaseline.Cli.Tests;
+
+// Property (CLI contract: bad input is exit 3 with a message, never an unhandled exception): the readers behind
+// `merge` — partial score and audit states — fed random mutations of valid states (written by the CLI) either accept
+// them or throw BadInputException naming the file.
+public sealed class StateFuzzTests : IDisposable
+{
+    private readonly TempDir dir = new();
+
+    public void Dispose() => dir.Dispose();
+
+    [Fact]
+    public void AuditStateMerge_MutatedState_OnlyBadInput()
+    {
+        string pred = dir.File("pred.lanes.jsonl");
+        var records = SyntheticRoad.Clean(seed: 5, sequences: 2, framesPerSequence: 6).ToList();
+        records.RemoveAt(3); // a frame gap, so the state holds findings
+        Lanes.WriteFile(pred, records);
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", pred, "--partial", dir.File("a.state")).Exit);
+        Fuzz(dir.File("a.state"), path => AuditStateMerge.Merge([path]));
+    }
+
+    [Fact]
+    public void ScoreStateMerge_MutatedState_OnlyBadInput()
+    {
+        string truth = dir.File("truth.lanes.jsonl");
+        Lanes.WriteFile(truth, [Lanes.Truth("a.png", 640, 360, Lanes.Vertical(100, 360), Lanes.Of((300, 359), (320, 200))), Lanes.Truth("b.png", 640, 360, Lanes.Vertical(500, 360))]);
+        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", truth, "--partial", dir.File("s.state"), "--bootstrap", "10").Exit);
+        Fuzz(dir.File("s.state"), path => ScoreStateMerge.Merge([path]));
+    }
+
+    private void Fuzz(string validPath, Action<string> merge)
+    {
+        byte[] valid = File.ReadAllBytes(validPath);
+        merge(validPath); // the unmutated state is accepted
+        int n = 0;
+        Mutations.Of(valid).Sample(
+            bytes =>
+            {
+                string path = dir.File($"m{Interlocked.Increment(ref n)}.state");
+                File.WriteAllBytes(path, bytes);
+                try
+                {
+                    merge(path);
+                }
+                catch (BadInputException ex)
+                {
+                    Assert.True(ex.Message.Contains(Path.GetFileName(path), StringComparison.Ordinal), ex.Message);
+                }
+            },
+            iter: 1500,
+            threads: 1);
+    }
+}
