@@ -1,10 +1,12 @@
 using System.Globalization;
 using System.Security.Cryptography;
 using System.Text;
+using System.Buffers;
+using System.Text.Json;
+using System.Text.Json.Serialization;
+using System.Text.Json.Serialization.Metadata;
 using YamlDotNet.Core;
 using YamlDotNet.RepresentationModel;
-using YamlDotNet.Serialization;
-using YamlDotNet.Serialization.NamingConventions;
 
 namespace LaneBaseline.Core.Options;
 
@@ -12,16 +14,14 @@ namespace LaneBaseline.Core.Options;
 /// Reads and writes pipeline presets (YAML, camelCase keys, one section per stage). A misspelt key, a value of the
 /// wrong type or an out-of-range value is a <see cref="BadInputException"/> naming <c>file:line</c> and the key.
 /// </summary>
+/// <remarks>
+/// No reflection, so Native AOT builds read presets too: the YAML is loaded with YamlDotNet's representation model,
+/// every key and scalar is checked against the option records' source-generated System.Text.Json metadata
+/// (<see cref="OptionsJsonContext"/>), and the checked values are handed to the generated deserializer as JSON.
+/// <see cref="ToYaml"/> writes the same text YamlDotNet's reflection serializer wrote before (a test compares them).
+/// </remarks>
 public static class PresetLoader
 {
-    private static readonly IDeserializer Deserializer = new DeserializerBuilder()
-        .WithNamingConvention(CamelCaseNamingConvention.Instance)
-        .Build();
-
-    private static readonly ISerializer Serializer = new SerializerBuilder()
-        .WithNamingConvention(CamelCaseNamingConvention.Instance)
-        .Build();
-
     /// <summary>Parses a preset (partial or complete) and validates it.</summary>
     /// <param name="yaml">Preset text.</param>
     /// <param name="file">File name used in error messages.</param>
@@ -30,15 +30,37 @@ public static class PresetLoader
     public static PipelineOptions Parse(string yaml, string file)
     {
         ArgumentNullException.ThrowIfNull(yaml);
-        PipelineOptions? options;
+        var stream = new YamlStream();
         try
         {
-            options = Deserializer.Deserialize<PipelineOptions?>(yaml);
+            using var reader = new StringReader(yaml);
+            stream.Load(reader);
         }
         catch (YamlException ex)
         {
             string reason = ex.InnerException?.Message ?? ex.Message;
             throw BadInputException.At(file, ex.Start.Line, null, reason);
+        }
+        catch (InvalidOperationException)
+        {
+            // YamlDotNet's scanner throws this on some malformed plain scalars (found by fuzzing).
+            throw BadInputException.At(file, 0, null, "invalid YAML");
+        }
+
+        PipelineOptions? options = null;
+        YamlNode? root = stream.Documents.Count == 0 ? null : stream.Documents[0].RootNode;
+        if (root is not null && !IsNull(root))
+        {
+            // The generated deserializer sets every init-only property (absent ones to zero), so the JSON it gets is
+            // complete: the record defaults with the preset's checked values written over them.
+            using JsonDocument defaults = JsonSerializer.SerializeToDocument(new PipelineOptions(), OptionsJsonContext.Default.PipelineOptions);
+            var buffer = new ArrayBufferWriter<byte>(4096);
+            using (var json = new Utf8JsonWriter(buffer))
+            {
+                WriteObject(json, root, defaults.RootElement, OptionsJsonContext.Default.PipelineOptions, string.Empty, file);
+            }
+
+            options = JsonSerializer.Deserialize(buffer.WrittenSpan, OptionsJsonContext.Default.PipelineOptions);
         }
 
         options ??= new PipelineOptions();
@@ -63,6 +85,112 @@ public static class PresetLoader
         return options;
     }
 
+    // Writes one option record as a JSON object: each property from the YAML mapping when given there (checked
+    // against its type), else from the defaults.
+    private static void WriteObject(Utf8JsonWriter json, YamlNode node, JsonElement defaults, JsonTypeInfo type, string path, string file)
+    {
+        if (node is not YamlMappingNode map)
+        {
+            throw BadInputException.At(file, node.Start.Line, path.Length == 0 ? null : path, "expected a mapping of keys to values");
+        }
+
+        var given = new Dictionary<string, YamlNode>(StringComparer.Ordinal);
+        foreach (KeyValuePair<YamlNode, YamlNode> kv in map.Children)
+        {
+            string name = (kv.Key as YamlScalarNode)?.Value ?? string.Empty;
+            string key = path.Length == 0 ? name : path + "." + name;
+            if (!type.Properties.Any(p => p.Name == name))
+            {
+                string known = string.Join(", ", type.Properties.Select(p => p.Name));
+                throw BadInputException.At(file, kv.Key.Start.Line, key, $"unknown key (known here: {known})");
+            }
+
+            if (!given.TryAdd(name, kv.Value))
+            {
+                throw BadInputException.At(file, kv.Key.Start.Line, key, "key given twice");
+            }
+        }
+
+        json.WriteStartObject();
+        foreach (JsonPropertyInfo property in type.Properties)
+        {
+            string name = property.Name, key = path.Length == 0 ? name : path + "." + name;
+            json.WritePropertyName(name);
+            if (!given.TryGetValue(name, out YamlNode? value))
+            {
+                defaults.GetProperty(name).WriteTo(json);
+            }
+            else if (property.PropertyType == typeof(int))
+            {
+                json.WriteNumberValue(ParseInt(value, key, file));
+            }
+            else if (property.PropertyType == typeof(double))
+            {
+                double v = ParseDouble(value, key, file);
+                if (double.IsFinite(v))
+                {
+                    json.WriteNumberValue(v);
+                }
+                else
+                {
+                    json.WriteStringValue(v.ToString(CultureInfo.InvariantCulture)); // read back as a named literal
+                }
+            }
+            else if (property.PropertyType == typeof(bool))
+            {
+                json.WriteBooleanValue(ParseBool(value, key, file));
+            }
+            else if (IsNull(value))
+            {
+                json.WriteNullValue(); // a section with no keys: Validate reports it
+            }
+            else
+            {
+                WriteObject(json, value, defaults.GetProperty(name), OptionsJsonContext.Default.GetTypeInfo(property.PropertyType)!, key, file);
+            }
+        }
+
+        json.WriteEndObject();
+    }
+
+    private static bool IsNull(YamlNode node) =>
+        node is YamlScalarNode { Style: ScalarStyle.Plain, Value: null or "" or "~" or "null" or "Null" or "NULL" };
+
+    private static string Scalar(YamlNode node, string key, string file, string expected) =>
+        node is YamlScalarNode { Value: string v } && !IsNull(node) ? v
+            : throw BadInputException.At(file, node.Start.Line, key, "expected " + expected);
+
+    private static int ParseInt(YamlNode node, string key, string file)
+    {
+        string text = Scalar(node, key, file, "an integer");
+        return int.TryParse(text, NumberStyles.AllowLeadingSign, CultureInfo.InvariantCulture, out int v) ? v
+            : throw BadInputException.At(file, node.Start.Line, key, $"'{text}' is not an integer");
+    }
+
+    private static double ParseDouble(YamlNode node, string key, string file)
+    {
+        string text = Scalar(node, key, file, "a number");
+        return text switch
+        {
+            ".nan" or ".NaN" or ".NAN" => double.NaN,
+            ".inf" or ".Inf" or ".INF" or "+.inf" or "+.Inf" or "+.INF" => double.PositiveInfinity,
+            "-.inf" or "-.Inf" or "-.INF" => double.NegativeInfinity,
+            _ => double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out double v) ? v
+                : throw BadInputException.At(file, node.Start.Line, key, $"'{text}' is not a number"),
+        };
+    }
+
+    private static bool ParseBool(YamlNode node, string key, string file)
+    {
+        string text = Scalar(node, key, file, "true or false");
+        return text switch
+        {
+            "true" or "True" or "TRUE" => true,
+            "false" or "False" or "FALSE" => false,
+            _ => throw BadInputException.At(file, node.Start.Line, key, $"'{text}' is not true or false"),
+        };
+    }
+
     /// <summary>Loads a preset from a YAML file.</summary>
     /// <exception cref="BadInputException">The file is missing or unreadable, or its content is invalid.</exception>
     public static PipelineOptions LoadFile(string path)
@@ -81,7 +209,48 @@ public static class PresetLoader
     }
 
     /// <summary>Serializes the effective options to YAML (every key, stage order), the form recorded beside outputs.</summary>
-    public static string ToYaml(PipelineOptions options) => Serializer.Serialize(options);
+    public static string ToYaml(PipelineOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(options);
+        using JsonDocument doc = JsonSerializer.SerializeToDocument(options, OptionsJsonContext.Default.PipelineOptions);
+        var text = new StringBuilder(2048);
+#pragma warning disable IDISP004 // misreads foreach over JsonElement.EnumerateObject(): foreach disposes the enumerator
+        foreach (JsonProperty section in doc.RootElement.EnumerateObject())
+        {
+            text.Append(section.Name).Append(':');
+            if (section.Value.ValueKind != JsonValueKind.Object)
+            {
+                text.Append(' ').Append(Leaf(section.Value)).Append('\n');
+                continue;
+            }
+
+            text.Append('\n');
+            foreach (JsonProperty p in section.Value.EnumerateObject())
+            {
+                text.Append("  ").Append(p.Name).Append(": ").Append(Leaf(p.Value)).Append('\n');
+            }
+        }
+#pragma warning restore IDISP004
+
+        return text.ToString();
+    }
+
+    // YamlDotNet's plain-scalar forms: round-trip numbers, lower-case booleans, YAML's names for the IEEE specials.
+    private static string Leaf(JsonElement e) => e.ValueKind switch
+    {
+        JsonValueKind.True => "true",
+        JsonValueKind.False => "false",
+        JsonValueKind.Number => e.GetDouble().ToString("R", CultureInfo.InvariantCulture),
+        JsonValueKind.String => e.GetString() switch
+        {
+            "NaN" => ".nan",
+            "Infinity" => ".inf",
+            "-Infinity" => "-.inf",
+            string other => other,
+            null => string.Empty,
+        },
+        _ => string.Empty,
+    };
 
     /// <summary>Short content hash of the effective configuration: <c>sha256:</c> and the first 16 hex digits of SHA-256 over <see cref="ToYaml"/>.</summary>
     public static string Hash(PipelineOptions options)
@@ -145,3 +314,8 @@ public static class PresetLoader
     /// <summary>Formats a number for messages with the invariant culture.</summary>
     internal static string Num(double v) => v.ToString(CultureInfo.InvariantCulture);
 }
+
+/// <summary>Source-generated JSON metadata of the option records (camelCase; NaN and infinities as named literals).</summary>
+[JsonSourceGenerationOptions(PropertyNamingPolicy = JsonKnownNamingPolicy.CamelCase, NumberHandling = JsonNumberHandling.AllowNamedFloatingPointLiterals)]
+[JsonSerializable(typeof(PipelineOptions))]
+internal sealed partial class OptionsJsonContext : JsonSerializerContext;

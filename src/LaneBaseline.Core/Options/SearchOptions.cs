@@ -30,7 +30,7 @@ public sealed record SearchOptions
     /// <summary>Allowed relative difference between neighbouring lane widths (0–1). Default 0.3.</summary>
     public double WidthTolerance { get; init; } = 0.3;
 
-    /// <summary>Largest number of boundaries reported (1–6: slots −1, +1, then −2, +2, then −3, +3). Default 4.</summary>
+    /// <summary>Largest number of boundaries reported (1–6: slots −1, +1, then −2, +2, then −3, +3). Default 6.</summary>
     public int MaxLanes { get; init; } = 6;
 
     /// <summary>Whether to estimate each lane's marking type (solid or dashed) from its window coverage (true/false). Default true.</summary>

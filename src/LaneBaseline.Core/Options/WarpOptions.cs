@@ -6,7 +6,7 @@ namespace LaneBaseline.Core.Options;
 /// </summary>
 public sealed record WarpOptions
 {
-    /// <summary>Width of the bird's-eye image, in pixels (64–2048). Default 320.</summary>
+    /// <summary>Width of the bird's-eye image, in pixels (64–2048). Default 480.</summary>
     public int WidthPx { get; init; } = 480;
 
     /// <summary>Height of the bird's-eye image, in pixels (64–2048). Default 320.</summary>
@@ -15,7 +15,7 @@ public sealed record WarpOptions
     /// <summary>Far edge of the warped area: fraction of the way from the horizon row to the bottom row (0.01–0.9). Default 0.1.</summary>
     public double FarRowFraction { get; init; } = 0.1;
 
-    /// <summary>Width of the trapezoid at the bottom row, as a multiple of the frame width (0.5–6). Default 2.6.</summary>
+    /// <summary>Width of the trapezoid at the bottom row, as a multiple of the frame width (0.5–6). Default 4.2.</summary>
     public double BottomSpanFraction { get; init; } = 4.2;
 
     internal void Validate(List<OptionsFinding> f)

@@ -46,6 +46,11 @@ public sealed class SearchSpace
         {
             throw BadInputException.At(fileName, ex.Start.Line, null, "invalid YAML: " + (ex.InnerException?.Message ?? ex.Message));
         }
+        catch (InvalidOperationException)
+        {
+            // YamlDotNet's scanner throws this on some malformed plain scalars (found by fuzzing).
+            throw BadInputException.At(fileName, 0, null, "invalid YAML");
+        }
 
         if (stream.Documents.Count == 0 || stream.Documents[0].RootNode is not YamlMappingNode root)
         {
