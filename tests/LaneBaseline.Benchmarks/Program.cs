@@ -5,5 +5,14 @@ namespace LaneBaseline.Benchmarks;
 /// <summary>Micro-benchmarks (BenchmarkDotNet); not run by dotnet test. Run: dotnet run -c Release --project tests/LaneBaseline.Benchmarks.</summary>
 internal static class Program
 {
-    private static void Main(string[] args) => BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+    private static void Main(string[] args)
+    {
+        if (args is ["soak-data", string frames, string dir])
+        {
+            SoakData.Write(int.Parse(frames, System.Globalization.CultureInfo.InvariantCulture), dir); // data for scripts/soak.sh
+            return;
+        }
+
+        BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+    }
 }

@@ -35,6 +35,53 @@ public sealed class GroundErrorTests : IDisposable
     // (R = (1 + b²)^1.5 / |2a| = 1250 m by the external-checks radius formula), the truth is straight, the right pair
     // is straight on both sides: mean error (0.0008 + 0) / 2 = 0.0004 /m. Ground points are exact projections at whole metres, so the look-ahead
     // distances fall on points and no interpolation error enters.
+    // Issue #8: sharded scoring with --camera merges to the unsharded JSON and table byte for byte (the state carries
+    // each frame's metric-space sums, including frames where the ego width cannot be measured).
+    [Theory]
+    [InlineData(2)]
+    [InlineData(5)]
+    public void Score_WithCamera_ShardsMergeToUnshardedOutput(int n)
+    {
+        string cam = dir.File("camera.json"), truth = dir.File("t.lanes.jsonl"), pred = dir.File("p.lanes.jsonl");
+        Camera.Save(cam);
+        Lane Ground(Func<double, double> y, int slot) => new()
+        {
+            Points = [.. Enumerable.Range(0, 40).Select(i => 8.0 + (i * 1.0)).Select(x => Camera.ProjectGroundToImage(x, y(x))).Select(p => new LanePoint(p.U, p.V))],
+            Slot = slot,
+        };
+
+        var t = new List<LaneRecord>();
+        var p = new List<LaneRecord>();
+        for (int i = 0; i < 24; i++)
+        {
+            string frame = $"run/{i:000}.png";
+            double off = 0.02 * i, bend = 0.0001 * (i % 5);
+            t.Add(Lanes.Truth(frame, 1280, 720, Ground(_ => 1.85, -1), Ground(_ => -1.85, 1)));
+            p.Add(i % 4 == 0
+                ? Lanes.Pred(frame, Ground(x => 1.85 + off, -1)) // one lane only: no ego width this frame
+                : Lanes.Pred(frame, Ground(x => 1.85 + off + (bend * x * x), -1), Ground(_ => -1.85 - off, 1)));
+        }
+
+        Lanes.WriteFile(truth, t);
+        Lanes.WriteFile(pred, p);
+        string[] common = ["--truth", truth, "--pred", pred, "--camera", cam, "--bootstrap", "40", "--seed", "3"];
+        (int exit, string fullOut, string err) = CliRunner.Run(["score", .. common, "--json", dir.File("full.json")]);
+        Assert.True(exit == 0, err);
+        var states = new List<string>();
+        for (int k = 0; k < n; k++)
+        {
+            states.Add(dir.File($"g{k}.state"));
+            (exit, _, err) = CliRunner.Run(["score", .. common, "--shard", $"{k}/{n}", "--partial", states[k]]);
+            Assert.True(exit == 0, err);
+        }
+
+        (exit, string mergedOut, err) = CliRunner.Run(["merge", .. states, "-o", dir.File("merged.json")]);
+        Assert.True(exit == 0, err);
+        Assert.Contains("On the road plane", mergedOut, StringComparison.Ordinal);
+        Assert.Equal(fullOut, mergedOut);
+        Assert.Equal(File.ReadAllBytes(dir.File("full.json")), File.ReadAllBytes(dir.File("merged.json")));
+    }
+
     [Fact]
     public void Score_WithCamera_ReportsLateralWidthAndCurvatureErrors()
     {

@@ -305,11 +305,6 @@ internal static class ScoreCommand
 
     private static int WritePartial(TextWriter stderr, ScoreRequest request, ShardSpec shard, string partialPath, MaskInputs masks, CancellationToken cancellationToken)
     {
-        if (request.Settings.Camera is not null)
-        {
-            throw new UsageException("--camera is not supported with --partial yet; score metric-space errors unsharded");
-        }
-
         if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null || request.Report is not null)
         {
             throw new UsageException("--partial writes a state for 'merge'; give --json, --csv and --min-f1 to merge instead");

@@ -48,7 +48,8 @@ public sealed record ScoreStateHeader
         b.Append(Settings.LaneWidthPx?.ToString(CultureInfo.InvariantCulture)).Append('\n')
             .Append(Settings.TolerancePx?.ToString("R", CultureInfo.InvariantCulture)).Append('\n')
             .Append(string.Join(',', Settings.ExtraThresholds.Select(t => t.Key))).Append('\n')
-            .Append(Resamples).Append('\n').Append(Seed);
+            .Append(Resamples).Append('\n').Append(Seed).Append('\n')
+            .Append(Settings.Camera?.ToJson());
         return b.ToString();
     }
 }
@@ -109,6 +110,11 @@ public sealed class ScoreStateWriter : IDisposable
             json.WriteEndArray();
             json.WriteNumber("bootstrap", header.Resamples);
             json.WriteNumber("seed", header.Seed);
+            if (header.Settings.Camera is { } camera)
+            {
+                json.WriteString("camera", camera.ToJson());
+            }
+
             json.WriteEndObject();
         }
 
@@ -154,6 +160,33 @@ public sealed class ScoreStateWriter : IDisposable
                 Ints(json, "ctp", f.ConfidenceTruePositives);
                 Ints(json, "cp", f.ConfidencePredLanes);
                 json.WriteBoolean("conf", f.HasConfidence);
+                if (f.Ground is { } g)
+                {
+                    json.WriteStartObject("g");
+                    json.WriteStartArray("ls");
+                    foreach (double v in g.LateralAbsSumM)
+                    {
+                        json.WriteRawValue(v.ToString("R", CultureInfo.InvariantCulture));
+                    }
+
+                    json.WriteEndArray();
+                    Ints(json, "lc", g.LateralCount);
+                    json.WritePropertyName("w");
+                    if (double.IsFinite(g.EgoWidthAbsErrorM))
+                    {
+                        json.WriteRawValue(g.EgoWidthAbsErrorM.ToString("R", CultureInfo.InvariantCulture));
+                    }
+                    else
+                    {
+                        json.WriteNullValue(); // not measured in this frame
+                    }
+
+                    json.WritePropertyName("cs");
+                    json.WriteRawValue(g.CurvatureAbsSum.ToString("R", CultureInfo.InvariantCulture));
+                    json.WriteNumber("cc", g.CurvatureCount);
+                    json.WriteEndObject();
+                }
+
                 json.WriteEndObject();
             }
 
@@ -309,6 +342,7 @@ public sealed class ScoreStateReader : IDisposable
                     ConfidenceTruePositives = ctp,
                     ConfidencePredLanes = cp,
                     HasConfidence = s.GetProperty("conf").GetBoolean(),
+                    Ground = ReadGround(s),
                 });
             }
 
@@ -326,6 +360,32 @@ public sealed class ScoreStateReader : IDisposable
     }
 
     private static int[] Ints(JsonElement e) => [.. e.EnumerateArray().Select(v => v.GetInt32())];
+
+    // Metric-space errors of one frame: present exactly when the header has a camera.
+    private FrameGroundErrors? ReadGround(JsonElement s)
+    {
+        bool has = s.TryGetProperty("g", out JsonElement g);
+        if (has != (Header.Settings.Camera is not null))
+        {
+            throw BadInputException.At(path, line, "s.g", has ? "metric-space errors without a camera in the header" : "metric-space errors missing (the header has a camera)");
+        }
+
+        if (!has)
+        {
+            return null;
+        }
+
+        double[] sums = [.. g.GetProperty("ls").EnumerateArray().Select(v => v.GetDouble())];
+        int[] counts = Ints(g.GetProperty("lc"));
+        if (sums.Length != GroundErrors.DefaultLookAheadM.Count || counts.Length != sums.Length || counts.Any(c => c < 0))
+        {
+            throw BadInputException.At(path, line, "s.g", "look-ahead distances do not match this build");
+        }
+
+        JsonElement w = g.GetProperty("w");
+        int curvatureCount = g.GetProperty("cc").GetInt32();
+        return new FrameGroundErrors(sums, counts, w.ValueKind == JsonValueKind.Null ? double.NaN : w.GetDouble(), g.GetProperty("cs").GetDouble(), curvatureCount < 0 ? throw new FormatException("negative count") : curvatureCount);
+    }
 
     private static ScoreStateHeader ParseHeader(string path, string text)
     {
@@ -349,6 +409,7 @@ public sealed class ScoreStateReader : IDisposable
                     LaneWidthPx = r.TryGetProperty("lane_width_px", out JsonElement lw) ? lw.GetInt32() : null,
                     TolerancePx = r.TryGetProperty("tolerance_px", out JsonElement tol) ? tol.GetDouble() : null,
                     ExtraThresholds = [.. r.GetProperty("extra_iou").EnumerateArray().Select(t => IouThreshold.Parse(t.GetString()!))],
+                    Camera = r.TryGetProperty("camera", out JsonElement cam) ? Geometry.CameraModel.Parse(cam.GetString()!, path + " (camera)") : null,
                 },
                 Resamples = r.GetProperty("bootstrap").GetInt32(),
                 Seed = r.GetProperty("seed").GetUInt64(),
