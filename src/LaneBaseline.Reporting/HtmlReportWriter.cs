@@ -322,10 +322,10 @@ public static class HtmlReportWriter
             h.Append("</div>\n");
         }
 
-        if (byTag.TagsLeftOut > 0)
+        if (byTag.TagsLeftOut.Count > 0)
         {
-            h.Append("<p class=\"note\" id=\"tag-gallery-left-out\">").Append(Count(byTag.TagsLeftOut, "more tag")).Append(byTag.TagsLeftOut == 1 ? " is" : " are")
-             .Append(" not shown here (at most ").Append(I(byTag.Groups.Count)).Append(" tags, in the order of the By tag section, which lists them all).</p>\n");
+            h.Append("<p class=\"note\" id=\"tag-gallery-left-out\">").Append(Count(byTag.TagsLeftOut.Count, "more tag")).Append(byTag.TagsLeftOut.Count == 1 ? " is" : " are")
+             .Append(" not shown here: ").Append(E(string.Join(", ", byTag.TagsLeftOut))).Append(" (at most ").Append(I(byTag.Groups.Count)).Append(" tags, in the order of the By tag section, which lists them all).</p>\n");
         }
 
         h.Append("</section>\n");

@@ -42,9 +42,9 @@ public sealed record Gallery(IReadOnlyList<GalleryFrame> Frames, string Selectio
 /// <summary>Worst frames per truth tag (condition) for one system: the same thumbnails as the gallery, grouped by tag.</summary>
 /// <param name="System">The system whose frames are shown (the first one scored).</param>
 /// <param name="Groups">One group per shown tag, in the order of the per-tag chart.</param>
-/// <param name="TagsLeftOut">Tags present in the truth but not shown because of the cap.</param>
+/// <param name="TagsLeftOut">Tags present in the truth but not shown because of the cap, in ordinal order.</param>
 /// <param name="Selection">One sentence saying how frames were chosen and the caps.</param>
-public sealed record ConditionGallery(string System, IReadOnlyList<ConditionGroup> Groups, int TagsLeftOut, string Selection);
+public sealed record ConditionGallery(string System, IReadOnlyList<ConditionGroup> Groups, IReadOnlyList<string> TagsLeftOut, string Selection);
 
 /// <summary>The worst frames carrying one tag.</summary>
 /// <param name="Tag">The truth tag.</param>

@@ -192,7 +192,7 @@ public sealed class ReportTagGalleryTests : IDisposable
         string section = Section(Page(Scene(frames), "p", threads: 1));
         string[] expected = [.. Enumerable.Range(0, 8).Select(t => $"t{t}:c/f{10 + 9 - t:00}.png:first")];
         Assert.Equal(expected, Shown(section));
-        Assert.Contains("2 more tags are not shown here", section, StringComparison.Ordinal);
+        Assert.Contains("2 more tags are not shown here: t8, t9 (at most 8 tags", section, StringComparison.Ordinal);
         Assert.Contains("id=\"tag-gallery-left-out\"", section, StringComparison.Ordinal);
         Assert.DoesNotContain("data-tag=\"t8\"", section, StringComparison.Ordinal);
     }

@@ -169,14 +169,14 @@ public sealed class HtmlReportWriterTests
             GeneratedAt = Noon,
             Gallery = new Gallery([frame], "Up to 6.")
             {
-                ByTag = new ConditionGallery("alpha", [new ConditionGroup("clear", 4, []), new ConditionGroup("night", 2, [frame]), new ConditionGroup("rain", 1, [frame])], 3, "Per tag."),
+                ByTag = new ConditionGallery("alpha", [new ConditionGroup("clear", 4, []), new ConditionGroup("night", 2, [frame]), new ConditionGroup("rain", 1, [frame])], ["snow", "t&x", "wet"], "Per tag."),
             },
         });
         int start = html.IndexOf("<section id=\"tag-gallery\">", StringComparison.Ordinal);
         string section = html[start..html.IndexOf("</section>", start, StringComparison.Ordinal)];
         Assert.Equal(["clear", "night", "rain"], [.. Regex.Matches(section, "<h3 data-tag=\"([^\"]+)\">").Select(m => m.Groups[1].Value)]);
         Assert.Contains("<p class=\"empty\" data-tag=\"clear\">No failures", section, StringComparison.Ordinal);
-        Assert.Contains("3 more tags are not shown here (at most 3 tags", section, StringComparison.Ordinal);
+        Assert.Contains("3 more tags are not shown here: snow, t&amp;x, wet (at most 3 tags", section, StringComparison.Ordinal);
         Assert.Contains("prediction of alpha", section, StringComparison.Ordinal);
         Assert.Equal(2, Regex.Count(section, "<figure class=\"thumb\" data-tag=\"(night|rain)\" data-frame=\"a/1.png\""));
         Assert.Equal(3, Regex.Count(html, "src=\"data:image/jpeg;base64,/9j/2Q==\"")); // once in Worst frames, twice here

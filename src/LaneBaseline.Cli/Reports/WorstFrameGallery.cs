@@ -242,8 +242,8 @@ internal static class WorstFrameGallery
         private readonly SortedDictionary<string, (int Frames, List<Candidate> Worst)> kept = new(StringComparer.Ordinal);
         private readonly HashSet<string> seen = new(StringComparer.Ordinal);
 
-        /// <summary>Tags seen but not kept.</summary>
-        public int LeftOut => seen.Count - kept.Count;
+        /// <summary>Tags seen but not kept, in ordinal order.</summary>
+        public IReadOnlyList<string> LeftOut => [.. seen.Where(t => !kept.ContainsKey(t)).Order(StringComparer.Ordinal)];
 
         /// <summary>Counts one frame of the first system under each of its tags; <paramref name="candidate"/> is null for a perfect frame.</summary>
         public void Add(IReadOnlyList<string> tags, Candidate? candidate)
