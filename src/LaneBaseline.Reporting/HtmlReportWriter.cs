@@ -17,7 +17,7 @@ public static class HtmlReportWriter
 {
     /// <summary>Section ids of a page with score results, in page order (every one is always present; empty ones say why).</summary>
     public static readonly IReadOnlyList<string> SectionIds =
-        ["headline", "iou-curve", "confidence", "tags", "paired", "gallery", "audit", "configuration", "caution"];
+        ["headline", "iou-curve", "confidence", "tags", "paired", "gallery", "tag-gallery", "audit", "configuration", "caution"];
 
     /// <summary>Section ids of a page made from audit findings alone.</summary>
     public static readonly IReadOnlyList<string> AuditOnlySectionIds = ["audit", "configuration", "caution"];
@@ -66,7 +66,7 @@ public static class HtmlReportWriter
         if (doc is not null)
         {
             h.Append("<a href=\"#headline\">Headline</a><a href=\"#iou-curve\">F1 vs IoU</a><a href=\"#confidence\">Confidence</a>")
-             .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#gallery\">Worst frames</a>");
+             .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#gallery\">Worst frames</a><a href=\"#tag-gallery\">Worst by tag</a>");
         }
 
         h.Append("<a href=\"#audit\">Audit</a>").Append(input.Bench is null ? string.Empty : "<a href=\"#bench\">Cost</a>").Append("<a href=\"#configuration\">Configuration</a><a href=\"#caution\">Caution</a></nav>\n<main>\n");
@@ -78,7 +78,9 @@ public static class HtmlReportWriter
             WriteConfidence(h, systems);
             WriteTags(h, systems);
             WritePaired(h, doc);
-            WriteGallery(h, input.Gallery);
+            var base64 = new Dictionary<(string System, string Frame), string>();
+            WriteGallery(h, input.Gallery, base64);
+            WriteTagGallery(h, input.Gallery, base64);
         }
 
         WriteAudit(h, input.Audit);
@@ -252,7 +254,7 @@ public static class HtmlReportWriter
         h.Append("</tbody>\n</table></div>\n</section>\n");
     }
 
-    private static void WriteGallery(StringBuilder h, Gallery? gallery)
+    private static void WriteGallery(StringBuilder h, Gallery? gallery, Dictionary<(string System, string Frame), string> base64)
     {
         h.Append("<section id=\"gallery\">\n<h2>Worst frames</h2>\n");
         if (gallery is null)
@@ -274,23 +276,87 @@ public static class HtmlReportWriter
             h.Append("<h3>").Append(E(group.Key)).Append("</h3>\n<div class=\"gallery\">\n");
             foreach (GalleryFrame f in group)
             {
-                h.Append("<figure class=\"thumb\" data-frame=\"").Append(E(f.Frame)).Append("\" data-system=\"").Append(E(f.System)).Append("\">")
-                 .Append("<img alt=\"").Append(E(f.Frame)).Append(" with truth and prediction drawn\" width=\"").Append(I(f.Width)).Append("\" height=\"").Append(I(f.Height))
-                 .Append("\" src=\"data:image/jpeg;base64,").Append(Convert.ToBase64String(f.Jpeg.Span)).Append("\">")
-                 .Append("<figcaption><code>").Append(E(f.Frame)).Append("</code><br>F1@0.50 ").Append(F(f.F1, "0.000"))
-                 .Append(" (TP ").Append(I(f.Tp)).Append(", FP ").Append(I(f.Fp)).Append(", FN ").Append(I(f.Fn)).Append(") · point acc. ").Append(F(f.PointAccuracy, "0.000"));
-                if (f.Tags.Count > 0)
-                {
-                    h.Append("<br>tags: ").Append(E(string.Join(", ", f.Tags)));
-                }
-
-                h.Append("</figcaption></figure>\n");
+                WriteThumb(h, f, null, base64);
             }
 
             h.Append("</div>\n");
         }
 
         h.Append("</section>\n");
+    }
+
+    /// <summary>The worst frames of the first system per truth tag; thumbnails shared with the gallery are converted once.</summary>
+    private static void WriteTagGallery(StringBuilder h, Gallery? gallery, Dictionary<(string System, string Frame), string> base64)
+    {
+        h.Append("<section id=\"tag-gallery\">\n<h2>Worst frames by tag</h2>\n");
+        if (gallery?.ByTag is not ConditionGallery byTag)
+        {
+            h.Append("<p class=\"empty\">Not requested: pass <code>--frames DIR --truth FILE --pred FILE</code> to <code>report</code> to draw the worst frames of each tagged condition.</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<p>").Append(E(byTag.Selection)).Append("</p>\n");
+        if (byTag.Groups.Count == 0)
+        {
+            h.Append("<p class=\"empty\">The truth file carries no tags, so there are no conditions to show.</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<p class=\"legend\"><span class=\"key\"><span class=\"line truth\"></span>ground truth</span><span class=\"key\"><span class=\"line pred\"></span>prediction of ")
+         .Append(E(byTag.System)).Append(" (dots at its points)</span></p>\n");
+        foreach (ConditionGroup g in byTag.Groups)
+        {
+            h.Append("<h3 data-tag=\"").Append(E(g.Tag)).Append("\">").Append(E(g.Tag)).Append(" <span class=\"note\">· ").Append(Count(g.Frames, "frame")).Append("</span></h3>\n");
+            if (g.Worst.Count == 0)
+            {
+                h.Append("<p class=\"empty\" data-tag=\"").Append(E(g.Tag)).Append("\">No failures: every frame tagged <code>").Append(E(g.Tag)).Append("</code> scores perfectly.</p>\n");
+                continue;
+            }
+
+            h.Append("<div class=\"gallery\">\n");
+            foreach (GalleryFrame f in g.Worst)
+            {
+                WriteThumb(h, f, g.Tag, base64);
+            }
+
+            h.Append("</div>\n");
+        }
+
+        if (byTag.TagsLeftOut.Count > 0)
+        {
+            h.Append("<p class=\"note\" id=\"tag-gallery-left-out\">").Append(Count(byTag.TagsLeftOut.Count, "more tag")).Append(byTag.TagsLeftOut.Count == 1 ? " is" : " are")
+             .Append(" not shown here: ").Append(E(string.Join(", ", byTag.TagsLeftOut))).Append(" (at most ").Append(I(byTag.Groups.Count)).Append(" tags, in the order of the By tag section, which lists them all).</p>\n");
+        }
+
+        h.Append("</section>\n");
+    }
+
+    /// <summary>One thumbnail with its scores; <paramref name="tag"/> marks a thumbnail of the per-tag gallery.</summary>
+    private static void WriteThumb(StringBuilder h, GalleryFrame f, string? tag, Dictionary<(string System, string Frame), string> base64)
+    {
+        if (!base64.TryGetValue((f.System, f.Frame), out string? data))
+        {
+            data = Convert.ToBase64String(f.Jpeg.Span);
+            base64.Add((f.System, f.Frame), data);
+        }
+
+        h.Append("<figure class=\"thumb\"");
+        if (tag is not null)
+        {
+            h.Append(" data-tag=\"").Append(E(tag)).Append('"');
+        }
+
+        h.Append(" data-frame=\"").Append(E(f.Frame)).Append("\" data-system=\"").Append(E(f.System)).Append("\">")
+         .Append("<img alt=\"").Append(E(f.Frame)).Append(" with truth and prediction drawn\" width=\"").Append(I(f.Width)).Append("\" height=\"").Append(I(f.Height))
+         .Append("\" src=\"data:image/jpeg;base64,").Append(data).Append("\">")
+         .Append("<figcaption><code>").Append(E(f.Frame)).Append("</code><br>F1@0.50 ").Append(F(f.F1, "0.000"))
+         .Append(" (TP ").Append(I(f.Tp)).Append(", FP ").Append(I(f.Fp)).Append(", FN ").Append(I(f.Fn)).Append(") · point acc. ").Append(F(f.PointAccuracy, "0.000"));
+        if (f.Tags.Count > 0)
+        {
+            h.Append("<br>tags: ").Append(E(string.Join(", ", f.Tags)));
+        }
+
+        h.Append("</figcaption></figure>\n");
     }
 
     private static void WriteSeverity(StringBuilder h, IReadOnlyList<SystemResult> systems, IReadOnlyList<(double Severity, string Tag)> levels)

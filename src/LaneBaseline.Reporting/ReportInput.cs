@@ -33,7 +33,24 @@ public sealed record ReportInput
 /// <summary>The worst-frame gallery: thumbnails already drawn (the report itself draws nothing on images).</summary>
 /// <param name="Frames">Thumbnails grouped by system, worst first within a system.</param>
 /// <param name="Selection">One sentence saying how frames were chosen and the size caps.</param>
-public sealed record Gallery(IReadOnlyList<GalleryFrame> Frames, string Selection);
+public sealed record Gallery(IReadOnlyList<GalleryFrame> Frames, string Selection)
+{
+    /// <summary>The per-condition gallery (worst frames of the first system per truth tag), or null when not built.</summary>
+    public ConditionGallery? ByTag { get; init; }
+}
+
+/// <summary>Worst frames per truth tag (condition) for one system: the same thumbnails as the gallery, grouped by tag.</summary>
+/// <param name="System">The system whose frames are shown (the first one scored).</param>
+/// <param name="Groups">One group per shown tag, in the order of the per-tag chart.</param>
+/// <param name="TagsLeftOut">Tags present in the truth but not shown because of the cap, in ordinal order.</param>
+/// <param name="Selection">One sentence saying how frames were chosen and the caps.</param>
+public sealed record ConditionGallery(string System, IReadOnlyList<ConditionGroup> Groups, IReadOnlyList<string> TagsLeftOut, string Selection);
+
+/// <summary>The worst frames carrying one tag.</summary>
+/// <param name="Tag">The truth tag.</param>
+/// <param name="Frames">Number of truth frames carrying the tag.</param>
+/// <param name="Worst">Thumbnails, worst first; empty when every frame with the tag scores perfectly.</param>
+public sealed record ConditionGroup(string Tag, int Frames, IReadOnlyList<GalleryFrame> Worst);
 
 /// <summary>One thumbnail of the gallery with the scores that ranked it.</summary>
 /// <param name="System">System whose prediction is drawn.</param>

@@ -44,7 +44,7 @@ public sealed class ReportCommandTests : IDisposable
         string json = ScoreTwo();
         (int exit, string err, string html) = Report(json, dir.File("r.html"));
         Assert.True(exit == 0, err);
-        foreach (string id in new[] { "headline", "iou-curve", "confidence", "tags", "paired", "gallery", "configuration", "caution" })
+        foreach (string id in new[] { "headline", "iou-curve", "confidence", "tags", "paired", "gallery", "tag-gallery", "configuration", "caution" })
         {
             Assert.Contains($"<section id=\"{id}\">", html, StringComparison.Ordinal);
         }
@@ -83,7 +83,12 @@ public sealed class ReportCommandTests : IDisposable
         Assert.Equal(["baseline:clip/f4.png", "baseline:clip/f1.png", "baseline:clip/f2.png", "baseline:clip/f3.png", "net:clip/f4.png"], shown);
         Assert.Contains("F1@0.50 0.667 (TP 1, FP 0, FN 1)", html, StringComparison.Ordinal);
         Assert.Contains("F1@0.50 0.800 (TP 2, FP 1, FN 0)", html, StringComparison.Ordinal);
-        MatchCollection thumbs = Regex.Matches(html, "<img alt=\"[^\"]*\" width=\"([0-9]+)\" height=\"([0-9]+)\" src=\"data:image/jpeg;base64,");
+        // The per-tag gallery shows baseline (the first system) by tag, same ranking: curve f4, f1; day f1, f2; dusk f4, f3.
+        string[] byTag = [.. Regex.Matches(html, "<figure class=\"thumb\" data-tag=\"([^\"]+)\" data-frame=\"([^\"]+)\" data-system=\"baseline\"")
+            .Select(m => m.Groups[1].Value + ":" + m.Groups[2].Value)];
+        Assert.Equal(["curve:clip/f4.png", "curve:clip/f1.png", "day:clip/f1.png", "day:clip/f2.png", "dusk:clip/f4.png", "dusk:clip/f3.png"], byTag);
+        string worstSection = html[html.IndexOf("<section id=\"gallery\">", StringComparison.Ordinal)..html.IndexOf("<section id=\"tag-gallery\">", StringComparison.Ordinal)];
+        MatchCollection thumbs = Regex.Matches(worstSection, "<img alt=\"[^\"]*\" width=\"([0-9]+)\" height=\"([0-9]+)\" src=\"data:image/jpeg;base64,");
         Assert.Equal(5, thumbs.Count);
         Assert.All(thumbs, m => Assert.Equal("480x270", m.Groups[1].Value + "x" + m.Groups[2].Value)); // 640x360 scaled to the 480 px cap
         Assert.Contains("Caution: LaneBaseline is an evaluation baseline", html, StringComparison.Ordinal);

@@ -155,6 +155,38 @@ public sealed class HtmlReportWriterTests
         Assert.Contains("class=\"line pred\"", html, StringComparison.Ordinal);
     }
 
+    // The per-tag section as the page states it: groups in the given order, a note for a tag without failures and
+    // for the tags left out by the cap, a navigation link; the JPEG of a frame shown twice is the same data URI.
+    [Fact]
+    public void Render_TagGallery_GroupsNotesAndNavigation()
+    {
+        byte[] jpeg = [0xFF, 0xD8, 0xFF, 0xD9];
+        var frame = new GalleryFrame("alpha", "a/1.png", ["night", "rain"], 0, 2, 1, 0.0, 0.25, jpeg, 48, 27);
+        string html = HtmlReportWriter.Render(new ReportInput
+        {
+            Score = Parse(TwoSystemsJson()),
+            ScoreSource = "s.json",
+            GeneratedAt = Noon,
+            Gallery = new Gallery([frame], "Up to 6.")
+            {
+                ByTag = new ConditionGallery("alpha", [new ConditionGroup("clear", 4, []), new ConditionGroup("night", 2, [frame]), new ConditionGroup("rain", 1, [frame])], ["snow", "t&x", "wet"], "Per tag."),
+            },
+        });
+        int start = html.IndexOf("<section id=\"tag-gallery\">", StringComparison.Ordinal);
+        string section = html[start..html.IndexOf("</section>", start, StringComparison.Ordinal)];
+        Assert.Equal(["clear", "night", "rain"], [.. Regex.Matches(section, "<h3 data-tag=\"([^\"]+)\">").Select(m => m.Groups[1].Value)]);
+        Assert.Contains("<p class=\"empty\" data-tag=\"clear\">No failures", section, StringComparison.Ordinal);
+        Assert.Contains("3 more tags are not shown here: snow, t&amp;x, wet (at most 3 tags", section, StringComparison.Ordinal);
+        Assert.Contains("prediction of alpha", section, StringComparison.Ordinal);
+        Assert.Equal(2, Regex.Count(section, "<figure class=\"thumb\" data-tag=\"(night|rain)\" data-frame=\"a/1.png\""));
+        Assert.Equal(3, Regex.Count(html, "src=\"data:image/jpeg;base64,/9j/2Q==\"")); // once in Worst frames, twice here
+        Assert.Contains("<a href=\"#tag-gallery\">Worst by tag</a>", html, StringComparison.Ordinal);
+
+        string none = Render(Parse(TwoSystemsJson()));
+        int at = none.IndexOf("<section id=\"tag-gallery\">", StringComparison.Ordinal);
+        Assert.Contains("<p class=\"empty\">Not requested", none[at..], StringComparison.Ordinal);
+    }
+
     internal static string Row(string html, string tableId, string system)
     {
         int table = html.IndexOf($"<table id=\"{tableId}\">", StringComparison.Ordinal);

@@ -19,10 +19,11 @@ internal static class ReportCommand
         Option<string?> truth = new("--truth") { Description = "Ground-truth lane file, for the worst-frame gallery." };
         Option<string[]> pred = new("--pred") { Description = "Prediction lane file for the gallery; repeat as NAME=FILE for several systems.", AllowMultipleArgumentsPerToken = false };
         Option<string?> generatedAt = new("--generated-at") { Description = "Time printed as 'generated' (ISO 8601), for reproducible pages; default now." };
+        Option<int> threads = new("--threads") { Description = "Worker threads for scoring the gallery's frames (the page does not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
 
         Command command = new("report", "Write one self-contained HTML page (tables, charts, worst frames, audit findings, settings) from score results and/or audit findings.\n" + SafetyNotice.Text)
         {
-            score, audit, bench, output, frames, truth, pred, generatedAt,
+            score, audit, bench, output, frames, truth, pred, generatedAt, threads,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -39,6 +40,12 @@ internal static class ReportCommand
             string? truthPath = parseResult.GetValue(truth);
             string[] preds = parseResult.GetValue(pred) ?? [];
             DateTimeOffset at = ReportPage.ParseGeneratedAt(parseResult.GetValue(generatedAt));
+            int threadCount = parseResult.GetValue(threads);
+            if (threadCount < 1)
+            {
+                throw new UsageException("--threads must be at least 1");
+            }
+
             int given = (framesDir is null ? 0 : 1) + (truthPath is null ? 0 : 1) + (preds.Length == 0 ? 0 : 1);
             if (given is 1 or 2)
             {
@@ -50,7 +57,7 @@ internal static class ReportCommand
                 throw new UsageException("the worst-frame gallery ranks frames by score: it needs --score");
             }
 
-            GalleryRequest? gallery = given == 3 ? new GalleryRequest(framesDir!, truthPath!, ScoreCommand.ParseSystems(preds)) : null;
+            GalleryRequest? gallery = given == 3 ? new GalleryRequest(framesDir!, truthPath!, ScoreCommand.ParseSystems(preds), threadCount) : null;
             ScoreDocument? doc = scorePath is null ? null : ScoreDocumentReader.Read(scorePath);
             AuditSummary? findings = auditPath is null ? null : AuditFindingsReader.Read(auditPath);
             string? benchPath = parseResult.GetValue(bench);

@@ -282,7 +282,7 @@ internal static class ScoreCommand
             using var buffer = new MemoryStream();
             ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
             ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
-            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems);
+            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads);
             ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", null, gallery, DateTimeOffset.UtcNow, CancellationToken.None);
             stderr.WriteLine("score: wrote report " + reportPath);
         }

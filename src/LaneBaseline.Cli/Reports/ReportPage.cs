@@ -12,7 +12,8 @@ namespace LaneBaseline.Cli.Reports;
 /// <param name="FramesDir">Folder the frame keys are relative to.</param>
 /// <param name="TruthPath">Truth lane file.</param>
 /// <param name="Systems">Prediction lane files with their names.</param>
-internal sealed record GalleryRequest(string FramesDir, string TruthPath, IReadOnlyList<ScoredSystem> Systems);
+/// <param name="Threads">Worker threads for the gallery's scoring pass (the page does not depend on it).</param>
+internal sealed record GalleryRequest(string FramesDir, string TruthPath, IReadOnlyList<ScoredSystem> Systems, int Threads = 1);
 
 /// <summary>Builds the whole page in memory (every input checked first) and then writes it atomically.</summary>
 internal static class ReportPage
@@ -48,7 +49,7 @@ internal static class ReportPage
         if (gallery is not null && score is not null)
         {
             ScoreSettings settings = SettingsOf(score);
-            built = WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, cancellationToken);
+            built = WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, gallery.Threads, cancellationToken);
             reportSettings.Add(new("report.frames", gallery.FramesDir));
             reportSettings.Add(new("report.truth", gallery.TruthPath));
             foreach (ScoredSystem s in gallery.Systems)
@@ -57,6 +58,10 @@ internal static class ReportPage
             }
 
             reportSettings.Add(new("report.gallery", built.Selection));
+            if (built.ByTag is { } byTag)
+            {
+                reportSettings.Add(new("report.gallery_by_tag", byTag.Selection));
+            }
         }
 
         var versions = new List<KeyValuePair<string, string>>

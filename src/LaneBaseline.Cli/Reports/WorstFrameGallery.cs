@@ -24,6 +24,12 @@ internal static class WorstFrameGallery
     /// <summary>JPEG quality of the thumbnails.</summary>
     public const int JpegQuality = 80;
 
+    /// <summary>At most this many tags get a group in the per-tag gallery (the first ones in ordinal order, as in the per-tag chart).</summary>
+    public const int MaxTags = 8;
+
+    /// <summary>At most this many thumbnails per tag in the per-tag gallery.</summary>
+    public const int PerTag = 3;
+
     private const int TruthThickness = 5;
     private const int PredictionThickness = 2;
 
@@ -32,9 +38,21 @@ internal static class WorstFrameGallery
         CultureInfo.InvariantCulture,
         $"Up to {PerSystem(systems)} worst frames per system, ranked by frame F1 at IoU 0.50, then frame point accuracy, then file order; frames that score perfectly (F1 1 and point accuracy 1, or no lanes at all) are left out. Caps: at most {MaxThumbnails} thumbnails per report, each at most {MaxWidthPx} px wide, JPEG quality {JpegQuality}.");
 
+    /// <summary>One sentence for the page: how the per-tag gallery chose its frames.</summary>
+    public static string TagSelection(string system) => string.Create(
+        CultureInfo.InvariantCulture,
+        $"For each tag of the truth (in the order of the By tag section, at most {MaxTags} tags), up to {PerTag} worst frames of the first system ({system}) among the frames carrying that tag, ranked as in Worst frames (frame F1 at IoU 0.50, then point accuracy, then file order, perfect frames left out); a frame can appear under several tags.");
+
     public static int PerSystem(int systems) => Math.Max(1, MaxThumbnails / Math.Max(1, systems));
 
-    public static Gallery Build(string framesDir, string truthPath, IReadOnlyList<ScoredSystem> systems, ScoreSettings settings, CancellationToken cancellationToken)
+    /// <summary>Scores every frame (streaming; only small candidates are kept), then draws the chosen frames once each.</summary>
+    /// <param name="framesDir">Folder the frame keys are relative to.</param>
+    /// <param name="truthPath">Truth lane file.</param>
+    /// <param name="systems">Prediction lane files with their names; the per-tag gallery shows the first.</param>
+    /// <param name="settings">Scoring settings of the score run.</param>
+    /// <param name="threads">Worker threads for the scoring pass (the result does not depend on it).</param>
+    /// <param name="cancellationToken">Stops between batches and between thumbnails.</param>
+    public static Gallery Build(string framesDir, string truthPath, IReadOnlyList<ScoredSystem> systems, ScoreSettings settings, int threads, CancellationToken cancellationToken)
     {
         if (!Directory.Exists(framesDir))
         {
@@ -43,10 +61,11 @@ internal static class WorstFrameGallery
 
         int half = settings.HalfIndex;
         var ranked = systems.Select(_ => new List<Candidate>()).ToArray();
+        var byTag = new TagCandidates(MaxTags, PerTag);
         int ordinal = 0;
         var run = new ScoreRun(truthPath, systems, settings)
         {
-            Threads = 1,
+            Threads = Math.Max(1, threads),
             OnFrame = row =>
             {
                 for (int s = 0; s < row.Count; s++)
@@ -54,12 +73,17 @@ internal static class WorstFrameGallery
                     FrameScore f = row[s];
                     int tp = f.TruePositives[half];
                     double f1 = FrameF1(tp, f.PredLanes, f.TruthLanes), acc = f.FramePointAccuracy;
-                    if (f1 >= 1.0 && (double.IsNaN(acc) || acc >= 1.0))
+                    bool perfect = f1 >= 1.0 && (double.IsNaN(acc) || acc >= 1.0); // perfect (or empty) frames teach nothing in a gallery of failures
+                    Candidate? c = perfect ? null : new Candidate(ordinal, f.Frame, f.Tags, tp, f.PredLanes - tp, f.TruthLanes - tp, f1, acc);
+                    if (s == 0)
                     {
-                        continue; // perfect (or empty) frames teach nothing in a gallery of failures
+                        byTag.Add(f.Tags, c);
                     }
 
-                    ranked[s].Add(new Candidate(ordinal, f.Frame, f.Tags, tp, f.PredLanes - tp, f.TruthLanes - tp, f1, acc));
+                    if (c is not null)
+                    {
+                        ranked[s].Add(c);
+                    }
                 }
 
                 ordinal++;
@@ -68,30 +92,62 @@ internal static class WorstFrameGallery
         run.Execute(CreateRasterizer, cancellationToken);
 
         int take = PerSystem(systems.Count);
-        Candidate[][] chosen = [.. ranked.Select(list => list
-            .OrderBy(c => c.F1)
-            .ThenBy(c => double.IsNaN(c.PointAccuracy) ? 1.0 : c.PointAccuracy)
-            .ThenBy(c => c.Ordinal)
-            .Take(take)
-            .ToArray())];
+        Candidate[][] chosen = [.. ranked.Select(list => list.Order(Worst).Take(take).ToArray())];
+        IReadOnlyList<(string Tag, int Frames, IReadOnlyList<Candidate> Worst)> tagGroups = byTag.Groups();
 
-        var wanted = new HashSet<string>(chosen.SelectMany(c => c).Select(c => c.Frame), StringComparer.Ordinal);
+        var wanted = new HashSet<string>(chosen.SelectMany(c => c).Concat(tagGroups.SelectMany(g => g.Worst)).Select(c => c.Frame), StringComparer.Ordinal);
         Dictionary<string, LaneRecord> truth = Load(truthPath, sizeRequired: true, wanted);
         var frames = new List<GalleryFrame>();
+        var drawnFirst = new Dictionary<string, GalleryFrame>(StringComparer.Ordinal); // the first system's thumbnails, drawn once
         for (int s = 0; s < systems.Count; s++)
         {
             Dictionary<string, LaneRecord> pred = Load(systems[s].Path, sizeRequired: false, wanted);
-            foreach (Candidate c in chosen[s])
+            GalleryFrame Thumb(Candidate c)
             {
+                if (s == 0 && drawnFirst.TryGetValue(c.Frame, out GalleryFrame? done))
+                {
+                    return done;
+                }
+
                 cancellationToken.ThrowIfCancellationRequested();
-                LaneRecord t = truth[c.Frame];
-                (byte[] jpeg, int w, int h) = Draw(framesDir, t, pred.GetValueOrDefault(c.Frame));
-                frames.Add(new GalleryFrame(systems[s].Name, c.Frame, c.Tags, c.Tp, c.Fp, c.Fn, c.F1, c.PointAccuracy, jpeg, w, h));
+                (byte[] jpeg, int w, int h) = Draw(framesDir, truth[c.Frame], pred.GetValueOrDefault(c.Frame));
+                var g = new GalleryFrame(systems[s].Name, c.Frame, c.Tags, c.Tp, c.Fp, c.Fn, c.F1, c.PointAccuracy, jpeg, w, h);
+                if (s == 0)
+                {
+                    drawnFirst.Add(c.Frame, g);
+                }
+
+                return g;
+            }
+
+            frames.AddRange(chosen[s].Select(Thumb));
+            if (s == 0)
+            {
+                foreach (Candidate c in tagGroups.SelectMany(g => g.Worst))
+                {
+                    Thumb(c);
+                }
             }
         }
 
-        return new Gallery(frames, Selection(systems.Count));
+        var groups = tagGroups.Select(g => new ConditionGroup(g.Tag, g.Frames, [.. g.Worst.Select(c => drawnFirst[c.Frame])])).ToList();
+        return new Gallery(frames, Selection(systems.Count))
+        {
+            ByTag = new ConditionGallery(systems[0].Name, groups, byTag.LeftOut, TagSelection(systems[0].Name)),
+        };
     }
+
+    /// <summary>The gallery's order: lowest frame F1 first, then lowest point accuracy (none counts as 1), then file order.</summary>
+    private static readonly Comparer<Candidate> Worst = Comparer<Candidate>.Create((a, b) =>
+    {
+        int c = a.F1.CompareTo(b.F1);
+        if (c == 0)
+        {
+            c = (double.IsNaN(a.PointAccuracy) ? 1.0 : a.PointAccuracy).CompareTo(double.IsNaN(b.PointAccuracy) ? 1.0 : b.PointAccuracy);
+        }
+
+        return c != 0 ? c : a.Ordinal.CompareTo(b.Ordinal);
+    });
 
     /// <summary>Frame F1 from counts; 1 for a frame with neither truth nor prediction (metrics specification).</summary>
     internal static double FrameF1(int tp, int pred, int truth) =>
@@ -175,6 +231,63 @@ internal static class WorstFrameGallery
 #pragma warning disable IDISP005 // ScoreRun owns and disposes the rasterizers it creates
     private static ILaneRasterizer CreateRasterizer() => new OpenCvLaneRasterizer();
 #pragma warning restore IDISP005
+
+    /// <summary>
+    /// The per-tag candidates while streaming: the <c>maxTags</c> ordinally first tags seen so far, each with its
+    /// <c>perTag</c> worst imperfect frames and its frame count; later tags are only counted. Memory stays at
+    /// maxTags x perTag candidates whatever the length of the file (plus the distinct tag names, for the count).
+    /// </summary>
+    private sealed class TagCandidates(int maxTags, int perTag)
+    {
+        private readonly SortedDictionary<string, (int Frames, List<Candidate> Worst)> kept = new(StringComparer.Ordinal);
+        private readonly HashSet<string> seen = new(StringComparer.Ordinal);
+
+        /// <summary>Tags seen but not kept, in ordinal order.</summary>
+        public IReadOnlyList<string> LeftOut => [.. seen.Where(t => !kept.ContainsKey(t)).Order(StringComparer.Ordinal)];
+
+        /// <summary>Counts one frame of the first system under each of its tags; <paramref name="candidate"/> is null for a perfect frame.</summary>
+        public void Add(IReadOnlyList<string> tags, Candidate? candidate)
+        {
+            foreach (string tag in tags.Distinct(StringComparer.Ordinal))
+            {
+                if (!kept.TryGetValue(tag, out (int Frames, List<Candidate> Worst) entry))
+                {
+                    if (!seen.Add(tag))
+                    {
+                        continue; // seen before and left out: no ordinally earlier tag can reclaim its place
+                    }
+
+                    if (kept.Count == maxTags)
+                    {
+                        string last = kept.Keys.Last();
+                        if (StringComparer.Ordinal.Compare(tag, last) > 0)
+                        {
+                            continue;
+                        }
+
+                        kept.Remove(last); // a later tag's place goes to this earlier one (its frames start here)
+                    }
+
+                    entry = (0, new List<Candidate>(perTag + 1));
+                }
+
+                if (candidate is not null)
+                {
+                    int at = entry.Worst.BinarySearch(candidate, Worst);
+                    entry.Worst.Insert(at < 0 ? ~at : at, candidate);
+                    if (entry.Worst.Count > perTag)
+                    {
+                        entry.Worst.RemoveAt(perTag);
+                    }
+                }
+
+                kept[tag] = (entry.Frames + 1, entry.Worst);
+            }
+        }
+
+        public IReadOnlyList<(string Tag, int Frames, IReadOnlyList<Candidate> Worst)> Groups() =>
+            [.. kept.Select(kv => (kv.Key, kv.Value.Frames, (IReadOnlyList<Candidate>)kv.Value.Worst))];
+    }
 
     private sealed record Candidate(int Ordinal, string Frame, IReadOnlyList<string> Tags, int Tp, int Fp, int Fn, double F1, double PointAccuracy);
 }
