@@ -86,6 +86,9 @@ public sealed class ReportTagGalleryTests : IDisposable
     //         -> f05, f02, f04 (f02 before f04 by file order; f01 cut by the cap of 3);
     //  rain:  f01 Extra (0.8), f03 Gone (0, 0), f04 Miss (0.667), f07 perfect -> f03, f04, f01;
     //  clear: f06, f07 perfect -> no failures.
+    // Tags are shown worst first by the first system's F1@0.50 over the tag (metrics.md counts summed over frames):
+    //  night TP 2+2+1+1+0 = 6, FP 0+1+0+0+2 = 3, FN 0+0+1+1+2 = 4 -> 12/19 = 0.632; rain TP 5, FP 1, FN 3 -> 10/14 =
+    //  0.714; clear 1 -> night, rain, clear (not the alphabetical clear, night, rain).
     // The second system fails only on f00 and f06 ("Gone"); showing its frames instead would give night: f00, clear: f06.
     private static readonly (string[] Tags, Fault First, Fault Second)[] Conditions =
     [
@@ -135,9 +138,9 @@ public sealed class ReportTagGalleryTests : IDisposable
         string html = Page(Scene(Conditions), "p", threads: 1);
         string section = Section(html);
         Assert.Equal(
-            ["clear:-", "night:c/f05.png:first", "night:c/f02.png:first", "night:c/f04.png:first", "rain:c/f03.png:first", "rain:c/f04.png:first", "rain:c/f01.png:first"],
+            ["night:c/f05.png:first", "night:c/f02.png:first", "night:c/f04.png:first", "rain:c/f03.png:first", "rain:c/f04.png:first", "rain:c/f01.png:first", "clear:-"],
             Shown(section));
-        Assert.Equal(["clear", "night", "rain"], [.. Regex.Matches(section, "<h3 data-tag=\"([^\"]+)\">").Select(m => m.Groups[1].Value)]);
+        Assert.Equal(["night", "rain", "clear"], [.. Regex.Matches(section, "<h3 data-tag=\"([^\"]+)\">").Select(m => m.Groups[1].Value)]);
         Assert.Contains("<h3 data-tag=\"night\">night <span class=\"note\">· 5 frames</span></h3>", section, StringComparison.Ordinal);
         Assert.Contains("No failures: every frame tagged <code>clear</code> scores perfectly.", section, StringComparison.Ordinal);
         Assert.Contains("F1@0.50 0.667 (TP 1, FP 0, FN 1) · point acc. 0.500", section, StringComparison.Ordinal);
@@ -173,7 +176,8 @@ public sealed class ReportTagGalleryTests : IDisposable
     }
 
     // Cap of 8 tags: ten tags t0..t9, met in reverse order in the file (so later, earlier-sorting tags must take the
-    // places of tags met first); t0's only failing frame comes last. Expected: t0..t7 shown, 2 left out, with the
+    // places of tags met first); t0's only failing frame comes last. Every tag has the same F1 (one perfect frame, one
+    // missing a line), so the worst-first order ties everywhere and falls back to tag order. Expected: t0..t7 shown, 2 left out, with the
     // worst frame of each shown tag being its one failing frame.
     [Fact]
     public void TagGallery_MoreThanEightTags_FirstEightShownAndNoteSaysHowManyLeftOut()

@@ -49,7 +49,11 @@ internal static class ReportPage
         if (gallery is not null && score is not null)
         {
             ScoreSettings settings = SettingsOf(score);
-            built = WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, gallery.Threads, cancellationToken);
+            // Tags where the first system does worst come first: the per-tag gallery is for finding failing conditions.
+            SystemResult first = score.Systems.FirstOrDefault(s => s.Name == gallery.Systems[0].Name) ?? score.Systems[0];
+            IReadOnlyList<string>? tagOrder = first.ByTag.Count == 0 ? null
+                : [.. first.ByTag.OrderBy(kv => kv.Value.At("0.50")?.F1 ?? double.PositiveInfinity).ThenBy(kv => kv.Key, StringComparer.Ordinal).Select(kv => kv.Key)];
+            built = WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, gallery.Threads, cancellationToken, tagOrder);
             reportSettings.Add(new("report.frames", gallery.FramesDir));
             reportSettings.Add(new("report.truth", gallery.TruthPath));
             foreach (ScoredSystem s in gallery.Systems)

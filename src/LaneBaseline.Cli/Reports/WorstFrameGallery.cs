@@ -39,9 +39,9 @@ internal static class WorstFrameGallery
         $"Up to {PerSystem(systems)} worst frames per system, ranked by frame F1 at IoU 0.50, then frame point accuracy, then file order; frames that score perfectly (F1 1 and point accuracy 1, or no lanes at all) are left out. Caps: at most {MaxThumbnails} thumbnails per report, each at most {MaxWidthPx} px wide, JPEG quality {JpegQuality}.");
 
     /// <summary>One sentence for the page: how the per-tag gallery chose its frames.</summary>
-    public static string TagSelection(string system) => string.Create(
+    public static string TagSelection(string system, bool worstFirst = false) => string.Create(
         CultureInfo.InvariantCulture,
-        $"For each tag of the truth (in the order of the By tag section, at most {MaxTags} tags), up to {PerTag} worst frames of the first system ({system}) among the frames carrying that tag, ranked as in Worst frames (frame F1 at IoU 0.50, then point accuracy, then file order, perfect frames left out); a frame can appear under several tags.");
+        $"For each tag of the truth ({(worstFirst ? $"the {MaxTags} tags where {system} scores the lowest F1 at IoU 0.50, worst first" : $"in the order of the By tag section, at most {MaxTags} tags")}), up to {PerTag} worst frames of the first system ({system}) among the frames carrying that tag, ranked as in Worst frames (frame F1 at IoU 0.50, then point accuracy, then file order, perfect frames left out); a frame can appear under several tags.");
 
     public static int PerSystem(int systems) => Math.Max(1, MaxThumbnails / Math.Max(1, systems));
 
@@ -52,7 +52,8 @@ internal static class WorstFrameGallery
     /// <param name="settings">Scoring settings of the score run.</param>
     /// <param name="threads">Worker threads for the scoring pass (the result does not depend on it).</param>
     /// <param name="cancellationToken">Stops between batches and between thumbnails.</param>
-    public static Gallery Build(string framesDir, string truthPath, IReadOnlyList<ScoredSystem> systems, ScoreSettings settings, int threads, CancellationToken cancellationToken)
+    /// <param name="tagPriority">Tags in the order the per-tag gallery should show them (worst first), or null for ordinal order.</param>
+    public static Gallery Build(string framesDir, string truthPath, IReadOnlyList<ScoredSystem> systems, ScoreSettings settings, int threads, CancellationToken cancellationToken, IReadOnlyList<string>? tagPriority = null)
     {
         if (!Directory.Exists(framesDir))
         {
@@ -61,7 +62,7 @@ internal static class WorstFrameGallery
 
         int half = settings.HalfIndex;
         var ranked = systems.Select(_ => new List<Candidate>()).ToArray();
-        var byTag = new TagCandidates(MaxTags, PerTag);
+        var byTag = new TagCandidates(MaxTags, PerTag, tagPriority);
         int ordinal = 0;
         var run = new ScoreRun(truthPath, systems, settings)
         {
@@ -133,7 +134,7 @@ internal static class WorstFrameGallery
         var groups = tagGroups.Select(g => new ConditionGroup(g.Tag, g.Frames, [.. g.Worst.Select(c => drawnFirst[c.Frame])])).ToList();
         return new Gallery(frames, Selection(systems.Count))
         {
-            ByTag = new ConditionGallery(systems[0].Name, groups, byTag.LeftOut, TagSelection(systems[0].Name)),
+            ByTag = new ConditionGallery(systems[0].Name, groups, byTag.LeftOut, TagSelection(systems[0].Name, tagPriority is not null)),
         };
     }
 
@@ -237,13 +238,29 @@ internal static class WorstFrameGallery
     /// <c>perTag</c> worst imperfect frames and its frame count; later tags are only counted. Memory stays at
     /// maxTags x perTag candidates whatever the length of the file (plus the distinct tag names, for the count).
     /// </summary>
-    private sealed class TagCandidates(int maxTags, int perTag)
+    /// With a <c>priority</c> list, exactly its first <c>maxTags</c> tags are kept and shown in its order.
+    private sealed class TagCandidates(int maxTags, int perTag, IReadOnlyList<string>? priority)
     {
         private readonly SortedDictionary<string, (int Frames, List<Candidate> Worst)> kept = new(StringComparer.Ordinal);
         private readonly HashSet<string> seen = new(StringComparer.Ordinal);
+        private readonly Dictionary<string, int>? wanted = priority?.Distinct(StringComparer.Ordinal).Take(maxTags)
+            .Select((t, i) => (t, i)).ToDictionary(x => x.t, x => x.i, StringComparer.Ordinal);
 
-        /// <summary>Tags seen but not kept, in ordinal order.</summary>
-        public IReadOnlyList<string> LeftOut => [.. seen.Where(t => !kept.ContainsKey(t)).Order(StringComparer.Ordinal)];
+        /// <summary>Tags seen but not kept: in priority order when there is one, else ordinal.</summary>
+        public IReadOnlyList<string> LeftOut => [.. seen.Where(t => !kept.ContainsKey(t)).OrderBy(t => priority is null ? 0 : Rank(t)).ThenBy(t => t, StringComparer.Ordinal)];
+
+        private int Rank(string tag)
+        {
+            for (int i = 0; i < priority!.Count; i++)
+            {
+                if (priority[i] == tag)
+                {
+                    return i;
+                }
+            }
+
+            return int.MaxValue;
+        }
 
         /// <summary>Counts one frame of the first system under each of its tags; <paramref name="candidate"/> is null for a perfect frame.</summary>
         public void Add(IReadOnlyList<string> tags, Candidate? candidate)
@@ -257,7 +274,14 @@ internal static class WorstFrameGallery
                         continue; // seen before and left out: no ordinally earlier tag can reclaim its place
                     }
 
-                    if (kept.Count == maxTags)
+                    if (wanted is not null)
+                    {
+                        if (!wanted.ContainsKey(tag))
+                        {
+                            continue;
+                        }
+                    }
+                    else if (kept.Count == maxTags)
                     {
                         string last = kept.Keys.Last();
                         if (StringComparer.Ordinal.Compare(tag, last) > 0)
@@ -286,7 +310,7 @@ internal static class WorstFrameGallery
         }
 
         public IReadOnlyList<(string Tag, int Frames, IReadOnlyList<Candidate> Worst)> Groups() =>
-            [.. kept.Select(kv => (kv.Key, kv.Value.Frames, (IReadOnlyList<Candidate>)kv.Value.Worst))];
+            [.. kept.OrderBy(kv => wanted?[kv.Key] ?? 0).Select(kv => (kv.Key, kv.Value.Frames, (IReadOnlyList<Candidate>)kv.Value.Worst))];
     }
 
     private sealed record Candidate(int Ordinal, string Frame, IReadOnlyList<string> Tags, int Tp, int Fp, int Fn, double F1, double PointAccuracy);
