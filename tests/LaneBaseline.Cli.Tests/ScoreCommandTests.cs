@@ -131,7 +131,6 @@ public sealed class ScoreCommandTests : IDisposable
         { "not-in-truth", "{\"frame\":\"zzz.png\",\"lanes\":[]}", "p.lanes.jsonl:1: frame: frame 'zzz.png' is not in the truth file" },
         { "size-mismatch", "{\"frame\":\"a.png\",\"width\":1280,\"height\":590,\"lanes\":[]}", "p.lanes.jsonl:1: width: prediction width 1280 differs" },
         { "out-of-range", "{\"frame\":\"a.png\",\"lanes\":[{\"points\":[[1,2],[5000,3]]}]}", "p.lanes.jsonl:1: lanes[0].points[1]: point (5000, 3) is outside" },
-        { "empty", string.Empty, "p.lanes.jsonl: the prediction file holds no records" },
     };
 
     // Source: CLI contract: bad input exits 3 with a message naming file, line and key, and no partial --json/--csv.
@@ -149,6 +148,25 @@ public sealed class ScoreCommandTests : IDisposable
         Assert.False(File.Exists(json));
         Assert.False(File.Exists(csv));
         Assert.Empty(Directory.GetFiles(dir.Path, "*.tmp"));
+    }
+
+    // Source: metrics.md, "A frame missing from the predictions predicts no lanes": a prediction file with no records
+    // scores every frame as empty (TP 0, all truth lanes missed), with a note, rather than failing.
+    [Fact]
+    public void Score_EmptyPredictionFile_ScoresNoLanes_WithANote()
+    {
+        (string truth, _) = WriteHandSet();
+        string pred = dir.File("empty.lanes.jsonl"), json = dir.File("empty.json");
+        File.WriteAllText(pred, string.Empty);
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", json, "--bootstrap", "0");
+        Assert.True(exit == 0, err);
+        Assert.Contains("note: " + pred + ": the prediction file holds no records", err, StringComparison.Ordinal);
+        using var doc = System.Text.Json.JsonDocument.Parse(File.ReadAllText(json));
+        System.Text.Json.JsonElement half = doc.RootElement.GetProperty("iou_f1").GetProperty("thresholds").GetProperty("0.50");
+        Assert.Equal(0, half.GetProperty("tp").GetInt32());
+        Assert.Equal(0, half.GetProperty("fp").GetInt32());
+        Assert.True(half.GetProperty("fn").GetInt32() > 0);
+        Assert.Equal(0, half.GetProperty("f1").GetDouble());
     }
 
     [Fact]

@@ -273,7 +273,7 @@ internal sealed class BenchRunner
     private void RunWorker(int[] part, Mat[] frames, WorkerRecord record, Barrier ready)
     {
         using var pipeline = new LanePipeline(request.Options) { MeasureStages = true };
-        using var floor = new FloorPrimitives();
+        using var floor = new FloorPrimitives(request.Options.Limits.WorkingWidthPx);
         if (part.Length > 0)
         {
             for (int k = 0; k < request.Warmup; k++)

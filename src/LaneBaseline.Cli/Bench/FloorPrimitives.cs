@@ -6,17 +6,22 @@ namespace LaneBaseline.Cli.Bench;
 /// <summary>
 /// The "floor" the pipeline's cost is compared with: the bare OpenCV primitives a bird's-eye colour pipeline cannot
 /// avoid, run on the whole frame with no logic around them: converting the full frame to HLS (the colour space of
-/// the paint thresholds) and warping the full frame with a perspective transform (the bird's-eye view). One instance
-/// per worker; its buffers are reused for every frame.
+/// the paint thresholds) and warping the full frame with a perspective transform (the bird's-eye view). Frames
+/// narrower than the pipeline's working width (<c>limits.workingWidthPx</c>) are measured at that width, as the
+/// pipeline processes them (the enlargement itself is not timed here; the pipeline shows it as its resize stage).
+/// One instance per worker; its buffers are reused for every frame.
 /// </summary>
 internal sealed class FloorPrimitives : IDisposable
 {
     private readonly Mat hls = new Mat();
     private readonly Mat warped = new Mat();
     private readonly Mat transform = new Mat(3, 3, MatType.CV_64FC1, Scalar.All(0));
+    private readonly Mat enlarged = new Mat();
+    private readonly int workingWidth;
 
-    public FloorPrimitives()
+    public FloorPrimitives(int workingWidth = 0)
     {
+        this.workingWidth = workingWidth;
         // A mild keystone homography (any non-affine transform costs the same per output pixel).
         transform.Set(0, 0, 1.0);
         transform.Set(0, 1, 0.2);
@@ -32,6 +37,13 @@ internal sealed class FloorPrimitives : IDisposable
     public (double Hls, double Warp) Measure(Mat frame)
     {
         ArgumentNullException.ThrowIfNull(frame);
+        if (workingWidth > 0 && frame.Cols < workingWidth)
+        {
+            double scale = Math.Min(Vision.Pipeline.LanePipeline.MaxEnlargement, (double)workingWidth / frame.Cols);
+            Cv2.Resize(frame, enlarged, new Size((int)Math.Round(frame.Cols * scale), (int)Math.Round(frame.Rows * scale)), 0, 0, InterpolationFlags.Linear);
+            frame = enlarged;
+        }
+
         long t0 = Stopwatch.GetTimestamp();
         Cv2.CvtColor(frame, hls, ColorConversionCodes.BGR2HLS);
         double a = Stopwatch.GetElapsedTime(t0).TotalMilliseconds;
@@ -45,6 +57,7 @@ internal sealed class FloorPrimitives : IDisposable
     {
         hls.Dispose();
         warped.Dispose();
+        enlarged.Dispose();
         transform.Dispose();
     }
 }

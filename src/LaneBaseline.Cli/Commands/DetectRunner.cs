@@ -397,7 +397,8 @@ internal sealed class DetectRunner
             var points = new LanePoint[e.PointCount];
             for (int k = 0; k < e.PointCount; k++)
             {
-                points[k] = new LanePoint(Math.Round(pts[2 * k], 2), Math.Round(pts[(2 * k) + 1], 2));
+                (double x, double y) = ws.ToFramePixels(pts[2 * k], pts[(2 * k) + 1]); // working pixels -> the frame's own
+                points[k] = new LanePoint(Math.Round(x, 2), Math.Round(y, 2));
             }
 
             lanes[i] = new Lane { Points = points, Slot = e.Slot, Score = Math.Round(Math.Clamp(e.Score, 0, 1), 4), Kind = e.Kind };
@@ -413,6 +414,12 @@ internal sealed class DetectRunner
         {
             using var canvas = ws.Frame.Clone();
             OverlayRenderer.Draw(ws, canvas);
+            if (ws.Scale != 1)
+            {
+                // drawn at the working size, saved at the frame's own size like every other output
+                Cv2.Resize(canvas, canvas, new Size(ws.FrameWidth, ws.FrameHeight), 0, 0, InterpolationFlags.Area);
+            }
+
             Save(Path.Combine(dir, Path.ChangeExtension(stem, ".png")), canvas);
         }
 

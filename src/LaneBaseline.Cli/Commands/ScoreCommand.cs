@@ -217,6 +217,7 @@ internal static class ScoreCommand
         int halfIndex = request.Settings.HalfIndex;
         var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
         {
+            OnNote = message => stderr.WriteLine("note: " + message),
             Threads = request.Threads,
             Shard = shard,
             Opener = LaneInputs.Opener(masks.Size, masks.MinRows, stderr),
@@ -319,6 +320,7 @@ internal static class ScoreCommand
         {
             var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
             {
+                OnNote = message => stderr.WriteLine("note: " + message),
                 Threads = request.Threads,
                 Shard = shard,
                 Opener = LaneInputs.Opener(masks.Size, masks.MinRows, stderr),

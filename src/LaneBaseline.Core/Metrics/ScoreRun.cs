@@ -71,6 +71,9 @@ public sealed class ScoreRun
     /// <summary>Called once every input has been validated, with the number of truth frames, before any frame is scored.</summary>
     public Action<int>? OnValidated { get; init; }
 
+    /// <summary>Receives one-line notes about the inputs that are not errors (e.g. a prediction file with no records).</summary>
+    public Action<string>? OnNote { get; init; }
+
     /// <summary>Called with a progress line now and then.</summary>
     public Action<long, long>? OnProgress { get; init; }
 
@@ -117,7 +120,7 @@ public sealed class ScoreRun
         var predicted = new HashSet<int>[systems.Count];
         for (int s = 0; s < systems.Count; s++)
         {
-            predicted[s] = ValidatePredictions(Opener, predRequest, systems[s].Path, truthIndex, sizes);
+            predicted[s] = ValidatePredictions(Opener, predRequest, systems[s].Path, truthIndex, sizes, OnNote);
         }
 
         OnValidated?.Invoke(truthIndex.Count);
@@ -269,7 +272,7 @@ public sealed class ScoreRun
     }
 
     private static HashSet<int> ValidatePredictions(
-        LaneSourceOpener opener, LaneSourceRequest request, string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes)
+        LaneSourceOpener opener, LaneSourceRequest request, string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes, Action<string>? note)
     {
         var present = new HashSet<int>();
         using ILaneRecordSource reader = opener(path, request);
@@ -301,7 +304,9 @@ public sealed class ScoreRun
 
         if (reader.RecordCount == 0)
         {
-            throw BadInputException.At(path, 0, null, "the prediction file holds no records");
+            // metrics.md: a frame missing from the predictions predicts no lanes, so a system that output nothing
+            // scores (F1 0), it is not bad input; the note says so in case the file is a failed upstream run.
+            note?.Invoke(path + ": the prediction file holds no records: every frame is scored as predicting no lanes");
         }
 
         return present;

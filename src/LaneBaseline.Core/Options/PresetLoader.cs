@@ -41,9 +41,9 @@ public static class PresetLoader
             string reason = ex.InnerException?.Message ?? ex.Message;
             throw BadInputException.At(file, ex.Start.Line, null, reason);
         }
-        catch (InvalidOperationException)
+        catch (Exception ex) when (ex is InvalidOperationException or ArgumentException)
         {
-            // YamlDotNet's scanner throws this on some malformed plain scalars (found by fuzzing).
+            // YamlDotNet's scanner and loader throw these on some malformed input (found by fuzzing).
             throw BadInputException.At(file, 0, null, "invalid YAML");
         }
 

@@ -46,9 +46,9 @@ public sealed class SearchSpace
         {
             throw BadInputException.At(fileName, ex.Start.Line, null, "invalid YAML: " + (ex.InnerException?.Message ?? ex.Message));
         }
-        catch (InvalidOperationException)
+        catch (Exception ex) when (ex is InvalidOperationException or ArgumentException)
         {
-            // YamlDotNet's scanner throws this on some malformed plain scalars (found by fuzzing).
+            // YamlDotNet's scanner and loader throw these on some malformed input (found by fuzzing).
             throw BadInputException.At(fileName, 0, null, "invalid YAML");
         }
 

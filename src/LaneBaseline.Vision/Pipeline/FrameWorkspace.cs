@@ -71,10 +71,29 @@ public sealed class FrameWorkspace : IDisposable
         FitBest = new bool[MaxWindows];
     }
 
-    /// <summary>Frame width in pixels.</summary>
+    /// <summary>Working width in pixels (the frame's own width unless <c>limits.workingWidthPx</c> enlarged it).</summary>
     public int Width { get; }
 
-    /// <summary>Frame height in pixels.</summary>
+    /// <summary>
+    /// Working pixels per frame pixel (1 unless the frame was enlarged to <c>limits.workingWidthPx</c>). Every position
+    /// in the workspace is in working pixels; divide by this for the frame's own pixels.
+    /// </summary>
+    public double Scale { get; internal set; } = 1;
+
+    /// <summary>Width of the caller's frames, in their own pixels.</summary>
+    public int FrameWidth { get; internal set; }
+
+    /// <summary>Height of the caller's frames, in their own pixels.</summary>
+    public int FrameHeight { get; internal set; }
+
+    /// <summary>
+    /// A working-pixel position in the frame's own pixels: pixel centres map to pixel centres ((x + 0.5) / scale − 0.5,
+    /// as the bilinear enlargement samples), clamped to the frame.
+    /// </summary>
+    public (double X, double Y) ToFramePixels(double x, double y) => Scale == 1 ? (x, y)
+        : (Math.Clamp(((x + 0.5) / Scale) - 0.5, 0, FrameWidth - 1), Math.Clamp(((y + 0.5) / Scale) - 0.5, 0, FrameHeight - 1));
+
+    /// <summary>Working height in pixels.</summary>
     public int Height { get; }
 
     /// <summary>Bird's-eye width in pixels.</summary>
@@ -86,7 +105,7 @@ public sealed class FrameWorkspace : IDisposable
     /// <summary>First image row of the Hough search band.</summary>
     public int BandTop { get; }
 
-    /// <summary>The current input frame (8-bit BGR), borrowed from the caller for one <c>Process</c> call.</summary>
+    /// <summary>The current frame at the working size (8-bit BGR): the caller's frame, or the pipeline's enlarged copy; borrowed for one <c>Process</c> call.</summary>
     public Mat Frame { get; internal set; } = null!;
 
     /// <summary>Timestamp of the current frame, in seconds.</summary>

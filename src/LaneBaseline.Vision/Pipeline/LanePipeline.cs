@@ -9,11 +9,15 @@ namespace LaneBaseline.Vision.Pipeline;
 /// <summary>
 /// The classical lane pipeline for one stream of frames: owns its stages and its <see cref="FrameWorkspace"/>,
 /// builds them for the first frame's size (and again only if the size changes), and runs them in the fixed order
-/// gradient → hough → region → color → warp → search (→ track, when tracking is on). Not thread-safe: use one
+/// (resize, for frames narrower than <c>limits.workingWidthPx</c>) → gradient → hough → region → color → warp →
+/// search (→ track, when tracking is on). Not thread-safe: use one
 /// pipeline per worker.
 /// </summary>
 public sealed class LanePipeline : IDisposable
 {
+    /// <summary>Frames narrower than the working width are enlarged by at most this factor.</summary>
+    public const double MaxEnlargement = 4;
+
     private readonly PipelineOptions options;
     private readonly List<IFrameStage> stages = [];
     private readonly (double X, double Y)? cameraVanishingPoint;
@@ -51,7 +55,8 @@ public sealed class LanePipeline : IDisposable
     /// <summary>Processes one 8-bit BGR frame (borrowed for the call).</summary>
     /// <param name="frame">Frame, 8-bit, 3 channels (BGR).</param>
     /// <param name="timestampSeconds">Frame time in seconds (drives tracking; ignored for stills).</param>
-    /// <returns>The frame summary; lanes are read with <see cref="FrameWorkspace.GetLane"/> until the next call.</returns>
+    /// <returns>The frame summary (vanishing point in the frame's own pixels); lanes are read with
+    /// <see cref="FrameWorkspace.GetLane"/> until the next call, in working pixels (divide by <see cref="FrameWorkspace.Scale"/>).</returns>
     public FrameResult Process(Mat frame, double timestampSeconds)
     {
         ArgumentNullException.ThrowIfNull(frame);
@@ -61,13 +66,19 @@ public sealed class LanePipeline : IDisposable
         }
 
         int w = frame.Cols, h = frame.Rows;
-        if (workspace is null || workspace.Width != w || workspace.Height != h)
+        int target = options.Limits.WorkingWidthPx;
+        double scale = target > 0 && w < target ? Math.Min(MaxEnlargement, (double)target / w) : 1;
+        int ww = scale == 1 ? w : (int)Math.Round(w * scale), wh = scale == 1 ? h : (int)Math.Round(h * scale);
+        if (workspace is null || workspace.Width != ww || workspace.Height != wh || workspace.FrameWidth != w || workspace.FrameHeight != h)
         {
-            Build(w, h);
+            Build(ww, wh, scale);
+            workspace!.FrameWidth = w;
+            workspace.FrameHeight = h;
         }
 
         FrameWorkspace ws = workspace!;
-        ws.Frame = frame;
+        ws.Frame = frame; // the resize stage, when present, points it at its enlarged copy
+
         ws.TimestampSeconds = timestampSeconds;
         if (MeasureStages)
         {
@@ -86,7 +97,8 @@ public sealed class LanePipeline : IDisposable
             }
         }
 
-        return new FrameResult(ws.LaneCount, ws.VanishingX, ws.VanishingY, ws.VanishingSource);
+        (double vx, double vy) = ws.Scale == 1 ? (ws.VanishingX, ws.VanishingY) : (((ws.VanishingX + 0.5) / ws.Scale) - 0.5, ((ws.VanishingY + 0.5) / ws.Scale) - 0.5);
+        return new FrameResult(ws.LaneCount, vx, vy, ws.VanishingSource);
     }
 
     /// <summary>Starts a new sequence: forgets tracks and the smoothed vanishing point (frames that follow are unrelated).</summary>
@@ -104,15 +116,21 @@ public sealed class LanePipeline : IDisposable
         }
     }
 
-    private void Build(int width, int height)
+    private void Build(int width, int height, double scale)
     {
         DisposeStages();
         workspace?.Dispose();
         int bandTop = Math.Clamp((int)Math.Round(options.Region.SearchTopFraction * height), 0, height - 2);
-        workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale);
+        workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale) { Scale = scale };
+        (double X, double Y)? vanishing = cameraVanishingPoint is (double vx, double vy) ? (((vx + 0.5) * scale) - 0.5, ((vy + 0.5) * scale) - 0.5) : null;
+        if (scale != 1)
+        {
+            stages.Add(new ResizeStage());
+        }
+
         stages.Add(new GradientStage(options.Gradient));
         stages.Add(new HoughStage(options.Hough));
-        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, cameraVanishingPoint));
+        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, vanishing));
         stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
         stages.Add(new BirdsEyeWarpStage());
         stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));

@@ -18,7 +18,7 @@ public sealed class ReaderFuzzTests
     public void PresetParser_MutatedDefaultPreset_OnlyBadInput()
     {
         byte[] valid = Encoding.UTF8.GetBytes(KnownPresets.GetText("default"));
-        Mutations.Of(valid).Sample(bytes => Expect("preset.yaml", () => PresetLoader.Parse(Encoding.UTF8.GetString(bytes), "preset.yaml")), iter: 2000);
+        Mutations.Of(valid).Sample(bytes => Expect("preset.yaml", () => PresetLoader.Parse(Encoding.UTF8.GetString(bytes), "preset.yaml")), iter: 3000);
     }
 
     [Fact]

@@ -47,7 +47,7 @@ public sealed class LanePipelineTests
         {
             LaneEstimate lane = ws.GetLane(i);
             double y0 = SyntheticRoad.Boundaries.Single(b => b.Slot == lane.Slot).Y;
-            double dev = MaxDeviation(ws.GetLanePoints(i), road.Truth(y0), out int compared);
+            double dev = MaxDeviation(FramePoints(ws, i), road.Truth(y0), out int compared);
             Assert.True(compared >= (Math.Abs(lane.Slot) == 1 ? 4 : 2), $"slot {lane.Slot}: only {compared} points overlap the truth");
             Assert.True(dev <= tolerancePx, $"slot {lane.Slot}: {dev:0.0} px from the drawn line (allowed {tolerancePx})");
         }
@@ -169,7 +169,7 @@ public sealed class LanePipelineTests
             for (int i = 0; i < ws.LaneCount; i++)
             {
                 LaneEstimate lane = ws.GetLane(i);
-                ReadOnlySpan<double> p = ws.GetLanePoints(i);
+                ReadOnlySpan<double> p = FramePoints(ws, i);
                 Assert.True(lane.PointCount >= 2);
                 Assert.InRange(lane.Score, 0, 1);
                 Assert.Contains(lane.Slot, new[] { -2, -1, 1, 2 });
@@ -241,5 +241,18 @@ public sealed class LanePipelineTests
         pipeline.Process(a, 2);
         LaneEstimate[] again = Enumerable.Range(0, pipeline.Workspace!.LaneCount).Select(pipeline.Workspace.GetLane).ToArray();
         Assert.Equal(first, again);
+    }
+
+    // Lane points in the frame's own pixels: the workspace holds them at the working size (limits.workingWidthPx
+    // enlarges these 640-wide test frames to 1280), so map them back as detect does when writing lane files.
+    private static double[] FramePoints(FrameWorkspace ws, int i)
+    {
+        double[] p = ws.GetLanePoints(i).ToArray();
+        for (int k = 0; k + 1 < p.Length; k += 2)
+        {
+            (p[k], p[k + 1]) = ws.ToFramePixels(p[k], p[k + 1]);
+        }
+
+        return p;
     }
 }
