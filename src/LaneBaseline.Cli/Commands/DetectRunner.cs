@@ -137,7 +137,7 @@ internal sealed class DetectRunner
             workers[t] = Task.Run(() =>
             {
                 using var pipeline = new LanePipeline(request.Options, CameraVanishingPoint()) { MeasureStages = request.Timings };
-                using var primitives = request.Timings ? new FloorPrimitives() : null;
+                using var primitives = request.Timings ? new FloorPrimitives(request.Options.Limits.WorkingWidthPx) : null;
                 string? sequence = null;
                 try
                 {
