@@ -17,10 +17,10 @@ internal static class MergeCommand
 {
     public static Command Create()
     {
-        Argument<string[]> inputs = new("inputs") { Description = "State files of every shard, or lane files of every shard.", Arity = ArgumentArity.OneOrMore };
-        Option<string> output = new("--output", "-o") { Description = "Merged score JSON (for states) or lane file (for lane files).", Required = true };
-        Option<string?> csv = new("--csv") { Description = "States only: also write the per-frame CSV." };
-        Option<double?> minF1 = new("--min-f1") { Description = "States only: quality gate, exit 4 when F1@0.50 is below this." };
+        Argument<string[]> inputs = new("inputs") { Description = "Score states, audit states or lane files of every shard (one kind).", Arity = ArgumentArity.OneOrMore };
+        Option<string> output = new("--output", "-o") { Description = "Merged score JSON (score states), findings file (audit states) or lane file (lane files).", Required = true };
+        Option<string?> csv = new("--csv") { Description = "Score states only: also write the per-frame CSV." };
+        Option<double?> minF1 = new("--min-f1") { Description = "Score states only: quality gate, exit 4 when F1@0.50 is below this." };
         Option<int> threads = new("--threads") { Description = "Threads for the bootstrap (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
         Option<int> mine = new("--mine") { Description = "Audit states only: also write the N frames most worth labelling to OUT.mine.txt.", DefaultValueFactory = _ => 0 };
         Option<int> overlays = new("--overlays") { Description = "Audit states only: draw the N worst frames to OUT.overlays/ (reads the predictions named in the states).", DefaultValueFactory = _ => 0 };
