@@ -46,14 +46,7 @@ internal static class AuditCommand
         };
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
-            string gate = parseResult.GetValue(failOn)!.ToLowerInvariant();
-            AuditSeverity? gateSeverity = gate switch
-            {
-                "none" => null,
-                "warning" => AuditSeverity.Warning,
-                "error" => AuditSeverity.Error,
-                _ => throw new UsageException("--fail-on must be none, warning or error"),
-            };
+            AuditSeverity? gateSeverity = ParseGate(parseResult.GetValue(failOn)!);
             int threadCount = parseResult.GetValue(threads);
             if (threadCount < 1)
             {
@@ -156,6 +149,15 @@ internal static class AuditCommand
         new("fps", settings.FramesPerSecond.ToString("R", CultureInfo.InvariantCulture)),
         new("min_mask_rows", minMaskRows.ToString(CultureInfo.InvariantCulture)),
     ];
+
+    /// <summary>The <c>--fail-on</c> value: none (null), warning or error.</summary>
+    internal static AuditSeverity? ParseGate(string text) => text.ToLowerInvariant() switch
+    {
+        "none" => null,
+        "warning" => AuditSeverity.Warning,
+        "error" => AuditSeverity.Error,
+        _ => throw new UsageException("--fail-on must be none, warning or error"),
+    };
 
     private static ShardSpec? ParseShard(string? text)
     {

@@ -140,13 +140,7 @@ internal static class MergeCommand
         string? generatedAt,
         CancellationToken cancellationToken)
     {
-        AuditSeverity? gate = failOn.ToLowerInvariant() switch
-        {
-            "none" => null,
-            "warning" => AuditSeverity.Warning,
-            "error" => AuditSeverity.Error,
-            _ => throw new UsageException("--fail-on must be none, warning or error"),
-        };
+        AuditSeverity? gate = AuditCommand.ParseGate(failOn);
         if (mine < 0 || overlays < 0)
         {
             throw new UsageException("--overlays and --mine must be 0 or more");
