@@ -164,7 +164,8 @@ internal static partial class Charts
     {
         ArgumentNullException.ThrowIfNull(runs);
         using var plot = NewPlot();
-        string[] stages = [.. runs.SelectMany(r => r.Stages.Select(s => s.Stage)).Distinct()];
+        // Pipeline order: the run with the most stages first (a run on enlarged frames has the resize stage in front).
+        string[] stages = [.. runs.OrderByDescending(r => r.Stages.Count).SelectMany(r => r.Stages.Select(s => s.Stage)).Distinct()];
         double width = 0.8 / Math.Max(1, runs.Count);
         var bars = new List<Bar>();
         for (int k = 0; k < runs.Count; k++)
