@@ -37,6 +37,32 @@ public sealed class ScoreMaskTests : IDisposable
         Assert.Equal(1.0, doc.RootElement.GetProperty("point_accuracy").GetProperty("accuracy").GetDouble());
     }
 
+    // Merge contract (docs/scaling.md): merged shards equal the unsharded output; partial states do not carry mask
+    // IoU, so --partial with mask folders on both sides is refused instead of merging to a different file.
+    [Fact]
+    public void Partial_WithMaskFoldersOnBothSides_IsAUsageError()
+    {
+        string truth = WriteTruth(), tm = dir.File("tm"), pm = dir.File("pm");
+        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", tm).Exit);
+        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", pm).Exit);
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", tm, "--pred", pm, "--shard", "0/2", "--partial", dir.File("s.state"));
+        Assert.Equal(2, exit);
+        Assert.Contains("partial states do not carry mask IoU", err, StringComparison.Ordinal);
+        Assert.False(File.Exists(dir.File("s.state")));
+        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", pm, "--shard", "0/2", "--partial", dir.File("l.state")).Exit); // lane-file truth: no mask IoU, allowed
+    }
+
+    // Two frame keys with one mask path ('a.jpg', 'a.png' -> a.png) would overwrite each other: bad input naming both.
+    [Fact]
+    public void Convert_TwoFramesToOneMaskPath_Exits3NamingBoth()
+    {
+        string lanes = dir.File("clash.lanes.jsonl");
+        Lanes.WriteFile(lanes, [Lanes.Truth("a.jpg", 64, 48, Lanes.Vertical(10, 48)), Lanes.Truth("a.png", 64, 48)]);
+        (int exit, _, string err) = CliRunner.Run("convert", lanes, "-o", dir.File("cm"));
+        Assert.Equal(3, exit);
+        Assert.Contains("clash.lanes.jsonl:2: frame: frame 'a.png' maps to the same mask a.png as frame 'a.jpg' (line 1)", err, StringComparison.Ordinal);
+    }
+
     [Fact]
     public void BothMasks_ReportMeanMaskIou_AndPerLaneCsv()
     {
@@ -48,6 +74,7 @@ public sealed class ScoreMaskTests : IDisposable
         Assert.Contains("mean IoU 1.0000 over 3 truth lanes", stdout, StringComparison.Ordinal);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
         Assert.Equal(1.0, doc.RootElement.GetProperty("mask_iou").GetProperty("mean_iou").GetDouble());
+        Assert.Matches("\"mean_iou\": ?1\\.0\\b", File.ReadAllText(json)); // metrics.md: metrics are floats (1.0, not 1)
         string[] rows = File.ReadAllLines(csv);
         Assert.Equal("frame,truth_id,pred_id,iou", rows[0]);
         Assert.Equal("a.png,1,1,1", rows[1]);

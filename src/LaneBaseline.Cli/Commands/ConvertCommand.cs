@@ -128,9 +128,17 @@ internal static class ConvertCommand
                     }
 
                     Directory.CreateDirectory(outPath);
+                    var written = new Dictionary<string, (string Frame, long Line)>(StringComparer.Ordinal); // mask path -> first frame
                     while (source.TryRead(out LaneRecord r))
                     {
                         cancellationToken.ThrowIfCancellationRequested();
+                        string maskKey = MaskFiles.MaskKeyFor(r.Frame);
+                        if (!written.TryAdd(maskKey, (r.Frame, r.LineNumber)))
+                        {
+                            (string first, long line) = written[maskKey];
+                            throw BadInputException.At(source.DisplayName, r.LineNumber, "frame", $"frame '{r.Frame}' maps to the same mask {maskKey} as frame '{first}' (line {line}); mask folders need one image per frame name without its extension");
+                        }
+
                         LaneRecord sized = WithSize(r, reference, size);
                         if (sized.Width is not int w || sized.Height is not int h)
                         {
@@ -139,7 +147,7 @@ internal static class ConvertCommand
 
                         int lw = maskWidth ?? new ScoreSettings().LaneWidthFor(w);
                         using Mat mask = LaneMaskPainter.Paint(sized.Lanes, w, h, lw);
-                        MaskFiles.Write(Path.Combine(outPath, MaskFiles.MaskKeyFor(r.Frame)), mask);
+                        MaskFiles.Write(Path.Combine(outPath, maskKey), mask);
                         frames++;
                         lanes += r.Lanes.Count;
                     }

@@ -131,6 +131,13 @@ internal static class ScoreCommand
                 throw new UsageException("--mask-iou-csv is not supported with --partial; score masks unsharded");
             }
 
+            if (partialPath is not null && LaneInputs.IsMaskFolder(request.TruthPath) && request.Systems.All(s => LaneInputs.IsMaskFolder(s.Path)))
+            {
+                // An unsharded run of mask folders adds mask IoU, which partial states do not carry, so a merge could
+                // not write the same file: refuse rather than merge to something else.
+                throw new UsageException("--partial with mask folders on both sides: partial states do not carry mask IoU; score mask folders unsharded, or convert them to lane files (lanebaseline convert) and shard those");
+            }
+
             return partialPath is null
                 ? Execute(stdout, stderr, request, shardSpec, masks, cancellationToken)
                 : WritePartial(stderr, request, shardSpec ?? new ShardSpec(0, 1), partialPath, masks, cancellationToken);
@@ -381,7 +388,9 @@ internal static class ScoreCommand
         w.WriteNumber("truth_lanes", m.TruthLanes);
         w.WriteNumber("pred_lanes", m.PredLanes);
         w.WriteNumber("assigned", m.Matched);
-        w.WriteNumber("mean_iou", m.MeanIou);
+        // a float at full precision like every other metric (1.0, not 1)
+        w.WritePropertyName("mean_iou");
+        w.WriteRawValue(ScoreJsonWriter.FormatFloat(m.MeanIou), skipInputValidation: true);
         w.WriteEndObject();
     }
 

@@ -303,7 +303,13 @@ public sealed class OpenLabelSource : ILaneRecordSource
                     string? name = n.TryGetProperty("name", out JsonElement nn) && nn.ValueKind == JsonValueKind.String ? nn.GetString() : null;
                     if (!n.TryGetProperty("val", out JsonElement nv) || nv.ValueKind != JsonValueKind.Number)
                     {
-                        continue;
+                        if (name is "slot" or "score")
+                        {
+                            // validated like the lane file's keys (metrics.md): a wrong type is an error, not a silent drop
+                            throw Error(at + ".attributes.num." + name, "val must be a number");
+                        }
+
+                        continue; // other attributes are kept out of the lane file, whatever their type
                     }
 
                     double d = nv.GetDouble();
@@ -323,6 +329,12 @@ public sealed class OpenLabelSource : ILaneRecordSource
                 foreach (JsonElement t in Items(texts, at + ".attributes.text"))
                 {
                     if (t.TryGetProperty("name", out JsonElement tn) && tn.ValueKind == JsonValueKind.String && tn.GetString() == "kind"
+                        && !(t.TryGetProperty("val", out JsonElement kv) && kv.ValueKind == JsonValueKind.String))
+                    {
+                        throw Error(at + ".attributes.text.kind", "val must be a string");
+                    }
+
+                    if (t.TryGetProperty("name", out tn) && tn.ValueKind == JsonValueKind.String && tn.GetString() == "kind"
                         && t.TryGetProperty("val", out JsonElement tv) && tv.ValueKind == JsonValueKind.String)
                     {
                         kind = LaneKinds.IsValid(tv.GetString()!) ? tv.GetString() : throw Error(at + ".attributes.text.kind", $"'{tv.GetString()}' is not one of {string.Join(", ", LaneKinds.All)}");

@@ -44,7 +44,11 @@ public sealed class MaskFolderSource : ILaneRecordSource
             keyByMask = new Dictionary<string, string>(reference.Count, StringComparer.Ordinal);
             foreach (string key in reference.Keys)
             {
-                keyByMask.TryAdd(MaskFiles.MaskKeyFor(key), key);
+                if (!keyByMask.TryAdd(MaskFiles.MaskKeyFor(key), key))
+                {
+                    // two reference frames ('a.jpg', 'a.png') share one mask path: which frame a mask belongs to is unknowable
+                    throw BadInputException.At(dir, 0, null, $"the reference frames '{keyByMask[MaskFiles.MaskKeyFor(key)]}' and '{key}' map to the same mask {MaskFiles.MaskKeyFor(key)}");
+                }
             }
         }
     }
