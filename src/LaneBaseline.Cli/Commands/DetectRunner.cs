@@ -414,7 +414,7 @@ internal sealed class DetectRunner
         {
             using var canvas = ws.Frame.Clone();
             OverlayRenderer.Draw(ws, canvas);
-            if (ws.Scale != 1)
+            if (ws.Enlarged)
             {
                 // drawn at the working size, saved at the frame's own size like every other output
                 Cv2.Resize(canvas, canvas, new Size(ws.FrameWidth, ws.FrameHeight), 0, 0, InterpolationFlags.Area);

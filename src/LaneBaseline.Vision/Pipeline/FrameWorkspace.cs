@@ -80,6 +80,12 @@ public sealed class FrameWorkspace : IDisposable
     /// </summary>
     public double Scale { get; internal set; } = 1;
 
+    /// <summary>Working rows per frame row (equal to <see cref="Scale"/> up to the rounding of the working height).</summary>
+    public double ScaleY { get; internal set; } = 1;
+
+    /// <summary>Whether the frames are processed enlarged (the working size differs from the frame's).</summary>
+    public bool Enlarged => Width != FrameWidth || Height != FrameHeight;
+
     /// <summary>Width of the caller's frames, in their own pixels.</summary>
     public int FrameWidth { get; internal set; }
 
@@ -90,8 +96,8 @@ public sealed class FrameWorkspace : IDisposable
     /// A working-pixel position in the frame's own pixels: pixel centres map to pixel centres ((x + 0.5) / scale − 0.5,
     /// as the bilinear enlargement samples), clamped to the frame.
     /// </summary>
-    public (double X, double Y) ToFramePixels(double x, double y) => Scale == 1 ? (x, y)
-        : (Math.Clamp(((x + 0.5) / Scale) - 0.5, 0, FrameWidth - 1), Math.Clamp(((y + 0.5) / Scale) - 0.5, 0, FrameHeight - 1));
+    public (double X, double Y) ToFramePixels(double x, double y) => !Enlarged ? (x, y)
+        : (Math.Clamp(((x + 0.5) / Scale) - 0.5, 0, FrameWidth - 1), Math.Clamp(((y + 0.5) / ScaleY) - 0.5, 0, FrameHeight - 1));
 
     /// <summary>Working height in pixels.</summary>
     public int Height { get; }

@@ -56,7 +56,7 @@ public sealed class LanePipeline : IDisposable
     /// <param name="frame">Frame, 8-bit, 3 channels (BGR).</param>
     /// <param name="timestampSeconds">Frame time in seconds (drives tracking; ignored for stills).</param>
     /// <returns>The frame summary (vanishing point in the frame's own pixels); lanes are read with
-    /// <see cref="FrameWorkspace.GetLane"/> until the next call, in working pixels (divide by <see cref="FrameWorkspace.Scale"/>).</returns>
+    /// <see cref="FrameWorkspace.GetLane"/> until the next call, in working pixels (<see cref="FrameWorkspace.ToFramePixels"/> maps them back).</returns>
     public FrameResult Process(Mat frame, double timestampSeconds)
     {
         ArgumentNullException.ThrowIfNull(frame);
@@ -71,9 +71,7 @@ public sealed class LanePipeline : IDisposable
         int ww = scale == 1 ? w : (int)Math.Round(w * scale), wh = scale == 1 ? h : (int)Math.Round(h * scale);
         if (workspace is null || workspace.Width != ww || workspace.Height != wh || workspace.FrameWidth != w || workspace.FrameHeight != h)
         {
-            Build(ww, wh, scale);
-            workspace!.FrameWidth = w;
-            workspace.FrameHeight = h;
+            Build(ww, wh, w, h);
         }
 
         FrameWorkspace ws = workspace!;
@@ -97,7 +95,7 @@ public sealed class LanePipeline : IDisposable
             }
         }
 
-        (double vx, double vy) = ws.Scale == 1 ? (ws.VanishingX, ws.VanishingY) : (((ws.VanishingX + 0.5) / ws.Scale) - 0.5, ((ws.VanishingY + 0.5) / ws.Scale) - 0.5);
+        (double vx, double vy) = !ws.Enlarged ? (ws.VanishingX, ws.VanishingY) : (((ws.VanishingX + 0.5) / ws.Scale) - 0.5, ((ws.VanishingY + 0.5) / ws.ScaleY) - 0.5);
         return new FrameResult(ws.LaneCount, vx, vy, ws.VanishingSource);
     }
 
@@ -116,14 +114,21 @@ public sealed class LanePipeline : IDisposable
         }
     }
 
-    private void Build(int width, int height, double scale)
+    private void Build(int width, int height, int frameWidth, int frameHeight)
     {
         DisposeStages();
         workspace?.Dispose();
         int bandTop = Math.Clamp((int)Math.Round(options.Region.SearchTopFraction * height), 0, height - 2);
-        workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale) { Scale = scale };
-        (double X, double Y)? vanishing = cameraVanishingPoint is (double vx, double vy) ? (((vx + 0.5) * scale) - 0.5, ((vy + 0.5) * scale) - 0.5) : null;
-        if (scale != 1)
+        double sx = (double)width / frameWidth, sy = (double)height / frameHeight; // the ratios the resize stage applies
+        workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale)
+        {
+            Scale = sx,
+            ScaleY = sy,
+            FrameWidth = frameWidth,
+            FrameHeight = frameHeight,
+        };
+        (double X, double Y)? vanishing = cameraVanishingPoint is (double vx, double vy) ? (((vx + 0.5) * sx) - 0.5, ((vy + 0.5) * sy) - 0.5) : null;
+        if (width != frameWidth || height != frameHeight)
         {
             stages.Add(new ResizeStage());
         }
