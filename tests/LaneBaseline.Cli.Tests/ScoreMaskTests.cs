@@ -37,19 +37,45 @@ public sealed class ScoreMaskTests : IDisposable
         Assert.Equal(1.0, doc.RootElement.GetProperty("point_accuracy").GetProperty("accuracy").GetDouble());
     }
 
-    // Merge contract (docs/scaling.md): merged shards equal the unsharded output; partial states do not carry mask
-    // IoU, so --partial with mask folders on both sides is refused instead of merging to a different file.
-    [Fact]
-    public void Partial_WithMaskFoldersOnBothSides_IsAUsageError()
+    // Merge contract (docs/scaling.md): shards of mask folders merge to exactly the unsharded output, mask IoU (JSON,
+    // table, per-lane CSV) included — the states carry each frame's per-lane mask IoU, replayed in the unsharded order.
+    [Theory]
+    [InlineData(2)]
+    [InlineData(3)]
+    public void Partial_WithMaskFolders_MergesToTheUnshardedOutput(int n)
     {
-        string truth = WriteTruth(), tm = dir.File("tm"), pm = dir.File("pm");
-        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", tm).Exit);
-        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", pm).Exit);
-        (int exit, _, string err) = CliRunner.Run("score", "--truth", tm, "--pred", pm, "--shard", "0/2", "--partial", dir.File("s.state"));
-        Assert.Equal(2, exit);
-        Assert.Contains("partial states do not carry mask IoU", err, StringComparison.Ordinal);
-        Assert.False(File.Exists(dir.File("s.state")));
-        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", pm, "--shard", "0/2", "--partial", dir.File("l.state")).Exit); // lane-file truth: no mask IoU, allowed
+        string truthLanes = dir.File("many.lanes.jsonl"), predLanes = dir.File("many-pred.lanes.jsonl");
+        var truth = new List<Core.LaneFiles.LaneRecord>();
+        var pred = new List<Core.LaneFiles.LaneRecord>();
+        for (int i = 0; i < 9; i++)
+        {
+            string key = $"d{i % 2}/f{i}.jpg";
+            truth.Add(Lanes.Truth(key, 320, 180, Lanes.Of((60 + i, 179), (140, 60)), Lanes.Of((260 - i, 179), (180, 60))));
+            pred.Add(Lanes.Truth(key, 320, 180, [.. new[] { Lanes.Of((64 + (2 * i), 179), (141, 60)), Lanes.Of((200, 179), (200, 60)) }.Take(1 + (i % 2))]));
+        }
+
+        Lanes.WriteFile(truthLanes, truth);
+        Lanes.WriteFile(predLanes, pred);
+        string tm = dir.File("tm"), pm = dir.File("pm");
+        Assert.Equal(0, CliRunner.Run("convert", truthLanes, "-o", tm).Exit);
+        Assert.Equal(0, CliRunner.Run("convert", predLanes, "-o", pm).Exit);
+        string[] common = ["score", "--truth", tm, "--pred", pm, "--bootstrap", "20"];
+        (int exit, string fullOut, string err) = CliRunner.Run([.. common, "--json", dir.File("full.json"), "--mask-iou-csv", dir.File("full-mask.csv")]);
+        Assert.True(exit == 0, err);
+        Assert.Contains("\"mask_iou\"", File.ReadAllText(dir.File("full.json")), StringComparison.Ordinal);
+        var states = new List<string>();
+        for (int k = 0; k < n; k++)
+        {
+            states.Add(dir.File($"m{k}.state"));
+            (exit, _, err) = CliRunner.Run([.. common, "--shard", $"{k}/{n}", "--partial", states[k]]);
+            Assert.True(exit == 0, err);
+        }
+
+        (exit, string mergedOut, err) = CliRunner.Run(["merge", .. states, "-o", dir.File("merged.json"), "--mask-iou-csv", dir.File("merged-mask.csv")]);
+        Assert.True(exit == 0, err);
+        Assert.Equal(fullOut, mergedOut);
+        Assert.Equal(File.ReadAllBytes(dir.File("full.json")), File.ReadAllBytes(dir.File("merged.json")));
+        Assert.Equal(File.ReadAllBytes(dir.File("full-mask.csv")), File.ReadAllBytes(dir.File("merged-mask.csv")));
     }
 
     // Two frame keys with one mask path ('a.jpg', 'a.png' -> a.png) would overwrite each other: bad input naming both.

@@ -4,6 +4,7 @@ using LaneBaseline.Core;
 using LaneBaseline.Core.Audit;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Vision.Masks;
 
 namespace LaneBaseline.Cli.Commands;
 
@@ -20,6 +21,7 @@ internal static class MergeCommand
         Argument<string[]> inputs = new("inputs") { Description = "Score states, audit states or lane files of every shard (one kind).", Arity = ArgumentArity.OneOrMore };
         Option<string> output = new("--output", "-o") { Description = "Merged score JSON (score states), findings file (audit states) or lane file (lane files).", Required = true };
         Option<string?> csv = new("--csv") { Description = "Score states only: also write the per-frame CSV." };
+        Option<string?> maskCsv = new("--mask-iou-csv") { Description = "Score states of mask folders only: also write the per-lane mask IoU CSV." };
         Option<double?> minF1 = new("--min-f1") { Description = "Score states only: quality gate, exit 4 when F1@0.50 is below this." };
         Option<int> threads = new("--threads") { Description = "Threads for the bootstrap (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
         Option<int> mine = new("--mine") { Description = "Audit states only: also write the N frames most worth labelling to OUT.mine.txt.", DefaultValueFactory = _ => 0 };
@@ -31,7 +33,7 @@ internal static class MergeCommand
 
         Command command = new("merge", "Join the outputs of sharded runs (score states, audit states or lane files) into the output of one unsharded run.")
         {
-            inputs, output, csv, minF1, threads, mine, overlays, frames, failOn, report, generatedAt,
+            inputs, output, csv, maskCsv, minF1, threads, mine, overlays, frames, failOn, report, generatedAt,
         };
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
@@ -53,9 +55,9 @@ internal static class MergeCommand
 
             if (kinds[0] == InputKind.AuditState)
             {
-                if (parseResult.GetValue(csv) is not null || parseResult.GetValue(minF1) is not null)
+                if (parseResult.GetValue(csv) is not null || parseResult.GetValue(minF1) is not null || parseResult.GetValue(maskCsv) is not null)
                 {
-                    throw new UsageException("--csv and --min-f1 apply to score states only");
+                    throw new UsageException("--csv, --mask-iou-csv and --min-f1 apply to score states only");
                 }
 
                 return MergeAudit(stdout, stderr, paths, outPath, parseResult.GetValue(mine), parseResult.GetValue(overlays), parseResult.GetValue(frames), parseResult.GetValue(failOn)!, parseResult.GetValue(report), parseResult.GetValue(generatedAt), cancellationToken);
@@ -64,9 +66,11 @@ internal static class MergeCommand
             if (kinds[0] == InputKind.ScoreState)
             {
                 using AtomicFile? csvFile = parseResult.GetValue(csv) is string c ? new AtomicFile(c) : null;
+                using AtomicFile? maskCsvFile = parseResult.GetValue(maskCsv) is string mc ? new AtomicFile(mc) : null;
                 TextWriter? csvWriter = csvFile?.Writer;
                 int halfIndex = -1;
                 IReadOnlyList<ScoredSystem>? systems = null;
+                MaskIouSummary[]? maskIou = null;
                 (ScoreStateHeader header, SystemScore[] results) = ScoreStateMerge.Merge(
                     paths,
                     h =>
@@ -77,6 +81,16 @@ internal static class MergeCommand
                         {
                             ScoreCommand.WriteCsvHeader(csvWriter, h.Systems.Count > 1);
                         }
+
+                        if (h.MaskIou)
+                        {
+                            maskIou = [.. h.Systems.Select(_ => new MaskIouSummary())];
+                            maskCsvFile?.Writer.Write(ScoreCommand.MaskCsvHeader(h.Systems.Count));
+                        }
+                        else if (maskCsvFile is not null)
+                        {
+                            throw new UsageException("--mask-iou-csv: these states carry no mask IoU (truth and predictions were not all mask folders)");
+                        }
                     },
                     row =>
                     {
@@ -84,15 +98,25 @@ internal static class MergeCommand
                         {
                             ScoreCommand.WriteCsvRows(csvWriter, systems!, halfIndex, row);
                         }
+                    },
+                    mask =>
+                    {
+                        MaskLaneIou[] lanes = [.. mask.Lanes.Select(l => new MaskLaneIou(mask.Frame, l.TruthId, l.PredId, l.Iou))];
+                        maskIou![mask.System].AddFrame(mask.PredLanes, lanes);
+                        foreach (MaskLaneIou lane in lanes)
+                        {
+                            maskCsvFile?.Writer.Write(ScoreCommand.MaskCsvRow(systems!, mask.System, lane));
+                        }
                     });
+                maskCsvFile?.Commit();
                 stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"merge: {results[0].Overall.Frames} frames from {paths.Length} shard state(s)"));
                 var request = new ScoreRequest(header.Truth, header.Systems, header.Settings, header.Resamples, header.Seed, threadCount, outPath, csvFile is null ? null : "csv", parseResult.GetValue(minF1));
-                return ScoreCommand.Finish(stdout, stderr, request, results, csvFile);
+                return ScoreCommand.Finish(stdout, stderr, request, results, csvFile, maskIou);
             }
 
-            if (parseResult.GetValue(csv) is not null || parseResult.GetValue(minF1) is not null)
+            if (parseResult.GetValue(csv) is not null || parseResult.GetValue(minF1) is not null || parseResult.GetValue(maskCsv) is not null)
             {
-                throw new UsageException("--csv and --min-f1 apply to score states only");
+                throw new UsageException("--csv, --mask-iou-csv and --min-f1 apply to score states only");
             }
 
             using var file = new AtomicFile(outPath);

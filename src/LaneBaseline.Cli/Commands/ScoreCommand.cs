@@ -128,15 +128,9 @@ internal static class ScoreCommand
             string? partialPath = parseResult.GetValue(partial);
             if (partialPath is not null && masks.CsvPath is not null)
             {
-                throw new UsageException("--mask-iou-csv is not supported with --partial; score masks unsharded");
+                throw new UsageException("--partial writes a state for 'merge'; give --mask-iou-csv to merge instead");
             }
 
-            if (partialPath is not null && LaneInputs.IsMaskFolder(request.TruthPath) && request.Systems.All(s => LaneInputs.IsMaskFolder(s.Path)))
-            {
-                // An unsharded run of mask folders adds mask IoU, which partial states do not carry, so a merge could
-                // not write the same file: refuse rather than merge to something else.
-                throw new UsageException("--partial with mask folders on both sides: partial states do not carry mask IoU; score mask folders unsharded, or convert them to lane files (lanebaseline convert) and shard those");
-            }
 
             return partialPath is null
                 ? Execute(stdout, stderr, request, shardSpec, masks, cancellationToken)
@@ -320,6 +314,7 @@ internal static class ScoreCommand
 
         var clock = Stopwatch.StartNew();
         long frames;
+        bool maskIou = LaneInputs.IsMaskFolder(request.TruthPath) && request.Systems.All(s => LaneInputs.IsMaskFolder(s.Path));
         using var file = new AtomicFile(partialPath);
         ScoreStateWriter? writer = null;
         int truthFrames = 0;
@@ -344,12 +339,28 @@ internal static class ScoreCommand
                         Settings = request.Settings,
                         Resamples = request.Resamples,
                         Seed = request.Seed,
+                        MaskIou = maskIou,
                     });
 #pragma warning restore IDISP004, IDISP003
                 },
                 OnFrame = row => writer!.Write(row),
             };
             frames = run.Execute(CreateRasterizer, cancellationToken)[0].Overall.Frames;
+            if (maskIou)
+            {
+                // Mask IoU of this shard's frames, after the frame lines; merge replays it in the unsharded order.
+                for (int sys = 0; sys < request.Systems.Count; sys++)
+                {
+                    int system = sys;
+                    MaskIouRun.Execute(
+                        request.TruthPath,
+                        request.Systems[sys].Path,
+                        null,
+                        include: shard.Contains,
+                        onFrame: (rel, predLanes, lanes) => writer!.WriteMask(new MaskFrameState(system, rel, predLanes, [.. lanes.Select(l => new MaskLaneState(l.TruthId, l.PredId, l.Iou))])),
+                        cancellationToken: cancellationToken);
+                }
+            }
         }
         finally
         {
@@ -365,21 +376,29 @@ internal static class ScoreCommand
     {
         using AtomicFile? csvFile = csvPath is null ? null : new AtomicFile(csvPath);
         TextWriter? csv = csvFile?.Writer;
-        csv?.Write((systems.Count > 1 ? "system," : string.Empty) + "frame,truth_id,pred_id,iou\n");
+        csv?.Write(MaskCsvHeader(systems.Count));
         var result = new MaskIouSummary[systems.Count];
         for (int s = 0; s < systems.Count; s++)
         {
-            string prefix = systems.Count > 1 ? Csv(systems[s].Name) + "," : string.Empty;
+            int system = s;
             result[s] = MaskIouRun.Execute(
                 truthPath,
                 systems[s].Path,
-                csv is null ? null : lane => csv.Write(string.Create(CultureInfo.InvariantCulture, $"{prefix}{Csv(lane.Frame)},{lane.TruthId},{lane.PredId},{lane.Iou.ToString("R", CultureInfo.InvariantCulture)}\n")),
-                cancellationToken);
+                csv is null ? null : lane => csv.Write(MaskCsvRow(systems, system, lane)),
+                cancellationToken: cancellationToken);
         }
 
         csvFile?.Commit();
         return result;
     }
+
+    /// <summary>Header of the per-lane mask IoU CSV (<c>--mask-iou-csv</c>).</summary>
+    internal static string MaskCsvHeader(int systems) => (systems > 1 ? "system," : string.Empty) + "frame,truth_id,pred_id,iou\n";
+
+    /// <summary>One row of the per-lane mask IoU CSV.</summary>
+    internal static string MaskCsvRow(IReadOnlyList<ScoredSystem> systems, int system, MaskLaneIou lane) =>
+        (systems.Count > 1 ? Csv(systems[system].Name) + "," : string.Empty)
+        + string.Create(CultureInfo.InvariantCulture, $"{Csv(lane.Frame)},{lane.TruthId},{lane.PredId},{lane.Iou.ToString("R", CultureInfo.InvariantCulture)}\n");
 
     private static void WriteMaskIou(System.Text.Json.Utf8JsonWriter w, MaskIouSummary m)
     {

@@ -35,6 +35,9 @@ public sealed record ScoreStateHeader
     /// <summary>Bootstrap seed the merged result uses.</summary>
     public required ulong Seed { get; init; }
 
+    /// <summary>Whether the state also carries mask IoU (truth and every prediction are mask folders).</summary>
+    public bool MaskIou { get; init; }
+
     /// <summary>Canonical JSON of everything but the shard index (equal for every shard of one job).</summary>
     public string JobKey()
     {
@@ -49,7 +52,7 @@ public sealed record ScoreStateHeader
             .Append(Settings.TolerancePx?.ToString("R", CultureInfo.InvariantCulture)).Append('\n')
             .Append(string.Join(',', Settings.ExtraThresholds.Select(t => t.Key))).Append('\n')
             .Append(Resamples).Append('\n').Append(Seed).Append('\n')
-            .Append(Settings.Camera?.ToJson());
+            .Append(Settings.Camera?.ToJson()).Append('\n').Append(MaskIou);
         return b.ToString();
     }
 }
@@ -113,6 +116,11 @@ public sealed class ScoreStateWriter : IDisposable
             if (header.Settings.Camera is { } camera)
             {
                 json.WriteString("camera", camera.ToJson());
+            }
+
+            if (header.MaskIou)
+            {
+                json.WriteBoolean("mask_iou", true);
             }
 
             json.WriteEndObject();
@@ -197,6 +205,42 @@ public sealed class ScoreStateWriter : IDisposable
         Emit();
     }
 
+    /// <summary>Appends one frame's mask IoU for one system (after every frame line).</summary>
+    public void WriteMask(MaskFrameState mask)
+    {
+        ArgumentNullException.ThrowIfNull(mask);
+        using (var json = new Utf8JsonWriter(buffer, Options))
+        {
+            json.WriteStartObject();
+            json.WriteString("t", "mask");
+            json.WriteNumber("s", mask.System);
+            json.WriteString("frame", mask.Frame);
+            json.WriteNumber("np", mask.PredLanes);
+            json.WriteStartArray("lanes");
+            foreach (MaskLaneState lane in mask.Lanes)
+            {
+                json.WriteStartArray();
+                json.WriteNumberValue(lane.TruthId);
+                if (lane.PredId is int pid)
+                {
+                    json.WriteNumberValue(pid);
+                }
+                else
+                {
+                    json.WriteNullValue();
+                }
+
+                json.WriteRawValue(lane.Iou.ToString("R", CultureInfo.InvariantCulture));
+                json.WriteEndArray();
+            }
+
+            json.WriteEndArray();
+            json.WriteEndObject();
+        }
+
+        Emit();
+    }
+
     private static void Ints(Utf8JsonWriter json, string name, int[] values)
     {
         json.WriteStartArray(name);
@@ -225,6 +269,16 @@ public sealed class ScoreStateWriter : IDisposable
     }
 }
 
+/// <summary>One truth lane's mask IoU in a partial state: its id, the assigned prediction id (null when none) and IoU.</summary>
+public readonly record struct MaskLaneState(int TruthId, int? PredId, double Iou);
+
+/// <summary>One frame's mask IoU for one system in a partial state.</summary>
+/// <param name="System">Index of the system in the header.</param>
+/// <param name="Frame">The mask's relative path.</param>
+/// <param name="PredLanes">Prediction lane ids in the frame.</param>
+/// <param name="Lanes">Every truth lane of the frame, in id order.</param>
+public sealed record MaskFrameState(int System, string Frame, int PredLanes, IReadOnlyList<MaskLaneState> Lanes);
+
 #pragma warning disable IDISP004 // JsonElement array enumerators own no resources
 
 /// <summary>Reads a partial score state written by <see cref="ScoreStateWriter"/>, frame by frame.</summary>
@@ -234,6 +288,7 @@ public sealed class ScoreStateReader : IDisposable
     private readonly string path;
     private readonly int thresholdCount;
     private long line;
+    private string? maskLine; // the first mask IoU line, read while looking for a frame line
 
     private ScoreStateReader(string path, StreamReader reader, ScoreStateHeader header)
     {
@@ -281,26 +336,27 @@ public sealed class ScoreStateReader : IDisposable
     /// <summary>Reads the next frame's scores (one per system), or null at the end.</summary>
     public FrameScore[]? Next()
     {
-        string? text;
-        try
+        if (maskLine is not null)
         {
-            text = reader.ReadLine();
-        }
-        catch (DecoderFallbackException)
-        {
-            throw BadInputException.At(path, line + 1, null, "not valid UTF-8 text");
+            return null; // the frame lines ended where the mask lines began
         }
 
+        string? text = ReadLine();
         if (text is null)
         {
             return null;
         }
 
-        line++;
         try
         {
             using JsonDocument doc = JsonDocument.Parse(text);
             JsonElement r = doc.RootElement;
+            if (r.ValueKind == JsonValueKind.Object && r.TryGetProperty("t", out JsonElement kind) && kind.ValueKind == JsonValueKind.String && kind.GetString() == "mask")
+            {
+                maskLine = text;
+                return null;
+            }
+
             int ordinal = r.GetProperty("o").GetInt32();
             string frame = r.GetProperty("frame").GetString()!;
             string[] tags = [.. r.GetProperty("tags").EnumerateArray().Select(t => t.GetString()!)];
@@ -361,6 +417,72 @@ public sealed class ScoreStateReader : IDisposable
 
     private static int[] Ints(JsonElement e) => [.. e.EnumerateArray().Select(v => v.GetInt32())];
 
+    private string? ReadLine()
+    {
+        try
+        {
+            string? text = reader.ReadLine();
+            if (text is not null)
+            {
+                line++;
+            }
+
+            return text;
+        }
+        catch (DecoderFallbackException)
+        {
+            throw BadInputException.At(path, line + 1, null, "not valid UTF-8 text");
+        }
+    }
+
+    /// <summary>The mask IoU lines that follow the frame lines (call after <see cref="Next"/> returned null).</summary>
+    public IEnumerable<MaskFrameState> ReadMasks()
+    {
+        string? text = maskLine ?? ReadLine();
+        maskLine = null;
+        while (text is not null)
+        {
+            if (!Header.MaskIou)
+            {
+                throw BadInputException.At(path, line, "t", "mask IoU line in a state whose header has no mask_iou");
+            }
+
+            MaskFrameState m;
+            try
+            {
+                using JsonDocument doc = JsonDocument.Parse(text);
+                JsonElement r = doc.RootElement;
+                if (r.GetProperty("t").GetString() != "mask")
+                {
+                    throw BadInputException.At(path, line, "t", "frame line after the mask IoU lines");
+                }
+
+                int system = r.GetProperty("s").GetInt32();
+                int predLanes = r.GetProperty("np").GetInt32();
+                if (system < 0 || system >= Header.Systems.Count || predLanes < 0)
+                {
+                    throw BadInputException.At(path, line, "s", "system index or lane count out of range");
+                }
+
+                var lanes = new List<MaskLaneState>();
+                foreach (JsonElement l in r.GetProperty("lanes").EnumerateArray())
+                {
+                    JsonElement pid = l[1];
+                    lanes.Add(new MaskLaneState(l[0].GetInt32(), pid.ValueKind == JsonValueKind.Null ? null : pid.GetInt32(), l[2].GetDouble()));
+                }
+
+                m = new MaskFrameState(system, r.GetProperty("frame").GetString()!, predLanes, lanes);
+            }
+            catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException or ArgumentException or OverflowException or IndexOutOfRangeException)
+            {
+                throw BadInputException.At(path, line, null, "not a mask IoU record: " + ex.Message);
+            }
+
+            yield return m;
+            text = ReadLine();
+        }
+    }
+
     // Metric-space errors of one frame: present exactly when the header has a camera.
     private FrameGroundErrors? ReadGround(JsonElement s)
     {
@@ -411,6 +533,7 @@ public sealed class ScoreStateReader : IDisposable
                     ExtraThresholds = [.. r.GetProperty("extra_iou").EnumerateArray().Select(t => IouThreshold.Parse(t.GetString()!))],
                     Camera = r.TryGetProperty("camera", out JsonElement cam) ? Geometry.CameraModel.Parse(cam.GetString()!, path + " (camera)") : null,
                 },
+                MaskIou = r.TryGetProperty("mask_iou", out JsonElement mi) && mi.GetBoolean(),
                 Resamples = r.GetProperty("bootstrap").GetInt32(),
                 Seed = r.GetProperty("seed").GetUInt64(),
             };
@@ -437,8 +560,9 @@ public static class ScoreStateMerge
     /// <param name="paths">State files.</param>
     /// <param name="onHeader">Called once the headers are checked, before any frame.</param>
     /// <param name="onFrame">Called for each frame in truth order (e.g. to write the CSV).</param>
+    /// <param name="onMask">Called for each frame's mask IoU (states with mask IoU), system by system, frames in ordinal path order.</param>
     public static (ScoreStateHeader Header, SystemScore[] Results) Merge(
-        IReadOnlyList<string> paths, Action<ScoreStateHeader>? onHeader = null, Action<IReadOnlyList<FrameScore>>? onFrame = null)
+        IReadOnlyList<string> paths, Action<ScoreStateHeader>? onHeader = null, Action<IReadOnlyList<FrameScore>>? onFrame = null, Action<MaskFrameState>? onMask = null)
     {
         ArgumentNullException.ThrowIfNull(paths);
         if (paths.Count == 0)
@@ -519,6 +643,30 @@ public static class ScoreStateMerge
             if (expected != h0.TruthFrames)
             {
                 throw new BadInputException(string.Create(CultureInfo.InvariantCulture, $"merge: the states hold {expected} frames but the truth has {h0.TruthFrames} (a shard run was interrupted?) ({BadInputException.Files(paths)})"));
+            }
+
+            if (h0.MaskIou)
+            {
+                // Replayed in the unsharded run's order (system, then mask path, ordinal), so the sums are the same bytes.
+                var masks = new List<MaskFrameState>();
+                foreach (ScoreStateReader r in readers)
+                {
+                    masks.AddRange(r.ReadMasks());
+                }
+
+                masks.Sort((a, b) => a.System != b.System ? a.System.CompareTo(b.System) : string.CompareOrdinal(a.Frame, b.Frame));
+                for (int i = 1; i < masks.Count; i++)
+                {
+                    if (masks[i].System == masks[i - 1].System && masks[i].Frame == masks[i - 1].Frame)
+                    {
+                        throw new BadInputException($"merge: the mask IoU of '{masks[i].Frame}' appears in more than one state ({BadInputException.Files(paths)})");
+                    }
+                }
+
+                foreach (MaskFrameState m in masks)
+                {
+                    onMask?.Invoke(m);
+                }
             }
 
             return (h0, results);

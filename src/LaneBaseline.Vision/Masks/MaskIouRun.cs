@@ -18,6 +18,23 @@ public sealed class MaskIouSummary
     /// <summary>Sum of per-truth-lane IoU (0 for unassigned).</summary>
     public double IouSum { get; internal set; }
 
+    /// <summary>Adds one frame: its prediction lane count and every truth lane's result, in order.</summary>
+    public void AddFrame(int predLanes, IEnumerable<MaskLaneIou> lanes)
+    {
+        ArgumentNullException.ThrowIfNull(lanes);
+        Frames++;
+        PredLanes += predLanes;
+        foreach (MaskLaneIou lane in lanes)
+        {
+            TruthLanes++;
+            IouSum += lane.Iou;
+            if (lane.PredId is not null)
+            {
+                Matched++;
+            }
+        }
+    }
+
     /// <summary>Mean IoU over truth lanes (unassigned count 0); 1 when there are no truth and no predicted lanes, 0 with predictions only.</summary>
     public double MeanIou => TruthLanes > 0 ? IouSum / TruthLanes : PredLanes == 0 ? 1.0 : 0.0;
 }
@@ -29,28 +46,41 @@ public sealed class MaskIouSummary
 public static class MaskIouRun
 {
     /// <summary>Compares the folders; <paramref name="onLane"/> receives every truth lane's result in order.</summary>
-    public static MaskIouSummary Execute(string truthDir, string predDir, Action<MaskLaneIou>? onLane, CancellationToken cancellationToken = default)
+    /// <param name="truthDir">Truth mask folder.</param>
+    /// <param name="predDir">Prediction mask folder.</param>
+    /// <param name="onLane">Receives every truth lane's result, in order.</param>
+    /// <param name="include">Which truth masks (relative paths) to compare (a shard), or null for all.</param>
+    /// <param name="onFrame">Receives each compared frame: its relative path, prediction lane count and truth lanes.</param>
+    /// <param name="cancellationToken">Stops between frames.</param>
+    public static MaskIouSummary Execute(
+        string truthDir,
+        string predDir,
+        Action<MaskLaneIou>? onLane,
+        Func<string, bool>? include = null,
+        Action<string, int, IReadOnlyList<MaskLaneIou>>? onFrame = null,
+        CancellationToken cancellationToken = default)
     {
         var summary = new MaskIouSummary();
         foreach (string rel in MaskFiles.List(truthDir))
         {
             cancellationToken.ThrowIfCancellationRequested();
+            if (include is not null && !include(rel))
+            {
+                continue;
+            }
+
             using OpenCvSharp.Mat truth = MaskFiles.Read(Path.Combine(truthDir, rel));
             string predPath = Path.Combine(predDir, rel);
             using OpenCvSharp.Mat? pred = File.Exists(predPath) ? MaskFiles.Read(predPath) : null;
             (List<MaskLaneIou> lanes, int predLanes) = MaskIou.Compare(rel, truth, pred);
-            summary.Frames++;
-            summary.PredLanes += predLanes;
-            foreach (MaskLaneIou lane in lanes)
+            summary.AddFrame(predLanes, lanes);
+            onFrame?.Invoke(rel, predLanes, lanes);
+            if (onLane is not null)
             {
-                summary.TruthLanes++;
-                summary.IouSum += lane.Iou;
-                if (lane.PredId is not null)
+                foreach (MaskLaneIou lane in lanes)
                 {
-                    summary.Matched++;
+                    onLane(lane);
                 }
-
-                onLane?.Invoke(lane);
             }
         }
 
