@@ -36,6 +36,17 @@ public sealed class StateFuzzTests : IDisposable
         Fuzz(dir.File("s.state"), path => ScoreStateMerge.Merge([path]));
     }
 
+    [Fact]
+    public void ScoreStateMerge_MutatedMaskState_OnlyBadInput()
+    {
+        string truth = dir.File("truth.lanes.jsonl"), tm = dir.File("tm");
+        Lanes.WriteFile(truth, [Lanes.Truth("a.png", 160, 90, Lanes.Vertical(40, 90), Lanes.Of((120, 89), (100, 20))), Lanes.Truth("b.png", 160, 90, Lanes.Vertical(80, 90))]);
+        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", tm).Exit);
+        Assert.Equal(0, CliRunner.Run("score", "--truth", tm, "--pred", tm, "--partial", dir.File("m.state"), "--bootstrap", "10").Exit);
+        Assert.Contains("\"t\":\"mask\"", File.ReadAllText(dir.File("m.state")), StringComparison.Ordinal);
+        Fuzz(dir.File("m.state"), path => ScoreStateMerge.Merge([path], onMask: _ => { }));
+    }
+
     private void Fuzz(string validPath, Action<string> merge)
     {
         byte[] valid = File.ReadAllBytes(validPath);
