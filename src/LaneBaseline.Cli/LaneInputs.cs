@@ -45,6 +45,19 @@ internal static class LaneInputs
         };
     }
 
+    /// <summary>Parses the <c>--shard K/N</c> option of detect, score and audit (null when not given); a malformed value is a usage error.</summary>
+    public static Core.Sharding.ShardSpec? ParseShard(string? text)
+    {
+        try
+        {
+            return text is null ? null : Core.Sharding.ShardSpec.Parse(text);
+        }
+        catch (FormatException ex)
+        {
+            throw new UsageException("--shard: " + ex.Message);
+        }
+    }
+
     /// <summary>Parses <c>WxH</c> (e.g. <c>1280x720</c>).</summary>
     public static (int Width, int Height)? ParseSize(string? text, string option)
     {

@@ -37,10 +37,10 @@ internal sealed class FloorPrimitives : IDisposable
     public (double Hls, double Warp) Measure(Mat frame)
     {
         ArgumentNullException.ThrowIfNull(frame);
-        if (workingWidth > 0 && frame.Cols < workingWidth)
+        (int w, int h) = Vision.Pipeline.LanePipeline.WorkingSize(frame.Cols, frame.Rows, workingWidth);
+        if (w != frame.Cols)
         {
-            double scale = Math.Min(Vision.Pipeline.LanePipeline.MaxEnlargement, (double)workingWidth / frame.Cols);
-            Cv2.Resize(frame, enlarged, new Size((int)Math.Round(frame.Cols * scale), (int)Math.Round(frame.Rows * scale)), 0, 0, InterpolationFlags.Linear);
+            Cv2.Resize(frame, enlarged, new Size(w, h), 0, 0, InterpolationFlags.Linear);
             frame = enlarged;
         }
 

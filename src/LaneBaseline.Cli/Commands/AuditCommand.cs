@@ -77,7 +77,7 @@ internal static class AuditCommand
             }
 
             string? outPath = parseResult.GetValue(output), partialPath = parseResult.GetValue(partial), reportPath = parseResult.GetValue(report);
-            ShardSpec? shardSpec = ParseShard(parseResult.GetValue(shard));
+            ShardSpec? shardSpec = LaneInputs.ParseShard(parseResult.GetValue(shard));
             if (partialPath is not null)
             {
                 if (outPath is not null || n > 0 || m > 0 || gateSeverity is not null || reportPath is not null)
@@ -158,23 +158,6 @@ internal static class AuditCommand
         "error" => AuditSeverity.Error,
         _ => throw new UsageException("--fail-on must be none, warning or error"),
     };
-
-    private static ShardSpec? ParseShard(string? text)
-    {
-        if (text is null)
-        {
-            return null;
-        }
-
-        try
-        {
-            return ShardSpec.Parse(text);
-        }
-        catch (FormatException ex)
-        {
-            throw new UsageException("--shard: " + ex.Message);
-        }
-    }
 
     private static AuditResult Run(
         TextWriter stderr,

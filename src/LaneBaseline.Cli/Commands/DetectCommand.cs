@@ -95,21 +95,6 @@ internal static class DetectCommand
         return command;
     }
 
-    private static (int K, int N) ParseShard(string? text)
-    {
-        if (text is null)
-        {
-            return (0, 1);
-        }
-
-        try
-        {
-            LaneBaseline.Core.Sharding.ShardSpec spec = LaneBaseline.Core.Sharding.ShardSpec.Parse(text);
-            return (spec.Index, spec.Count);
-        }
-        catch (FormatException ex)
-        {
-            throw new UsageException("--shard: " + ex.Message);
-        }
-    }
+    private static (int K, int N) ParseShard(string? text) =>
+        LaneInputs.ParseShard(text) is { } spec ? (spec.Index, spec.Count) : (0, 1);
 }

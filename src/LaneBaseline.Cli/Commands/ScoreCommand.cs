@@ -92,18 +92,7 @@ internal static class ScoreCommand
                 throw new UsageException("--frames draws the report's gallery and needs --report");
             }
 
-            ShardSpec? shardSpec = null;
-            if (parseResult.GetValue(shard) is string shardText)
-            {
-                try
-                {
-                    shardSpec = ShardSpec.Parse(shardText);
-                }
-                catch (FormatException ex)
-                {
-                    throw new UsageException("--shard: " + ex.Message);
-                }
-            }
+            ShardSpec? shardSpec = LaneInputs.ParseShard(parseResult.GetValue(shard));
 
             var request = new ScoreRequest(
                 parseResult.GetRequiredValue(truth),

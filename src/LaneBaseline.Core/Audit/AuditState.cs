@@ -164,37 +164,16 @@ public static class AuditStateMerge
 
         var findings = new List<AuditFinding>();
         var frames = new List<AuditFrameScore>();
-        var seen = new HashSet<int>();
         var ordinals = new Dictionary<long, string>();
-        AuditStateHeader? first = null;
-        long audited = 0, compared = 0;
+        var headers = new List<AuditStateHeader>();
         foreach (string path in paths)
         {
-            AuditStateHeader h = Read(path, frames, findings, ordinals);
-            if (first is null)
-            {
-                first = h;
-            }
-            else if (h.JobKey() != first.JobKey())
-            {
-                throw BadInputException.At(path, 1, null, $"belongs to a different audit job than {paths[0]} (inputs, settings, input frames or shard count differ)");
-            }
-
-            if (!seen.Add(h.Shard.Index))
-            {
-                throw BadInputException.At(path, 1, "shard_index", $"shard {h.Shard} is given twice");
-            }
-
-            audited += h.Frames;
-            compared += h.ComparedFrames;
+            headers.Add(Read(path, frames, findings, ordinals));
         }
 
-        if (seen.Count != first!.Shard.Count)
-        {
-            var missing = Enumerable.Range(0, first.Shard.Count).Where(k => !seen.Contains(k)).Select(k => k.ToString(CultureInfo.InvariantCulture));
-            throw new BadInputException($"merge: audit shards {string.Join(", ", missing)} of {first.Shard.Count} are missing ({BadInputException.Files(paths)})");
-        }
-
+        ShardCoverage.Check(paths, [.. headers.Select(h => (h.Shard, h.JobKey()))], "audit ", "inputs, settings, input frames or shard count");
+        AuditStateHeader first = headers[0];
+        long audited = headers.Sum(h => h.Frames), compared = headers.Sum(h => h.ComparedFrames);
         if (audited != first.InputFrames)
         {
             throw new BadInputException(string.Create(CultureInfo.InvariantCulture, $"merge: the audit states cover {audited} frames but the predictions hold {first.InputFrames} ({BadInputException.Files(paths)})"));

@@ -579,26 +579,7 @@ public static class ScoreStateMerge
             }
 
             ScoreStateHeader h0 = readers[0].Header;
-            var seen = new HashSet<int>();
-            for (int i = 0; i < readers.Count; i++)
-            {
-                ScoreStateHeader h = readers[i].Header;
-                if (h.JobKey() != h0.JobKey())
-                {
-                    throw BadInputException.At(paths[i], 1, null, $"belongs to a different job than {paths[0]} (truth, systems, settings or shard count differ)");
-                }
-
-                if (!seen.Add(h.Shard.Index))
-                {
-                    throw BadInputException.At(paths[i], 1, "shard_index", $"shard {h.Shard} is given twice");
-                }
-            }
-
-            if (seen.Count != h0.Shard.Count)
-            {
-                var missing = Enumerable.Range(0, h0.Shard.Count).Where(k => !seen.Contains(k)).Select(k => k.ToString(CultureInfo.InvariantCulture));
-                throw new BadInputException($"merge: shards {string.Join(", ", missing)} of {h0.Shard.Count} are missing ({BadInputException.Files(paths)})");
-            }
+            ShardCoverage.Check(paths, [.. readers.Select(r => (r.Header.Shard, r.Header.JobKey()))], string.Empty, "truth, systems, settings or shard count");
 
             onHeader?.Invoke(h0);
             SystemScore[] results = ScoreRun.CreateResults(h0.Systems, h0.Settings);

@@ -66,9 +66,7 @@ public sealed class LanePipeline : IDisposable
         }
 
         int w = frame.Cols, h = frame.Rows;
-        int target = options.Limits.WorkingWidthPx;
-        double scale = target > 0 && w < target ? Math.Min(MaxEnlargement, (double)target / w) : 1;
-        int ww = scale == 1 ? w : (int)Math.Round(w * scale), wh = scale == 1 ? h : (int)Math.Round(h * scale);
+        (int ww, int wh) = WorkingSize(w, h, options.Limits.WorkingWidthPx);
         if (workspace is null || workspace.Width != ww || workspace.Height != wh || workspace.FrameWidth != w || workspace.FrameHeight != h)
         {
             Build(ww, wh, w, h);
@@ -112,6 +110,21 @@ public sealed class LanePipeline : IDisposable
         {
             (s as TemporalTracker)?.Reset();
         }
+    }
+
+    /// <summary>
+    /// The size a w×h frame is processed at: enlarged towards <paramref name="workingWidth"/> (by at most
+    /// <see cref="MaxEnlargement"/>, aspect kept) when narrower, else its own (also when the working width is 0).
+    /// </summary>
+    public static (int Width, int Height) WorkingSize(int w, int h, int workingWidth)
+    {
+        if (workingWidth <= 0 || w >= workingWidth)
+        {
+            return (w, h);
+        }
+
+        double scale = Math.Min(MaxEnlargement, (double)workingWidth / w);
+        return ((int)Math.Round(w * scale), (int)Math.Round(h * scale));
     }
 
     private void Build(int width, int height, int frameWidth, int frameHeight)
