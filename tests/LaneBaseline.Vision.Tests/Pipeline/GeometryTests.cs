@@ -1,3 +1,4 @@
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.Random;
 using LaneBaseline.Core.Results;
 using LaneBaseline.Vision.Pipeline;

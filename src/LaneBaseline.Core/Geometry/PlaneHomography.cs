@@ -1,4 +1,4 @@
-namespace LaneBaseline.Vision.Pipeline;
+namespace LaneBaseline.Core.Geometry;
 
 /// <summary>
 /// A 3×3 plane homography in managed code (row-major, unit Frobenius norm), built from four point
@@ -7,10 +7,36 @@ namespace LaneBaseline.Vision.Pipeline;
 /// <para>References: [1] R. Hartley, A. Zisserman, Multiple View Geometry in Computer Vision, 2nd ed., Cambridge
 /// University Press, 2004, Sec. 4.1 (direct linear transformation).</para>
 /// </summary>
-internal readonly struct PlaneHomography
+public readonly struct PlaneHomography
 {
-    public readonly double M00, M01, M02, M10, M11, M12, M20, M21, M22;
+    /// <summary>Entry (0, 0) of the row-major matrix.</summary>
+    public double M00 { get; }
 
+    /// <summary>Entry (0, 1) of the row-major matrix.</summary>
+    public double M01 { get; }
+
+    /// <summary>Entry (0, 2) of the row-major matrix.</summary>
+    public double M02 { get; }
+
+    /// <summary>Entry (1, 0) of the row-major matrix.</summary>
+    public double M10 { get; }
+
+    /// <summary>Entry (1, 1) of the row-major matrix.</summary>
+    public double M11 { get; }
+
+    /// <summary>Entry (1, 2) of the row-major matrix.</summary>
+    public double M12 { get; }
+
+    /// <summary>Entry (2, 0) of the row-major matrix.</summary>
+    public double M20 { get; }
+
+    /// <summary>Entry (2, 1) of the row-major matrix.</summary>
+    public double M21 { get; }
+
+    /// <summary>Entry (2, 2) of the row-major matrix.</summary>
+    public double M22 { get; }
+
+    /// <summary>A homography from its nine row-major entries.</summary>
     public PlaneHomography(double m00, double m01, double m02, double m10, double m11, double m12, double m20, double m21, double m22)
     {
         M00 = m00; M01 = m01; M02 = m02; M10 = m10; M11 = m11; M12 = m12; M20 = m20; M21 = m21; M22 = m22;

@@ -1,12 +1,12 @@
 using LaneBaseline.Core.Results;
 
-namespace LaneBaseline.Vision.Pipeline;
+namespace LaneBaseline.Core.Geometry;
 
 /// <summary>
 /// Weighted least-squares fits of x = A·y² + B·y + C (and of a line x = B·y + C) from the normal equations,
 /// with y normalised to [0, 1] by a caller-given scale for conditioning; no allocation.
 /// </summary>
-internal static class QuadraticFit
+public static class QuadraticFit
 {
     /// <summary>Weighted quadratic fit over the points selected by <paramref name="use"/> (all when empty).</summary>
     /// <param name="xs">x values.</param>

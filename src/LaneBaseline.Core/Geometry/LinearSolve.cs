@@ -1,7 +1,7 @@
-namespace LaneBaseline.Vision.Pipeline;
+namespace LaneBaseline.Core.Geometry;
 
 /// <summary>Gaussian elimination with partial pivoting on a small augmented matrix, in place, without allocating.</summary>
-internal static class LinearSolve
+public static class LinearSolve
 {
     /// <summary>Solves the n×(n+1) augmented row-major system <paramref name="m"/>; false when singular.</summary>
     public static bool TrySolve(Span<double> m, int n, Span<double> x)
