@@ -57,7 +57,7 @@ public sealed class ConvertCommandTests : IDisposable
         Assert.Equal([2, 1, 0], records.Select(r => r.Lanes.Count));
         // Lane order follows the mask ids (file order); geometry within 1 px at mid-height
         // (tolerance stated in docs/formats.md and checked row by row in MaskRoundTripTests).
-        Assert.True(Core.Metrics.PointAccuracy.TryXAt(records[0].Lanes[0].Points, 419.5, out double x));
+        Assert.True(Core.Geometry.Polylines.TryXAt(records[0].Lanes[0].Points, 419.5, out double x));
         Assert.Equal(550, x, 1.0); // original: x = 400 + (589 - 419.5) * 300 / 339 = 550
         Assert.Null(records[0].Lanes[0].Slot); // slot, score, kind and tags are lost in masks (docs/formats.md)
     }

@@ -1,14 +1,14 @@
 using LaneBaseline.Core.LaneFiles;
-using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Geometry;
 
 namespace LaneBaseline.Core.Audit;
 
 /// <summary>Row-wise helpers shared by the rules (pixel coordinates: x right, y down).</summary>
 internal static class LaneSampling
 {
-    public static bool XAt(Lane lane, double row, out double x) => PointAccuracy.TryXAt(lane.Points, row, out x);
+    public static bool XAt(Lane lane, double row, out double x) => Polylines.TryXAt(lane.Points, row, out x);
 
-    public static (double Min, double Max) Extent(Lane lane) => PointAccuracy.YExtent(lane.Points);
+    public static (double Min, double Max) Extent(Lane lane) => Polylines.YExtent(lane.Points);
 
     /// <summary>The common y-range of two lanes, clipped below <paramref name="top"/>.</summary>
     public static (double Lo, double Hi) Common(Lane a, Lane b, double top)

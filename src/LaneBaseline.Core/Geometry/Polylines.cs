@@ -1,5 +1,4 @@
 using LaneBaseline.Core.LaneFiles;
-using LaneBaseline.Core.Metrics;
 
 namespace LaneBaseline.Core.Geometry;
 
@@ -69,11 +68,39 @@ public static class Polylines
         return Math.Sqrt((ex * ex) + (ey * ey));
     }
 
-    /// <summary>x of the lane at a row by the metric's rule (first segment whose closed y-range holds the row).</summary>
-    public static bool TryXAt(IReadOnlyList<LanePoint> points, double row, out double x) => PointAccuracy.TryXAt(points, row, out x);
+    /// <summary>The closed y-range [min, max] of a polyline.</summary>
+    public static (double Min, double Max) YExtent(IReadOnlyList<LanePoint> points)
+    {
+        double ymin = double.PositiveInfinity, ymax = double.NegativeInfinity;
+        for (int i = 0; i < points.Count; i++)
+        {
+            ymin = Math.Min(ymin, points[i].Y);
+            ymax = Math.Max(ymax, points[i].Y);
+        }
 
-    /// <summary>The lane's y-extent (min, max).</summary>
-    public static (double Min, double Max) YExtent(IReadOnlyList<LanePoint> points) => PointAccuracy.YExtent(points);
+        return (ymin, ymax);
+    }
+
+    /// <summary>
+    /// x at an image row (the one rule used by the metrics, the auditor and lane sampling) by linear interpolation on the first segment (in point order) whose closed y-range holds
+    /// the row; a horizontal segment at that row gives its first point's x.
+    /// </summary>
+    public static bool TryXAt(IReadOnlyList<LanePoint> points, double row, out double x)
+    {
+        for (int i = 0; i + 1 < points.Count; i++)
+        {
+            LanePoint a = points[i], b = points[i + 1];
+            double lo = Math.Min(a.Y, b.Y), hi = Math.Max(a.Y, b.Y);
+            if (row >= lo && row <= hi)
+            {
+                x = a.Y == b.Y ? a.X : a.X + ((row - a.Y) * (b.X - a.X) / (b.Y - a.Y));
+                return true;
+            }
+        }
+
+        x = double.NaN;
+        return false;
+    }
 
     /// <summary>Arc length of the polyline in pixels.</summary>
     public static double Length(IReadOnlyList<LanePoint> points)

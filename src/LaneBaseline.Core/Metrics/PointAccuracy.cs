@@ -1,3 +1,4 @@
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 
 namespace LaneBaseline.Core.Metrics;
@@ -21,7 +22,7 @@ public static class PointAccuracy
     {
         rows.Clear();
         xs.Clear();
-        (double ymin, double ymax) = YExtent(points);
+        (double ymin, double ymax) = Polylines.YExtent(points);
         for (int row = height - 1; row >= 0; row -= RowStepPx)
         {
             if (row < ymin)
@@ -29,46 +30,12 @@ public static class PointAccuracy
                 break;
             }
 
-            if (row <= ymax && TryXAt(points, row, out double x))
+            if (row <= ymax && Polylines.TryXAt(points, row, out double x))
             {
                 rows.Add(row);
                 xs.Add(x);
             }
         }
-    }
-
-    /// <summary>The closed y-range [min, max] of a polyline.</summary>
-    public static (double Min, double Max) YExtent(IReadOnlyList<LanePoint> points)
-    {
-        double ymin = double.PositiveInfinity, ymax = double.NegativeInfinity;
-        for (int i = 0; i < points.Count; i++)
-        {
-            ymin = Math.Min(ymin, points[i].Y);
-            ymax = Math.Max(ymax, points[i].Y);
-        }
-
-        return (ymin, ymax);
-    }
-
-    /// <summary>
-    /// x at an image row by linear interpolation on the first segment (in point order) whose closed y-range holds
-    /// the row; a horizontal segment at that row gives its first point's x.
-    /// </summary>
-    public static bool TryXAt(IReadOnlyList<LanePoint> points, double row, out double x)
-    {
-        for (int i = 0; i + 1 < points.Count; i++)
-        {
-            LanePoint a = points[i], b = points[i + 1];
-            double lo = Math.Min(a.Y, b.Y), hi = Math.Max(a.Y, b.Y);
-            if (row >= lo && row <= hi)
-            {
-                x = a.Y == b.Y ? a.X : a.X + ((row - a.Y) * (b.X - a.X) / (b.Y - a.Y));
-                return true;
-            }
-        }
-
-        x = double.NaN;
-        return false;
     }
 
     /// <summary>Slope a of the least-squares line <c>x = a*y + b</c> through samples; 0 with fewer than 2.</summary>
@@ -106,12 +73,12 @@ public static class PointAccuracy
     /// <summary>Number of truth sample rows at which the prediction is present and |dx| &lt; tolerance.</summary>
     public static int CountCorrect(List<int> rows, List<double> xs, double tolerancePx, IReadOnlyList<LanePoint> prediction)
     {
-        (double ymin, double ymax) = YExtent(prediction);
+        (double ymin, double ymax) = Polylines.YExtent(prediction);
         int correct = 0;
         for (int i = 0; i < rows.Count; i++)
         {
             int row = rows[i];
-            if (row >= ymin && row <= ymax && TryXAt(prediction, row, out double x) && Math.Abs(x - xs[i]) < tolerancePx)
+            if (row >= ymin && row <= ymax && Polylines.TryXAt(prediction, row, out double x) && Math.Abs(x - xs[i]) < tolerancePx)
             {
                 correct++;
             }

@@ -1,3 +1,4 @@
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Testing;
@@ -77,7 +78,7 @@ public sealed class PointAccuracyTests
     {
         // Segment 0 goes from (0,100) to (10,50); segment 1 folds back from (10,50) to (40,100).
         Lane lane = Lanes.Of((0, 100), (10, 50), (40, 100));
-        Assert.True(PointAccuracy.TryXAt(lane.Points, 75, out double x));
+        Assert.True(Polylines.TryXAt(lane.Points, 75, out double x));
         Assert.Equal(5.0, x, 12);
     }
 

@@ -1,3 +1,4 @@
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Testing;
@@ -104,16 +105,16 @@ public sealed class MaskRoundTripTests
 
     private static void AssertClose(Lane original, Lane got, double capPx, double tolerancePx)
     {
-        (double lo, double hi) = PointAccuracy.YExtent(original.Points);
-        (double glo, double ghi) = PointAccuracy.YExtent(got.Points);
+        (double lo, double hi) = Polylines.YExtent(original.Points);
+        (double glo, double ghi) = Polylines.YExtent(got.Points);
         Assert.InRange(glo, lo - capPx - 1, lo + capPx + 1);
         Assert.InRange(ghi, hi - capPx - 1, hi + capPx + 1);
         int checkedRows = 0;
         double worst = 0;
         for (double y = hi - capPx; y >= lo + capPx; y -= 10)
         {
-            Assert.True(PointAccuracy.TryXAt(original.Points, y, out double x0));
-            Assert.True(PointAccuracy.TryXAt(got.Points, y, out double x1), $"row {y} missing from the recovered lane");
+            Assert.True(Polylines.TryXAt(original.Points, y, out double x0));
+            Assert.True(Polylines.TryXAt(got.Points, y, out double x1), $"row {y} missing from the recovered lane");
             worst = Math.Max(worst, Math.Abs(x1 - x0));
             Assert.True(Math.Abs(x1 - x0) <= tolerancePx, $"row {y}: |{x1} - {x0}| > {tolerancePx}");
             checkedRows++;
