@@ -19,51 +19,25 @@ public static class GroundRules
         ArgumentNullException.ThrowIfNull(record);
         ArgumentNullException.ThrowIfNull(settings);
         ArgumentNullException.ThrowIfNull(sink);
-        var ground = new List<List<(double X, double Y)>?>();
+        var ground = new List<GroundLane?>();
         foreach (Lane lane in record.Lanes)
         {
-            var pts = new List<(double X, double Y)>();
-            foreach (LanePoint p in lane.Points)
-            {
-                if (camera.TryImageToGround(p.X, p.Y, out double x, out double y) && x >= NearM && x <= FarM)
-                {
-                    pts.Add((x, y));
-                }
-            }
-
-            pts.Sort((a, b) => a.X.CompareTo(b.X));
-            ground.Add(pts.Count >= 2 ? pts : null);
+            GroundLane g = new GroundLane().Project(lane.Points, camera, NearM, FarM, sortByDistance: true);
+            ground.Add(g.Points.Count >= 2 ? g : null);
         }
 
         CheckWidthAndParallel(record, ordinal, ground, settings, sink);
         CheckCurvature(record, ordinal, ground, settings, sink);
     }
 
-    /// <summary>Lateral position at distance x by linear interpolation, or false outside the lane's range.</summary>
-    internal static bool YAt(List<(double X, double Y)> pts, double x, out double y)
-    {
-        for (int i = 1; i < pts.Count; i++)
-        {
-            if (x >= pts[i - 1].X && x <= pts[i].X)
-            {
-                double t = pts[i].X == pts[i - 1].X ? 0 : (x - pts[i - 1].X) / (pts[i].X - pts[i - 1].X);
-                y = pts[i - 1].Y + (t * (pts[i].Y - pts[i - 1].Y));
-                return true;
-            }
-        }
-
-        y = double.NaN;
-        return false;
-    }
-
-    private static void CheckWidthAndParallel(LaneRecord record, long ordinal, List<List<(double X, double Y)>?> ground, AuditSettings settings, List<AuditFinding> sink)
+    private static void CheckWidthAndParallel(LaneRecord record, long ordinal, List<GroundLane?> ground, AuditSettings settings, List<AuditFinding> sink)
     {
         // Neighbours: lanes present at the reference distance, ordered left (large Y) to right.
         double near = settings.WidthCheckDistanceM;
         var present = new List<(double Y, int Lane)>();
         for (int i = 0; i < ground.Count; i++)
         {
-            if (ground[i] is { } g && record.Lanes[i].Kind != LaneKinds.RoadEdge && YAt(g, near, out double y))
+            if (ground[i] is { } g && record.Lanes[i].Kind != LaneKinds.RoadEdge && g.TryLateralAt(near, out double y))
             {
                 present.Add((y, i));
             }
@@ -89,7 +63,7 @@ public static class GroundRules
             }
 
             double far = settings.ParallelCheckDistanceM;
-            if (YAt(ground[left]!, far, out double fl) && YAt(ground[right]!, far, out double fr))
+            if (ground[left]!.TryLateralAt(far, out double fl) && ground[right]!.TryLateralAt(far, out double fr))
             {
                 double change = Math.Abs((fl - fr) - width);
                 if (change > settings.MaxWidthChangeM)
@@ -101,27 +75,17 @@ public static class GroundRules
         }
     }
 
-    private static void CheckCurvature(LaneRecord record, long ordinal, List<List<(double X, double Y)>?> ground, AuditSettings settings, List<AuditFinding> sink)
+    private static void CheckCurvature(LaneRecord record, long ordinal, List<GroundLane?> ground, AuditSettings settings, List<AuditFinding> sink)
     {
         double rMin = RoadGeometry.MinimumCurveRadiusM(settings.DesignSpeedKmh, settings.Superelevation, settings.SideFriction);
         for (int i = 0; i < ground.Count; i++)
         {
-            List<(double X, double Y)>? g = ground[i]?.Where(p => p.X <= CurveFarM).ToList();
-            if (g is null || g.Count < 4 || g[^1].X - g[0].X < settings.MinCurveSpanM)
+            // Least-squares Y = a X^2 + b X + c over X <= 60 m; radius at the near end R = (1 + (2aX + b)^2)^(3/2) / |2a|.
+            if (ground[i] is not { } g || !g.TryRadiusAtNearEnd(CurveFarM, 4, settings.MinCurveSpanM, out double radius))
             {
                 continue;
             }
 
-            // Least-squares Y = a X^2 + b X + c; radius at the near end R = (1 + (2aX + b)^2)^(3/2) / |2a|.
-            (double a, double b) = FitQuadratic(g);
-            if (a == 0)
-            {
-                continue;
-            }
-
-            double x0 = g[0].X;
-            double slope = (2 * a * x0) + b;
-            double radius = Math.Pow(1 + (slope * slope), 1.5) / Math.Abs(2 * a);
             if (radius < rMin)
             {
                 sink.Add(new AuditFinding(record.Frame, ordinal, AuditRules.GroundCurvature, AuditRules.Get(AuditRules.GroundCurvature).Severity, i, null, radius, rMin, "m",
@@ -129,38 +93,6 @@ public static class GroundRules
             }
         }
     }
-
-    /// <summary>Least-squares quadratic Y = aX² + bX + c through the points (normal equations, X centred for conditioning).</summary>
-    internal static (double A, double B) FitQuadratic(List<(double X, double Y)> pts)
-    {
-        double mx = pts.Average(p => p.X);
-        double s0 = pts.Count, s1 = 0, s2 = 0, s3 = 0, s4 = 0, t0 = 0, t1 = 0, t2 = 0;
-        foreach ((double x0, double y) in pts)
-        {
-            double x = x0 - mx;
-            s1 += x;
-            s2 += x * x;
-            s3 += x * x * x;
-            s4 += x * x * x * x;
-            t0 += y;
-            t1 += x * y;
-            t2 += x * x * y;
-        }
-
-        // Solve [[s4 s3 s2][s3 s2 s1][s2 s1 s0]] (a, b', c') = (t2, t1, t0) by Cramer's rule.
-        double det = Det(s4, s3, s2, s3, s2, s1, s2, s1, s0);
-        if (Math.Abs(det) < 1e-12)
-        {
-            return (0, 0);
-        }
-
-        double a = Det(t2, s3, s2, t1, s2, s1, t0, s1, s0) / det;
-        double bc = Det(s4, t2, s2, s3, t1, s1, s2, t0, s0) / det;
-        return (a, bc - (2 * a * mx)); // back from centred X: b = b' - 2 a mx
-    }
-
-    private static double Det(double a, double b, double c, double d, double e, double f, double g, double h, double i) =>
-        (a * ((e * i) - (f * h))) - (b * ((d * i) - (f * g))) + (c * ((d * h) - (e * g)));
 
     private static string Inv(FormattableString s) => s.ToString(CultureInfo.InvariantCulture);
 }

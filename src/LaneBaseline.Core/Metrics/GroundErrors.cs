@@ -25,8 +25,8 @@ public sealed class GroundErrors
 
     private readonly GroundProjection projection;
     private readonly double[] lookAhead;
-    private readonly List<(double X, double Y)> ta = [];
-    private readonly List<(double X, double Y)> pa = [];
+    private readonly GroundLane ta = new();
+    private readonly GroundLane pa = new();
 
     /// <summary>Creates the evaluator for a camera.</summary>
     public GroundErrors(CameraModel camera, IReadOnlyList<double>? lookAheadM = null)
@@ -51,18 +51,18 @@ public sealed class GroundErrors
         int curvCount = 0;
         foreach ((int ti, int pi) in pairs)
         {
-            Project(truth[ti], ta);
-            Project(pred[pi], pa);
+            ta.Project(truth[ti].Points, projection);
+            pa.Project(pred[pi].Points, projection);
             for (int k = 0; k < lookAhead.Length; k++)
             {
-                if (TryYAt(ta, lookAhead[k], out double yt) && TryYAt(pa, lookAhead[k], out double yp))
+                if (ta.TryLateralAt(lookAhead[k], out double yt) && pa.TryLateralAt(lookAhead[k], out double yp))
                 {
                     lateralSum[k] += Math.Abs(yp - yt);
                     lateralCount[k]++;
                 }
             }
 
-            if (TryCurvature(ta, out double kt) && TryCurvature(pa, out double kp))
+            if (ta.TryCurvature(out double kt) && pa.TryCurvature(out double kp))
             {
                 curvSum += Math.Abs(kp - kt);
                 curvCount++;
@@ -77,72 +77,6 @@ public sealed class GroundErrors
 
         return new FrameGroundErrors(lateralSum, lateralCount, widthError, curvSum, curvCount);
     }
-
-    /// <summary>Y at X = <paramref name="xM"/> on a ground polyline (first segment spanning it).</summary>
-    public static bool TryYAt(List<(double X, double Y)> pts, double xM, out double y)
-    {
-        ArgumentNullException.ThrowIfNull(pts);
-        for (int i = 0; i + 1 < pts.Count; i++)
-        {
-            (double x0, double y0) = pts[i];
-            (double x1, double y1) = pts[i + 1];
-            if (xM >= Math.Min(x0, x1) && xM <= Math.Max(x0, x1))
-            {
-                y = x0 == x1 ? y0 : y0 + ((xM - x0) * (y1 - y0) / (x1 - x0));
-                return true;
-            }
-        }
-
-        y = double.NaN;
-        return false;
-    }
-
-    /// <summary>Curvature at X = 0 of the least-squares quadratic through the points with 3 m ≤ X ≤ 60 m.</summary>
-    public static bool TryCurvature(List<(double X, double Y)> pts, out double kappa)
-    {
-        ArgumentNullException.ThrowIfNull(pts);
-        kappa = double.NaN;
-        double s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, t0 = 0, t1 = 0, t2 = 0, xmin = double.MaxValue, xmax = double.MinValue;
-        foreach ((double x, double y) in pts)
-        {
-            if (x < 3 || x > 60)
-            {
-                continue;
-            }
-
-            double x2 = x * x;
-            s0 += 1;
-            s1 += x;
-            s2 += x2;
-            s3 += x2 * x;
-            s4 += x2 * x2;
-            t0 += y;
-            t1 += x * y;
-            t2 += x2 * y;
-            xmin = Math.Min(xmin, x);
-            xmax = Math.Max(xmax, x);
-        }
-
-        if (s0 < 4 || xmax - xmin < 10)
-        {
-            return false;
-        }
-
-        // Normal equations [s4 s3 s2; s3 s2 s1; s2 s1 s0] (a b c)^T = (t2 t1 t0)^T, solved by Cramer's rule.
-        double det = Det(s4, s3, s2, s3, s2, s1, s2, s1, s0);
-        if (Math.Abs(det) < 1e-12)
-        {
-            return false;
-        }
-
-        double a = Det(t2, s3, s2, t1, s2, s1, t0, s1, s0) / det;
-        double b = Det(s4, t2, s2, s3, t1, s1, s2, t0, s0) / det;
-        kappa = 2 * a / Math.Pow(1 + (b * b), 1.5);
-        return true;
-    }
-
-    private static double Det(double a, double b, double c, double d, double e, double f, double g, double h, double i) =>
-        (a * ((e * i) - (f * h))) - (b * ((d * i) - (f * g))) + (c * ((d * h) - (e * g)));
 
     private bool TryEgoWidth(IReadOnlyList<Lane> lanes, out double width)
     {
@@ -165,32 +99,7 @@ public sealed class GroundErrors
             return false;
         }
 
-        Project(left, ta);
-        if (!TryYAt(ta, EgoWidthAtM, out double yl))
-        {
-            return false;
-        }
-
-        Project(right, ta);
-        if (!TryYAt(ta, EgoWidthAtM, out double yr))
-        {
-            return false;
-        }
-
-        width = yl - yr;
-        return true;
-    }
-
-    private void Project(Lane lane, List<(double X, double Y)> into)
-    {
-        into.Clear();
-        foreach (LanePoint p in lane.Points)
-        {
-            if (projection.TryImageToGround(p.X, p.Y, out double x, out double y))
-            {
-                into.Add((x, y));
-            }
-        }
+        return GroundLane.TryWidthAt(ta.Project(left.Points, projection), pa.Project(right.Points, projection), EgoWidthAtM, out width);
     }
 }
 

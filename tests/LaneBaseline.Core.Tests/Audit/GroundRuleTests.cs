@@ -30,7 +30,7 @@ public sealed class GroundRuleTests(ITestOutputHelper output)
         // Source: external-checks.md, R of x = a*y^2 + b*y + c is (1 + (2ay + b)^2)^(3/2) / |2a|; a = 0.001, b = 0
         // gives R = 500 m at y = 0. The fit recovers a and b from exact samples.
         var pts = Enumerable.Range(0, 20).Select(i => (X: 5.0 + (2.0 * i), Y: (0.001 * Math.Pow(5.0 + (2.0 * i), 2)) + 1.0)).ToList();
-        (double a, double b) = GroundRules.FitQuadratic(pts);
+        Assert.True(GroundLane.FromPoints(pts).TryQuadratic(double.NegativeInfinity, double.PositiveInfinity, 3, 0, out double a, out double b));
         Assert.Equal(0.001, a, 9);
         Assert.Equal(0.0, b, 7);
         Assert.Equal(500.0, 1 / Math.Abs(2 * a), 3);
