@@ -94,9 +94,9 @@ internal static class ConvertCommand
             switch (format)
             {
                 case "lanes":
-                    WriteAtomically(outPath, temp =>
+                    WriteAtomically(outPath, stream =>
                     {
-                        using LaneFileWriter w = LaneFileWriter.Create(temp);
+                        using var w = new LaneFileWriter(stream);
                         while (source.TryRead(out LaneRecord r))
                         {
                             cancellationToken.ThrowIfCancellationRequested();
@@ -107,9 +107,9 @@ internal static class ConvertCommand
                     });
                     break;
                 case "openlabel":
-                    WriteAtomically(outPath, temp =>
+                    WriteAtomically(outPath, stream =>
                     {
-                        using OpenLabelWriter w = OpenLabelWriter.Create(temp);
+                        using var w = new OpenLabelWriter(stream);
                         while (source.TryRead(out LaneRecord r))
                         {
                             cancellationToken.ThrowIfCancellationRequested();
@@ -173,27 +173,12 @@ internal static class ConvertCommand
             : r;
     }
 
-    private static void WriteAtomically(string path, Action<string> write)
+    private static void WriteAtomically(string path, Action<Stream> write)
     {
-        string full = Path.GetFullPath(path);
-        string? dir = Path.GetDirectoryName(full);
-        if (dir is not null && !Directory.Exists(dir))
-        {
-            throw new UsageException($"{path}: the output folder does not exist");
-        }
-
-        string temp = full + "." + Environment.ProcessId.ToString(CultureInfo.InvariantCulture) + ".tmp";
-        try
-        {
-            write(temp);
-            File.Move(temp, full, overwrite: true);
-        }
-        finally
-        {
-            if (File.Exists(temp))
-            {
-                File.Delete(temp);
-            }
-        }
+        using var file = new AtomicFile(path);
+#pragma warning disable IDISP004 // the writer given the stream owns and disposes it; NonClosingStream only forwards
+        write(new NonClosingStream(file.Stream));
+#pragma warning restore IDISP004
+        file.Commit();
     }
 }

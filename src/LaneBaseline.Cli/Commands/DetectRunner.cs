@@ -432,19 +432,12 @@ internal sealed class DetectRunner
 
     private static void Save(string path, Mat image)
     {
-        string? d = Path.GetDirectoryName(path);
-        if (d is not null)
-        {
-            Directory.CreateDirectory(d);
-        }
-
-        string tmp = path + ".tmp.png";
-        if (!Cv2.ImWrite(tmp, image))
+        if (!Cv2.ImEncode(".png", image, out byte[] png))
         {
             throw new IOException("cannot write " + path);
         }
 
-        File.Move(tmp, path, overwrite: true);
+        AtomicFile.WriteAllBytes(path, png);
     }
 
     private void WriteConfig(string path)
@@ -463,9 +456,7 @@ internal sealed class DetectRunner
         }
 
         text.Append(PresetLoader.ToYaml(request.Options));
-        string tmp = path + ".tmp";
-        File.WriteAllText(tmp, text.ToString(), new UTF8Encoding(false));
-        File.Move(tmp, path, overwrite: true);
+        AtomicFile.WriteAllText(path, text.ToString());
     }
 
     /// <summary>Reads the frames already written (dropping an unterminated last line) and checks they used this configuration.</summary>
@@ -481,9 +472,7 @@ internal sealed class DetectRunner
         int end = Array.LastIndexOf(bytes, (byte)'\n') + 1;
         if (end < bytes.Length)
         {
-            string tmp = request.Output + ".tmp";
-            File.WriteAllBytes(tmp, bytes.AsSpan(0, end).ToArray());
-            File.Move(tmp, request.Output, overwrite: true);
+            AtomicFile.WriteAllBytes(request.Output, bytes.AsSpan(0, end));
         }
 
         using var reader = LaneFileReader.Open(request.Output, sizeRequired: false);

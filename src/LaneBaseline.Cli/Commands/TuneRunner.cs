@@ -534,9 +534,7 @@ internal sealed class TuneRunner
         int end = Array.LastIndexOf(bytes, (byte)'\n') + 1;
         if (end < bytes.Length)
         {
-            string tmp = path + ".tmp";
-            File.WriteAllBytes(tmp, bytes.AsSpan(0, end).ToArray());
-            File.Move(tmp, path, overwrite: true);
+            AtomicFile.WriteAllBytes(path, bytes.AsSpan(0, end));
         }
 
         string[] lines = Encoding.UTF8.GetString(bytes, 0, end).Split('\n', StringSplitOptions.None)[..^1];

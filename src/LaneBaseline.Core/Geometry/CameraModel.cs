@@ -207,9 +207,7 @@ public sealed record CameraModel
     public void Save(string path)
     {
         ArgumentNullException.ThrowIfNull(path);
-        string tmp = path + ".tmp";
-        File.WriteAllText(tmp, ToJson(), new UTF8Encoding(false));
-        File.Move(tmp, path, overwrite: true);
+        IO.AtomicFile.WriteAllText(path, ToJson());
     }
 
     /// <summary>The camera file's JSON text (indented, invariant culture, ends with a newline).</summary>

@@ -1,5 +1,6 @@
 using System.Globalization;
 using LaneBaseline.Core;
+using LaneBaseline.Core.IO;
 using OpenCvSharp;
 
 namespace LaneBaseline.Vision.Masks;
@@ -66,15 +67,7 @@ public static class MaskFiles
     public static void Write(string path, Mat mask)
     {
         ArgumentNullException.ThrowIfNull(mask);
-        string? dir = Path.GetDirectoryName(Path.GetFullPath(path));
-        if (dir is not null)
-        {
-            Directory.CreateDirectory(dir);
-        }
-
         Cv2.ImEncode(".png", mask, out byte[] bytes);
-        string temp = path + "." + Environment.ProcessId.ToString(CultureInfo.InvariantCulture) + ".tmp";
-        File.WriteAllBytes(temp, bytes);
-        File.Move(temp, path, overwrite: true);
+        AtomicFile.WriteAllBytes(path, bytes);
     }
 }
