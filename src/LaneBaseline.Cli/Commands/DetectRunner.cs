@@ -359,13 +359,12 @@ internal sealed class DetectRunner
             }
 
             FrameWorkspace ws = pipeline.Workspace!;
-            Lane[] lanes = LanesOf(ws, result);
             var record = new LaneRecord
             {
                 Frame = w.Item.Key,
                 Width = frame.Cols,
                 Height = frame.Rows,
-                Lanes = lanes,
+                Lanes = result.Lanes,
                 ExtraJson = [new KeyValuePair<string, string>("config", configJson)],
             };
             WriteImages(ws, w.Item);
@@ -380,31 +379,6 @@ internal sealed class DetectRunner
         {
             frame?.Dispose();
         }
-    }
-
-    /// <summary>
-    /// The lanes of the frame just processed, as written to lane files (points rounded to 0.01 px, scores to 4
-    /// digits). Shared by detect and tune so both score exactly what detect would write.
-    /// </summary>
-    public static Lane[] LanesOf(FrameWorkspace ws, FrameResult result)
-    {
-        ArgumentNullException.ThrowIfNull(ws);
-        var lanes = new Lane[result.LaneCount];
-        for (int i = 0; i < result.LaneCount; i++)
-        {
-            LaneEstimate e = ws.GetLane(i);
-            ReadOnlySpan<double> pts = ws.GetLanePoints(i);
-            var points = new LanePoint[e.PointCount];
-            for (int k = 0; k < e.PointCount; k++)
-            {
-                (double x, double y) = ws.ToFramePixels(pts[2 * k], pts[(2 * k) + 1]); // working pixels -> the frame's own
-                points[k] = new LanePoint(Math.Round(x, 2), Math.Round(y, 2));
-            }
-
-            lanes[i] = new Lane { Points = points, Slot = e.Slot, Score = Math.Round(Math.Clamp(e.Score, 0, 1), 4), Kind = e.Kind };
-        }
-
-        return lanes;
     }
 
     private void WriteImages(FrameWorkspace ws, FrameItem item)

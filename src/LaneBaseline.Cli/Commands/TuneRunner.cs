@@ -387,7 +387,7 @@ internal sealed class TuneRunner
                     Frame = key,
                     Width = s.Truth.Width,
                     Height = s.Truth.Height,
-                    Lanes = DetectRunner.LanesOf(pipeline.Workspace!, result),
+                    Lanes = result.Lanes,
                 };
                 tally.Add(scorer.Score(s.Truth, prediction));
             }

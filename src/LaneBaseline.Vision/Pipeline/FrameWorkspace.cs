@@ -74,30 +74,26 @@ public sealed class FrameWorkspace : IDisposable
     /// <summary>Working width in pixels (the frame's own width unless <c>limits.workingWidthPx</c> enlarged it).</summary>
     public int Width { get; }
 
-    /// <summary>
-    /// Working pixels per frame pixel (1 unless the frame was enlarged to <c>limits.workingWidthPx</c>). Every position
-    /// in the workspace is in working pixels; divide by this for the frame's own pixels.
-    /// </summary>
-    public double Scale { get; internal set; } = 1;
+    /// <summary>The mapping between the caller's frame pixels and working pixels.</summary>
+    public WorkingScale Scaling { get; internal set; }
 
-    /// <summary>Working rows per frame row (equal to <see cref="Scale"/> up to the rounding of the working height).</summary>
-    public double ScaleY { get; internal set; } = 1;
+    /// <summary>Working columns per frame column (<see cref="WorkingScale.X"/>).</summary>
+    public double Scale => Scaling.X;
+
+    /// <summary>Working rows per frame row (<see cref="WorkingScale.Y"/>).</summary>
+    public double ScaleY => Scaling.Y;
 
     /// <summary>Whether the frames are processed enlarged (the working size differs from the frame's).</summary>
-    public bool Enlarged => Width != FrameWidth || Height != FrameHeight;
+    public bool Enlarged => Scaling.Enlarged;
 
     /// <summary>Width of the caller's frames, in their own pixels.</summary>
-    public int FrameWidth { get; internal set; }
+    public int FrameWidth => Scaling.FrameWidth;
 
     /// <summary>Height of the caller's frames, in their own pixels.</summary>
-    public int FrameHeight { get; internal set; }
+    public int FrameHeight => Scaling.FrameHeight;
 
-    /// <summary>
-    /// A working-pixel position in the frame's own pixels: pixel centres map to pixel centres ((x + 0.5) / scale − 0.5,
-    /// as the bilinear enlargement samples), clamped to the frame.
-    /// </summary>
-    public (double X, double Y) ToFramePixels(double x, double y) => !Enlarged ? (x, y)
-        : (Math.Clamp(((x + 0.5) / Scale) - 0.5, 0, FrameWidth - 1), Math.Clamp(((y + 0.5) / ScaleY) - 0.5, 0, FrameHeight - 1));
+    /// <summary>A working-pixel position in the frame's own pixels, clamped to the frame (<see cref="WorkingScale.ToFrameClamped"/>).</summary>
+    public (double X, double Y) ToFramePixels(double x, double y) => Scaling.ToFrameClamped(x, y);
 
     /// <summary>Working height in pixels.</summary>
     public int Height { get; }

@@ -1,4 +1,5 @@
 using LaneBaseline.Core;
+using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Options;
 using LaneBaseline.Core.Results;
 using LaneBaseline.Vision.Stages;
@@ -16,7 +17,7 @@ namespace LaneBaseline.Vision.Pipeline;
 public sealed class LanePipeline : IDisposable
 {
     /// <summary>Frames narrower than the working width are enlarged by at most this factor.</summary>
-    public const double MaxEnlargement = 4;
+    public const double MaxEnlargement = WorkingScale.MaxEnlargement;
 
     private readonly PipelineOptions options;
     private readonly List<IFrameStage> stages = [];
@@ -55,8 +56,8 @@ public sealed class LanePipeline : IDisposable
     /// <summary>Processes one 8-bit BGR frame (borrowed for the call).</summary>
     /// <param name="frame">Frame, 8-bit, 3 channels (BGR).</param>
     /// <param name="timestampSeconds">Frame time in seconds (drives tracking; ignored for stills).</param>
-    /// <returns>The frame summary (vanishing point in the frame's own pixels); lanes are read with
-    /// <see cref="FrameWorkspace.GetLane"/> until the next call, in working pixels (<see cref="FrameWorkspace.ToFramePixels"/> maps them back).</returns>
+    /// <returns>The frame's finished lanes and vanishing point, in the frame's own pixels (the workspace keeps the
+    /// working-pixel intermediates until the next call, for overlays and stage sheets).</returns>
     public FrameResult Process(Mat frame, double timestampSeconds)
     {
         ArgumentNullException.ThrowIfNull(frame);
@@ -65,11 +66,10 @@ public sealed class LanePipeline : IDisposable
             throw new ArgumentException("the pipeline expects an 8-bit 3-channel BGR frame", nameof(frame));
         }
 
-        int w = frame.Cols, h = frame.Rows;
-        (int ww, int wh) = WorkingSize(w, h, options.Limits.WorkingWidthPx);
-        if (workspace is null || workspace.Width != ww || workspace.Height != wh || workspace.FrameWidth != w || workspace.FrameHeight != h)
+        WorkingScale scaling = WorkingScale.For(frame.Cols, frame.Rows, options.Limits.WorkingWidthPx);
+        if (workspace is null || workspace.Scaling != scaling)
         {
-            Build(ww, wh, w, h);
+            Build(scaling);
         }
 
         FrameWorkspace ws = workspace!;
@@ -93,8 +93,32 @@ public sealed class LanePipeline : IDisposable
             }
         }
 
-        (double vx, double vy) = !ws.Enlarged ? (ws.VanishingX, ws.VanishingY) : (((ws.VanishingX + 0.5) / ws.Scale) - 0.5, ((ws.VanishingY + 0.5) / ws.ScaleY) - 0.5);
-        return new FrameResult(ws.LaneCount, vx, vy, ws.VanishingSource);
+        (double vx, double vy) = scaling.ToFrame(ws.VanishingX, ws.VanishingY);
+        return new FrameResult(ws.LaneCount, vx, vy, ws.VanishingSource) { Lanes = FinishedLanes(ws) };
+    }
+
+    /// <summary>
+    /// The lanes of the frame just processed, in the frame's own pixels, as lane files carry them (points rounded to
+    /// 0.01 px, scores clamped to [0, 1] and rounded to 4 digits), so detect and tune score exactly the same lanes.
+    /// </summary>
+    private static Lane[] FinishedLanes(FrameWorkspace ws)
+    {
+        var lanes = new Lane[ws.LaneCount];
+        for (int i = 0; i < lanes.Length; i++)
+        {
+            LaneEstimate e = ws.GetLane(i);
+            ReadOnlySpan<double> pts = ws.GetLanePoints(i);
+            var points = new LanePoint[e.PointCount];
+            for (int k = 0; k < e.PointCount; k++)
+            {
+                (double x, double y) = ws.ToFramePixels(pts[2 * k], pts[(2 * k) + 1]); // working pixels -> the frame's own
+                points[k] = new LanePoint(Math.Round(x, 2), Math.Round(y, 2));
+            }
+
+            lanes[i] = new Lane { Points = points, Slot = e.Slot, Score = Math.Round(Math.Clamp(e.Score, 0, 1), 4), Kind = e.Kind };
+        }
+
+        return lanes;
     }
 
     /// <summary>Starts a new sequence: forgets tracks and the smoothed vanishing point (frames that follow are unrelated).</summary>
@@ -118,30 +142,22 @@ public sealed class LanePipeline : IDisposable
     /// </summary>
     public static (int Width, int Height) WorkingSize(int w, int h, int workingWidth)
     {
-        if (workingWidth <= 0 || w >= workingWidth)
-        {
-            return (w, h);
-        }
-
-        double scale = Math.Min(MaxEnlargement, (double)workingWidth / w);
-        return ((int)Math.Round(w * scale), (int)Math.Round(h * scale));
+        WorkingScale s = WorkingScale.For(w, h, workingWidth);
+        return (s.Width, s.Height);
     }
 
-    private void Build(int width, int height, int frameWidth, int frameHeight)
+    private void Build(WorkingScale scaling)
     {
+        int width = scaling.Width, height = scaling.Height;
         DisposeStages();
         workspace?.Dispose();
         int bandTop = Math.Clamp((int)Math.Round(options.Region.SearchTopFraction * height), 0, height - 2);
-        double sx = (double)width / frameWidth, sy = (double)height / frameHeight; // the ratios the resize stage applies
         workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale)
         {
-            Scale = sx,
-            ScaleY = sy,
-            FrameWidth = frameWidth,
-            FrameHeight = frameHeight,
+            Scaling = scaling,
         };
-        (double X, double Y)? vanishing = cameraVanishingPoint is (double vx, double vy) ? (((vx + 0.5) * sx) - 0.5, ((vy + 0.5) * sy) - 0.5) : null;
-        if (width != frameWidth || height != frameHeight)
+        (double X, double Y)? vanishing = cameraVanishingPoint is (double vx, double vy) ? scaling.ToWorking(vx, vy) : null;
+        if (scaling.Enlarged)
         {
             stages.Add(new ResizeStage());
         }
