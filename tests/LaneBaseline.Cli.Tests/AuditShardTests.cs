@@ -60,12 +60,12 @@ public sealed class AuditShardTests : IDisposable
     [Fact]
     public void Partition_KeepsSequencesWhole()
     {
-        Assert.Equal("seq03/*.png", TemporalRules.ShardKey("seq03/000017.png"));
-        Assert.Equal("clip.mp4#*", TemporalRules.ShardKey("clip.mp4#000005"));
-        Assert.Equal("still_a.png", TemporalRules.ShardKey("still_a.png"));
+        Assert.Equal("seq03/*.png", SequenceKey.Of("seq03/000017.png"));
+        Assert.Equal("clip.mp4#*", SequenceKey.Of("clip.mp4#000005"));
+        Assert.Equal("still_a.png", SequenceKey.Of("still_a.png"));
         var spec = new ShardSpec(1, 3);
-        bool inShard = spec.Contains(TemporalRules.ShardKey("seq03/000000.png"));
-        Assert.All(Enumerable.Range(0, 50), f => Assert.Equal(inShard, spec.Contains(TemporalRules.ShardKey($"seq03/{f:000000}.png"))));
+        bool inShard = spec.Contains(SequenceKey.Of("seq03/000000.png"));
+        Assert.All(Enumerable.Range(0, 50), f => Assert.Equal(inShard, spec.Contains(SequenceKey.Of($"seq03/{f:000000}.png"))));
     }
 
     [Fact]

@@ -24,7 +24,7 @@ internal static class DetectCommand
         Option<string?> stagesDir = new("--stages") { Description = "Folder for a contact sheet of every stage's image (frame key + .stages.png)." };
         Option<int> stagesEvery = new("--stages-every") { Description = "With --stages: a sheet for every N-th frame (default 1: every frame).", DefaultValueFactory = _ => 1 };
         Option<int> threads = new("--threads", "-j") { Description = "Frames processed in parallel (output order and bytes do not depend on it). Default 1.", DefaultValueFactory = _ => 1 };
-        Option<string?> shard = new("--shard") { Description = "K/N (0 <= K < N): process only the frames whose key hashes to shard K (stable FNV-1a hash, as score --shard); join shards with 'merge'." };
+        Option<string?> shard = new("--shard") { Description = "K/N (0 <= K < N): process only the frames whose sequence (frame key without its trailing number) hashes to shard K (stable FNV-1a hash, as score and audit --shard), so tracked sequences are never split; join shards with 'merge'." };
         Option<bool> resume = new("--resume") { Description = "Keep the records already in the output file and process only the missing frames." };
         Option<bool> keepGoing = new("--keep-going") { Description = "Report a bad frame on stderr, skip it and continue; the skipped frames are listed at the end." };
         Option<int?> maxFrames = new("--max-frames") { Description = "Stop after N frames (after --shard)." };

@@ -7,6 +7,7 @@ using LaneBaseline.Core;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Options;
 using LaneBaseline.Core.Results;
+using LaneBaseline.Core.Sharding;
 using LaneBaseline.Vision.IO;
 using LaneBaseline.Vision.Pipeline;
 using OpenCvSharp;
@@ -143,14 +144,14 @@ internal sealed class DetectRunner
                 {
                     foreach (Work w in queue.GetConsumingEnumerable(cancel.Token))
                     {
-                        // With tracking on (one worker), frames of one folder form one sequence.
-                        string folder = w.Item.Key.Contains('/', StringComparison.Ordinal) ? w.Item.Key[..w.Item.Key.LastIndexOf('/')] : string.Empty;
-                        if (sequence is not null && folder != sequence)
+                        // With tracking on (one worker), tracks restart whenever the sequence (SequenceKey) changes.
+                        string current = SequenceKey.Of(w.Item.Key);
+                        if (sequence is not null && current != sequence)
                         {
                             pipeline.ResetSequence();
                         }
 
-                        sequence = folder;
+                        sequence = current;
                         Outcome o = ProcessOne(pipeline, w, ref pipelineTicks, primitives, timings);
                         if (request.Timings && stageNames.Length == 0 && pipeline.Workspace is not null)
                         {
@@ -260,7 +261,7 @@ internal sealed class DetectRunner
     {
         int taken = 0;
         bool Wanted(FrameItem item) =>
-            new LaneBaseline.Core.Sharding.ShardSpec(request.ShardIndex, request.ShardCount).Contains(item.Key) && !done.Contains(item.Key);
+            new ShardSpec(request.ShardIndex, request.ShardCount).ContainsFrame(item.Key) && !done.Contains(item.Key);
 
         if (images is not null)
         {

@@ -36,7 +36,7 @@ internal static class ScoreCommand
         Option<string?> report = new("--report") { Description = "Also write the HTML report (as 'lanebaseline report') to this file." };
         Option<string?> frames = new("--frames") { Description = "Folder of the frame images, for the report's worst-frame gallery (needs --report)." };
         Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
-        Option<string?> shard = new("--shard") { Description = "Score only shard K/N of the frames (stable hash of the frame key), e.g. 0/4." };
+        Option<string?> shard = new("--shard") { Description = "Score only shard K/N of the frames: whole sequences (frame key without its trailing number) by a stable hash, as detect and audit --shard, e.g. 0/4." };
         Option<string?> camera = new("--camera") { Description = "camera.json: also report metric-space errors (lateral error at 5/10/20/30 m, ego-lane width, curvature) on the road plane." };
         Option<string?> size = new("--size") { Description = "Frame size WxH for truth masks (default: each mask's own size); prediction masks are rescaled to the truth's size." };
         Option<int> minMaskRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };

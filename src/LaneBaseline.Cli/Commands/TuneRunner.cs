@@ -371,13 +371,13 @@ internal sealed class TuneRunner
         foreach (Sample s in samples)
         {
             string key = s.Item.Key;
-            string folder = key.Contains('/', StringComparison.Ordinal) ? key[..key.LastIndexOf('/')] : string.Empty;
-            if (sequence is not null && folder != sequence)
+            string current = SequenceKey.Of(key);
+            if (sequence is not null && current != sequence)
             {
                 pipeline.ResetSequence();
             }
 
-            sequence = folder;
+            sequence = current;
             Mat? own = s.Frame is null ? Decode(s.Item, s.Truth) : null;
             try
             {

@@ -69,7 +69,7 @@ public sealed class AuditRun
     public Action<long>? OnProgress { get; init; }
 
     /// <summary>
-    /// Audit only this shard: frames whose sequence (<see cref="TemporalRules.ShardKey"/>) hashes to it. Ordinals stay
+    /// Audit only this shard: frames whose sequence (<see cref="Sharding.SequenceKey"/>) hashes to it. Ordinals stay
     /// positions in the whole prediction file, so <c>merge</c> can rank the union exactly as one run would.
     /// </summary>
     public Sharding.ShardSpec? Shard { get; init; }
@@ -268,7 +268,7 @@ public sealed class AuditRun
         return f1;
     }
 
-    private bool InShard(string frame) => Shard is not Sharding.ShardSpec s || s.Contains(TemporalRules.ShardKey(frame));
+    private bool InShard(string frame) => Shard is not Sharding.ShardSpec s || s.ContainsFrame(frame);
 
     private LaneRecord? Join(ILaneRecordSource baseline, Dictionary<string, LaneRecord> pending, string frame)
     {

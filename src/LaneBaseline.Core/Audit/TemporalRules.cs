@@ -1,5 +1,5 @@
 using System.Globalization;
-using System.Text.RegularExpressions;
+using LaneBaseline.Core.Sharding;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
 
@@ -30,7 +30,7 @@ public sealed partial class TemporalRules
     {
         ArgumentNullException.ThrowIfNull(record);
         ArgumentNullException.ThrowIfNull(sink);
-        var cur = new Frame(record, ordinal, Parse(record.Frame));
+        var cur = new Frame(record, ordinal, SequenceKey.Parse(record.Frame));
         if (previous is not null && cur.Sequence is { } s && previous.Sequence is { } p && s.Name == p.Name && s.Number > p.Number)
         {
             long step = s.Number - p.Number;
@@ -168,25 +168,6 @@ public sealed partial class TemporalRules
         older = null;
         previous = null;
     }
-
-    /// <summary>
-    /// The key a sharded audit partitions by: the sequence name of a numbered frame key, else the key itself, so every
-    /// frame of a sequence lands in one shard and the temporal rules see the whole sequence.
-    /// </summary>
-    public static string ShardKey(string frame) => Parse(frame)?.Name ?? frame;
-
-    /// <summary>Splits a frame key into a sequence name and frame number, or null when it does not end in a number.</summary>
-    public static (string Name, long Number)? Parse(string frame)
-    {
-        ArgumentNullException.ThrowIfNull(frame);
-        Match m = NumberedKey().Match(frame);
-        return m.Success && long.TryParse(m.Groups[2].Value, NumberStyles.None, CultureInfo.InvariantCulture, out long n)
-            ? (m.Groups[1].Value + "*" + m.Groups[3].Value, n)
-            : null;
-    }
-
-    [GeneratedRegex(@"^(.*?)(\d{1,15})(\.[A-Za-z0-9]{1,5})?$", RegexOptions.CultureInvariant)]
-    private static partial Regex NumberedKey();
 
     private static string Inv(FormattableString s) => s.ToString(CultureInfo.InvariantCulture);
 

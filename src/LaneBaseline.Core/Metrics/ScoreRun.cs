@@ -162,7 +162,7 @@ public sealed class ScoreRun
                     preds[s] = joiners[s].Take(ordinal);
                 }
 
-                if (Shard is not { } shard || shard.Contains(t.Frame))
+                if (Shard is not { } shard || shard.ContainsFrame(t.Frame))
                 {
                     batch.Add((t, preds, ordinal));
                 }

@@ -4,8 +4,9 @@ using System.Text;
 namespace LaneBaseline.Core.Sharding;
 
 /// <summary>
-/// Shard K of N: a deterministic partition of frames by a stable hash of the frame key (64-bit FNV-1a of its UTF-8
-/// bytes, modulo N), so adding frames never moves other frames between shards.
+/// Shard K of N: a deterministic partition of frames by a stable hash of their sequence (<see cref="SequenceKey"/>;
+/// 64-bit FNV-1a of its UTF-8 bytes, modulo N), so a shard holds whole sequences and adding frames never moves other
+/// frames between shards.
 /// </summary>
 /// <param name="Index">Zero-based shard index K.</param>
 /// <param name="Count">Number of shards N.</param>
@@ -30,8 +31,11 @@ public readonly record struct ShardSpec(int Index, int Count)
         return new ShardSpec(k, n);
     }
 
-    /// <summary>Whether the frame belongs to this shard.</summary>
-    public bool Contains(string frameKey) => Count == 1 || (int)(Fnv1a64(frameKey) % (ulong)Count) == Index;
+    /// <summary>Whether the frame belongs to this shard: its sequence (<see cref="SequenceKey.Of"/>) hashes to it.</summary>
+    public bool ContainsFrame(string frameKey) => Count == 1 || Contains(SequenceKey.Of(frameKey));
+
+    /// <summary>Whether a key (a sequence name) hashes to this shard.</summary>
+    public bool Contains(string key) => Count == 1 || (int)(Fnv1a64(key) % (ulong)Count) == Index;
 
     /// <summary>64-bit FNV-1a of the UTF-8 bytes of <paramref name="text"/>.</summary>
     public static ulong Fnv1a64(string text)

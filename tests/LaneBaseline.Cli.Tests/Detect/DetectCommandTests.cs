@@ -97,7 +97,7 @@ public sealed class DetectCommandTests : IDisposable
     }
 
     // Issue requirement: shards 0..N-1 of detect, joined by merge, equal the unsharded lane file byte for byte
-    // (N = 1, 2, 7); the partition is by a stable hash of the frame key, as for score.
+    // (N = 1, 2, 7); the partition is by a stable hash of the sequence (SequenceKey), as for score and audit.
     [Fact]
     public void Detect_Shards_MergedEqualUnsharded()
     {
@@ -120,6 +120,44 @@ public sealed class DetectCommandTests : IDisposable
         }
 
         Assert.Equal(2, Run("detect", frames, "-o", Path.Combine(dir, "x.jsonl"), "--shard", "2/2").Code);
+    }
+
+    // Issue requirement: detect shards must not split tracked sequences. With tracking on, every frame depends on the
+    // frames before it in its sequence, so merged shards equal the unsharded run only when each shard holds whole
+    // sequences (with the former frame-key hash, the 2- and 3-shard merges differed from the unsharded file).
+    [Fact]
+    public void Detect_TrackedSequences_ShardsMergedEqualUnsharded()
+    {
+        string frames = Path.Combine(dir, "seqframes");
+        for (int s = 0; s < 4; s++)
+        {
+            Directory.CreateDirectory(Path.Combine(frames, "drive" + s));
+            for (int i = 0; i < 4; i++)
+            {
+                var road = new SyntheticRoad { Width = 320, Height = 180, Seed = (ulong)((s * 10) + 1), Curvature = ((s % 3) - 1) * 0.0015, Shadows = i % 2 == 1 };
+                using Mat m = road.Render();
+                Cv2.ImWrite(Path.Combine(frames, "drive" + s, i.ToString("D6") + ".png"), m);
+            }
+        }
+
+        string preset = Path.Combine(dir, "tracked.yaml");
+        File.WriteAllText(preset, "tracking:\n  enabled: true\n");
+        string full = Path.Combine(dir, "tracked-full.lanes.jsonl");
+        Assert.Equal(0, Run("detect", frames, "-o", full, "--config", preset).Code);
+        foreach (int n in new[] { 2, 3 })
+        {
+            var parts = new List<string>();
+            for (int k = 0; k < n; k++)
+            {
+                string o = Path.Combine(dir, $"t{n}-s{k}.lanes.jsonl");
+                Assert.Equal(0, Run("detect", frames, "-o", o, "--config", preset, "--shard", $"{k}/{n}").Code);
+                parts.Add(o);
+            }
+
+            string merged = Path.Combine(dir, $"t{n}.lanes.jsonl");
+            Assert.Equal(0, Run(["merge", .. parts, "-o", merged]).Code);
+            Assert.Equal(File.ReadAllBytes(full), File.ReadAllBytes(merged));
+        }
     }
 
     [Fact]
