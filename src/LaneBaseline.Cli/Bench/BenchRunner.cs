@@ -17,6 +17,8 @@ namespace LaneBaseline.Cli.Bench;
 /// </summary>
 internal sealed class BenchRunner
 {
+    private const string StreamKey = "bench-stream";
+
     private readonly BenchRequest request;
     private readonly TextWriter stderr;
 
@@ -274,12 +276,14 @@ internal sealed class BenchRunner
     {
         using var pipeline = new LanePipeline(request.Options) { MeasureStages = true };
         using var floor = new FloorPrimitives(request.Options.Limits.WorkingWidthPx);
+        // The bench plays its frames as one stream at 10 frames/s (one sequence: tracking never restarts).
+        var runner = new FrameSequenceRunner(pipeline, _ => throw new InvalidOperationException("bench frames are decoded up front"));
         if (part.Length > 0)
         {
             for (int k = 0; k < request.Warmup; k++)
             {
                 Mat frame = frames[part[k % part.Length]];
-                pipeline.Process(frame, k * 0.1);
+                runner.Process(new FrameItem(k, StreamKey, null, k * 0.1), frame);
                 floor.Measure(frame);
             }
 
@@ -296,13 +300,13 @@ internal sealed class BenchRunner
                     // and clock drift fall on both sides equally.
                     if (n % 2 == 0)
                     {
-                        RunPipeline(pipeline, frame, timestamp, i, record);
+                        RunPipeline(runner, frame, timestamp, i, record);
                         RunFloor(floor, frame, i, record);
                     }
                     else
                     {
                         RunFloor(floor, frame, i, record);
-                        RunPipeline(pipeline, frame, timestamp, i, record);
+                        RunPipeline(runner, frame, timestamp, i, record);
                     }
 
                     n++;
@@ -322,23 +326,24 @@ internal sealed class BenchRunner
         double ts = 0;
         foreach (int i in part)
         {
-            pipeline.Process(frames[i], ts += 0.1);
+            runner.Process(new FrameItem(i, StreamKey, null, ts += 0.1), frames[i]);
         }
 
         record.ThroughputEnd = Stopwatch.GetTimestamp();
         record.ThroughputFrames = part.Length;
     }
 
-    private static void RunPipeline(LanePipeline pipeline, Mat frame, double timestamp, int index, WorkerRecord record)
+    private static void RunPipeline(FrameSequenceRunner runner, Mat frame, double timestamp, int index, WorkerRecord record)
     {
+        var item = new FrameItem(index, StreamKey, null, timestamp);
         long bytes0 = GC.GetAllocatedBytesForCurrentThread();
         long t0 = Stopwatch.GetTimestamp();
-        pipeline.Process(frame, timestamp);
+        runner.Process(item, frame);
         double ms = Stopwatch.GetElapsedTime(t0).TotalMilliseconds;
         long bytes = GC.GetAllocatedBytesForCurrentThread() - bytes0;
         record.PipelineMs.Add(ms);
         record.AllocatedBytes.Add(bytes);
-        record.StageMs.Add([.. pipeline.LastStageMs]);
+        record.StageMs.Add([.. runner.Pipeline.LastStageMs]);
         record.PipelineKeys.Add(index);
     }
 

@@ -139,20 +139,13 @@ internal sealed class DetectRunner
             {
                 using var pipeline = new LanePipeline(request.Options, CameraVanishingPoint()) { MeasureStages = request.Timings };
                 using var primitives = request.Timings ? new FloorPrimitives(request.Options.Limits.WorkingWidthPx) : null;
-                string? sequence = null;
+                var runner = new FrameSequenceRunner(pipeline, item => FrameLoader.Load(item.Path!, request.Options.Limits), CheckCameraSize);
                 try
                 {
                     foreach (Work w in queue.GetConsumingEnumerable(cancel.Token))
                     {
-                        // With tracking on (one worker), tracks restart whenever the sequence (SequenceKey) changes.
-                        string current = SequenceKey.Of(w.Item.Key);
-                        if (sequence is not null && current != sequence)
-                        {
-                            pipeline.ResetSequence();
-                        }
-
-                        sequence = current;
-                        Outcome o = ProcessOne(pipeline, w, ref pipelineTicks, primitives, timings);
+                        // With tracking on (one worker), the runner restarts tracks whenever the sequence changes.
+                        Outcome o = ProcessOne(runner, w, ref pipelineTicks, primitives, timings);
                         if (request.Timings && stageNames.Length == 0 && pipeline.Workspace is not null)
                         {
                             stageNames = [.. pipeline.StageNames];
@@ -333,43 +326,43 @@ internal sealed class DetectRunner
         }
     }
 
-    private Outcome ProcessOne(LanePipeline pipeline, Work w, ref long pipelineTicks, FloorPrimitives? primitives, ConcurrentQueue<double[]> timings)
+    private void CheckCameraSize(FrameItem item, Mat frame)
     {
-        Mat? frame = w.Decoded;
+        if (request.Camera is { } cam && (frame.Cols != cam.ImageWidth || frame.Rows != cam.ImageHeight))
+        {
+            throw BadInputException.At(
+                item.Path ?? item.Key,
+                0,
+                null,
+                string.Create(CultureInfo.InvariantCulture, $"frame size {frame.Cols}x{frame.Rows} differs from the camera file's {cam.ImageWidth}x{cam.ImageHeight} ({request.CameraPath})"));
+        }
+    }
+
+    private Outcome ProcessOne(FrameSequenceRunner runner, Work w, ref long pipelineTicks, FloorPrimitives? primitives, ConcurrentQueue<double[]> timings)
+    {
         try
         {
-            frame ??= FrameLoader.Load(w.Item.Path!, request.Options.Limits);
-            if (request.Camera is { } cam && (frame.Cols != cam.ImageWidth || frame.Rows != cam.ImageHeight))
+            LaneRecord? record = null;
+            runner.Process(w.Item, w.Decoded, (frame, result) =>
             {
-                throw BadInputException.At(
-                    w.Item.Path ?? w.Item.Key,
-                    0,
-                    null,
-                    string.Create(CultureInfo.InvariantCulture, $"frame size {frame.Cols}x{frame.Rows} differs from the camera file's {cam.ImageWidth}x{cam.ImageHeight} ({request.CameraPath})"));
-            }
+                if (primitives is not null)
+                {
+                    (double hls, double warp) = primitives.Measure(frame);
+                    timings.Enqueue([.. runner.Pipeline.LastStageMs, runner.LastPipelineTime.TotalMilliseconds, hls, warp, hls + warp]);
+                }
 
-            long t0 = Stopwatch.GetTimestamp();
-            FrameResult result = pipeline.Process(frame, w.Item.TimestampSeconds);
-            TimeSpan elapsed = Stopwatch.GetElapsedTime(t0);
-            Interlocked.Add(ref pipelineTicks, elapsed.Ticks);
-            if (primitives is not null)
-            {
-                (double hls, double warp) = primitives.Measure(frame);
-                double[] stageMs = pipeline.LastStageMs;
-                timings.Enqueue([.. stageMs, elapsed.TotalMilliseconds, hls, warp, hls + warp]);
-            }
-
-            FrameWorkspace ws = pipeline.Workspace!;
-            var record = new LaneRecord
-            {
-                Frame = w.Item.Key,
-                Width = frame.Cols,
-                Height = frame.Rows,
-                Lanes = result.Lanes,
-                ExtraJson = [new KeyValuePair<string, string>("config", configJson)],
-            };
-            WriteImages(ws, w.Item);
-            return new Outcome(w.Item, record, null);
+                record = new LaneRecord
+                {
+                    Frame = w.Item.Key,
+                    Width = frame.Cols,
+                    Height = frame.Rows,
+                    Lanes = result.Lanes,
+                    ExtraJson = [new KeyValuePair<string, string>("config", configJson)],
+                };
+                WriteImages(runner.Pipeline.Workspace!, w.Item);
+            });
+            Interlocked.Add(ref pipelineTicks, runner.LastPipelineTime.Ticks);
+            return new Outcome(w.Item, record!, null);
         }
         catch (Exception ex) when (ex is BadInputException or OpenCVException or IOException)
         {
@@ -378,7 +371,9 @@ internal sealed class DetectRunner
         }
         finally
         {
-            frame?.Dispose();
+#pragma warning disable IDISP007 // the Work item owns a video frame decoded by the source; image files are decoded and released by the runner
+            w.Decoded?.Dispose();
+#pragma warning restore IDISP007
         }
     }
 

@@ -9,6 +9,7 @@ using LaneBaseline.Core;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Core.Options;
+using LaneBaseline.Core.Results;
 using LaneBaseline.Core.Sharding;
 using LaneBaseline.Core.Tuning;
 using LaneBaseline.Vision.IO;
@@ -310,7 +311,7 @@ internal sealed class TuneRunner
                     Decode(item, r).Dispose();
                 }
 
-                into.Add(new Sample(item, r, decoded.TryGetValue(r.Frame, out Mat? frame) ? frame : null));
+                into.Add(new Sample(item with { TimestampSeconds = item.Index / ImageFps }, r, decoded.TryGetValue(r.Frame, out Mat? frame) ? frame : null));
             }
         }
 
@@ -360,41 +361,27 @@ internal sealed class TuneRunner
         return score;
     }
 
-    /// <summary>Runs the pipeline over the samples in key order (a new sequence per folder) and returns the objective.</summary>
+    /// <summary>Runs the pipeline over the samples in key order (tracking restarts per sequence) and returns the objective.</summary>
     private double Measure(PipelineOptions options, List<Sample> samples)
     {
         using var pipeline = new LanePipeline(options);
         using var rasterizer = new OpenCvLaneRasterizer();
         var scorer = new FrameScorer(rasterizer, new ScoreSettings());
         var tally = new ScoreTally(scorer.Thresholds);
-        string? sequence = null;
+        Sample? current = null;
+        var runner = new FrameSequenceRunner(pipeline, _ => Decode(current!.Item, current.Truth));
         foreach (Sample s in samples)
         {
-            string key = s.Item.Key;
-            string current = SequenceKey.Of(key);
-            if (sequence is not null && current != sequence)
+            current = s;
+            FrameResult result = runner.Process(s.Item, s.Frame);
+            var prediction = new LaneRecord
             {
-                pipeline.ResetSequence();
-            }
-
-            sequence = current;
-            Mat? own = s.Frame is null ? Decode(s.Item, s.Truth) : null;
-            try
-            {
-                var result = pipeline.Process(own ?? s.Frame!, s.Item.Index / ImageFps);
-                var prediction = new LaneRecord
-                {
-                    Frame = key,
-                    Width = s.Truth.Width,
-                    Height = s.Truth.Height,
-                    Lanes = result.Lanes,
-                };
-                tally.Add(scorer.Score(s.Truth, prediction));
-            }
-            finally
-            {
-                own?.Dispose();
-            }
+                Frame = s.Item.Key,
+                Width = s.Truth.Width,
+                Height = s.Truth.Height,
+                Lanes = result.Lanes,
+            };
+            tally.Add(scorer.Score(s.Truth, prediction));
         }
 
         return request.Objective switch
