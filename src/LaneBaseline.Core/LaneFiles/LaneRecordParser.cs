@@ -175,7 +175,7 @@ internal static class LaneRecordParser
             throw state.Error(laneKey, "expected a lane object");
         }
 
-        List<LanePoint>? points = null;
+        LanePoint[]? points = null;
         int? slot = null;
         double? score = null;
         string? kind = null;
@@ -232,53 +232,54 @@ internal static class LaneRecordParser
             throw state.Error(laneKey + ".points", "required key is missing");
         }
 
-        if (points.Count < 2)
+        if (points.Length < 2)
         {
-            throw state.Error(laneKey + ".points", $"a lane needs at least 2 points, found {points.Count.ToString(CultureInfo.InvariantCulture)}");
+            throw state.Error(laneKey + ".points", $"a lane needs at least 2 points, found {points.Length.ToString(CultureInfo.InvariantCulture)}");
         }
 
         return new Lane { Points = points, Slot = slot, Score = score, Kind = kind, ExtraJson = extra ?? [] };
     }
 
-    private static List<LanePoint> ReadPoints(ref Utf8JsonReader reader, State state, string key)
+    private static LanePoint[] ReadPoints(ref Utf8JsonReader reader, State state, string key)
     {
         if (reader.TokenType != JsonTokenType.StartArray)
         {
             throw state.Error(key, "expected an array of [x, y] points");
         }
 
-        var points = new List<LanePoint>();
+        List<LanePoint> points = state.PointScratch;
+        points.Clear();
         while (true)
         {
-            string pointKey = key + "[" + points.Count.ToString(CultureInfo.InvariantCulture) + "]";
-            state.Key = pointKey;
+            state.AtPoint(key, points.Count);
             reader.Read();
             if (reader.TokenType == JsonTokenType.EndArray)
             {
-                return points;
+                return [.. points];
             }
 
             if (reader.TokenType != JsonTokenType.StartArray)
             {
-                throw state.Error(pointKey, "a point must be an array [x, y]");
+                throw state.Error(state.Key, "a point must be an array [x, y]");
             }
 
             reader.Read();
-            double x = ReadFinite(ref reader, state, pointKey);
+            double x = ReadFinite(ref reader, state, null);
             reader.Read();
-            double y = ReadFinite(ref reader, state, pointKey);
+            double y = ReadFinite(ref reader, state, null);
             reader.Read();
             if (reader.TokenType != JsonTokenType.EndArray)
             {
-                throw state.Error(pointKey, "a point must have exactly two numbers [x, y]");
+                throw state.Error(state.Key, "a point must have exactly two numbers [x, y]");
             }
 
             points.Add(new LanePoint(x, y));
         }
     }
 
-    private static double ReadFinite(ref Utf8JsonReader reader, State state, string key)
+    private static double ReadFinite(ref Utf8JsonReader reader, State state, string? key)
     {
+        key ??= state.Key;
         if (reader.TokenType != JsonTokenType.Number)
         {
             throw state.Error(key, reader.TokenType == JsonTokenType.EndArray
@@ -393,7 +394,29 @@ internal static class LaneRecordParser
 
         public long Line { get; } = line;
 
-        public string? Key { get; set; }
+        private string? key;
+        private string? pointBase;
+        private int pointIndex;
+
+        /// <summary>The key being read, for error messages; a point's key is only built when an error needs it.</summary>
+        public string? Key
+        {
+            get => pointBase is null ? key : pointBase + "[" + pointIndex.ToString(CultureInfo.InvariantCulture) + "]";
+            set
+            {
+                key = value;
+                pointBase = null;
+            }
+        }
+
+        /// <summary>Reused while one lane's points are read; copied to an exact-size array.</summary>
+        public List<LanePoint> PointScratch { get; } = [];
+
+        public void AtPoint(string lanePointsKey, int index)
+        {
+            pointBase = lanePointsKey;
+            pointIndex = index;
+        }
 
         public BadInputException Error(string? key, string problem) => BadInputException.At(File, Line, key, problem);
     }

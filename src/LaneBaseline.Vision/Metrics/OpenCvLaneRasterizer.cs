@@ -19,6 +19,8 @@ namespace LaneBaseline.Vision.Metrics;
 public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
 {
     private readonly List<Mat> canvases = [];
+    private readonly List<nint> canvasData = []; // each canvas's pixel pointer, read once (a native call per read)
+    private long canvasStep;
     private Rect[] boxes = new Rect[16];
     private int canvasWidth;
     private int canvasHeight;
@@ -44,7 +46,7 @@ public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
         {
             Lane lane = i < nt ? truth[i] : predictions[i - nt];
             boxes[i] = Draw(canvases[i], lane.Points, lineWidthPx, reach, width, height);
-            long area = Count(canvases[i], boxes[i], null);
+            long area = Count(canvasData[i], canvasStep, boxes[i], 0);
             if (i < nt)
             {
                 truthAreas[i] = area;
@@ -61,22 +63,24 @@ public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
             {
                 Rect overlap = boxes[i] & boxes[nt + j];
                 intersections[(i * np) + j] = overlap.Width > 0 && overlap.Height > 0
-                    ? Count(canvases[i], overlap, canvases[nt + j])
+                    ? Count(canvasData[i], canvasStep, overlap, canvasData[nt + j])
                     : 0;
             }
         }
 
         for (int i = 0; i < total; i++)
         {
-            Clear(canvases[i], boxes[i]);
+            Clear(canvasData[i], canvasStep, boxes[i]);
         }
+
+        GC.KeepAlive(canvases);
     }
 
     /// <summary>Draws one lane exactly as the metric specifies (for tests and overlays); returns its clipped box.</summary>
     internal static Rect Draw(Mat canvas, IReadOnlyList<LanePoint> points, int thickness, int reach, int width, int height)
     {
         int minX = int.MaxValue, minY = int.MaxValue, maxX = int.MinValue, maxY = int.MinValue;
-        var previous = default(Point);
+        var pts = new Point[points.Count];
         for (int k = 0; k < points.Count; k++)
         {
             var p = new Point(
@@ -86,12 +90,15 @@ public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
             maxX = Math.Max(maxX, p.X);
             minY = Math.Min(minY, p.Y);
             maxY = Math.Max(maxY, p.Y);
-            if (k > 0)
-            {
-                Cv2.Line(canvas, previous, p, Scalar.All(1), thickness, LineTypes.Link8);
-            }
+            pts[k] = p;
+        }
 
-            previous = p;
+        // One open polyline per lane: OpenCV draws each segment as line() does (the same thick segment, and the caps
+        // at both ends of the first segment and at the far end of every later one, i.e. at every vertex), so the
+        // footprint is the union of the per-segment line() footprints, in one native call instead of one per segment.
+        if (pts.Length > 1)
+        {
+            Cv2.Polylines(canvas, [pts], isClosed: false, Scalar.All(1), thickness, LineTypes.Link8);
         }
 
         int x0 = Math.Max(0, minX - reach), y0 = Math.Max(0, minY - reach);
@@ -99,16 +106,15 @@ public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
         return x1 > x0 && y1 > y0 ? new Rect(x0, y0, x1 - x0, y1 - y0) : default;
     }
 
-    private static unsafe long Count(Mat a, Rect box, Mat? b)
+    private static unsafe long Count(nint a, long step, Rect box, nint b)
     {
         if (box.Width <= 0 || box.Height <= 0)
         {
             return 0;
         }
 
-        long step = a.Step();
-        byte* pa = (byte*)a.DataPointer;
-        byte* pb = b is null ? null : (byte*)b.DataPointer;
+        byte* pa = (byte*)a;
+        byte* pb = (byte*)b;
         long count = 0;
         for (int y = box.Y; y < box.Y + box.Height; y++)
         {
@@ -133,26 +139,21 @@ public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
             }
         }
 
-        GC.KeepAlive(a);
-        GC.KeepAlive(b);
         return count;
     }
 
-    private static unsafe void Clear(Mat canvas, Rect box)
+    private static unsafe void Clear(nint canvas, long step, Rect box)
     {
         if (box.Width <= 0 || box.Height <= 0)
         {
             return;
         }
 
-        long step = canvas.Step();
-        byte* p = (byte*)canvas.DataPointer;
+        byte* p = (byte*)canvas;
         for (int y = box.Y; y < box.Y + box.Height; y++)
         {
             new Span<byte>(p + (y * step) + box.X, box.Width).Clear();
         }
-
-        GC.KeepAlive(canvas);
     }
 
     private void EnsureCanvases(int width, int height, int count)
@@ -166,7 +167,10 @@ public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
 
         while (canvases.Count < count)
         {
-            canvases.Add(new Mat(height, width, MatType.CV_8UC1, Scalar.All(0)));
+            var canvas = new Mat(height, width, MatType.CV_8UC1, Scalar.All(0));
+            canvases.Add(canvas);
+            canvasData.Add(canvas.Data);
+            canvasStep = canvas.Step();
         }
 
         if (boxes.Length < count)
@@ -183,6 +187,7 @@ public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
         }
 
         canvases.Clear();
+        canvasData.Clear();
     }
 
     /// <inheritdoc />
