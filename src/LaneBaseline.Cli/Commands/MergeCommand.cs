@@ -5,6 +5,7 @@ using LaneBaseline.Core.Audit;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Vision.Masks;
+using LaneBaseline.Cli.Outputs;
 
 namespace LaneBaseline.Cli.Commands;
 
@@ -79,13 +80,13 @@ internal static class MergeCommand
                         halfIndex = h.Settings.HalfIndex;
                         if (csvWriter is not null)
                         {
-                            ScoreCommand.WriteCsvHeader(csvWriter, h.Systems.Count > 1);
+                            ScoreOutputWriter.WriteCsvHeader(csvWriter, h.Systems.Count > 1);
                         }
 
                         if (h.MaskIou)
                         {
                             maskIou = [.. h.Systems.Select(_ => new MaskIouSummary())];
-                            maskCsvFile?.Writer.Write(ScoreCommand.MaskCsvHeader(h.Systems.Count));
+                            maskCsvFile?.Writer.Write(ScoreOutputWriter.MaskCsvHeader(h.Systems.Count));
                         }
                         else if (maskCsvFile is not null)
                         {
@@ -96,7 +97,7 @@ internal static class MergeCommand
                     {
                         if (csvWriter is not null)
                         {
-                            ScoreCommand.WriteCsvRows(csvWriter, systems!, halfIndex, row);
+                            ScoreOutputWriter.WriteCsvRows(csvWriter, systems!, halfIndex, row);
                         }
                     },
                     mask =>
@@ -105,13 +106,13 @@ internal static class MergeCommand
                         maskIou![mask.System].AddFrame(mask.PredLanes, lanes);
                         foreach (MaskLaneIou lane in lanes)
                         {
-                            maskCsvFile?.Writer.Write(ScoreCommand.MaskCsvRow(systems!, mask.System, lane));
+                            maskCsvFile?.Writer.Write(ScoreOutputWriter.MaskCsvRow(systems!, mask.System, lane));
                         }
                     });
                 maskCsvFile?.Commit();
                 stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"merge: {results[0].Overall.Frames} frames from {paths.Length} shard state(s)"));
                 var request = new ScoreRequest(header.Truth, header.Systems, header.Settings, header.Resamples, header.Seed, threadCount, outPath, csvFile is null ? null : "csv", parseResult.GetValue(minF1));
-                return ScoreCommand.Finish(stdout, stderr, request, results, csvFile, maskIou);
+                return ScoreOutputWriter.Finish(stdout, stderr, request, results, csvFile, maskIou);
             }
 
             if (parseResult.GetValue(csv) is not null || parseResult.GetValue(minF1) is not null || parseResult.GetValue(maskCsv) is not null)
@@ -164,7 +165,7 @@ internal static class MergeCommand
         string? generatedAt,
         CancellationToken cancellationToken)
     {
-        AuditSeverity? gate = AuditCommand.ParseGate(failOn);
+        AuditSeverity? gate = CommandArguments.ParseGate(failOn);
         if (mine < 0 || overlays < 0)
         {
             throw new UsageException("--overlays and --mine must be 0 or more");
@@ -179,7 +180,7 @@ internal static class MergeCommand
         LaneSourceOpener opener = LaneInputs.Opener(settings.Size, minMaskRows, stderr);
         string baseline = header.JobValue("baseline") ?? string.Empty;
         var outputs = new AuditOutputs(outPath, framesRoot, overlays, mine, gate, reportPath is null ? null : (reportPath, at));
-        return AuditCommand.Finish(
+        return AuditOutputWriter.Finish(
             stdout,
             stderr,
             result,

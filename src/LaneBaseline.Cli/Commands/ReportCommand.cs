@@ -57,7 +57,7 @@ internal static class ReportCommand
                 throw new UsageException("the worst-frame gallery ranks frames by score: it needs --score");
             }
 
-            GalleryRequest? gallery = given == 3 ? new GalleryRequest(framesDir!, truthPath!, ScoreCommand.ParseSystems(preds), threadCount) : null;
+            GalleryRequest? gallery = given == 3 ? new GalleryRequest(framesDir!, truthPath!, CommandArguments.ParseSystems(preds), threadCount) : null;
             ScoreDocument? doc = scorePath is null ? null : ScoreDocumentReader.Read(scorePath);
             AuditSummary? findings = auditPath is null ? null : AuditFindingsReader.Read(auditPath);
             string? benchPath = parseResult.GetValue(bench);

@@ -10,6 +10,7 @@ using LaneBaseline.Core.Sharding;
 using LaneBaseline.Reporting.Score;
 using LaneBaseline.Vision.Masks;
 using LaneBaseline.Vision.Metrics;
+using LaneBaseline.Cli.Outputs;
 
 namespace LaneBaseline.Cli.Commands;
 
@@ -54,7 +55,7 @@ internal static class ScoreCommand
             {
                 LaneWidthPx = parseResult.GetValue(laneWidth),
                 TolerancePx = parseResult.GetValue(tolerance),
-                ExtraThresholds = ParseThresholds(parseResult.GetValue(iou) ?? []),
+                ExtraThresholds = CommandArguments.ParseThresholds(parseResult.GetValue(iou) ?? []),
                 Camera = parseResult.GetValue(camera) is string cameraPath ? CameraModel.Load(cameraPath) : null,
             };
             if (settings.LaneWidthPx is <= 0)
@@ -96,7 +97,7 @@ internal static class ScoreCommand
 
             var request = new ScoreRequest(
                 parseResult.GetRequiredValue(truth),
-                ParseSystems(parseResult.GetRequiredValue(pred)),
+                CommandArguments.ParseSystems(parseResult.GetRequiredValue(pred)),
                 settings,
                 resamples,
                 parseResult.GetValue(seed),
@@ -128,69 +129,6 @@ internal static class ScoreCommand
         return command;
     }
 
-    internal static IReadOnlyList<IouThreshold> ParseThresholds(IEnumerable<string> values)
-    {
-        var list = new List<IouThreshold>();
-        foreach (string v in values)
-        {
-            foreach (string part in v.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
-            {
-                try
-                {
-                    list.Add(IouThreshold.Parse(part));
-                }
-                catch (FormatException ex)
-                {
-                    throw new UsageException("--iou: " + ex.Message);
-                }
-            }
-        }
-
-        return list;
-    }
-
-    internal static IReadOnlyList<ScoredSystem> ParseSystems(string[] values)
-    {
-        var systems = new List<ScoredSystem>();
-        foreach (string v in values)
-        {
-            int eq = v.IndexOf('=', StringComparison.Ordinal);
-            string name, path;
-            if (eq > 0 && v[..eq].IndexOfAny(['/', '\\']) < 0)
-            {
-                name = v[..eq];
-                path = v[(eq + 1)..];
-            }
-            else
-            {
-                path = v;
-                name = Path.GetFileName(v);
-                foreach (string suffix in new[] { ".lanes.jsonl", ".jsonl" })
-                {
-                    if (name.EndsWith(suffix, StringComparison.OrdinalIgnoreCase) && name.Length > suffix.Length)
-                    {
-                        name = name[..^suffix.Length];
-                        break;
-                    }
-                }
-            }
-
-            if (path.Length == 0)
-            {
-                throw new UsageException($"--pred {v}: no file after '='");
-            }
-
-            if (systems.Any(s => s.Name == name))
-            {
-                throw new UsageException($"--pred: the name '{name}' is given twice; name systems as NAME=FILE");
-            }
-
-            systems.Add(new ScoredSystem(name, path));
-        }
-
-        return systems;
-    }
-
     private static int Execute(TextWriter stdout, TextWriter stderr, ScoreRequest request, ShardSpec? shard, MaskInputs masks, CancellationToken cancellationToken)
     {
         bool allMasks = shard is null && LaneInputs.IsMaskFolder(request.TruthPath) && request.Systems.All(s => LaneInputs.IsMaskFolder(s.Path));
@@ -202,7 +140,10 @@ internal static class ScoreCommand
         var clock = Stopwatch.StartNew();
         using AtomicFile? csvFile = request.CsvPath is null ? null : new AtomicFile(request.CsvPath);
         TextWriter? csvWriter = csvFile?.Writer;
-        csvWriter?.Write(CsvHeader(request.Systems.Count > 1));
+        if (csvWriter is not null)
+        {
+            ScoreOutputWriter.WriteCsvHeader(csvWriter, request.Systems.Count > 1);
+        }
         long lastReport = 0;
         int halfIndex = request.Settings.HalfIndex;
         var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
@@ -211,7 +152,7 @@ internal static class ScoreCommand
             Threads = request.Threads,
             Shard = shard,
             Opener = LaneInputs.Opener(masks.Size, masks.MinRows, stderr),
-            OnFrame = csvWriter is null ? null : row => WriteCsvRows(csvWriter, request.Systems, halfIndex, row),
+            OnFrame = csvWriter is null ? null : row => ScoreOutputWriter.WriteCsvRows(csvWriter, request.Systems, halfIndex, row),
             OnProgress = (done, total) =>
             {
                 long now = clock.ElapsedMilliseconds;
@@ -229,69 +170,7 @@ internal static class ScoreCommand
             CultureInfo.InvariantCulture,
             $"score: {frames} frames x {results.Count} system(s) in {scoreSeconds:0.###} s ({frames * results.Count / Math.Max(scoreSeconds, 1e-9):0} frame-scores/s, {request.Threads} thread(s))"));
         MaskIouSummary[]? maskIou = allMasks ? MaskIouAll(request.TruthPath, request.Systems, masks.CsvPath, cancellationToken) : null;
-        return Finish(stdout, stderr, request, results, csvFile, maskIou);
-    }
-
-    /// <summary>Bootstrap, table, CSV commit, JSON and gate: shared by <c>score</c> and <c>merge</c>.</summary>
-    internal static int Finish(TextWriter stdout, TextWriter stderr, ScoreRequest request, IReadOnlyList<SystemScore> results, AtomicFile? csvFile, MaskIouSummary[]? maskIou = null)
-    {
-        BootstrapResult? boot = null;
-        if (request.Resamples > 0)
-        {
-            double[][][] samples = Bootstrap.Resample([.. results.Select(r => r.Series)], request.Resamples, request.Seed, request.Threads);
-            var intervals = samples.Select(sys => sys.Select(stat => Bootstrap.Percentiles(stat, 0.95)).ToArray()).ToArray();
-            boot = new BootstrapResult { Resamples = request.Resamples, Seed = request.Seed, Intervals = intervals, Samples = samples };
-        }
-
-        if (results.Any(r => r.Overall.AllEmpty))
-        {
-            stderr.WriteLine("note: no truth and no predicted lanes at all in some system's frames; by definition it scores 1.0");
-        }
-
-        ScoreTableWriter.Write(stdout, request.TruthPath, results, request.Settings, boot);
-        if (maskIou is not null)
-        {
-            stdout.WriteLine();
-            stdout.WriteLine("Mask IoU (per truth lane id, Hungarian-assigned; unassigned count 0):");
-            for (int s = 0; s < request.Systems.Count; s++)
-            {
-                MaskIouSummary m = maskIou[s];
-                stdout.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {request.Systems[s].Name}: mean IoU {m.MeanIou:0.0000} over {m.TruthLanes} truth lanes ({m.Matched} assigned, {m.PredLanes} predicted)"));
-            }
-        }
-
-        csvFile?.Commit();
-        if (request.JsonPath is not null)
-        {
-            using var jsonFile = new AtomicFile(request.JsonPath);
-            ScoreJsonWriter.Write(jsonFile.Stream, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]));
-            jsonFile.Commit();
-        }
-
-        if (request.Report is (string reportPath, var framesDir))
-        {
-            using var buffer = new MemoryStream();
-            ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
-            ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
-            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads);
-            ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", null, gallery, DateTimeOffset.UtcNow, CancellationToken.None);
-            stderr.WriteLine("score: wrote report " + reportPath);
-        }
-
-        if (request.MinF1 is double gate)
-        {
-            foreach (SystemScore r in results)
-            {
-                double f1 = r.Overall.At(IouThreshold.Half).F1;
-                if (f1 < gate)
-                {
-                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"quality gate failed: {r.System.Name} F1@0.50 = {f1:0.####} < --min-f1 {gate}"));
-                    return ExitCodes.GateFailed;
-                }
-            }
-        }
-
-        return ExitCodes.Success;
+        return ScoreOutputWriter.Finish(stdout, stderr, request, results, csvFile, maskIou);
     }
 
     private static int WritePartial(TextWriter stderr, ScoreRequest request, ShardSpec shard, string partialPath, MaskInputs masks, CancellationToken cancellationToken)
@@ -365,7 +244,7 @@ internal static class ScoreCommand
     {
         using AtomicFile? csvFile = csvPath is null ? null : new AtomicFile(csvPath);
         TextWriter? csv = csvFile?.Writer;
-        csv?.Write(MaskCsvHeader(systems.Count));
+        csv?.Write(ScoreOutputWriter.MaskCsvHeader(systems.Count));
         var result = new MaskIouSummary[systems.Count];
         for (int s = 0; s < systems.Count; s++)
         {
@@ -373,7 +252,7 @@ internal static class ScoreCommand
             result[s] = MaskIouRun.Execute(
                 truthPath,
                 systems[s].Path,
-                csv is null ? null : lane => csv.Write(MaskCsvRow(systems, system, lane)),
+                csv is null ? null : lane => csv.Write(ScoreOutputWriter.MaskCsvRow(systems, system, lane)),
                 cancellationToken: cancellationToken);
         }
 
@@ -381,80 +260,8 @@ internal static class ScoreCommand
         return result;
     }
 
-    /// <summary>Header of the per-lane mask IoU CSV (<c>--mask-iou-csv</c>).</summary>
-    internal static string MaskCsvHeader(int systems) => (systems > 1 ? "system," : string.Empty) + "frame,truth_id,pred_id,iou\n";
-
-    /// <summary>One row of the per-lane mask IoU CSV.</summary>
-    internal static string MaskCsvRow(IReadOnlyList<ScoredSystem> systems, int system, MaskLaneIou lane) =>
-        (systems.Count > 1 ? Csv(systems[system].Name) + "," : string.Empty)
-        + string.Create(CultureInfo.InvariantCulture, $"{Csv(lane.Frame)},{lane.TruthId},{lane.PredId},{lane.Iou.ToString("R", CultureInfo.InvariantCulture)}\n");
-
-    private static void WriteMaskIou(System.Text.Json.Utf8JsonWriter w, MaskIouSummary m)
-    {
-        w.WriteStartObject("mask_iou");
-        w.WriteNumber("frames", m.Frames);
-        w.WriteNumber("truth_lanes", m.TruthLanes);
-        w.WriteNumber("pred_lanes", m.PredLanes);
-        w.WriteNumber("assigned", m.Matched);
-        // a float at full precision like every other metric (1.0, not 1)
-        w.WritePropertyName("mean_iou");
-        w.WriteRawValue(ScoreJsonWriter.FormatFloat(m.MeanIou), skipInputValidation: true);
-        w.WriteEndObject();
-    }
-
 #pragma warning disable IDISP005 // ScoreRun owns and disposes the rasterizers it creates
     private static ILaneRasterizer CreateRasterizer() => new OpenCvLaneRasterizer();
 #pragma warning restore IDISP005
 
-    internal static void WriteCsvHeader(TextWriter csv, bool multi) => csv.Write(CsvHeader(multi));
-
-    private static string CsvHeader(bool multi) =>
-        (multi ? "system," : string.Empty) + "frame,tags,tp,fp,fn,mean_matched_iou,point_accuracy\n";
-
-    internal static void WriteCsvRows(TextWriter csv, IReadOnlyList<ScoredSystem> systems, int halfIndex, IReadOnlyList<FrameScore> row)
-    {
-        for (int s = 0; s < row.Count; s++)
-        {
-            FrameScore f = row[s];
-            int tp = f.TruePositives[halfIndex];
-            if (systems.Count > 1)
-            {
-                csv.Write(Csv(systems[s].Name));
-                csv.Write(',');
-            }
-
-            csv.Write(Csv(f.Frame));
-            csv.Write(',');
-            csv.Write(Csv(string.Join(';', f.Tags)));
-            csv.Write(string.Create(CultureInfo.InvariantCulture, $",{tp},{f.PredLanes - tp},{f.TruthLanes - tp},"));
-            double miou = f.MeanMatchedIou;
-            csv.Write(double.IsNaN(miou) ? string.Empty : miou.ToString("R", CultureInfo.InvariantCulture));
-            csv.Write(',');
-            double acc = f.FramePointAccuracy;
-            csv.Write(double.IsNaN(acc) ? string.Empty : acc.ToString("R", CultureInfo.InvariantCulture));
-            csv.Write('\n');
-        }
-    }
-
-    private static string Csv(string value) =>
-        value.AsSpan().IndexOfAny(",\"\n\r") >= 0 ? "\"" + value.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"" : value;
 }
-
-/// <summary>Everything a score or merge run writes with.</summary>
-internal sealed record ScoreRequest(
-    string TruthPath,
-    IReadOnlyList<ScoredSystem> Systems,
-    ScoreSettings Settings,
-    int Resamples,
-    ulong Seed,
-    int Threads,
-    string? JsonPath,
-    string? CsvPath,
-    double? MinF1)
-{
-    /// <summary>HTML report path and optional frames folder for its gallery.</summary>
-    public (string Path, string? FramesDir)? Report { get; init; }
-}
-
-/// <summary>Mask-input settings of a score run.</summary>
-internal sealed record MaskInputs((int Width, int Height)? Size, int MinRows, string? CsvPath);

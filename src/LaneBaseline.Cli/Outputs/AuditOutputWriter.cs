@@ -1,0 +1,166 @@
+using System.Globalization;
+using LaneBaseline.Cli.Reports;
+using LaneBaseline.Core;
+using LaneBaseline.Core.Audit;
+using LaneBaseline.Core.Geometry;
+using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Sharding;
+using LaneBaseline.Reporting.Audit;
+using LaneBaseline.Vision.Audit;
+using LaneBaseline.Vision.Masks;
+using LaneBaseline.Vision.Metrics;
+using OpenCvSharp;
+using LaneBaseline.Cli.Commands;
+
+namespace LaneBaseline.Cli.Outputs;
+
+/// <summary>
+/// Every output of a finished audit (findings file, stdout summary, labelling list, overlays, HTML page, quality gate),
+/// written the same way by <c>audit</c> and by <c>merge</c> of audit states, so their bytes agree.
+/// </summary>
+internal static class AuditOutputWriter
+{
+    /// <summary>
+    /// Writes everything an audit gives from its result — findings, labelling list, overlays, page, summary — and
+    /// applies the gate. <c>audit</c> and <c>merge</c> (of audit states) share it, so their outputs are the same bytes.
+    /// </summary>
+    internal static int Finish(
+        TextWriter stdout,
+        TextWriter stderr,
+        AuditResult result,
+        AuditOutputs outputs,
+        string predPath,
+        string? baselinePath,
+        AuditSettings settings,
+        LaneSourceOpener opener,
+        bool groundRules,
+        CancellationToken cancellationToken)
+    {
+        string outPath = outputs.OutPath;
+        using var findingsFile = new AtomicFile(outPath);
+        AuditJsonWriter.Write(findingsFile.Stream, result);
+
+        string stem = outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? outPath[..^6] : outPath;
+        if (outputs.Mine > 0)
+        {
+            using var mineFile = new AtomicFile(stem + ".mine.txt");
+            foreach (AuditFrameScore f in result.Mine(outputs.Mine))
+            {
+                mineFile.Writer.Write(f.Frame + "\n");
+            }
+
+            mineFile.Commit();
+        }
+
+        findingsFile.Commit();
+        if (outputs.Overlays > 0)
+        {
+            WriteOverlays(stem + ".overlays", result, predPath, baselinePath, outputs.FramesRoot, settings, opener, outputs.Overlays, cancellationToken);
+        }
+
+        if (outputs.Report is (string reportPath, DateTimeOffset at))
+        {
+            // Read back what was written: the page shows exactly the findings file, streamed like `report --audit`.
+            ReportPage.Write(reportPath, null, null, AuditFindingsReader.Read(outPath), null, at, cancellationToken);
+            stderr.WriteLine("audit: wrote " + reportPath);
+        }
+
+        WriteSummary(stdout, result, outPath, groundRules);
+        if (outputs.Gate is AuditSeverity g && result.Findings.Any(f => f.Severity >= g))
+        {
+            stderr.WriteLine("quality gate failed: findings of severity " + AuditJsonWriter.SeverityName(g) + " or worse (--fail-on)");
+            return ExitCodes.GateFailed;
+        }
+
+        return ExitCodes.Success;
+    }
+
+    private static void WriteSummary(TextWriter o, AuditResult result, string outPath, bool groundRules)
+    {
+        long flagged = result.Findings.Select(f => f.Ordinal).Distinct().LongCount();
+        o.WriteLine(F($"Audited {result.Frames} frames: {flagged} with findings ({(result.Frames == 0 ? 0 : 100.0 * flagged / result.Frames):0.0} %), {result.Findings.Count} findings -> {outPath}"));
+        if (result.ComparedFrames > 0)
+        {
+            double mean = result.RankedFrames.Where(f => f.Disagreement is not null).Average(f => f.Disagreement!.Value);
+            o.WriteLine(F($"Compared with the baseline on {result.ComparedFrames} frames; mean disagreement (1 - F1@0.50) {mean:0.000}"));
+        }
+
+        o.WriteLine();
+        o.WriteLine("rule     name                   severity  findings  frames  limit");
+        foreach (AuditRuleInfo rule in AuditRules.All)
+        {
+            int count = result.Findings.Count(f => f.Rule == rule.Id);
+            int frames = result.Findings.Where(f => f.Rule == rule.Id).Select(f => f.Ordinal).Distinct().Count();
+            o.WriteLine(F($"{rule.Id,-8} {rule.Name,-22} {AuditJsonWriter.SeverityName(rule.Severity),-8}  {count,8}  {frames,6}  {rule.Limit}"));
+        }
+
+        if (!groundRules)
+        {
+            o.WriteLine();
+            o.WriteLine("Ground-geometry rules (LBA-G01..G03) did not run: they need --camera camera.json.");
+        }
+    }
+
+    private static void WriteOverlays(
+        string dir,
+        AuditResult result,
+        string predPath,
+        string? baselinePath,
+        string? framesRoot,
+        AuditSettings settings,
+        LaneSourceOpener opener,
+        int count,
+        CancellationToken cancellationToken)
+    {
+        var worst = result.RankedFrames.Where(f => f.Score > 0).Take(count).ToList();
+        if (worst.Count == 0)
+        {
+            return;
+        }
+
+        Directory.CreateDirectory(dir);
+        var rankOf = new Dictionary<long, int>();
+        for (int i = 0; i < worst.Count; i++)
+        {
+            rankOf[worst[i].Ordinal] = i + 1;
+        }
+
+        var wantedKeys = new HashSet<string>(worst.Select(w => w.Frame), StringComparer.Ordinal);
+        var baseRecords = new Dictionary<string, LaneRecord>(StringComparer.Ordinal);
+        var request = new LaneSourceRequest { Size = settings.Size };
+        if (baselinePath is not null)
+        {
+            using ILaneRecordSource b = opener(baselinePath, request);
+            while (b.TryRead(out LaneRecord r))
+            {
+                if (wantedKeys.Contains(r.Frame))
+                {
+                    baseRecords[r.Frame] = r;
+                }
+            }
+        }
+
+        var byOrdinal = result.Findings.GroupBy(f => f.Ordinal).ToDictionary(g => g.Key, g => (IReadOnlyList<AuditFinding>)[.. g]);
+        using ILaneRecordSource pred = opener(predPath, request);
+        long ordinal = 0;
+        while (pred.TryRead(out LaneRecord r))
+        {
+            cancellationToken.ThrowIfCancellationRequested();
+            if (rankOf.TryGetValue(ordinal, out int rank))
+            {
+                baseRecords.TryGetValue(r.Frame, out LaneRecord? b);
+                int w = r.Width ?? b?.Width ?? settings.Size!.Value.Width;
+                int h = r.Height ?? b?.Height ?? settings.Size!.Value.Height;
+                string? image = framesRoot is null ? null : Path.Combine(framesRoot, r.Frame);
+                using Mat overlay = AuditOverlayPainter.Paint(image, r, b, w, h, byOrdinal.GetValueOrDefault(ordinal) ?? []);
+                string name = F($"{rank:000}_") + string.Concat(r.Frame.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '_'));
+                MaskFiles.Write(Path.Combine(dir, Path.ChangeExtension(name, ".png")), overlay);
+            }
+
+            ordinal++;
+        }
+    }
+
+    private static string F(FormattableString s) => s.ToString(CultureInfo.InvariantCulture);
+}

@@ -1,0 +1,135 @@
+using System.Globalization;
+using LaneBaseline.Cli.Reports;
+using LaneBaseline.Core;
+using LaneBaseline.Core.Geometry;
+using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Sharding;
+using LaneBaseline.Reporting.Score;
+using LaneBaseline.Vision.Masks;
+using LaneBaseline.Vision.Metrics;
+using LaneBaseline.Cli.Commands;
+
+namespace LaneBaseline.Cli.Outputs;
+
+/// <summary>
+/// Every output of a finished score job (table on stdout, JSON, per-frame CSV, mask IoU CSV, HTML page, quality gate),
+/// written the same way by <c>score</c> and by <c>merge</c> of score states, so their bytes agree.
+/// </summary>
+internal static class ScoreOutputWriter
+{
+    /// <summary>Bootstrap, table, CSV commit, JSON and gate: shared by <c>score</c> and <c>merge</c>.</summary>
+    internal static int Finish(TextWriter stdout, TextWriter stderr, ScoreRequest request, IReadOnlyList<SystemScore> results, AtomicFile? csvFile, MaskIouSummary[]? maskIou = null)
+    {
+        BootstrapResult? boot = null;
+        if (request.Resamples > 0)
+        {
+            double[][][] samples = Bootstrap.Resample([.. results.Select(r => r.Series)], request.Resamples, request.Seed, request.Threads);
+            var intervals = samples.Select(sys => sys.Select(stat => Bootstrap.Percentiles(stat, 0.95)).ToArray()).ToArray();
+            boot = new BootstrapResult { Resamples = request.Resamples, Seed = request.Seed, Intervals = intervals, Samples = samples };
+        }
+
+        if (results.Any(r => r.Overall.AllEmpty))
+        {
+            stderr.WriteLine("note: no truth and no predicted lanes at all in some system's frames; by definition it scores 1.0");
+        }
+
+        ScoreTableWriter.Write(stdout, request.TruthPath, results, request.Settings, boot);
+        if (maskIou is not null)
+        {
+            stdout.WriteLine();
+            stdout.WriteLine("Mask IoU (per truth lane id, Hungarian-assigned; unassigned count 0):");
+            for (int s = 0; s < request.Systems.Count; s++)
+            {
+                MaskIouSummary m = maskIou[s];
+                stdout.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {request.Systems[s].Name}: mean IoU {m.MeanIou:0.0000} over {m.TruthLanes} truth lanes ({m.Matched} assigned, {m.PredLanes} predicted)"));
+            }
+        }
+
+        csvFile?.Commit();
+        if (request.JsonPath is not null)
+        {
+            using var jsonFile = new AtomicFile(request.JsonPath);
+            ScoreJsonWriter.Write(jsonFile.Stream, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]));
+            jsonFile.Commit();
+        }
+
+        if (request.Report is (string reportPath, var framesDir))
+        {
+            using var buffer = new MemoryStream();
+            ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
+            ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
+            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads);
+            ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", null, gallery, DateTimeOffset.UtcNow, CancellationToken.None);
+            stderr.WriteLine("score: wrote report " + reportPath);
+        }
+
+        if (request.MinF1 is double gate)
+        {
+            foreach (SystemScore r in results)
+            {
+                double f1 = r.Overall.At(IouThreshold.Half).F1;
+                if (f1 < gate)
+                {
+                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"quality gate failed: {r.System.Name} F1@0.50 = {f1:0.####} < --min-f1 {gate}"));
+                    return ExitCodes.GateFailed;
+                }
+            }
+        }
+
+        return ExitCodes.Success;
+    }
+
+    /// <summary>Header of the per-lane mask IoU CSV (<c>--mask-iou-csv</c>).</summary>
+    internal static string MaskCsvHeader(int systems) => (systems > 1 ? "system," : string.Empty) + "frame,truth_id,pred_id,iou\n";
+
+    /// <summary>One row of the per-lane mask IoU CSV.</summary>
+    internal static string MaskCsvRow(IReadOnlyList<ScoredSystem> systems, int system, MaskLaneIou lane) =>
+        (systems.Count > 1 ? Csv(systems[system].Name) + "," : string.Empty)
+        + string.Create(CultureInfo.InvariantCulture, $"{Csv(lane.Frame)},{lane.TruthId},{lane.PredId},{lane.Iou.ToString("R", CultureInfo.InvariantCulture)}\n");
+
+    private static void WriteMaskIou(System.Text.Json.Utf8JsonWriter w, MaskIouSummary m)
+    {
+        w.WriteStartObject("mask_iou");
+        w.WriteNumber("frames", m.Frames);
+        w.WriteNumber("truth_lanes", m.TruthLanes);
+        w.WriteNumber("pred_lanes", m.PredLanes);
+        w.WriteNumber("assigned", m.Matched);
+        // a float at full precision like every other metric (1.0, not 1)
+        w.WritePropertyName("mean_iou");
+        w.WriteRawValue(ScoreJsonWriter.FormatFloat(m.MeanIou), skipInputValidation: true);
+        w.WriteEndObject();
+    }
+
+    internal static void WriteCsvHeader(TextWriter csv, bool multi) => csv.Write(CsvHeader(multi));
+
+    private static string CsvHeader(bool multi) =>
+        (multi ? "system," : string.Empty) + "frame,tags,tp,fp,fn,mean_matched_iou,point_accuracy\n";
+
+    internal static void WriteCsvRows(TextWriter csv, IReadOnlyList<ScoredSystem> systems, int halfIndex, IReadOnlyList<FrameScore> row)
+    {
+        for (int s = 0; s < row.Count; s++)
+        {
+            FrameScore f = row[s];
+            int tp = f.TruePositives[halfIndex];
+            if (systems.Count > 1)
+            {
+                csv.Write(Csv(systems[s].Name));
+                csv.Write(',');
+            }
+
+            csv.Write(Csv(f.Frame));
+            csv.Write(',');
+            csv.Write(Csv(string.Join(';', f.Tags)));
+            csv.Write(string.Create(CultureInfo.InvariantCulture, $",{tp},{f.PredLanes - tp},{f.TruthLanes - tp},"));
+            double miou = f.MeanMatchedIou;
+            csv.Write(double.IsNaN(miou) ? string.Empty : miou.ToString("R", CultureInfo.InvariantCulture));
+            csv.Write(',');
+            double acc = f.FramePointAccuracy;
+            csv.Write(double.IsNaN(acc) ? string.Empty : acc.ToString("R", CultureInfo.InvariantCulture));
+            csv.Write('\n');
+        }
+    }
+
+    private static string Csv(string value) =>
+        value.AsSpan().IndexOfAny(",\"\n\r") >= 0 ? "\"" + value.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"" : value;
+}
