@@ -146,13 +146,26 @@ internal static class ScoreCommand
         }
         long lastReport = 0;
         int halfIndex = request.Settings.HalfIndex;
+
+        // score --report --frames: the gallery's candidates are captured from this run's frame scores (no second pass).
+        WorstFrameGallery.FrameCandidates? galleryFrames = shard is null && request.Report is (_, string)
+            ? new WorstFrameGallery.FrameCandidates(request.Systems.Count, halfIndex)
+            : null;
         var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
         {
             OnNote = message => stderr.WriteLine("note: " + message),
             Threads = request.Threads,
             Shard = shard,
             Opener = LaneInputs.Opener(masks.Size, masks.MinRows, stderr),
-            OnFrame = csvWriter is null ? null : row => ScoreOutputWriter.WriteCsvRows(csvWriter, request.Systems, halfIndex, row),
+            OnFrame = csvWriter is null && galleryFrames is null ? null : row =>
+            {
+                if (csvWriter is not null)
+                {
+                    ScoreOutputWriter.WriteCsvRows(csvWriter, request.Systems, halfIndex, row);
+                }
+
+                galleryFrames?.Add(row);
+            },
             OnProgress = (done, total) =>
             {
                 long now = clock.ElapsedMilliseconds;
@@ -170,7 +183,7 @@ internal static class ScoreCommand
             CultureInfo.InvariantCulture,
             $"score: {frames} frames x {results.Count} system(s) in {scoreSeconds:0.###} s ({frames * results.Count / Math.Max(scoreSeconds, 1e-9):0} frame-scores/s, {request.Threads} thread(s))"));
         MaskIouSummary[]? maskIou = allMasks ? MaskIouAll(request.TruthPath, request.Systems, masks.CsvPath, cancellationToken) : null;
-        return ScoreOutputWriter.Finish(stdout, stderr, request, results, csvFile, maskIou);
+        return ScoreOutputWriter.Finish(stdout, stderr, request, results, csvFile, maskIou, galleryFrames);
     }
 
     private static int WritePartial(TextWriter stderr, ScoreRequest request, ShardSpec shard, string partialPath, MaskInputs masks, CancellationToken cancellationToken)

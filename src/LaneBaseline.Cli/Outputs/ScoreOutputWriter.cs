@@ -18,7 +18,7 @@ namespace LaneBaseline.Cli.Outputs;
 internal static class ScoreOutputWriter
 {
     /// <summary>Bootstrap, table, CSV commit, JSON and gate: shared by <c>score</c> and <c>merge</c>.</summary>
-    internal static int Finish(TextWriter stdout, TextWriter stderr, ScoreRequest request, IReadOnlyList<SystemScore> results, AtomicFile? csvFile, MaskIouSummary[]? maskIou = null)
+    internal static int Finish(TextWriter stdout, TextWriter stderr, ScoreRequest request, IReadOnlyList<SystemScore> results, AtomicFile? csvFile, MaskIouSummary[]? maskIou = null, WorstFrameGallery.FrameCandidates? galleryFrames = null)
     {
         BootstrapResult? boot = null;
         if (request.Resamples > 0)
@@ -58,7 +58,7 @@ internal static class ScoreOutputWriter
             using var buffer = new MemoryStream();
             ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
             ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
-            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads);
+            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads) { Candidates = galleryFrames };
             ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", null, gallery, DateTimeOffset.UtcNow, CancellationToken.None);
             stderr.WriteLine("score: wrote report " + reportPath);
         }

@@ -13,7 +13,11 @@ namespace LaneBaseline.Cli.Reports;
 /// <param name="TruthPath">Truth lane file.</param>
 /// <param name="Systems">Prediction lane files with their names.</param>
 /// <param name="Threads">Worker threads for the gallery's scoring pass (the page does not depend on it).</param>
-internal sealed record GalleryRequest(string FramesDir, string TruthPath, IReadOnlyList<ScoredSystem> Systems, int Threads = 1);
+internal sealed record GalleryRequest(string FramesDir, string TruthPath, IReadOnlyList<ScoredSystem> Systems, int Threads = 1)
+{
+    /// <summary>Frame scores captured by the score run that produced the results, or null to score the frames here.</summary>
+    public WorstFrameGallery.FrameCandidates? Candidates { get; init; }
+}
 
 /// <summary>Builds the whole page in memory (every input checked first) and then writes it atomically.</summary>
 internal static class ReportPage
@@ -53,7 +57,9 @@ internal static class ReportPage
             SystemResult first = score.Systems.FirstOrDefault(s => s.Name == gallery.Systems[0].Name) ?? score.Systems[0];
             IReadOnlyList<string>? tagOrder = first.ByTag.Count == 0 ? null
                 : [.. first.ByTag.OrderBy(kv => kv.Value.At("0.50")?.F1 ?? double.PositiveInfinity).ThenBy(kv => kv.Key, StringComparer.Ordinal).Select(kv => kv.Key)];
-            built = WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, gallery.Threads, cancellationToken, tagOrder);
+            built = gallery.Candidates is { } captured
+                ? WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, captured, tagOrder, cancellationToken)
+                : WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, gallery.Threads, cancellationToken, tagOrder);
             reportSettings.Add(new("report.frames", gallery.FramesDir));
             reportSettings.Add(new("report.truth", gallery.TruthPath));
             foreach (ScoredSystem s in gallery.Systems)

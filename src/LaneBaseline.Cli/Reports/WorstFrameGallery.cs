@@ -60,38 +60,33 @@ internal static class WorstFrameGallery
             throw BadInputException.At(framesDir, 0, null, "frames folder not found");
         }
 
-        int half = settings.HalfIndex;
-        var ranked = systems.Select(_ => new List<Candidate>()).ToArray();
-        var byTag = new TagCandidates(MaxTags, PerTag, tagPriority);
-        int ordinal = 0;
+        var candidates = new FrameCandidates(systems.Count, settings.HalfIndex);
         var run = new ScoreRun(truthPath, systems, settings)
         {
             Threads = Math.Max(1, threads),
-            OnFrame = row =>
-            {
-                for (int s = 0; s < row.Count; s++)
-                {
-                    FrameScore f = row[s];
-                    int tp = f.TruePositives[half];
-                    double f1 = FrameF1(tp, f.PredLanes, f.TruthLanes), acc = f.FramePointAccuracy;
-                    bool perfect = f1 >= 1.0 && (double.IsNaN(acc) || acc >= 1.0); // perfect (or empty) frames teach nothing in a gallery of failures
-                    Candidate? c = perfect ? null : new Candidate(ordinal, f.Frame, f.Tags, tp, f.PredLanes - tp, f.TruthLanes - tp, f1, acc);
-                    if (s == 0)
-                    {
-                        byTag.Add(f.Tags, c);
-                    }
-
-                    if (c is not null)
-                    {
-                        ranked[s].Add(c);
-                    }
-                }
-
-                ordinal++;
-            },
+            OnFrame = candidates.Add,
         };
         run.Execute(CreateRasterizer, cancellationToken);
+        return Build(framesDir, truthPath, systems, candidates, tagPriority, cancellationToken);
+    }
 
+    /// <summary>Draws the gallery from candidates captured while the frames were scored (no second scoring pass).</summary>
+    /// <param name="framesDir">Folder the frame keys are relative to.</param>
+    /// <param name="truthPath">Truth lane file.</param>
+    /// <param name="systems">Prediction lane files with their names; the per-tag gallery shows the first.</param>
+    /// <param name="candidates">The frame scores of every system, captured in truth order.</param>
+    /// <param name="tagPriority">Tags in the order the per-tag gallery should show them (worst first), or null for ordinal order.</param>
+    /// <param name="cancellationToken">Stops between thumbnails.</param>
+    public static Gallery Build(string framesDir, string truthPath, IReadOnlyList<ScoredSystem> systems, FrameCandidates candidates, IReadOnlyList<string>? tagPriority, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(candidates);
+        if (!Directory.Exists(framesDir))
+        {
+            throw BadInputException.At(framesDir, 0, null, "frames folder not found");
+        }
+
+        List<Candidate>[] ranked = candidates.Ranked;
+        TagCandidates byTag = candidates.TagGroups(tagPriority);
         int take = PerSystem(systems.Count);
         Candidate[][] chosen = [.. ranked.Select(list => list.Order(Worst).Take(take).ToArray())];
         IReadOnlyList<(string Tag, int Frames, IReadOnlyList<Candidate> Worst)> tagGroups = byTag.Groups();
@@ -239,7 +234,7 @@ internal static class WorstFrameGallery
     /// maxTags x perTag candidates whatever the length of the file (plus the distinct tag names, for the count).
     /// </summary>
     /// With a <c>priority</c> list, exactly its first <c>maxTags</c> tags are kept and shown in its order.
-    private sealed class TagCandidates(int maxTags, int perTag, IReadOnlyList<string>? priority)
+    internal sealed class TagCandidates(int maxTags, int perTag, IReadOnlyList<string>? priority)
     {
         private readonly SortedDictionary<string, (int Frames, List<Candidate> Worst)> kept = new(StringComparer.Ordinal);
         private readonly HashSet<string> seen = new(StringComparer.Ordinal);
@@ -313,5 +308,62 @@ internal static class WorstFrameGallery
             [.. kept.OrderBy(kv => wanted?[kv.Key] ?? 0).Select(kv => (kv.Key, kv.Value.Frames, (IReadOnlyList<Candidate>)kv.Value.Worst))];
     }
 
-    private sealed record Candidate(int Ordinal, string Frame, IReadOnlyList<string> Tags, int Tp, int Fp, int Fn, double F1, double PointAccuracy);
+    /// <summary>
+    /// The gallery's candidates, captured from frame scores as a score run produces them (hand <see cref="Add"/> to
+    /// <see cref="ScoreRun.OnFrame"/>), so <c>score --report</c> draws its gallery without scoring the frames again.
+    /// Keeps one small candidate per imperfect frame and system, and the first system's tags per frame.
+    /// </summary>
+    internal sealed class FrameCandidates
+    {
+        private readonly int half;
+        private readonly List<(IReadOnlyList<string> Tags, Candidate? Candidate)> first = [];
+        private int ordinal;
+
+        public FrameCandidates(int systems, int halfIndex)
+        {
+            half = halfIndex;
+            Ranked = [.. Enumerable.Range(0, systems).Select(_ => new List<Candidate>())];
+        }
+
+        internal List<Candidate>[] Ranked { get; }
+
+        /// <summary>Takes one frame's scores (one per system), in truth order.</summary>
+        public void Add(IReadOnlyList<FrameScore> row)
+        {
+            ArgumentNullException.ThrowIfNull(row);
+            for (int s = 0; s < row.Count; s++)
+            {
+                FrameScore f = row[s];
+                int tp = f.TruePositives[half];
+                double f1 = FrameF1(tp, f.PredLanes, f.TruthLanes), acc = f.FramePointAccuracy;
+                bool perfect = f1 >= 1.0 && (double.IsNaN(acc) || acc >= 1.0); // perfect (or empty) frames teach nothing in a gallery of failures
+                Candidate? c = perfect ? null : new Candidate(ordinal, f.Frame, f.Tags, tp, f.PredLanes - tp, f.TruthLanes - tp, f1, acc);
+                if (s == 0)
+                {
+                    first.Add((f.Tags, c));
+                }
+
+                if (c is not null)
+                {
+                    Ranked[s].Add(c);
+                }
+            }
+
+            ordinal++;
+        }
+
+        /// <summary>The per-tag candidates, replayed in truth order once the tag priority is known.</summary>
+        internal TagCandidates TagGroups(IReadOnlyList<string>? priority)
+        {
+            var groups = new TagCandidates(MaxTags, PerTag, priority);
+            foreach ((IReadOnlyList<string> tags, Candidate? c) in first)
+            {
+                groups.Add(tags, c);
+            }
+
+            return groups;
+        }
+    }
+
+    internal sealed record Candidate(int Ordinal, string Frame, IReadOnlyList<string> Tags, int Tp, int Fp, int Fn, double F1, double PointAccuracy);
 }
