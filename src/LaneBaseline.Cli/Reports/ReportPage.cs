@@ -8,17 +8,6 @@ using LaneBaseline.Reporting.Score;
 
 namespace LaneBaseline.Cli.Reports;
 
-/// <summary>What the gallery needs: the images and the lane files the score came from.</summary>
-/// <param name="FramesDir">Folder the frame keys are relative to.</param>
-/// <param name="TruthPath">Truth lane file.</param>
-/// <param name="Systems">Prediction lane files with their names.</param>
-/// <param name="Threads">Worker threads for the gallery's scoring pass (the page does not depend on it).</param>
-internal sealed record GalleryRequest(string FramesDir, string TruthPath, IReadOnlyList<ScoredSystem> Systems, int Threads = 1)
-{
-    /// <summary>Frame scores captured by the score run that produced the results, or null to score the frames here.</summary>
-    public WorstFrameGallery.FrameCandidates? Candidates { get; init; }
-}
-
 /// <summary>Builds the whole page in memory (every input checked first) and then writes it atomically.</summary>
 internal static class ReportPage
 {
