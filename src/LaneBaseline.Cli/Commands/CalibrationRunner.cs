@@ -79,7 +79,8 @@ internal sealed class CalibrationRunner(TuneRequest request, double lambda, bool
 
         CalibrationOptions fitted = LaneCalibration.Fit(LaneFeatures.Names, rows, hits, lambda, isotonic);
         var mapping = new LaneCalibration(fitted);
-        double[] after = [.. rows.Select(r => mapping.FromFeatures(r))];
+        int[] used = [.. fitted.Features.Select(LaneFeatures.IndexOf)]; // the features the fit kept
+        double[] after = [.. rows.Select(r => mapping.FromFeatures(used.Select(k => r[k]).ToArray()))];
         string text = WithCalibration(baseText, fitted, request.ConfigSource, truth.Count, lambda, isotonic);
         PresetLoader.Parse(text, request.Output); // the written preset must load
         using (var file = new AtomicFile(request.Output))

@@ -50,7 +50,44 @@ public sealed class LaneCalibration
     }
 
     /// <summary>
-    /// Fits a calibration: standardises each feature (mean, population standard deviation; 1 when constant), fits an
+    /// Fits a calibration as <see cref="FitAll"/> does, then, while a weight has the opposite sign to the one
+    /// <see cref="LaneFeatures.All"/> states for its feature, drops the feature with the largest such weight (in
+    /// standardised units) and fits again. The stored feature list names only the features kept.
+    /// </summary>
+    public static CalibrationOptions Fit(IReadOnlyList<string> names, IReadOnlyList<double[]> rows, IReadOnlyList<bool> hits, double lambda, bool isotonic)
+    {
+        ArgumentNullException.ThrowIfNull(names);
+        ArgumentNullException.ThrowIfNull(rows);
+        var keep = Enumerable.Range(0, names.Count).ToList();
+        while (true)
+        {
+            string[] kept = [.. keep.Select(k => names[k])];
+            double[][] sub = [.. rows.Select(r => keep.Select(k => r[k]).ToArray())];
+            CalibrationOptions fit = FitAll(kept, sub, hits, lambda, isotonic);
+            int worst = -1;
+            double worstWeight = 0;
+            for (int k = 0; k < kept.Length; k++)
+            {
+                int sign = LaneFeatures.All[LaneFeatures.IndexOf(kept[k])].Sign;
+                double wrong = -sign * fit.Weights[k];
+                if (wrong > worstWeight)
+                {
+                    worst = k;
+                    worstWeight = wrong;
+                }
+            }
+
+            if (worst < 0 || keep.Count == 1)
+            {
+                return fit;
+            }
+
+            keep.RemoveAt(worst);
+        }
+    }
+
+    /// <summary>
+    /// Fits a calibration on every given feature: standardises each feature (mean, population standard deviation; 1 when constant), fits an
     /// L2-regularised logistic regression, then (optionally) isotonic regression of the outcomes on its outputs,
     /// keeping only the knots where the fitted step function changes (its first and last point per level).
     /// </summary>
@@ -59,7 +96,7 @@ public sealed class LaneCalibration
     /// <param name="hits">Whether each lane was a true positive at IoU 0.50.</param>
     /// <param name="lambda">L2 penalty on the standardised weights.</param>
     /// <param name="isotonic">Whether to follow the logistic map with isotonic regression.</param>
-    public static CalibrationOptions Fit(IReadOnlyList<string> names, IReadOnlyList<double[]> rows, IReadOnlyList<bool> hits, double lambda, bool isotonic)
+    public static CalibrationOptions FitAll(IReadOnlyList<string> names, IReadOnlyList<double[]> rows, IReadOnlyList<bool> hits, double lambda, bool isotonic)
     {
         ArgumentNullException.ThrowIfNull(names);
         ArgumentNullException.ThrowIfNull(rows);

@@ -9,13 +9,18 @@ namespace LaneBaseline.Core.Calibration;
 /// </summary>
 public static class LaneFeatures
 {
-    /// <summary>Every feature this build knows: its name (as written in presets) and how it is read from a lane.</summary>
-    public static IReadOnlyList<(string Name, Func<LaneEstimate, double> Read)> All { get; } =
+    /// <summary>
+    /// Every feature this build knows: its name (as written in presets), how it is read from a lane, and the sign its
+    /// weight must have (+1: more evidence, more likely true; −1: less likely; 0: either). A fit whose weight takes
+    /// the other sign drops that feature (see <see cref="LaneCalibration.Fit"/>), so the mapping stays monotone in
+    /// the evidence and cannot punish a strong marking outside the fitted range.
+    /// </summary>
+    public static IReadOnlyList<(string Name, Func<LaneEstimate, double> Read, int Sign)> All { get; } =
     [
-        ("rawScore", l => l.Score),
-        ("inlierMass", l => Math.Log(1 + Math.Max(0, l.InlierMass))), // log: evidence mass spans three decades
-        ("coverage", l => l.Coverage),
-        ("rmsPx", l => l.RmsPx),
+        ("rawScore", l => l.Score, +1),
+        ("inlierMass", l => Math.Log(1 + Math.Max(0, l.InlierMass)), +1), // log: evidence mass spans three decades
+        ("coverage", l => l.Coverage, +1),
+        ("rmsPx", l => l.RmsPx, -1),
     ];
 
     /// <summary>The names of <see cref="All"/>, in order.</summary>

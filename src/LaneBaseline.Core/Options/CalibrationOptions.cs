@@ -36,6 +36,18 @@ public sealed record CalibrationOptions
     /// <summary>Of those, true positives at IoU 0.50 (information only, 0–fittedLanes).</summary>
     public int FittedPositives { get; init; }
 
+    /// <summary>Value equality, element by element over the lists (a record compares arrays by reference).</summary>
+    public bool Equals(CalibrationOptions? other) =>
+        other is not null
+        && Features.SequenceEqual(other.Features, StringComparer.Ordinal)
+        && Mean.SequenceEqual(other.Mean) && Scale.SequenceEqual(other.Scale) && Weights.SequenceEqual(other.Weights)
+        && Intercept.Equals(other.Intercept)
+        && IsotonicX.SequenceEqual(other.IsotonicX) && IsotonicY.SequenceEqual(other.IsotonicY)
+        && FittedLanes == other.FittedLanes && FittedPositives == other.FittedPositives;
+
+    /// <inheritdoc />
+    public override int GetHashCode() => HashCode.Combine(Features.Length, Intercept, FittedLanes, FittedPositives);
+
     internal void Validate(List<OptionsFinding> f)
     {
         if (Features is null || Features.Length == 0)
