@@ -9,31 +9,31 @@ namespace LaneBaseline.Core.Options;
 /// </summary>
 public sealed record CalibrationOptions
 {
-    /// <summary>Feature names, from <see cref="LaneFeatures.Names"/> (at least one).</summary>
+    /// <summary>Feature names, from LaneFeatures.Names (1–4 names in this build). Default empty (set by <c>tune --calibrate</c>).</summary>
     public string[] Features { get; init; } = [];
 
-    /// <summary>Per-feature mean subtracted before weighting (one per feature).</summary>
+    /// <summary>Per-feature mean subtracted before weighting (one per feature, finite: −1e308–1e308). Default empty.</summary>
     public double[] Mean { get; init; } = [];
 
-    /// <summary>Per-feature scale divided by before weighting (one per feature, &gt; 0).</summary>
+    /// <summary>Per-feature scale divided by before weighting (one per feature, &gt; 0: 1e-308–1e308). Default empty.</summary>
     public double[] Scale { get; init; } = [];
 
-    /// <summary>Logistic weights on the standardised features (one per feature).</summary>
+    /// <summary>Logistic weights on the standardised features (one per feature, finite: −1e308–1e308). Default empty.</summary>
     public double[] Weights { get; init; } = [];
 
-    /// <summary>Logistic intercept.</summary>
+    /// <summary>Logistic intercept (finite: −1e308–1e308). Default 0.</summary>
     public double Intercept { get; init; }
 
-    /// <summary>Isotonic knots: logistic outputs (strictly increasing, in [0, 1]); empty for the logistic map alone.</summary>
+    /// <summary>Isotonic knots: logistic outputs (strictly increasing, 0–1); empty for the logistic map alone. Default empty.</summary>
     public double[] IsotonicX { get; init; } = [];
 
-    /// <summary>Isotonic knots: calibrated probabilities (non-decreasing, in [0, 1]; one per <see cref="IsotonicX"/>).</summary>
+    /// <summary>Isotonic knots: calibrated probabilities (non-decreasing, 0–1; one per isotonicX knot). Default empty.</summary>
     public double[] IsotonicY { get; init; } = [];
 
-    /// <summary>Lanes the mapping was fitted on (information only, ≥ 0).</summary>
+    /// <summary>Lanes the mapping was fitted on (information only, 0–2147483647). Default 0.</summary>
     public int FittedLanes { get; init; }
 
-    /// <summary>Of those, true positives at IoU 0.50 (information only, 0–fittedLanes).</summary>
+    /// <summary>Of those, true positives at IoU 0.50 (information only, 0–2147483647, at most fittedLanes). Default 0.</summary>
     public int FittedPositives { get; init; }
 
     /// <summary>Value equality, element by element over the lists (a record compares arrays by reference).</summary>
