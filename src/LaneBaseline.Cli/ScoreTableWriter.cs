@@ -56,6 +56,12 @@ internal static class ScoreTableWriter
             }
         }
 
+        foreach (SystemScore r in results.Where(r => r.Overall.Reliability.Lanes > 0))
+        {
+            o.WriteLine();
+            o.WriteLine("Calibration of score (" + r.System.Name + "): " + r.Overall.Reliability.Summary());
+        }
+
         foreach (IouThreshold extra in settings.ExtraThresholds.Distinct().Order())
         {
             o.WriteLine();

@@ -27,10 +27,14 @@ internal static class TuneCommand
         Option<bool> resume = new("--resume") { Description = "Reuse the trials already in OUT.trials.jsonl and continue the search." };
         Option<string?> date = new("--date") { Description = "Date written in the output header (ISO 8601, UTC; default now), e.g. for reproducible files." };
         Option<string> output = new("--output", "-o") { Description = "Preset YAML to write; the trial log goes to OUT.trials.jsonl beside it.", Required = true };
+        Option<bool> calibrate = new("--calibrate") { Description = "Instead of a search: fit the preset's confidence calibration (score = probability of a true positive at IoU 0.50) on all truth frames and write the preset with its calibration section (docs/detect.md)." };
+        Option<double> l2 = new("--calibration-l2") { Description = "With --calibrate: L2 penalty on the standardised logistic weights (default 1).", DefaultValueFactory = _ => 1.0 };
+        Option<bool> logisticOnly = new("--logistic-only") { Description = "With --calibrate: the logistic map alone, without the isotonic step." };
 
         Command command = new("tune", "Search preset parameters for the best score on labelled frames, keeping holdout frames out of the search.")
         {
             frames, truth, space, config, budget, seed, objective, holdout, holdoutTruth, allowOverlap, threads, resume, date, output,
+            calibrate, l2, logisticOnly,
         };
 
         command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
@@ -82,6 +86,21 @@ internal static class TuneCommand
                 Date = ParseDate(parse.GetValue(date)),
                 Output = parse.GetValue(output)!,
             };
+            if (parse.GetValue(calibrate))
+            {
+                double lambda = parse.GetValue(l2);
+                if (!(lambda >= 0) || lambda > 1e6)
+                {
+                    throw new UsageException("--calibration-l2 must be between 0 and 1000000");
+                }
+
+                CalibrationSummary c = new CalibrationRunner(request, lambda, !parse.GetValue(logisticOnly), stderr).Run();
+                stdout.WriteLine(string.Create(
+                    CultureInfo.InvariantCulture,
+                    $"calibration: {c.Lanes} lanes ({c.Positives} true positives at IoU 0.50) on {c.Frames} frames; ECE on these frames {c.EceBefore:0.0000} raw -> {c.EceAfter:0.0000} calibrated; preset written to {request.Output}"));
+                return ExitCodes.Success;
+            }
+
             TuneSummary summary = new TuneRunner(request, stderr).Run();
             stdout.WriteLine(string.Create(
                 CultureInfo.InvariantCulture,

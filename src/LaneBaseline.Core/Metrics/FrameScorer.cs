@@ -96,6 +96,8 @@ public sealed class FrameScorer
             }
         }
 
+        (double[] laneScores, bool[] laneHits) = Calibration.ReliabilityTally.OfFrame(p, assign, inter, areaT, areaP);
+
         // --- Precision-recall over confidence (IoU 0.50) ---
         var confTp = new int[ConfidenceCutoffs];
         var confPred = new int[ConfidenceCutoffs];
@@ -171,6 +173,8 @@ public sealed class FrameScorer
             ConfidenceTruePositives = confTp,
             ConfidencePredLanes = confPred,
             HasConfidence = hasConfidence,
+            LaneScores = laneScores,
+            LaneHits = laneHits,
             Ground = ground?.Measure(t, p, halfPairs!),
         };
     }

@@ -209,11 +209,13 @@ public static class ScoreJsonWriter
             json.WriteEndArray();
         }
 
+        system.Overall.Reliability.WriteJson(json);
         json.WriteStartObject("by_tag");
         foreach (KeyValuePair<string, ScoreTally> kv in system.ByTag)
         {
             json.WriteStartObject(kv.Key);
             WriteTally(json, kv.Value, settings, includeFrames: true);
+            kv.Value.Reliability.WriteJson(json);
             json.WriteEndObject();
         }
 

@@ -168,6 +168,23 @@ public sealed class ScoreStateWriter : IDisposable
                 Ints(json, "ctp", f.ConfidenceTruePositives);
                 Ints(json, "cp", f.ConfidencePredLanes);
                 json.WriteBoolean("conf", f.HasConfidence);
+                if (f.LaneScores.Length > 0)
+                {
+                    json.WriteStartArray("ps"); // scored lanes: score and outcome (calibration metric)
+                    foreach (double v in f.LaneScores)
+                    {
+                        json.WriteRawValue(v.ToString("R", CultureInfo.InvariantCulture));
+                    }
+
+                    json.WriteEndArray();
+                    json.WriteStartArray("ph");
+                    foreach (bool v in f.LaneHits)
+                    {
+                        json.WriteNumberValue(v ? 1 : 0);
+                    }
+
+                    json.WriteEndArray();
+                }
                 if (f.Ground is { } g)
                 {
                     json.WriteStartObject("g");
@@ -382,6 +399,13 @@ public sealed class ScoreStateReader : IDisposable
                     throw BadInputException.At(path, line, "s.tp", "counts are negative or exceed the lane counts");
                 }
 
+                double[] laneScores = s.TryGetProperty("ps", out JsonElement ps) ? [.. ps.EnumerateArray().Select(v => v.GetDouble())] : [];
+                bool[] laneHits = s.TryGetProperty("ph", out JsonElement ph) ? [.. ph.EnumerateArray().Select(v => v.GetInt32() != 0)] : [];
+                if (laneScores.Length != laneHits.Length || laneScores.Length > np)
+                {
+                    throw BadInputException.At(path, line, "s.ps", "scored lanes and their outcomes differ in count or exceed the predicted lanes");
+                }
+
                 row.Add(new FrameScore
                 {
                     Ordinal = ordinal,
@@ -398,6 +422,8 @@ public sealed class ScoreStateReader : IDisposable
                     ConfidenceTruePositives = ctp,
                     ConfidencePredLanes = cp,
                     HasConfidence = s.GetProperty("conf").GetBoolean(),
+                    LaneScores = laneScores,
+                    LaneHits = laneHits,
                     Ground = ReadGround(s),
                 });
             }

@@ -41,6 +41,9 @@ public sealed class ScoreTally
     /// <summary>Metric-space error sums (present when a camera was given).</summary>
     public GroundTally? Ground { get; private set; }
 
+    /// <summary>Calibration of the lanes' scores (reliability table, ECE, precision-recall over the score).</summary>
+    public Calibration.ReliabilityTally Reliability { get; } = new();
+
     /// <summary>Whether any prediction carried a confidence.</summary>
     public bool AnyConfidence { get; private set; }
 
@@ -87,6 +90,7 @@ public sealed class ScoreTally
         }
 
         AnyConfidence |= frame.HasConfidence;
+        Reliability.Add(frame);
         if (frame.Ground is { } g)
         {
             (Ground ??= new GroundTally(g.LateralCount.Length)).Add(g);

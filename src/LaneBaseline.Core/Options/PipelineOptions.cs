@@ -36,6 +36,9 @@ public sealed record PipelineOptions
     /// <summary>Accepted frame sizes.</summary>
     public LimitsOptions Limits { get; init; } = new();
 
+    /// <summary>Fitted confidence calibration, or null (absent) for the raw confidences.</summary>
+    public CalibrationOptions? Calibration { get; init; }
+
     /// <summary>Checks every value against its documented range.</summary>
     /// <returns>All findings (empty when valid), never throwing on the first.</returns>
     public IReadOnlyList<OptionsFinding> Validate()
@@ -68,6 +71,7 @@ public sealed record PipelineOptions
             }
         }
 
+        Calibration?.Validate(findings);
         return findings;
     }
 }

@@ -120,21 +120,21 @@ public static class PresetLoader
             {
                 defaults.GetProperty(name).WriteTo(json);
             }
+            else if (property.PropertyType == typeof(double[]))
+            {
+                WriteSequence(json, value, key, file, v => WriteDouble(json, ParseDouble(v, key, file)));
+            }
+            else if (property.PropertyType == typeof(string[]))
+            {
+                WriteSequence(json, value, key, file, v => json.WriteStringValue(Scalar(v, key, file, "a name")));
+            }
             else if (property.PropertyType == typeof(int))
             {
                 json.WriteNumberValue(ParseInt(value, key, file));
             }
             else if (property.PropertyType == typeof(double))
             {
-                double v = ParseDouble(value, key, file);
-                if (double.IsFinite(v))
-                {
-                    json.WriteNumberValue(v);
-                }
-                else
-                {
-                    json.WriteStringValue(v.ToString(CultureInfo.InvariantCulture)); // read back as a named literal
-                }
+                WriteDouble(json, ParseDouble(value, key, file));
             }
             else if (property.PropertyType == typeof(bool))
             {
@@ -146,11 +146,48 @@ public static class PresetLoader
             }
             else
             {
-                WriteObject(json, value, defaults.GetProperty(name), OptionsJsonContext.Default.GetTypeInfo(property.PropertyType)!, key, file);
+                JsonElement sectionDefaults = defaults.GetProperty(name);
+                if (sectionDefaults.ValueKind == JsonValueKind.Null && property.PropertyType == typeof(CalibrationOptions))
+                {
+                    sectionDefaults = CalibrationDefaults; // an optional section: absent by default
+                }
+
+                WriteObject(json, value, sectionDefaults, OptionsJsonContext.Default.GetTypeInfo(property.PropertyType)!, key, file);
             }
         }
 
         json.WriteEndObject();
+    }
+
+    private static JsonElement CalibrationDefaults { get; } =
+        JsonSerializer.SerializeToElement(new CalibrationOptions(), OptionsJsonContext.Default.CalibrationOptions);
+
+    private static void WriteDouble(Utf8JsonWriter json, double v)
+    {
+        if (double.IsFinite(v))
+        {
+            json.WriteNumberValue(v);
+        }
+        else
+        {
+            json.WriteStringValue(v.ToString(CultureInfo.InvariantCulture)); // read back as a named literal
+        }
+    }
+
+    private static void WriteSequence(Utf8JsonWriter json, YamlNode node, string key, string file, Action<YamlNode> item)
+    {
+        if (node is not YamlSequenceNode seq)
+        {
+            throw BadInputException.At(file, node.Start.Line, key, "expected a list ([a, b, ...])");
+        }
+
+        json.WriteStartArray();
+        foreach (YamlNode v in seq.Children)
+        {
+            item(v);
+        }
+
+        json.WriteEndArray();
     }
 
     private static bool IsNull(YamlNode node) =>
@@ -217,6 +254,11 @@ public static class PresetLoader
 #pragma warning disable IDISP004 // misreads foreach over JsonElement.EnumerateObject(): foreach disposes the enumerator
         foreach (JsonProperty section in doc.RootElement.EnumerateObject())
         {
+            if (section.Value.ValueKind == JsonValueKind.Null)
+            {
+                continue; // an optional section that is absent (calibration): the text stays as without it
+            }
+
             text.Append(section.Name).Append(':');
             if (section.Value.ValueKind != JsonValueKind.Object)
             {
@@ -238,6 +280,7 @@ public static class PresetLoader
     // YamlDotNet's plain-scalar forms: round-trip numbers, lower-case booleans, YAML's names for the IEEE specials.
     private static string Leaf(JsonElement e) => e.ValueKind switch
     {
+        JsonValueKind.Array => "[" + string.Join(", ", Items(e)) + "]",
         JsonValueKind.True => "true",
         JsonValueKind.False => "false",
         JsonValueKind.Number => e.GetDouble().ToString("R", CultureInfo.InvariantCulture),
@@ -251,6 +294,17 @@ public static class PresetLoader
         },
         _ => string.Empty,
     };
+
+    private static List<string> Items(JsonElement array)
+    {
+        var items = new List<string>(array.GetArrayLength());
+        for (int i = 0; i < items.Capacity; i++)
+        {
+            items.Add(Leaf(array[i]));
+        }
+
+        return items;
+    }
 
     /// <summary>Short content hash of the effective configuration: <c>sha256:</c> and the first 16 hex digits of SHA-256 over <see cref="ToYaml"/>.</summary>
     public static string Hash(PipelineOptions options)

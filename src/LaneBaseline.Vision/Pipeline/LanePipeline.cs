@@ -168,6 +168,11 @@ public sealed class LanePipeline : IDisposable
         stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
         stages.Add(new BirdsEyeWarpStage());
         stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));
+        if (options.Calibration is not null)
+        {
+            stages.Add(new CalibrationStep(options.Calibration, options.Confidence.MinScore));
+        }
+
         if (options.Tracking.Enabled)
         {
             stages.Add(new TemporalTracker(options.Tracking, options.Fit));

@@ -1,0 +1,52 @@
+using LaneBaseline.Core.Results;
+
+namespace LaneBaseline.Core.Calibration;
+
+/// <summary>
+/// The evidence features of a lane that the confidence calibration maps to a probability: the one place that names
+/// them. A new <see cref="LaneEstimate"/> field becomes a feature with one line in <see cref="All"/>; a stored
+/// calibration names its features, so a preset fitted with a feature this build does not know is rejected.
+/// </summary>
+public static class LaneFeatures
+{
+    /// <summary>
+    /// Every feature this build knows: its name (as written in presets), how it is read from a lane, and the sign its
+    /// weight must have (+1: more evidence, more likely true; −1: less likely; 0: either). A fit whose weight takes
+    /// the other sign drops that feature (see <see cref="LaneCalibration.Fit"/>), so the mapping stays monotone in
+    /// the evidence and cannot punish a strong marking outside the fitted range.
+    /// </summary>
+    public static IReadOnlyList<(string Name, Func<LaneEstimate, double> Read, int Sign)> All { get; } =
+    [
+        ("rawScore", l => l.Score, +1),
+        ("inlierMass", l => Math.Log(1 + Math.Max(0, l.InlierMass)), +1), // log: evidence mass spans three decades
+        ("coverage", l => l.Coverage, +1),
+        ("rmsPx", l => l.RmsPx, -1),
+    ];
+
+    /// <summary>The names of <see cref="All"/>, in order.</summary>
+    public static IReadOnlyList<string> Names { get; } = [.. All.Select(f => f.Name)];
+
+    /// <summary>Position of a feature name in <see cref="All"/>, or −1 when this build does not know it.</summary>
+    public static int IndexOf(string name) => Names.ToList().IndexOf(name);
+
+    /// <summary>Writes the lane's features, in the order of <paramref name="indices"/> (positions in <see cref="All"/>), to <paramref name="into"/>.</summary>
+    public static void Of(in LaneEstimate lane, ReadOnlySpan<int> indices, Span<double> into)
+    {
+        for (int i = 0; i < indices.Length; i++)
+        {
+            into[i] = All[indices[i]].Read(lane);
+        }
+    }
+
+    /// <summary>All features of a lane, in the order of <see cref="All"/>.</summary>
+    public static double[] Of(in LaneEstimate lane)
+    {
+        var v = new double[All.Count];
+        for (int i = 0; i < v.Length; i++)
+        {
+            v[i] = All[i].Read(lane);
+        }
+
+        return v;
+    }
+}
