@@ -172,7 +172,7 @@ internal sealed class CalibrationRunner(TuneRequest request, double lambda, bool
 
             pipeline.ResetSequence();
             FrameResult result = pipeline.Process(frame, 0);
-            Lane[] lanes = DetectRunner.LanesOf(pipeline.Workspace!, result);
+            Lane[] lanes = [.. result.Lanes];
             var features = new double[lanes.Length][];
             var scores = new double[lanes.Length];
             for (int i = 0; i < lanes.Length; i++)

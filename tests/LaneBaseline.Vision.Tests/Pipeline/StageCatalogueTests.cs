@@ -14,8 +14,9 @@ public sealed class StageCatalogueTests
 {
     private static IReadOnlyList<string> AllStageNames()
     {
-        // Tracking on and a frame narrower than the working width: every optional stage (resize, track) is built.
-        var options = new PipelineOptions { Tracking = new TrackingOptions { Enabled = true } };
+        // The default preset (it carries a calibration), tracking on and a frame narrower than the working width:
+        // every optional stage (resize, calibrate, track) is built.
+        PipelineOptions options = KnownPresets.Default with { Tracking = new TrackingOptions { Enabled = true } };
         using var pipeline = new LanePipeline(options);
         using Mat frame = new SyntheticRoad { Width = 640, Height = 360, Seed = 2 }.Render();
         pipeline.Process(frame, 0);
