@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# The main job end to end on the bundled sample frames (Harrowby Ridge proving loop) with the default preset:
+# The main job end to end on the bundled sample frames (Quendaspar Ridge proving loop) with the default preset:
 # detect lanes, score them against the exact truth, audit them, and write one HTML report.
 # Outputs go to out/demo/ (ignored by git). Usage: bash scripts/demo.sh [extra detect options]
 set -euo pipefail

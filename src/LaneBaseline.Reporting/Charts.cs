@@ -15,8 +15,8 @@ namespace LaneBaseline.Reporting;
 /// </summary>
 internal static partial class Charts
 {
-    /// <summary>Series colours, one per system in file order (our own palette; cycles after six).</summary>
-    public static readonly string[] SystemColors = ["#1F5FA8", "#D9480F", "#2B8A3E", "#862E9C", "#5C5F66", "#C2255C"];
+    /// <summary>Series colours, one per system in file order (<see cref="Palette.Systems"/>; cycles after six).</summary>
+    public static readonly string[] SystemColors = [.. Palette.Systems];
 
     private const string Font = "DejaVu Sans";
 
@@ -216,9 +216,9 @@ internal static partial class Charts
     /// <summary>Our severity colours (error red-brown, warning amber, info grey-blue).</summary>
     public static string SeverityColor(string severity) => severity switch
     {
-        "error" => "#B02A1E",
-        "warning" => "#E0A100",
-        _ => "#6C7A89",
+        "error" => Palette.Error,
+        "warning" => Palette.Warning,
+        _ => Palette.Info,
     };
 
     /// <summary>
@@ -296,13 +296,13 @@ internal static partial class Charts
         }
 
         var zero = plot.Add.HorizontalLine(0);
-        zero.LineColor = Color.FromHex("#444444");
+        zero.LineColor = Color.FromHex(Palette.ZeroLine);
         zero.LineWidth = 1;
         if (xs.Count > 0)
         {
             var dots = plot.Add.Markers(xs.ToArray(), ys.ToArray());
             dots.MarkerSize = 9;
-            dots.Color = Color.FromHex("#111111");
+            dots.Color = Color.FromHex(Palette.Dots);
         }
 
         plot.Axes.Bottom.SetTicks([.. positions], [.. labels]);

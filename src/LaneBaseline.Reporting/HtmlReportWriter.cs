@@ -44,7 +44,7 @@ public static class HtmlReportWriter
         h.Append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
          .Append("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n")
          .Append("<title>").Append(title).Append(": ").Append(E(subject)).Append("</title>\n")
-         .Append("<style>\n:root { --truth:").Append(OverlayColors.TruthHex).Append("; --pred:").Append(OverlayColors.PredictionHex).Append("; }\n").Append(Css).Append("</style>\n</head>\n<body>\n");
+         .Append("<style>\n").Append(Palette.CssVariables).Append(Css).Append("</style>\n</head>\n<body>\n");
 
         h.Append("<header>\n<h1>").Append(title).Append("</h1>\n<p class=\"meta\">");
         if (doc is not null)
@@ -495,14 +495,13 @@ public static class HtmlReportWriter
     private static string E(string text) => WebUtility.HtmlEncode(text);
 
     private const string Css = """
-        :root { --ink:#1d232b; --muted:#5b6470; --rule:#d6dbe1; --band:#f3f5f8; --accent:#1F5FA8; }
         * { box-sizing:border-box; }
         body { margin:0 auto; max-width:1200px; padding:16px 24px 40px; color:var(--ink); background:#fff;
                font:15px/1.5 "DejaVu Sans", "Segoe UI", Helvetica, Arial, sans-serif; }
         h1 { font-size:1.8em; margin:0.2em 0; } h2 { font-size:1.3em; margin:0 0 0.4em; border-bottom:2px solid var(--rule); padding-bottom:0.2em; }
         h3 { font-size:1.05em; margin:1em 0 0.4em; }
         .meta { color:var(--muted); margin:0 0 0.6em; }
-        .caution-banner { background:#fff4e5; border-left:5px solid #d9480f; padding:8px 12px; margin:0.6em 0; }
+        .caution-banner { background:var(--caution-bg); border-left:5px solid var(--caution-edge); padding:8px 12px; margin:0.6em 0; }
         nav { position:sticky; top:0; background:#fff; border-bottom:1px solid var(--rule); padding:6px 0; z-index:1;
               display:flex; flex-wrap:wrap; gap:4px 14px; }
         nav a { color:var(--accent); text-decoration:none; font-size:0.92em; }
@@ -535,7 +534,7 @@ public static class HtmlReportWriter
           body { max-width:none; padding:0; font-size:11pt; } nav { display:none; }
           section, figure, table, .thumb { break-inside:avoid; } h2 { break-after:avoid; }
           .scroll { overflow:visible; } .gallery { grid-template-columns:repeat(3, 1fr); }
-          .caution-banner { border:1px solid #d9480f; } details > summary { display:none; }
+          .caution-banner { border:1px solid var(--caution-edge); } details > summary { display:none; }
         }
 
         """;

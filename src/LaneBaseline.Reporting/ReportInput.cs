@@ -81,10 +81,10 @@ public sealed record GalleryFrame(
 public static class OverlayColors
 {
     /// <summary>Ground truth: a broad sea-green band.</summary>
-    public const string TruthHex = "#19C37D";
+    public const string TruthHex = Palette.Truth;
 
     /// <summary>Prediction: a thinner magenta line with dots at its points.</summary>
-    public const string PredictionHex = "#E8368F";
+    public const string PredictionHex = Palette.Prediction;
 
     /// <summary>Parses <c>#RRGGBB</c> into its components.</summary>
     public static (byte R, byte G, byte B) Rgb(string hex)

@@ -6,7 +6,7 @@ using LaneBaseline.Testing;
 namespace LaneBaseline.Benchmarks;
 
 /// <summary>
-/// Writes large truth and prediction lane files for the memory soak (scripts/soak.sh): 1640x590 frames with four
+/// Writes large truth and prediction lane files for the memory soak (scripts/soak.sh): 1920x1080 frames with four
 /// truth and four predicted lanes of 11 points, in sequences of 100 frames (so audit's temporal rules run), the
 /// prediction jittered by a seeded SplitMix64. Invented data, for measuring memory only.
 /// </summary>
@@ -33,8 +33,8 @@ internal static class SoakData
                     return new LanePoint(Math.Round(x0 + ((xt - x0) * s / 10), 2), 589 - ((589 - 280) * s / 10.0));
                 })],
             };
-            truth.Write(Lanes.Truth(key, 1640, 590, [.. Enumerable.Range(0, 4).Select(k => Make(k, 0))]));
-            pred.Write(Lanes.Truth(key, 1640, 590, [.. Enumerable.Range(0, 4).Select(k => Make(k, rng.NextDouble(-12, 12)))]));
+            truth.Write(Lanes.Truth(key, 1920, 1080, [.. Enumerable.Range(0, 4).Select(k => Make(k, 0))]));
+            pred.Write(Lanes.Truth(key, 1920, 1080, [.. Enumerable.Range(0, 4).Select(k => Make(k, rng.NextDouble(-12, 12)))]));
         }
     }
 }

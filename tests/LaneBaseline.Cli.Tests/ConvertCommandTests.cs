@@ -18,15 +18,15 @@ public sealed class ConvertCommandTests : IDisposable
         [
             new LaneRecord
             {
-                Frame = "clip/000001.jpg", Width = 1640, Height = 590, Tags = ["day"],
+                Frame = "clip/000001.jpg", Width = 1920, Height = 1080, Tags = ["day"],
                 Lanes =
                 [
                     new Lane { Points = [new(400, 589), new(700, 250)], Slot = -1, Score = 0.75, Kind = "solid" },
                     new Lane { Points = [new(1300, 589), new(1100.5, 420.25), new(900, 250)], Slot = 1, Kind = "dashed" },
                 ],
             },
-            Lanes.Truth("clip/000002.jpg", 1640, 590, Lanes.Of((820, 589), (822, 100))),
-            Lanes.Truth("clip/000003.jpg", 1640, 590),
+            Lanes.Truth("clip/000002.jpg", 1920, 1080, Lanes.Of((820, 589), (822, 100))),
+            Lanes.Truth("clip/000003.jpg", 1920, 1080),
         ]);
         return path;
     }
@@ -53,7 +53,7 @@ public sealed class ConvertCommandTests : IDisposable
         Assert.Equal(0, CliRunner.Run("convert", masks, "-o", back, "--reference", truth).Exit);
         var records = ReadAll(back);
         Assert.Equal(["clip/000001.jpg", "clip/000002.jpg", "clip/000003.jpg"], records.Select(r => r.Frame));
-        Assert.All(records, r => Assert.Equal((1640, 590), (r.Width!.Value, r.Height!.Value)));
+        Assert.All(records, r => Assert.Equal((1920, 1080), (r.Width!.Value, r.Height!.Value)));
         Assert.Equal([2, 1, 0], records.Select(r => r.Lanes.Count));
         // Lane order follows the mask ids (file order); geometry within 1 px at mid-height
         // (tolerance stated in docs/formats.md and checked row by row in MaskRoundTripTests).

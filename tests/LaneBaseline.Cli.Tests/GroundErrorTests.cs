@@ -116,7 +116,7 @@ public sealed class GroundErrorTests : IDisposable
     {
         string cam = dir.File("camera.json"), truth = dir.File("t.lanes.jsonl");
         Camera.Save(cam);
-        Lanes.WriteFile(truth, [Lanes.Truth("a.png", 1640, 590, Lanes.Vertical(100, 590))]);
+        Lanes.WriteFile(truth, [Lanes.Truth("a.png", 1920, 1080, Lanes.Vertical(100, 1080))]);
         (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", truth, "--camera", cam);
         Assert.Equal(3, exit);
         Assert.Contains("camera file describes 1280x720", err, StringComparison.Ordinal);

@@ -29,7 +29,7 @@ public sealed class SampleFramesTests
                 TextWriter.Null,
                 TextWriter.Null);
             Assert.Equal(0, code);
-            foreach (string f in Directory.GetFiles(Path.Combine(o, "scene-0000")).Concat(Directory.GetFiles(Path.Combine(o, "scene-0001"))))
+            foreach (string f in Directory.GetFiles(Path.Combine(o, "lap-0000")).Concat(Directory.GetFiles(Path.Combine(o, "lap-0001"))))
             {
                 string rel = Path.GetRelativePath(o, f);
                 Assert.True(File.ReadAllBytes(f).AsSpan().SequenceEqual(File.ReadAllBytes(Path.Combine(samples, rel))), rel + " differs from the committed sample");

@@ -11,8 +11,8 @@ public sealed class ScoreCommandTests : IDisposable
 
     public void Dispose() => dir.Dispose();
 
-    // Hand-computed over three 1640x590 frames (lane width 30 px, 31 px footprint):
-    //  a: truth x=400; prediction x=415 (IoU 8/23 = 0.348: TP at 0.10 and 0.30 only); point: |dx| = 15 < 25.625 -> acc 1.
+    // Hand-computed over three 1920x1080 frames (lane width 30 px, 31 px footprint):
+    //  a: truth x=400; prediction x=415 (IoU 8/23 = 0.348: TP at 0.10 and 0.30 only); point: |dx| = 15 < 30 (20 px x 1920/1280) -> acc 1.
     //  b: truth x=400 and x=1000; predictions x=400 (IoU 1) and x=1300 (IoU 0) -> TP 1 at every threshold, 1 FP, 1 FN;
     //     point: 1 matched, pair acc 1 and 0.
     //  c: truth x=700; missing from the predictions -> 1 FN; point acc 0.
@@ -24,7 +24,7 @@ public sealed class ScoreCommandTests : IDisposable
     {
         (string truth, string pred) = WriteHandSet();
         string json = dir.File("s.json"), csv = dir.File("s.csv");
-        (int exit, string stdout, _) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", json, "--csv", csv, "--bootstrap", "100", "--threads", "1");
+        (int exit, string stdout, _) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", json, "--csv", csv, "--bootstrap", "100", "--threads", "1");
         Assert.Equal(0, exit);
         Assert.Contains("F1@.50", stdout, StringComparison.Ordinal);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
@@ -60,8 +60,8 @@ public sealed class ScoreCommandTests : IDisposable
     {
         (string truth, string pred) = WriteHandSet();
         string j1 = dir.File("1.json"), j2 = dir.File("2.json");
-        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", j1, "--threads", "1").Exit);
-        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", j2, "--threads", "2").Exit);
+        Assert.Equal(0, CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", j1, "--threads", "1").Exit);
+        Assert.Equal(0, CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", j2, "--threads", "2").Exit);
         Assert.Equal(File.ReadAllBytes(j1), File.ReadAllBytes(j2));
     }
 
@@ -70,7 +70,7 @@ public sealed class ScoreCommandTests : IDisposable
     {
         (string truth, string pred) = WriteHandSet();
         string json = dir.File("m.json");
-        (int exit, string stdout, _) = CliRunner.Run("score", "--truth", truth, "--pred", "net=" + pred, "--pred", "oracle=" + truth, "--json", json, "--bootstrap", "50");
+        (int exit, string stdout, _) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", "net=" + pred, "--pred", "oracle=" + truth, "--json", json, "--bootstrap", "50");
         Assert.Equal(0, exit);
         Assert.Contains("net - oracle", stdout, StringComparison.Ordinal);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
@@ -84,10 +84,10 @@ public sealed class ScoreCommandTests : IDisposable
     public void Score_GateBelowThreshold_Exits4WithReason()
     {
         (string truth, string pred) = WriteHandSet();
-        (int exit, _, string stderr) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--min-f1", "0.5", "--bootstrap", "0");
+        (int exit, _, string stderr) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--min-f1", "0.5", "--bootstrap", "0");
         Assert.Equal(4, exit);
         Assert.Contains("quality gate failed", stderr, StringComparison.Ordinal);
-        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", pred, "--min-f1", "0.25", "--bootstrap", "0").Exit);
+        Assert.Equal(0, CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--min-f1", "0.25", "--bootstrap", "0").Exit);
     }
 
     // Source: metrics specification, "no truth and no prediction at all: P = R = F1 = mF1 = 1, accuracy 1, rates 0
@@ -98,7 +98,7 @@ public sealed class ScoreCommandTests : IDisposable
         string truth = dir.File("t.lanes.jsonl"), pred = dir.File("p.lanes.jsonl"), json = dir.File("e.json");
         Lanes.WriteFile(truth, [Lanes.Truth("a.png", 1280, 720)]);
         Lanes.WriteFile(pred, [Lanes.Pred("a.png")]);
-        (int exit, _, string stderr) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", json);
+        (int exit, _, string stderr) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", json);
         Assert.Equal(0, exit);
         Assert.Contains("scores 1.0", stderr, StringComparison.Ordinal);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
@@ -113,9 +113,9 @@ public sealed class ScoreCommandTests : IDisposable
     public void Score_MixedSizes_NullWidthAndTolerance()
     {
         string truth = dir.File("t.lanes.jsonl"), pred = dir.File("p.lanes.jsonl"), json = dir.File("x.json");
-        Lanes.WriteFile(truth, [Lanes.Truth("a.png", 1640, 590, Lanes.Vertical(300, 590)), Lanes.Truth("b.png", 1280, 720, Lanes.Vertical(300, 720))]);
-        Lanes.WriteFile(pred, [Lanes.Pred("a.png", Lanes.Vertical(300, 590)), Lanes.Pred("b.png", Lanes.Vertical(300, 720))]);
-        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", json).Exit);
+        Lanes.WriteFile(truth, [Lanes.Truth("a.png", 1920, 1080, Lanes.Vertical(300, 1080)), Lanes.Truth("b.png", 1280, 720, Lanes.Vertical(300, 720))]);
+        Lanes.WriteFile(pred, [Lanes.Pred("a.png", Lanes.Vertical(300, 1080)), Lanes.Pred("b.png", Lanes.Vertical(300, 720))]);
+        Assert.Equal(0, CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", json).Exit);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
         Assert.Equal(JsonValueKind.Null, doc.RootElement.GetProperty("iou_f1").GetProperty("width_px").ValueKind);
         Assert.Equal(JsonValueKind.Null, doc.RootElement.GetProperty("point_accuracy").GetProperty("tolerance_px").ValueKind);
@@ -141,7 +141,7 @@ public sealed class ScoreCommandTests : IDisposable
         (string truth, _) = WriteHandSet();
         string pred = dir.File("p.lanes.jsonl"), json = dir.File(name + ".json"), csv = dir.File(name + ".csv");
         File.WriteAllText(pred, content);
-        (int exit, _, string stderr) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", json, "--csv", csv);
+        (int exit, _, string stderr) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", json, "--csv", csv);
         Assert.Equal(3, exit);
         Assert.Contains(expected, stderr, StringComparison.Ordinal);
         Assert.DoesNotContain("   at ", stderr, StringComparison.Ordinal);
@@ -158,7 +158,7 @@ public sealed class ScoreCommandTests : IDisposable
         (string truth, _) = WriteHandSet();
         string pred = dir.File("empty.lanes.jsonl"), json = dir.File("empty.json");
         File.WriteAllText(pred, string.Empty);
-        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", json, "--bootstrap", "0");
+        (int exit, _, string err) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", json, "--bootstrap", "0");
         Assert.True(exit == 0, err);
         Assert.Contains("note: " + pred + ": the prediction file holds no records", err, StringComparison.Ordinal);
         using var doc = System.Text.Json.JsonDocument.Parse(File.ReadAllText(json));
@@ -179,7 +179,7 @@ public sealed class ScoreCommandTests : IDisposable
         Assert.Contains("is a directory", err, StringComparison.Ordinal);
         string bad = dir.File("bad.jsonl");
         File.WriteAllBytes(bad, [.. "{\"frame\":\"a"u8.ToArray(), 0xFF, .. "\",\"lanes\":[]}\n"u8.ToArray()]);
-        (exit, _, err) = CliRunner.Run("score", "--truth", truth, "--pred", bad);
+        (exit, _, err) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", bad);
         Assert.Equal(3, exit);
         Assert.Contains("bad.jsonl:1: the line is not valid UTF-8 text", err, StringComparison.Ordinal);
     }
@@ -192,7 +192,7 @@ public sealed class ScoreCommandTests : IDisposable
     public void Score_BadOption_Exits2(string option, string value)
     {
         (string truth, string pred) = WriteHandSet();
-        Assert.Equal(2, CliRunner.Run("score", "--truth", truth, "--pred", pred, option, value).Exit);
+        Assert.Equal(2, CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, option, value).Exit);
     }
 
     private (string Truth, string Pred) WriteHandSet()
@@ -202,11 +202,11 @@ public sealed class ScoreCommandTests : IDisposable
         {
             Lanes.WriteFile(truth,
             [
-                Tagged(Lanes.Truth("a.png", 1640, 590, Lanes.Vertical(400, 590)), "day"),
-                Tagged(Lanes.Truth("b.png", 1640, 590, Lanes.Vertical(400, 590), Lanes.Vertical(1000, 590)), "dusk"),
-                Tagged(Lanes.Truth("c.png", 1640, 590, Lanes.Vertical(700, 590)), "dusk", "curve"),
+                Tagged(Lanes.Truth("a.png", 1920, 1080, Lanes.Vertical(400, 1080)), "day"),
+                Tagged(Lanes.Truth("b.png", 1920, 1080, Lanes.Vertical(400, 1080), Lanes.Vertical(1000, 1080)), "dusk"),
+                Tagged(Lanes.Truth("c.png", 1920, 1080, Lanes.Vertical(700, 1080)), "dusk", "curve"),
             ]);
-            Lanes.WriteFile(pred, [Lanes.Pred("a.png", Lanes.Vertical(415, 590)), Lanes.Pred("b.png", Lanes.Vertical(400, 590), Lanes.Vertical(1300, 590))]);
+            Lanes.WriteFile(pred, [Lanes.Pred("a.png", Lanes.Vertical(415, 1080)), Lanes.Pred("b.png", Lanes.Vertical(400, 1080), Lanes.Vertical(1300, 1080))]);
         }
 
         return (truth, pred);

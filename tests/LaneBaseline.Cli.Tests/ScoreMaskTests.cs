@@ -16,8 +16,8 @@ public sealed class ScoreMaskTests : IDisposable
         string path = dir.File("t.lanes.jsonl");
         Lanes.WriteFile(path,
         [
-            Lanes.Truth("a.jpg", 1640, 590, Lanes.Of((400, 589), (700, 250)), Lanes.Of((1300, 589), (900, 250))),
-            Lanes.Truth("b.jpg", 1640, 590, Lanes.Of((820, 589), (822, 100))),
+            Lanes.Truth("a.jpg", 1920, 1080, Lanes.Of((400, 589), (700, 250)), Lanes.Of((1300, 589), (900, 250))),
+            Lanes.Truth("b.jpg", 1920, 1080, Lanes.Of((820, 589), (822, 100))),
         ]);
         return path;
     }
@@ -27,7 +27,7 @@ public sealed class ScoreMaskTests : IDisposable
     {
         string truth = WriteTruth(), masks = dir.File("pred"), json = dir.File("s.json");
         Assert.Equal(0, CliRunner.Run("convert", truth, "-o", masks).Exit);
-        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", masks, "--json", json, "--bootstrap", "0");
+        (int exit, _, string err) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", masks, "--json", json, "--bootstrap", "0");
         Assert.True(exit == 0, err);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
         JsonElement half = doc.RootElement.GetProperty("iou_f1").GetProperty("thresholds").GetProperty("0.50");
@@ -59,7 +59,7 @@ public sealed class ScoreMaskTests : IDisposable
         string tm = dir.File("tm"), pm = dir.File("pm");
         Assert.Equal(0, CliRunner.Run("convert", truthLanes, "-o", tm).Exit);
         Assert.Equal(0, CliRunner.Run("convert", predLanes, "-o", pm).Exit);
-        string[] common = ["score", "--truth", tm, "--pred", pm, "--bootstrap", "20"];
+        string[] common = ["score", "--lane-width-px", "30", "--truth", tm, "--pred", pm, "--bootstrap", "20"];
         (int exit, string fullOut, string err) = CliRunner.Run([.. common, "--json", dir.File("full.json"), "--mask-iou-csv", dir.File("full-mask.csv")]);
         Assert.True(exit == 0, err);
         Assert.Contains("\"mask_iou\"", File.ReadAllText(dir.File("full.json")), StringComparison.Ordinal);
@@ -95,7 +95,7 @@ public sealed class ScoreMaskTests : IDisposable
         string truth = WriteTruth(), tm = dir.File("tm"), pm = dir.File("pm"), json = dir.File("s.json"), csv = dir.File("m.csv");
         Assert.Equal(0, CliRunner.Run("convert", truth, "-o", tm).Exit);
         Assert.Equal(0, CliRunner.Run("convert", truth, "-o", pm).Exit);
-        (int exit, string stdout, string err) = CliRunner.Run("score", "--truth", tm, "--pred", pm, "--json", json, "--mask-iou-csv", csv, "--bootstrap", "0");
+        (int exit, string stdout, string err) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", tm, "--pred", pm, "--json", json, "--mask-iou-csv", csv, "--bootstrap", "0");
         Assert.True(exit == 0, err);
         Assert.Contains("mean IoU 1.0000 over 3 truth lanes", stdout, StringComparison.Ordinal);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
@@ -116,12 +116,12 @@ public sealed class ScoreMaskTests : IDisposable
         string pred = dir.File("p.lanes.jsonl");
         Lanes.WriteFile(pred,
         [
-            Lanes.Truth("a.jpg", 1640, 590, Lanes.Of((400, 589), (700, 250))),
-            Lanes.Truth("b.jpg", 1640, 590, Lanes.Of((820, 589), (822, 100))),
+            Lanes.Truth("a.jpg", 1920, 1080, Lanes.Of((400, 589), (700, 250))),
+            Lanes.Truth("b.jpg", 1920, 1080, Lanes.Of((820, 589), (822, 100))),
         ]);
         Assert.Equal(0, CliRunner.Run("convert", truth, "-o", tm).Exit);
         Assert.Equal(0, CliRunner.Run("convert", pred, "-o", pm).Exit);
-        Assert.Equal(0, CliRunner.Run("score", "--truth", tm, "--pred", pm, "--json", json, "--bootstrap", "0").Exit);
+        Assert.Equal(0, CliRunner.Run("score", "--lane-width-px", "30", "--truth", tm, "--pred", pm, "--json", json, "--bootstrap", "0").Exit);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
         Assert.Equal(2.0 / 3.0, doc.RootElement.GetProperty("mask_iou").GetProperty("mean_iou").GetDouble(), 12);
     }
@@ -131,10 +131,10 @@ public sealed class ScoreMaskTests : IDisposable
     {
         string truth = WriteTruth();
         Directory.CreateDirectory(dir.File("none"));
-        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", dir.File("none"));
+        (int exit, _, string err) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", dir.File("none"));
         Assert.Equal(3, exit);
         Assert.Contains("is a directory with no mask PNGs", err, StringComparison.Ordinal);
-        Assert.Equal(2, CliRunner.Run("score", "--truth", truth, "--pred", truth, "--mask-iou-csv", dir.File("x.csv")).Exit);
+        Assert.Equal(2, CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", truth, "--mask-iou-csv", dir.File("x.csv")).Exit);
     }
 
     [Fact]
@@ -142,9 +142,9 @@ public sealed class ScoreMaskTests : IDisposable
     {
         string truth = WriteTruth(), masks = dir.File("pred");
         string other = dir.File("o.lanes.jsonl");
-        Lanes.WriteFile(other, [Lanes.Truth("zzz.jpg", 1640, 590, Lanes.Of((400, 589), (700, 250)))]);
+        Lanes.WriteFile(other, [Lanes.Truth("zzz.jpg", 1920, 1080, Lanes.Of((400, 589), (700, 250)))]);
         Assert.Equal(0, CliRunner.Run("convert", other, "-o", masks).Exit);
-        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", masks);
+        (int exit, _, string err) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", masks);
         Assert.Equal(3, exit);
         Assert.Contains("frame 'zzz.png' is not in the truth file", err, StringComparison.Ordinal);
     }

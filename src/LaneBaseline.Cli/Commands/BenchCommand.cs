@@ -73,7 +73,7 @@ internal static class BenchCommand
                 Seed = parse.GetValue(seed),
                 Sizes = ParseSizes(parse.GetValue(size) ?? []),
                 Threads = ParseThreads(parse.GetValue(threads)!),
-                Options = KnownPresets.Resolve(parse.GetValue(config)!),
+                Options = KnownPresets.Resolve(parse.GetValue(config)!, stderr),
                 ConfigSource = parse.GetValue(config)!,
                 Warmup = warm,
                 Passes = passCount,

@@ -70,7 +70,7 @@ internal static class DetectCommand
             {
                 Input = parse.GetValue(frames)!,
                 Output = parse.GetValue(output)!,
-                Options = KnownPresets.Resolve(parse.GetValue(config)!),
+                Options = KnownPresets.Resolve(parse.GetValue(config)!, stderr),
                 ConfigSource = parse.GetValue(config)!,
                 OverlaysDir = parse.GetValue(overlays),
                 StagesDir = parse.GetValue(stagesDir),

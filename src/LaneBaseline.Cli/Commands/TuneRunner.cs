@@ -68,7 +68,7 @@ internal sealed partial class TuneRunner
             throw new UsageException(request.Output + ": the output folder does not exist");
         }
 
-        PipelineOptions baseOptions = KnownPresets.Resolve(request.ConfigSource);
+        PipelineOptions baseOptions = KnownPresets.Resolve(request.ConfigSource, stderr);
         baseYaml = PresetLoader.ToYaml(baseOptions);
         (space, string spaceName, string spaceText) = LoadSpace();
         if (space.Parameters.Count > 20)

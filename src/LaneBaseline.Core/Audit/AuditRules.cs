@@ -86,7 +86,7 @@ public static class AuditRules
         new(GroundParallel, "ground-parallel", AuditSeverity.Warning, "a lane's width changes by more than 0.5 m between 10 m and 30 m ahead",
             "common practice: lane widths change only over long tapers; 0.5 m over 20 m is a 1:40 taper (from memory)"),
         new(BaselineDisagreement, "baseline-disagreement", AuditSeverity.Warning, "F1 at IoU 0.50 against the baseline's confident lanes (score >= 0.5) under 0.5",
-            "metrics.md rasterised-IoU F1 (Pan et al., AAAI 2018) with the baseline as reference"),
+            "rasterised-IoU F1 (docs/metrics.md; common practice in the lane-detection literature) with the baseline as reference"),
     ];
 
     /// <summary>Looks a rule up by id.</summary>

@@ -40,10 +40,30 @@ public static class KnownPresets
     /// Resolves a <c>--config</c> value: a bare name (no directory separator, no extension) is an embedded preset,
     /// anything else a YAML file path.
     /// </summary>
-    public static PipelineOptions Resolve(string nameOrPath)
+    /// <param name="nameOrPath">A preset name or a YAML file path.</param>
+    /// <param name="notes">Receives one line when a deprecated preset name is used (for stderr); may be null.</param>
+    public static PipelineOptions Resolve(string nameOrPath, TextWriter? notes = null)
     {
         ArgumentNullException.ThrowIfNull(nameOrPath);
         bool isName = nameOrPath.IndexOfAny(['/', '\\', '.']) < 0;
-        return isName ? Load(nameOrPath) : PresetLoader.LoadFile(nameOrPath);
+        if (!isName)
+        {
+            return PresetLoader.LoadFile(nameOrPath);
+        }
+
+        if (DeprecatedNames.TryGetValue(nameOrPath, out string? current))
+        {
+            notes?.WriteLine("note: preset '" + nameOrPath + "' is deprecated and will be removed in the next release; it is now called '" + current + "'");
+            return Load(current);
+        }
+
+        return Load(nameOrPath);
     }
+
+    /// <summary>Old preset names still accepted for one release, with the name that replaced them.</summary>
+    public static IReadOnlyDictionary<string, string> DeprecatedNames { get; } = new Dictionary<string, string>(StringComparer.Ordinal)
+    {
+        // renamed 2026-12: the preset reports boundaries (at most four), not lanes
+        ["four-lanes"] = "near-boundaries",
+    };
 }

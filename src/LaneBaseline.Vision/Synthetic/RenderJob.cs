@@ -200,7 +200,7 @@ public static class RenderJob
                     SceneSpec scene = SceneSpec.Create(o.Seed, i, [new RenderCondition(o.Sweep, sev)], o.SequenceLength, o.FramesPerSecond);
                     for (int f = 0; f < o.SequenceLength; f++)
                     {
-                        jobs.Add(new FrameJob(scene, f, FormattableString.Invariant($"sev-{sevText}/scene-{i:D4}/frame-{f:D4}.{ext}"), extra));
+                        jobs.Add(new FrameJob(scene, f, FormattableString.Invariant($"sev-{sevText}/lap-{i:D4}/t{f:D4}.{ext}"), extra));
                     }
                 }
             }
@@ -232,7 +232,7 @@ public static class RenderJob
             SceneSpec scene = SceneSpec.Create(o.Seed, i, conditions, o.SequenceLength, o.FramesPerSecond);
             for (int f = 0; f < o.SequenceLength; f++)
             {
-                jobs.Add(new FrameJob(scene, f, FormattableString.Invariant($"scene-{i:D4}/frame-{f:D4}.{ext}"), []));
+                jobs.Add(new FrameJob(scene, f, FormattableString.Invariant($"lap-{i:D4}/t{f:D4}.{ext}"), []));
             }
         }
 

@@ -23,7 +23,7 @@ public sealed class DetectAccuracyTests : IDisposable
     {
         // End to end through both commands: frames drawn with exact truth (SyntheticRoad: pinhole camera, flat road,
         // boundaries at ±1.8 m and ±5.4 m), detect, then score. The clear-day target is F1@0.50 >= 0.90
-        // (Pan et al., AAAI 2018, arXiv 1712.06080: IoU >= 0.5 with 30 px lines at 1640 px width).
+        // (common practice in the lane-detection literature, docs/metrics.md: IoU >= 0.5 with 30 px lines at 1640 px width).
         string frames = Path.Combine(dir, "frames");
         Directory.CreateDirectory(frames);
         string truthPath = Path.Combine(dir, "truth.lanes.jsonl");

@@ -25,7 +25,7 @@ public sealed class DetectionCountsTests
         Assert.Equal((0.0, 0.0), (DetectionCounts.From(0, 0, 4).Precision, DetectionCounts.From(0, 0, 4).F1));
     }
 
-    // Source: numpy.percentile default ("linear") definition, position q*(n-1): values 1..5, q = 0.25 -> 2, q = 0.1 -> 1.4.
+    // Source: Hyndman & Fan 1996 (The American Statistician 50(4)), sample quantile definition 7, position q*(n-1): values 1..5, q = 0.25 -> 2, q = 0.1 -> 1.4.
     [Fact]
     public void Quantile_LinearInterpolation()
     {

@@ -37,6 +37,24 @@ public sealed class PresetLoaderTests
     }
 
     [Fact]
+    public void RenamedPreset_OldNameStillLoads_WithOneDeprecationLine()
+    {
+        // Project decision (docs/detect.md): a renamed preset keeps its old name for one release.
+        Assert.Contains("near-boundaries", KnownPresets.Names);
+        Assert.DoesNotContain("four-lanes", KnownPresets.Names);
+        using var notes = new StringWriter();
+        PipelineOptions old = KnownPresets.Resolve("four-lanes", notes);
+        Assert.Equal(KnownPresets.Load("near-boundaries"), old);
+        Assert.Equal(4, old.Search.MaxLanes);
+        string line = Assert.Single(notes.ToString().Split('\n', StringSplitOptions.RemoveEmptyEntries));
+        Assert.Contains("deprecated", line, StringComparison.Ordinal);
+        Assert.Contains("near-boundaries", line, StringComparison.Ordinal);
+        using var none = new StringWriter();
+        _ = KnownPresets.Resolve("near-boundaries", none);
+        Assert.Equal(string.Empty, none.ToString());
+    }
+
+    [Fact]
     public void PartialPreset_KeepsUnstatedDefaults()
     {
         PipelineOptions low = KnownPresets.Load("low-light");

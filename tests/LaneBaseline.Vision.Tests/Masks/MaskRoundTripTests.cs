@@ -31,10 +31,10 @@ public sealed class MaskRoundTripTests
     public void LaneToMaskToLane_StaysWithinTolerance(double[] xy, double tolerancePx)
     {
         Lane lane = FromFlat(xy);
-        int w = new ScoreSettings().LaneWidthFor(1640); // 30 px, the metric width (metrics.md)
-        using Mat mask = LaneMaskPainter.Paint([lane], 1640, 590, w);
+        const int w = 30; // the metric's width at 1640 px (docs/metrics.md), passed explicitly
+        using Mat mask = LaneMaskPainter.Paint([lane], 1920, 1080, w);
         var dropped = new List<(int, int)>();
-        IReadOnlyList<Lane> back = new MaskLaneExtractor().Extract(mask, 1640, 590, dropped);
+        IReadOnlyList<Lane> back = new MaskLaneExtractor().Extract(mask, 1920, 1080, dropped);
 
         Assert.Empty(dropped);
         Lane got = Assert.Single(back);
@@ -45,12 +45,12 @@ public sealed class MaskRoundTripTests
     [Fact]
     public void HalfResolutionMask_IsRescaledToTheFrame()
     {
-        // A network's reduced-size output: the mask is painted at 820x295 and read back for a 1640x590 frame.
+        // A network's reduced-size output: the mask is painted at 960x540 and read back for a 1920x1080 frame.
         // Tolerance doubles with the scale factor 2 (one mask pixel = 2 frame pixels): 2.0 px.
         Lane lane = FromFlat([400, 589, 700, 250]);
-        Lane half = FromFlat([199.75, 294.25, 349.75, 124.75]); // (x + 0.5) / 2 - 0.5, same for y
-        using Mat mask = LaneMaskPainter.Paint([half], 820, 295, 15);
-        IReadOnlyList<Lane> back = new MaskLaneExtractor().Extract(mask, 1640, 590, []);
+        Lane half = FromFlat([199.75, 294.25, 349.75, 124.75]); // (x + 0.5) / 2 - 0.5, same for y (exact halving of 1920x1080)
+        using Mat mask = LaneMaskPainter.Paint([half], 960, 540, 15);
+        IReadOnlyList<Lane> back = new MaskLaneExtractor().Extract(mask, 1920, 1080, []);
         AssertClose(lane, Assert.Single(back), 20, 2.0);
     }
 
@@ -71,10 +71,10 @@ public sealed class MaskRoundTripTests
     [Fact]
     public void MaskIou_SameMask_IsOne_AndShiftedLane_MatchesHandCount()
     {
-        // Two vertical 31-px-wide bars (thickness 30 draws 2*ceil(30/2)+1 = 31 px, stack.md) over 590 rows, 15 px
+        // Two vertical 31-px-wide bars (thickness 30 draws 2*ceil(30/2)+1 = 31 px, stack.md) over 1080 rows, 15 px
         // apart: IoU = (31-15)/(31+15) = 16/46 over the full height (metrics.md worked check), caps clipped away.
-        using Mat a = LaneMaskPainter.Paint([Lanes.Vertical(400, 590)], 1640, 590, 30);
-        using Mat b = LaneMaskPainter.Paint([Lanes.Vertical(415, 590)], 1640, 590, 30);
+        using Mat a = LaneMaskPainter.Paint([Lanes.Vertical(400, 1080)], 1920, 1080, 30);
+        using Mat b = LaneMaskPainter.Paint([Lanes.Vertical(415, 1080)], 1920, 1080, 30);
         (List<MaskLaneIou> same, _) = MaskIou.Compare("f", a, a);
         Assert.Equal(1.0, Assert.Single(same).Iou);
         (List<MaskLaneIou> shifted, int predLanes) = MaskIou.Compare("f", a, b);
@@ -85,9 +85,9 @@ public sealed class MaskRoundTripTests
     [Fact]
     public void MaskIou_PredictionAtHalfSize_IsResizedNearest()
     {
-        using Mat truth = LaneMaskPainter.Paint([Lanes.Vertical(400, 590)], 1640, 590, 30);
+        using Mat truth = LaneMaskPainter.Paint([Lanes.Vertical(400, 1080)], 1920, 1080, 30);
         using var small = new Mat();
-        Cv2.Resize(truth, small, new Size(820, 295), 0, 0, InterpolationFlags.Nearest);
+        Cv2.Resize(truth, small, new Size(960, 540), 0, 0, InterpolationFlags.Nearest);
         (List<MaskLaneIou> r, _) = MaskIou.Compare("f", truth, small);
         Assert.True(Assert.Single(r).Iou > 0.9, "a nearest-neighbour down/up scale of a 31 px bar keeps IoU above 0.9");
     }

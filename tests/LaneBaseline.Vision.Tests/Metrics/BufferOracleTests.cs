@@ -16,7 +16,7 @@ public sealed class BufferOracleTests
     public void RasterIou_MatchesBufferedPolylineIou_ForLongLanes()
     {
         var gf = new GeometryFactory();
-        Polygon frame = gf.CreatePolygon([new(0, 0), new(1640, 0), new(1640, 590), new(0, 590), new(0, 0)]);
+        Polygon frame = gf.CreatePolygon([new(0, 0), new(1920, 0), new(1920, 1080), new(0, 1080), new(0, 0)]);
         using var rasterizer = new OpenCvLaneRasterizer();
         var rng = new Core.Random.SplitMix64(5);
         const int t = 30;
@@ -29,7 +29,7 @@ public sealed class BufferOracleTests
             var inter = new long[1];
             var at = new long[1];
             var ap = new long[1];
-            rasterizer.Measure(1640, 590, t, [a], [b], inter, at, ap);
+            rasterizer.Measure(1920, 1080, t, [a], [b], inter, at, ap);
             double raster = (double)inter[0] / (at[0] + ap[0] - inter[0]);
 
             // Pixel centres are at integer coordinates: pixel (x, y) covers [x-0.5, x+0.5]; shift the frame accordingly.

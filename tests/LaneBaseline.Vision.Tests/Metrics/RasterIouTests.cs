@@ -22,17 +22,17 @@ public sealed class RasterIouTests : IDisposable
     [InlineData(6, 7)]
     public void VerticalFullHeightLane_HasFootprint2CeilHalfPlus1(int thickness, int across)
     {
-        using var full = new Mat(590, 1640, MatType.CV_8UC1, Scalar.All(0));
-        Cv2.Line(full, new Point(100, 589), new Point(100, 0), Scalar.All(1), thickness, LineTypes.Link8);
+        using var full = new Mat(1080, 1920, MatType.CV_8UC1, Scalar.All(0));
+        Cv2.Line(full, new Point(100, 1079), new Point(100, 0), Scalar.All(1), thickness, LineTypes.Link8);
         using Mat row = full.Row(300);
         Assert.Equal(across, Cv2.CountNonZero(row));
-        (long inter, long areaT, long _) = Measure(1640, 590, thickness, Lanes.Vertical(100, 590), Lanes.Vertical(100, 590));
+        (long inter, long areaT, long _) = Measure(1920, 1080, thickness, Lanes.Vertical(100, 1080), Lanes.Vertical(100, 1080));
         Assert.Equal(Cv2.CountNonZero(full), areaT);                 // round caps beyond the frame are clipped
-        Assert.Equal(across * 590L, areaT);
+        Assert.Equal(across * 1080L, areaT);
         Assert.Equal(areaT, inter);
     }
 
-    // Source: metrics specification worked check: two full-height vertical lanes d px apart on a 1640x590 frame have
+    // Source: metrics specification worked check: two full-height vertical lanes d px apart on a 1920x1080 frame have
     // IoU (31-d)/(31+d): rows are 31 px wide, overlap 31-d, union 31+d per row, caps clipped. d=15 -> 8/23, d=30 -> 1/61.
     [Theory]
     [InlineData(15, 8, 23)]
@@ -40,7 +40,7 @@ public sealed class RasterIouTests : IDisposable
     [InlineData(31, 0, 1)]
     public void TwoVerticalLanes_IouIs31MinusDOver31PlusD(int d, int num, int den)
     {
-        (long inter, long areaT, long areaP) = Measure(1640, 590, 30, Lanes.Vertical(400, 590), Lanes.Vertical(400 + d, 590));
+        (long inter, long areaT, long areaP) = Measure(1920, 1080, 30, Lanes.Vertical(400, 1080), Lanes.Vertical(400 + d, 1080));
         double iou = (double)inter / (areaT + areaP - inter);
         Assert.Equal((double)num / den, iou, 15);
     }
@@ -87,10 +87,10 @@ public sealed class RasterIouTests : IDisposable
         var rng = new Core.Random.SplitMix64(11);
         for (int trial = 0; trial < 40; trial++)
         {
-            Lane a = RandomLane(ref rng, 1640, 590), b = RandomLane(ref rng, 1640, 590);
+            Lane a = RandomLane(ref rng, 1920, 1080), b = RandomLane(ref rng, 1920, 1080);
             int t = 1 + rng.NextInt(40);
-            (long inter, long areaA, long areaB) = Measure(1640, 590, t, a, b);
-            using Mat fa = Full(a, 1640, 590, t), fb = Full(b, 1640, 590, t), both = new Mat();
+            (long inter, long areaA, long areaB) = Measure(1920, 1080, t, a, b);
+            using Mat fa = Full(a, 1920, 1080, t), fb = Full(b, 1920, 1080, t), both = new Mat();
             Cv2.BitwiseAnd(fa, fb, both);
             Assert.Equal(Cv2.CountNonZero(fa), areaA);
             Assert.Equal(Cv2.CountNonZero(fb), areaB);

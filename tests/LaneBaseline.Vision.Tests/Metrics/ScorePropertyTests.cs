@@ -23,8 +23,8 @@ public sealed class ScorePropertyTests
         var scorer = new FrameScorer(rasterizer, new ScoreSettings());
         Gen.Select(GenLanes, GenLanes).Sample((truth, pred) =>
         {
-            FrameScore a = scorer.Score(Lanes.Truth("f", 1640, 590, truth), Lanes.Pred("f", pred));
-            FrameScore b = scorer.Score(Lanes.Truth("f", 1640, 590, [.. truth.Reverse()]), Lanes.Pred("f", [.. pred.Reverse()]));
+            FrameScore a = scorer.Score(Lanes.Truth("f", 1920, 1080, truth), Lanes.Pred("f", pred));
+            FrameScore b = scorer.Score(Lanes.Truth("f", 1920, 1080, [.. truth.Reverse()]), Lanes.Pred("f", [.. pred.Reverse()]));
             Assert.Equal(a.TruePositives, b.TruePositives);
             Assert.Equal(a.PointAccuracySum, b.PointAccuracySum, 9);
         }, iter: 60, threads: 1);
@@ -39,7 +39,7 @@ public sealed class ScorePropertyTests
         var scorer = new FrameScorer(rasterizer, new ScoreSettings());
         GenLanes.Sample(lanes =>
         {
-            FrameScore f = scorer.Score(Lanes.Truth("f", 1640, 590, lanes), Lanes.Pred("f", lanes));
+            FrameScore f = scorer.Score(Lanes.Truth("f", 1920, 1080, lanes), Lanes.Pred("f", lanes));
             var tally = new ScoreTally(scorer.Thresholds);
             tally.Add(f);
             Assert.All(Enumerable.Range(0, scorer.Thresholds.Count), k => Assert.Equal(1.0, tally.At(k).F1));
@@ -58,9 +58,9 @@ public sealed class ScorePropertyTests
         GenLanes.Where(l => l.Length > 0).Sample(lanes =>
         {
             var before = new ScoreTally(scorer.Thresholds);
-            before.Add(scorer.Score(Lanes.Truth("f", 1640, 590, lanes), Lanes.Pred("f", lanes)));
+            before.Add(scorer.Score(Lanes.Truth("f", 1920, 1080, lanes), Lanes.Pred("f", lanes)));
             var after = new ScoreTally(scorer.Thresholds);
-            after.Add(scorer.Score(Lanes.Truth("f", 1640, 590, lanes), Lanes.Pred("f", [.. lanes, far])));
+            after.Add(scorer.Score(Lanes.Truth("f", 1920, 1080, lanes), Lanes.Pred("f", [.. lanes, far])));
             DetectionCounts b = before.At(IouThreshold.Half), a = after.At(IouThreshold.Half);
             Assert.True(a.Precision < b.Precision);
             Assert.Equal(b.Recall, a.Recall);
@@ -80,8 +80,8 @@ public sealed class ScorePropertyTests
             var i2 = new long[1];
             var a2 = new long[1];
             var b2 = new long[1];
-            rasterizer.Measure(1640, 590, t, [a], [b], i1, a1, b1);
-            rasterizer.Measure(1640, 590, t, [b], [a], i2, a2, b2);
+            rasterizer.Measure(1920, 1080, t, [a], [b], i1, a1, b1);
+            rasterizer.Measure(1920, 1080, t, [b], [a], i2, a2, b2);
             double iou1 = (double)i1[0] / (a1[0] + b1[0] - i1[0]), iou2 = (double)i2[0] / (a2[0] + b2[0] - i2[0]);
             Assert.Equal(iou1, iou2);
             Assert.InRange(iou1, 0.0, 1.0);

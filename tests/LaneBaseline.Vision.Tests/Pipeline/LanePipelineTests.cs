@@ -113,7 +113,7 @@ public sealed class LanePipelineTests
     [Fact]
     public void Process_EstimatesSolidAndDashed()
     {
-        // The drawn road has dashed ego boundaries (3 m strokes, 9 m gaps: US MUTCD 2003, Sec. 3A.05) and solid
+        // The drawn road has dashed ego boundaries (3 m strokes, 9 m gaps: a metric rounding of the 10 ft / 30 ft pattern of US MUTCD 2003, Sec. 3A.05) and solid
         // outer ones; a kind, when estimated, must name the drawn type. Full 1280x720 resolution: at 640 px the far
         // solid lines thin to 2 px and the coverage rule abstains.
         SyntheticRoad road = new() { Seed = 13 };
