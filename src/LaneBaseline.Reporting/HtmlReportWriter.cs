@@ -444,7 +444,7 @@ public static class HtmlReportWriter
     private static void WriteConfiguration(StringBuilder h, ReportInput input)
     {
         h.Append("<section id=\"configuration\">\n<h2>Configuration and versions</h2>\n");
-        h.Append("<p>The effective settings of the score run (from its results, when given) and of this report, so the page can be reproduced from its inputs. <code>null</code> means the per-frame default of the metrics specification.</p>\n");
+        h.Append("<p>The effective settings of the score run (from its results, when given) and of this report, so the page can be reproduced from its inputs. <code>null</code> means the per-frame default of docs/metrics.md.</p>\n");
         h.Append("<div class=\"scroll\"><table id=\"settings-table\">\n<thead><tr><th>Setting</th><th>Value</th></tr></thead>\n<tbody>\n");
         foreach (KeyValuePair<string, string> kv in (input.Score?.Settings ?? []).Select(kv => new KeyValuePair<string, string>("score." + kv.Key, kv.Value)).Concat(input.ReportSettings))
         {

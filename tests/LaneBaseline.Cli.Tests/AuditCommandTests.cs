@@ -83,7 +83,7 @@ public sealed class AuditCommandTests : IDisposable
     [Fact]
     public void Camera_EnablesGroundRules_CleanQuiet_BentLaneFound()
     {
-        // Camera of external-checks.md (CameraModel.CreateDefault); bend slot +1 of frame 4 to R = 300 m, below the
+        // Camera of docs/checks.md (CameraModel.CreateDefault); bend slot +1 of frame 4 to R = 300 m, below the
         // 393.7 m that 100 km/h needs (AASHTO Green Book Sec. 3.3), but not at 80 km/h (252.0 m).
         string cam = dir.File("camera.json"), p = dir.File("p.lanes.jsonl"), o = dir.File("f.jsonl");
         Core.Geometry.CameraModel.CreateDefault(1280, 720).Save(cam);

@@ -41,7 +41,7 @@ public sealed class RenderCommandTests : IDisposable
     [InlineData("--threads", "0", "--threads must be between")]
     public void Render_BadArgument_IsUsageError(string option, string value, string expected)
     {
-        // Source: CLI contract (spec/cli.md): usage errors exit with code 2 and say what is wrong.
+        // Source: CLI contract (docs/cli.md): usage errors exit with code 2 and say what is wrong.
         (int code, _, string err) = Run("render", "--out", Path.Combine(root, "o"), option, value);
         Assert.Equal(2, code);
         Assert.Contains(expected, err, StringComparison.Ordinal);
@@ -67,7 +67,7 @@ public sealed class RenderCommandTests : IDisposable
     [Fact]
     public void Render_MissingCameraFile_IsBadInputNamingTheFile()
     {
-        // Source: CLI contract (spec/cli.md): bad input exits with code 3 and names the file.
+        // Source: CLI contract (docs/cli.md): bad input exits with code 3 and names the file.
         string cam = Path.Combine(root, "nope", "camera.json");
         (int code, _, string err) = Run("render", "--out", Path.Combine(root, "o"), "--camera", cam);
         Assert.Equal(3, code);
@@ -106,7 +106,7 @@ public sealed class RenderCommandTests : IDisposable
     [Fact]
     public void Render_WritesReadableTruthWithFramesRelativeToOut_AndALoadableCamera()
     {
-        // Source: lane-file specification v1 (frame keys relative to the frames root; width and height present).
+        // Source: docs/lane-file.md (frame keys relative to the frames root; width and height present).
         string o = Path.Combine(root, "o");
         (int code, string stdout, string stderr) = Run("render", "--out", o, "--count", "3", "--size", "320x180", "--format", "png", "--threads", "1");
         Assert.Equal(0, code);

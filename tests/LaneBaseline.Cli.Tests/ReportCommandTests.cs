@@ -36,7 +36,7 @@ public sealed class ReportCommandTests : IDisposable
         return (exit, err, File.Exists(output) ? File.ReadAllText(output) : string.Empty);
     }
 
-    // Source: the report's contract in the CLI specification and issue 7: every section present, numbers equal to
+    // Source: the report's contract in docs/cli.md and issue 7: every section present, numbers equal to
     // the score JSON (checked here against the JSON file, the outside input of the page).
     [Fact]
     public void Report_TwoSystemsWithGallery_EverySectionAndNumbersMatchJson()

@@ -86,7 +86,7 @@ public sealed class ReportTagGalleryTests : IDisposable
     //         -> f05, f02, f04 (f02 before f04 by file order; f01 cut by the cap of 3);
     //  rain:  f01 Extra (0.8), f03 Gone (0, 0), f04 Miss (0.667), f07 perfect -> f03, f04, f01;
     //  clear: f06, f07 perfect -> no failures.
-    // Tags are shown worst first by the first system's F1@0.50 over the tag (metrics.md counts summed over frames):
+    // Tags are shown worst first by the first system's F1@0.50 over the tag (docs/metrics.md counts summed over frames):
     //  night TP 2+2+1+1+0 = 6, FP 0+1+0+0+2 = 3, FN 0+0+1+1+2 = 4 -> 12/19 = 0.632; rain TP 5, FP 1, FN 3 -> 10/14 =
     //  0.714; clear 1 -> night, rain, clear (not the alphabetical clear, night, rain).
     // The second system fails only on f00 and f06 ("Gone"); showing its frames instead would give night: f00, clear: f06.
@@ -131,7 +131,7 @@ public sealed class ReportTagGalleryTests : IDisposable
         [.. Regex.Matches(section, "<figure class=\"thumb\" data-tag=\"([^\"]+)\" data-frame=\"([^\"]+)\" data-system=\"([^\"]+)\"|<p class=\"empty\" data-tag=\"([^\"]+)\">No failures")
             .Select(m => m.Groups[1].Success ? $"{m.Groups[1].Value}:{m.Groups[2].Value}:{m.Groups[3].Value}" : m.Groups[4].Value + ":-")];
 
-    // Source: hand derivation in the comment above Conditions (counting rules of the metrics specification).
+    // Source: hand derivation in the comment above Conditions (counting rules of docs/metrics.md).
     [Fact]
     public void TagGallery_ConstructedConditions_WorstFramesOfFirstSystemPerTagInOrder()
     {

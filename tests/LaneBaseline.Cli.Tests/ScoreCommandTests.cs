@@ -90,7 +90,7 @@ public sealed class ScoreCommandTests : IDisposable
         Assert.Equal(0, CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--min-f1", "0.25", "--bootstrap", "0").Exit);
     }
 
-    // Source: metrics specification, "no truth and no prediction at all: P = R = F1 = mF1 = 1, accuracy 1, rates 0
+    // Source: docs/metrics.md, "no truth and no prediction at all: P = R = F1 = mF1 = 1, accuracy 1, rates 0
     // (and say so on stderr)".
     [Fact]
     public void Score_AllEmpty_ScoresOne_AndSaysSo()
@@ -107,7 +107,7 @@ public sealed class ScoreCommandTests : IDisposable
         Assert.Equal(0.0, doc.RootElement.GetProperty("point_accuracy").GetProperty("fp_rate").GetDouble());
     }
 
-    // Source: metrics specification: frames of mixed sizes set width and tolerance per frame; width_px and tolerance_px
+    // Source: docs/metrics.md: frames of mixed sizes set width and tolerance per frame; width_px and tolerance_px
     // are then null. Here each frame's prediction equals its truth, so everything scores 1 at per-frame widths.
     [Fact]
     public void Score_MixedSizes_NullWidthAndTolerance()
@@ -150,7 +150,7 @@ public sealed class ScoreCommandTests : IDisposable
         Assert.Empty(Directory.GetFiles(dir.Path, "*.tmp"));
     }
 
-    // Source: metrics.md, "A frame missing from the predictions predicts no lanes": a prediction file with no records
+    // Source: docs/metrics.md, "A frame missing from the predictions predicts no lanes": a prediction file with no records
     // scores every frame as empty (TP 0, all truth lanes missed), with a note, rather than failing.
     [Fact]
     public void Score_EmptyPredictionFile_ScoresNoLanes_WithANote()

@@ -100,7 +100,7 @@ public sealed class ScoreMaskTests : IDisposable
         Assert.Contains("mean IoU 1.0000 over 3 truth lanes", stdout, StringComparison.Ordinal);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
         Assert.Equal(1.0, doc.RootElement.GetProperty("mask_iou").GetProperty("mean_iou").GetDouble());
-        Assert.Matches("\"mean_iou\": ?1\\.0\\b", File.ReadAllText(json)); // metrics.md: metrics are floats (1.0, not 1)
+        Assert.Matches("\"mean_iou\": ?1\\.0\\b", File.ReadAllText(json)); // docs/metrics.md: metrics are floats (1.0, not 1)
         string[] rows = File.ReadAllLines(csv);
         Assert.Equal("frame,truth_id,pred_id,iou", rows[0]);
         Assert.Equal("a.png,1,1,1", rows[1]);

@@ -10,7 +10,7 @@ public sealed class HtmlReportWriterTests
 {
     private static readonly DateTimeOffset Noon = new(2026, 1, 31, 12, 0, 0, TimeSpan.Zero);
 
-    // A two-system document in the shape of spec/score-json.md (keys as ScoreJsonWriter writes them). Numbers are
+    // A two-system document in the shape of docs/metrics.md (score JSON) (keys as ScoreJsonWriter writes them). Numbers are
     // hand-made and self-consistent: A at 0.50 has TP 6, FP 2, FN 4 -> P 0.75, R 0.6, F1 2PR/(P+R) = 0.9/1.35 = 2/3.
     internal static string TwoSystemsJson(string nameA = "alpha", string nameB = "beta") => $$$$"""
         {

@@ -6,7 +6,7 @@ namespace LaneBaseline.Testing;
 
 /// <summary>
 /// Clean lane truth for tests, from a flat road seen by a pinhole camera (until the renderer lands in main): the
-/// camera of external-checks.md (f = 1000 px, principal point (640, 360), 1280x720, height 1.5 m, pitch θ down),
+/// camera of docs/checks.md (f = 1000 px, principal point (640, 360), 1280x720, height 1.5 m, pitch θ down),
 /// vehicle frame X forward, Y left, ground-to-image homography
 /// H = K · [[0,−1,0],[−sin θ,0,h cos θ],[cos θ,0,h sin θ]] (Hartley &amp; Zisserman, 2nd ed.; Zhang, IEEE PAMI 2000).
 /// Four boundaries (slots −2, −1, +1, +2) of lanes of one width per sequence in the published band, a constant

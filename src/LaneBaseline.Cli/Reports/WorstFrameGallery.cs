@@ -145,7 +145,7 @@ internal static class WorstFrameGallery
         return c != 0 ? c : a.Ordinal.CompareTo(b.Ordinal);
     });
 
-    /// <summary>Frame F1 from counts; 1 for a frame with neither truth nor prediction (metrics specification).</summary>
+    /// <summary>Frame F1 from counts; 1 for a frame with neither truth nor prediction (docs/metrics.md).</summary>
     internal static double FrameF1(int tp, int pred, int truth) =>
         pred + truth == 0 ? 1.0 : 2.0 * tp / (pred + truth);
 

@@ -5,7 +5,7 @@ namespace LaneBaseline.Core.Audit;
 /// <param name="Name">Short kebab-case name.</param>
 /// <param name="Severity">Severity of its findings.</param>
 /// <param name="Limit">The limit in words, with its default.</param>
-/// <param name="Source">Where the limit comes from (rows of external-checks.md, or "common practice").</param>
+/// <param name="Source">Where the limit comes from (rows of docs/checks.md, or "common practice").</param>
 public sealed record AuditRuleInfo(string Id, string Name, AuditSeverity Severity, string Limit, string Source);
 
 /// <summary>
@@ -64,25 +64,25 @@ public static class AuditRules
         new(FoldBack, "fold-back", AuditSeverity.Error, "y rises again by more than max(2 px, 1 % of the frame height) along the near-to-far point order",
             "lane-file spec: points near to far, y decreasing; a ground curve ahead of the camera is monotone in image row (common practice)"),
         new(AboveHorizon, "above-horizon", AuditSeverity.Error, "a point more than 3 % of the frame height above the horizon row (--horizon-row, else the lanes' vanishing point)",
-            "the ground plane images entirely below the horizon (external-checks.md camera rows: horizon v = 325.08 at 2° pitch); 3 % fit allowance: common practice"),
+            "the ground plane images entirely below the horizon (docs/checks.md camera rows: horizon v = 325.08 at 2° pitch); 3 % fit allowance: common practice"),
         new(ShortLane, "short-lane", AuditSeverity.Warning, "polyline length under max(20 px, 5 % of the frame height)",
-            "common practice: a fragment that short is clutter, not a marking boundary (metrics.md samples rows every 10 px)"),
+            "common practice: a fragment that short is clutter, not a marking boundary (docs/metrics.md samples rows every 10 px)"),
         new(NearDuplicate, "near-duplicate", AuditSeverity.Warning, "median |dx| under the metric lane width round(30*width/1640) over at least half the shorter lane",
-            "metrics.md: two lanes closer than one rasterised lane width overlap heavily in the IoU metric (derived)"),
+            "docs/metrics.md: two lanes closer than one rasterised lane width overlap heavily in the IoU metric (derived)"),
         new(SlotOrder, "slot-order", AuditSeverity.Error, "slot order contradicts x order by more than 2 px at the nearest common row, or a slot repeats",
             "lane-file spec: slot -1 left ego boundary, +1 right, ±2 next out"),
         new(WidthRatio, "width-ratio", AuditSeverity.Warning, "ratio of neighbouring lane widths at the same row above 3.75/2.7 x 1.05 = 1.458",
-            "external-checks.md lane widths: plausible band 2.7-3.75 m (AASHTO / FHWA, DMRB TD 27/96); image widths at one row scale with ground widths on a flat road (pinhole projection); 5 % label allowance: common practice"),
+            "docs/checks.md lane widths: plausible band 2.7-3.75 m (AASHTO / FHWA, DMRB TD 27/96); image widths at one row scale with ground widths on a flat road (pinhole projection); 5 % label allowance: common practice"),
         new(LateralJump, "lateral-jump", AuditSeverity.Error, "near-end lateral move above 3 m/s x dt + 0.15 m, metres from an assumed 3.5 m lane width at that row",
-            "matched by position, not slot (slots renumber in a lane change); assumption: a vehicle moves sideways at most 3 m/s (well above a lane change; from memory); 3.5 m lane: external-checks.md band 3.50-3.75 m (DMRB TD 27/96); 0.15 m label noise: common practice"),
+            "matched by position, not slot (slots renumber in a lane change); assumption: a vehicle moves sideways at most 3 m/s (well above a lane change; from memory); 3.5 m lane: docs/checks.md band 3.50-3.75 m (DMRB TD 27/96); 0.15 m label noise: common practice"),
         new(Flicker, "flicker", AuditSeverity.Warning, "a lane missing in one frame but present in the frames before and after (or the reverse), matched within half a lane width",
             "lane markings persist over 1/fps s at road speeds (common practice)"),
         new(FrameGap, "frame-gap", AuditSeverity.Warning, "a numbered sequence skips frame numbers",
-            "common practice: a detector must write one record per frame (cli.md, lane-file spec)"),
+            "common practice: a detector must write one record per frame (docs/cli.md, docs/lane-file.md)"),
         new(GroundLaneWidth, "ground-lane-width", AuditSeverity.Error, "lane width at 10 m ahead outside 2.5-3.95 m (band 2.7-3.75 m with 0.2 m allowance); pairs under 0.5 m count as a double line",
-            "external-checks.md: lanes 2.7 m (low-speed rural) to 3.66-3.75 m (AASHTO / FHWA; DMRB TD 27/96); double-line spacing 0.10-0.18 m (Vienna Convention Annex 2); allowance: common practice"),
+            "docs/checks.md: lanes 2.7 m (low-speed rural) to 3.66-3.75 m (AASHTO / FHWA; DMRB TD 27/96); double-line spacing 0.10-0.18 m (Vienna Convention Annex 2); allowance: common practice"),
         new(GroundCurvature, "ground-curvature", AuditSeverity.Error, "radius of a quadratic fit 3-60 m ahead below V^2 / (127 (e + f)): 393.7 m at 100 km/h, e 0.08, f 0.12 (--design-speed-kmh)",
-            "AASHTO Green Book Sec. 3.3 (external-checks.md worked example); R of a quadratic fit: calculus (external-checks.md)"),
+            "AASHTO Green Book Sec. 3.3 (docs/checks.md worked example); R of a quadratic fit: calculus (docs/checks.md)"),
         new(GroundParallel, "ground-parallel", AuditSeverity.Warning, "a lane's width changes by more than 0.5 m between 10 m and 30 m ahead",
             "common practice: lane widths change only over long tapers; 0.5 m over 20 m is a 1:40 taper (from memory)"),
         new(BaselineDisagreement, "baseline-disagreement", AuditSeverity.Warning, "F1 at IoU 0.50 against the baseline's confident lanes (score >= 0.5) under 0.5",

@@ -42,10 +42,10 @@ public sealed record AuditSettings
     /// <summary>Design speed for the curve-radius rule, km/h (default 100).</summary>
     public double DesignSpeedKmh { get; init; } = 100;
 
-    /// <summary>Superelevation e for the curve-radius rule (default 0.08, external-checks.md worked example).</summary>
+    /// <summary>Superelevation e for the curve-radius rule (default 0.08, docs/checks.md worked example).</summary>
     public double Superelevation { get; init; } = 0.08;
 
-    /// <summary>Side friction factor f for the curve-radius rule (default 0.12, external-checks.md worked example).</summary>
+    /// <summary>Side friction factor f for the curve-radius rule (default 0.12, docs/checks.md worked example).</summary>
     public double SideFriction { get; init; } = 0.12;
 
     /// <summary>Narrowest lane accepted on the ground, m (default 2.7 - 0.2 allowance).</summary>

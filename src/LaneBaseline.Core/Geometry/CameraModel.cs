@@ -60,7 +60,7 @@ public sealed record CameraModel
 
     /// <summary>
     /// The default camera of the renderer for a frame size: focal length 0.78125 × width (1000 px at 1280),
-    /// principal point at the image centre, 1.5 m high, pitched 2° down (the setup of external-checks.md).
+    /// principal point at the image centre, 1.5 m high, pitched 2° down (the setup of docs/checks.md).
     /// </summary>
     public static CameraModel CreateDefault(int width, int height)
     {

@@ -1,9 +1,9 @@
 namespace LaneBaseline.Core.Geometry;
 
-/// <summary>Published road-design limits used by plausibility rules (sources in external-checks.md).</summary>
+/// <summary>Published road-design limits used by plausibility rules (sources in docs/checks.md).</summary>
 public static class RoadGeometry
 {
-    /// <summary>Narrowest plausible lane width, m (external-checks.md: band ~2.7-3.75 m, derived from AASHTO/FHWA and DMRB TD 27/96).</summary>
+    /// <summary>Narrowest plausible lane width, m (docs/checks.md: band ~2.7-3.75 m, derived from AASHTO/FHWA and DMRB TD 27/96).</summary>
     public const double MinLaneWidthM = 2.7;
 
     /// <summary>Widest plausible lane width, m (same source).</summary>

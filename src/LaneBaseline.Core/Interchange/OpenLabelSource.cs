@@ -305,7 +305,7 @@ public sealed class OpenLabelSource : ILaneRecordSource
                     {
                         if (name is "slot" or "score")
                         {
-                            // validated like the lane file's keys (metrics.md): a wrong type is an error, not a silent drop
+                            // validated like the lane file's keys (docs/metrics.md): a wrong type is an error, not a silent drop
                             throw Error(at + ".attributes.num." + name, "val must be a number");
                         }
 

@@ -3,7 +3,7 @@ using LaneBaseline.Core.LaneFiles;
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>
-/// Scores one frame's predictions against its truth with both metrics of the metrics specification: rasterised-IoU
+/// Scores one frame's predictions against its truth with both metrics of docs/metrics.md: rasterised-IoU
 /// matching (one Hungarian assignment maximising total IoU, applied at every threshold) and row-sampled point
 /// accuracy (a second Hungarian assignment maximising total pair accuracy). Not thread-safe: one per worker.
 /// </summary>

@@ -304,7 +304,7 @@ public sealed class ScoreRun
 
         if (reader.RecordCount == 0)
         {
-            // metrics.md: a frame missing from the predictions predicts no lanes, so a system that output nothing
+            // docs/metrics.md: a frame missing from the predictions predicts no lanes, so a system that output nothing
             // scores (F1 0), it is not bad input; the note says so in case the file is a failed upstream run.
             note?.Invoke(path + ": the prediction file holds no records: every frame is scored as predicting no lanes");
         }

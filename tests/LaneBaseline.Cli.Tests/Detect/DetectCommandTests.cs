@@ -56,7 +56,7 @@ public sealed class DetectCommandTests : IDisposable
         Assert.Contains("4 frames written", stdout, StringComparison.Ordinal);
 
         List<LaneRecord> records = Read(output);
-        // Keys: relative paths with '/', sorted ordinally (lane-file.md, cli.md "recursive, sorted").
+        // Keys: relative paths with '/', sorted ordinally (docs/lane-file.md, docs/cli.md "recursive, sorted").
         Assert.Equal(["a00.png", "a02.png", "b/c01.png", "b/c03.png"], records.Select(r => r.Frame));
         string configPath = Path.Combine(dir, "run.config.yaml");
         Assert.True(File.Exists(configPath));
@@ -204,7 +204,7 @@ public sealed class DetectCommandTests : IDisposable
 
         string output = Path.Combine(dir, "v.lanes.jsonl");
         Assert.Equal(0, Run("detect", video, "-o", output).Code);
-        // cli.md: video frames are keyed VIDEO#NNNNNN (zero-based, six digits).
+        // docs/cli.md: video frames are keyed VIDEO#NNNNNN (zero-based, six digits).
         Assert.Equal(["VIDEO#000000", "VIDEO#000001", "VIDEO#000002"], Read(output).Select(r => r.Frame));
     }
 

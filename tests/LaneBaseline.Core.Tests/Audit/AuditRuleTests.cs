@@ -14,7 +14,7 @@ public sealed class AuditRuleTests(ITestOutputHelper output)
     public void MinimumRadius_AashtoWorkedExample()
     {
         // Source: AASHTO Green Book Sec. 3.3, worked example restated in the Ethiopian Roads Authority Geometric
-        // Design Manual 2002 ch. 8 (external-checks.md): R = V^2 / (127 (e + f)); 100 km/h, e 0.08, f 0.12 ->
+        // Design Manual 2002 ch. 8 (docs/checks.md): R = V^2 / (127 (e + f)); 100 km/h, e 0.08, f 0.12 ->
         // 10000 / (127 * 0.20) = 10000 / 25.4 = 393.70 m.
         Assert.Equal(393.7, RoadGeometry.MinimumCurveRadiusM(100, 0.08, 0.12), 1);
         // Source: Highway Engineering Handbook Table 2.6 (from AASHTO 2004): 60 mph, f 0.12, e 8 % -> 1200 ft.
@@ -25,7 +25,7 @@ public sealed class AuditRuleTests(ITestOutputHelper output)
     }
 
     [Theory]
-    // Source: external-checks.md camera rows (Hartley & Zisserman plane-induced homography).
+    // Source: docs/checks.md camera rows (Hartley & Zisserman plane-induced homography).
     [InlineData(0.0, 20, 0, 640, 435)]
     [InlineData(0.0, 20, -1.8, 730, 435)]
     [InlineData(0.0, 10, 0, 640, 510)]
@@ -62,7 +62,7 @@ public sealed class AuditRuleTests(ITestOutputHelper output)
     [Fact]
     public void EstimatedHorizon_IsThePublishedHorizonRow()
     {
-        // Source: external-checks.md, horizon row v = 325.08 at 2° pitch. Straight road (curvature 0): the lanes'
+        // Source: docs/checks.md, horizon row v = 325.08 at 2° pitch. Straight road (curvature 0): the lanes'
         // near-half fits meet on the horizon.
         var scene = new SyntheticRoad.Scene(3.5, 0, 0, 6, 0);
         LaneRecord r = SyntheticRoad.Frame(scene, 0, 0);

@@ -9,7 +9,7 @@ using static LaneBaseline.Core.Tests.Audit.AuditHelpers;
 namespace LaneBaseline.Core.Tests.Audit;
 
 /// <summary>
-/// Ground rules with the camera of external-checks.md (f 1000 px, 1280x720, 1.5 m, 2° pitch), which is
+/// Ground rules with the camera of docs/checks.md (f 1000 px, 1280x720, 1.5 m, 2° pitch), which is
 /// <see cref="CameraModel.CreateDefault"/> and the camera of <see cref="SyntheticRoad"/>.
 /// </summary>
 public sealed class GroundRuleTests(ITestOutputHelper output)
@@ -27,7 +27,7 @@ public sealed class GroundRuleTests(ITestOutputHelper output)
     [Fact]
     public void QuadraticFit_RadiusOfAParabola()
     {
-        // Source: external-checks.md, R of x = a*y^2 + b*y + c is (1 + (2ay + b)^2)^(3/2) / |2a|; a = 0.001, b = 0
+        // Source: docs/checks.md, R of x = a*y^2 + b*y + c is (1 + (2ay + b)^2)^(3/2) / |2a|; a = 0.001, b = 0
         // gives R = 500 m at y = 0. The fit recovers a and b from exact samples.
         var pts = Enumerable.Range(0, 20).Select(i => (X: 5.0 + (2.0 * i), Y: (0.001 * Math.Pow(5.0 + (2.0 * i), 2)) + 1.0)).ToList();
         Assert.True(GroundLane.FromPoints(pts).TryQuadratic(double.NegativeInfinity, double.PositiveInfinity, 3, 0, out double a, out double b));

@@ -18,7 +18,7 @@ public sealed class CameraModelTests
         PitchDeg = pitchDeg,
     };
 
-    // Source: external-checks.md "Camera geometry": pinhole f = 1000 px, (640, 360), h = 1.5 m; H = K·[[0,−1,0],
+    // Source: docs/checks.md "Camera geometry": pinhole f = 1000 px, (640, 360), h = 1.5 m; H = K·[[0,−1,0],
     // [−sin θ,0,h cos θ],[cos θ,0,h sin θ]] (Hartley & Zisserman, Multiple View Geometry, 2nd ed.; Zhang, PAMI 2000, eq. 2).
     [Theory]
     [InlineData(0, 20, 0, 640, 435)]
@@ -38,14 +38,14 @@ public sealed class CameraModelTests
     [Fact]
     public void HorizonRow_AtTwoDegreesPitch_MatchesPublishedValue()
     {
-        // Source: external-checks.md "Camera geometry", θ = 2°: horizon row v = 325.08 (= 360 − 1000·tan 2°).
+        // Source: docs/checks.md "Camera geometry", θ = 2°: horizon row v = 325.08 (= 360 − 1000·tan 2°).
         Assert.Equal(325.08, TableCamera(2).HorizonRowAtCentre(), 2);
     }
 
     [Fact]
     public void GroundToImage_EqualsPublishedClosedForm()
     {
-        // Source: external-checks.md, H = K · [[0,−1,0],[−sin θ,0,h cos θ],[cos θ,0,h sin θ]], normalised to H33 = 1.
+        // Source: docs/checks.md, H = K · [[0,−1,0],[−sin θ,0,h cos θ],[cos θ,0,h sin θ]], normalised to H33 = 1.
         double t = 2 * Math.PI / 180, h = 1.5;
         var k = new Matrix3(1000, 0, 640, 0, 1000, 360, 0, 0, 1);
         var m = new Matrix3(0, -1, 0, -Math.Sin(t), 0, h * Math.Cos(t), Math.Cos(t), 0, h * Math.Sin(t));
@@ -147,7 +147,7 @@ public sealed class CameraModelTests
     [Fact]
     public void GroundToImage_LevelCamera_KeepsTheUnnormalisedClosedForm()
     {
-        // Source: external-checks.md closed form at θ = 0: H = K · [[0,−1,0],[0,0,h],[1,0,0]]; its H33 is 0,
+        // Source: docs/checks.md closed form at θ = 0: H = K · [[0,−1,0],[0,0,h],[1,0,0]]; its H33 is 0,
         // so it cannot be scaled to 1 and is kept as is.
         double[] want = (new Matrix3(1000, 0, 640, 0, 1000, 360, 0, 0, 1) * new Matrix3(0, -1, 0, 0, 0, 1.5, 1, 0, 0)).ToRowMajor();
         double[] got = TableCamera(0).GroundToImage.ToRowMajor();

@@ -20,7 +20,7 @@ public sealed class GroundLaneTests
     [Fact]
     public void Curvature_OfAParabola_AndRadiusAgree()
     {
-        // Source: external-checks.md / any calculus text: for Y = aX^2 + bX + c, kappa(0) = 2a / (1 + b^2)^(3/2)
+        // Source: docs/checks.md / any calculus text: for Y = aX^2 + bX + c, kappa(0) = 2a / (1 + b^2)^(3/2)
         // and R(X) = (1 + (2aX + b)^2)^(3/2) / |2a|. With a = 0.001, b = 0: kappa = 0.002 1/m, R(0) = 500 m.
         GroundLane lane = GroundLane.FromPoints(Enumerable.Range(0, 20).Select(i => (X: 5.0 + (2.0 * i), Y: (0.001 * Math.Pow(5.0 + (2.0 * i), 2)) + 1.0)));
         Assert.True(lane.TryCurvature(out double kappa));

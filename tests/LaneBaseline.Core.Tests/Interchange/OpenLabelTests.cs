@@ -58,7 +58,7 @@ public sealed class OpenLabelTests : IDisposable
     public void Output_HasTheRequiredKeysOfTheStandard()
     {
         // Source: ASAM OpenLABEL 1.0.0 JSON schema (openlabel_json_schema-v1.0.0), as restated in
-        // external-checks.md: root 'openlabel'; metadata.schema_version "1.0.0" required; objects.{uid} require name
+        // docs/checks.md: root 'openlabel'; metadata.schema_version "1.0.0" required; objects.{uid} require name
         // and type; frames.{n}.objects.{uid}.object_data.poly2d[] items require name, val, mode, closed; frame and
         // object keys are integer strings; frame_properties allows extra keys.
         string path = dir.File("b.json");
@@ -124,7 +124,7 @@ public sealed class OpenLabelTests : IDisposable
     [InlineData("""{"openlabel":{"metadata":{"schema_version":"1.0.0"},"objects":{"0":{"name":"a","type":"lane-marking"}},"frames":{"0":{"objects":{"0":{"object_data":{"poly2d":[{"name":"l","val":[1,2,3],"mode":"MODE_POLY2D_ABSOLUTE","closed":false}]}}}}}}}""", "openlabel.frames.0.objects.0.object_data.poly2d[0].val: needs an even count")]
     [InlineData("""{"openlabel":{"metadata":{"schema_version":"1.0.0"},"objects":{"0":{"name":"a","type":"lane-marking"}},"frames":{"0":{"objects":{"0":{"object_data":{"poly2d":[{"name":"l","val":[1,2,3,4],"mode":"MODE_POLY2D_RS6FCC","closed":false}]}}}}}}}""", "poly2d[0].mode: 'MODE_POLY2D_RS6FCC' is not supported")]
     [InlineData("""{"openlabel":{"metadata":{"schema_version":"1.0.0"},"frames":{"0":{"objects":{"4":{}}}}}}""", "object uid '4' is not declared")]
-    // Source: metrics.md, `score`, `slot`, `kind` are validated: a wrong type in OpenLABEL is an error as in a lane file.
+    // Source: docs/metrics.md, `score`, `slot`, `kind` are validated: a wrong type in OpenLABEL is an error as in a lane file.
     [InlineData("""{"openlabel":{"metadata":{"schema_version":"1.0.0"},"objects":{"0":{"name":"a","type":"lane-marking"}},"frames":{"0":{"objects":{"0":{"object_data":{"poly2d":[{"name":"l","val":[1,2,3,4],"mode":"MODE_POLY2D_ABSOLUTE","closed":false,"attributes":{"num":[{"name":"slot","val":"a"}]}}]}}}}}}}""", "attributes.num.slot: val must be a number")]
     [InlineData("""{"openlabel":{"metadata":{"schema_version":"1.0.0"},"objects":{"0":{"name":"a","type":"lane-marking"}},"frames":{"0":{"objects":{"0":{"object_data":{"poly2d":[{"name":"l","val":[1,2,3,4],"mode":"MODE_POLY2D_ABSOLUTE","closed":false,"attributes":{"num":[{"name":"score","val":"0.5"}]}}]}}}}}}}""", "attributes.num.score: val must be a number")]
     [InlineData("""{"openlabel":{"metadata":{"schema_version":"1.0.0"},"objects":{"0":{"name":"a","type":"lane-marking"}},"frames":{"0":{"objects":{"0":{"object_data":{"poly2d":[{"name":"l","val":[1,2,3,4],"mode":"MODE_POLY2D_ABSOLUTE","closed":false,"attributes":{"text":[{"name":"kind","val":5}]}}]}}}}}}}""", "attributes.text.kind: val must be a string")]

@@ -8,7 +8,7 @@ public sealed class LaneFileErrorTests
 {
     private const string Good = "{\"frame\":\"a.png\",\"width\":100,\"height\":50,\"lanes\":[{\"points\":[[1,49],[2,0]]}]}";
 
-    // Source: lane-file specification v1, "Rules": each violation names file, line and key as FILE:LINE: key: problem.
+    // Source: docs/lane-file.md, "Rules": each violation names file, line and key as FILE:LINE: key: problem.
     [Theory]
     [InlineData("{\"frame\":\"a.png\",\"width\":100,\"height\":50,\"lanes\":[{\"points\":[[1,49],[2,", "t.jsonl:2: lanes[0].points[1]")]
     [InlineData("{\"frame\":\"a.png\",\"width\":100,\"height\":50,\"lanes\":[{\"points\":[[1,49],[NaN,0]]}]}", "t.jsonl:2: lanes[0].points[1]")]

@@ -6,7 +6,7 @@ namespace LaneBaseline.Core.Tests.LaneFiles;
 
 public sealed class LaneFileRoundTripTests
 {
-    // Source: lane-file specification v1 (shared spec), example record; unknown keys are kept on rewrite.
+    // Source: docs/lane-file.md (lane file v1), example record; unknown keys are kept on rewrite.
     [Fact]
     public void Read_ThenWrite_KeepsKnownAndUnknownKeys()
     {

@@ -5,7 +5,7 @@ namespace LaneBaseline.Core.Tests.Metrics;
 
 public sealed class DetectionCountsTests
 {
-    // Source: metrics specification: each rate is 0 when its denominator is 0, except that a set with no truth and no
+    // Source: docs/metrics.md: each rate is 0 when its denominator is 0, except that a set with no truth and no
     // prediction at all scores 1.0. Hand-computed: 7 TP of 9 predictions and 8 truths -> P 7/9, R 7/8, F1 = 2PR/(P+R) = 14/17.
     [Fact]
     public void From_HandComputedCase()

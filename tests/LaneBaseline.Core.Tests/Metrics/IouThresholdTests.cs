@@ -5,7 +5,7 @@ namespace LaneBaseline.Core.Tests.Metrics;
 
 public sealed class IouThresholdTests
 {
-    // Source: metrics specification, decisions table: "TP test: IoU >= t compared exactly on integer pixel counts
+    // Source: docs/metrics.md, decisions table: "TP test: IoU >= t compared exactly on integer pixel counts
     // against the threshold parsed from its decimal string (never 0.5 + 0.05*k)".
     [Theory]
     [InlineData("0.50", 1, 2, true)]     // exactly one half

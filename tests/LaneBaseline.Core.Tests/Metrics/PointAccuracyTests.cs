@@ -8,7 +8,7 @@ namespace LaneBaseline.Core.Tests.Metrics;
 
 public sealed class PointAccuracyTests
 {
-    // Source: metrics specification worked check: on a 1280-wide frame a lane x = 0.75*y + 100 has tolerance
+    // Source: docs/metrics.md worked check: on a 1280-wide frame a lane x = 0.75*y + 100 has tolerance
     // 20 / cos(atan(0.75)) = 20 / 0.8 = 25 px (cos(atan(3/4)) = 4/5 from the 3-4-5 triangle).
     [Fact]
     public void Tolerance_SlantedLaneOn1280Frame_Is25()

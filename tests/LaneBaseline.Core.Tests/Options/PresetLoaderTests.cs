@@ -124,7 +124,7 @@ public sealed class PresetLoaderTests
     [Fact]
     public void EveryOptionsType_IsASealedRecord_WithoutPublicSetters()
     {
-        // Convention test (architecture guide, section 11): options are immutable values.
+        // Convention test (DEVELOPERS.md, conventions): options are immutable values.
         Type[] types = typeof(PipelineOptions).Assembly.GetTypes()
             .Where(t => t.Namespace == "LaneBaseline.Core.Options" && t.IsPublic && t.Name.EndsWith("Options", StringComparison.Ordinal))
             .ToArray();

@@ -71,8 +71,8 @@ public sealed class MaskRoundTripTests
     [Fact]
     public void MaskIou_SameMask_IsOne_AndShiftedLane_MatchesHandCount()
     {
-        // Two vertical 31-px-wide bars (thickness 30 draws 2*ceil(30/2)+1 = 31 px, stack.md) over 1080 rows, 15 px
-        // apart: IoU = (31-15)/(31+15) = 16/46 over the full height (metrics.md worked check), caps clipped away.
+        // Two vertical 31-px-wide bars (thickness 30 draws 2*ceil(30/2)+1 = 31 px, docs/checks.md) over 1080 rows, 15 px
+        // apart: IoU = (31-15)/(31+15) = 16/46 over the full height (docs/metrics.md worked check), caps clipped away.
         using Mat a = LaneMaskPainter.Paint([Lanes.Vertical(400, 1080)], 1920, 1080, 30);
         using Mat b = LaneMaskPainter.Paint([Lanes.Vertical(415, 1080)], 1920, 1080, 30);
         (List<MaskLaneIou> same, _) = MaskIou.Compare("f", a, a);

@@ -13,7 +13,7 @@ public sealed class RasterIouTests : IDisposable
 
     public void Dispose() => rasterizer.Dispose();
 
-    // Source: stack notes / metrics specification: OpenCV draws thickness t >= 2 as 2*ceil(t/2)+1 pixels across.
+    // Source: docs/checks.md (OpenCV line footprint) / docs/metrics.md: OpenCV draws thickness t >= 2 as 2*ceil(t/2)+1 pixels across.
     // Checked against OpenCV itself drawing the same line on a full canvas (the library is the oracle).
     [Theory]
     [InlineData(30, 31)]
@@ -32,7 +32,7 @@ public sealed class RasterIouTests : IDisposable
         Assert.Equal(areaT, inter);
     }
 
-    // Source: metrics specification worked check: two full-height vertical lanes d px apart on a 1920x1080 frame have
+    // Source: docs/metrics.md worked check: two full-height vertical lanes d px apart on a 1920x1080 frame have
     // IoU (31-d)/(31+d): rows are 31 px wide, overlap 31-d, union 31+d per row, caps clipped. d=15 -> 8/23, d=30 -> 1/61.
     [Theory]
     [InlineData(15, 8, 23)]
@@ -59,7 +59,7 @@ public sealed class RasterIouTests : IDisposable
         Assert.Equal(0, f.TruePositives[IndexOf(th, notMet)]);
     }
 
-    // Source: metrics specification: points are rounded half to even (C# Math.Round default); 412.5 -> 412, 413.5 -> 414.
+    // Source: docs/metrics.md: points are rounded half to even (C# Math.Round default); 412.5 -> 412, 413.5 -> 414.
     [Theory]
     [InlineData(412.5, 412, true)]
     [InlineData(413.5, 414, true)]
@@ -70,7 +70,7 @@ public sealed class RasterIouTests : IDisposable
         Assert.Equal(identical, inter == areaT && inter == areaP);
     }
 
-    // Source: metrics specification, line width round(30*width/1640): 1640 -> 30, 1280 -> 23 (23.41), 820 -> 15, tiny -> 1.
+    // Source: docs/metrics.md, line width round(30*width/1640): 1640 -> 30, 1280 -> 23 (23.41), 820 -> 15, tiny -> 1.
     [Theory]
     [InlineData(1640, 30)]
     [InlineData(1280, 23)]

@@ -6,7 +6,7 @@ using Xunit;
 
 namespace LaneBaseline.Vision.Tests.Pipeline;
 
-/// <summary>Convention tests (architecture guide, section 11): stage and options shapes the design relies on.</summary>
+/// <summary>Convention tests (DEVELOPERS.md, conventions): stage and options shapes the design relies on.</summary>
 public sealed class ConventionTests
 {
     [Fact]

@@ -13,7 +13,7 @@ public sealed class GeometryTests
     /// <summary>Ground-to-image homography of the worked pinhole example (f = 1000, (640, 360), h = 1.5 m, pitch θ).</summary>
     private static (double U, double V) Pinhole(double thetaDeg, double x, double y)
     {
-        // Source: external-checks.md, "Camera geometry": H = K·[[0,−1,0],[−sin θ,0,h cos θ],[cos θ,0,h sin θ]]
+        // Source: docs/checks.md, "Camera geometry": H = K·[[0,−1,0],[−sin θ,0,h cos θ],[cos θ,0,h sin θ]]
         // (Hartley & Zisserman, MVG 2nd ed., plane-induced homography).
         double t = thetaDeg * Math.PI / 180, h = 1.5;
         double a = -y, b = (-Math.Sin(t) * x) + (h * Math.Cos(t)), c = (Math.Cos(t) * x) + (h * Math.Sin(t));
@@ -21,7 +21,7 @@ public sealed class GeometryTests
     }
 
     [Theory]
-    // Source: external-checks.md table (pinhole worked example).
+    // Source: docs/checks.md table (pinhole worked example).
     [InlineData(0, 20, 0, 640, 435)]
     [InlineData(0, 20, -1.8, 730, 435)]
     [InlineData(0, 10, 0, 640, 510)]
@@ -53,7 +53,7 @@ public sealed class GeometryTests
     [Fact]
     public void FromPoints_Pitch2_PutsTheHorizonAtTheTableRow()
     {
-        // Source: external-checks.md: θ = 2°, horizon row v = 325.08 (a ground point far ahead).
+        // Source: docs/checks.md: θ = 2°, horizon row v = 325.08 (a ground point far ahead).
         double[] ground = [8, 2, 8, -2, 50, -2, 50, 2];
         double[] image = new double[8];
         for (int k = 0; k < 4; k++)

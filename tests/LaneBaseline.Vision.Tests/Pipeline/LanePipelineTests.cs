@@ -76,7 +76,7 @@ public sealed class LanePipelineTests
         FrameResult result = pipeline.Process(frame, 0);
 
         // Tolerance: the point metric's 20 px at 1280 px width scaled to this width, 10 px
-        // (Source: shared/spec/metrics.md, row-sampled point accuracy, step 2).
+        // (Source: docs/metrics.md, row-sampled point accuracy, step 2).
         AssertLanesFollowTruth(road, pipeline.Workspace!, [-1, 1], 10);
         Assert.Equal(VanishingSource.Estimated, result.VanishingSource);
     }
@@ -158,7 +158,7 @@ public sealed class LanePipelineTests
     [Fact]
     public void Process_Output_RespectsTheLaneFileRules()
     {
-        // lane-file.md: >= 2 points, near to far (y decreasing), inside the frame; score in [0, 1]; slot in ±1, ±2.
+        // docs/lane-file.md: >= 2 points, near to far (y decreasing), inside the frame; score in [0, 1]; slot in ±1, ±2.
         using var pipeline = new LanePipeline(new PipelineOptions());
         for (ulong seed = 20; seed < 24; seed++)
         {

@@ -9,7 +9,7 @@ namespace LaneBaseline.Vision.Tests.Pipeline;
 /// 0.15 m wide markings, optional curvature, dashes, a yellow left line, shadows, dimming and Gaussian noise.
 /// Ground (X forward, Y left) maps to the image by H = K·[[0,−1,0],[−sinθ,0,h cosθ],[cosθ,0,h sinθ]]
 /// (Hartley and Zisserman, Multiple View Geometry, 2nd ed., plane-induced homography; the worked values in
-/// external-checks.md: θ = 0, (20 m, 0) → (640, 435)).
+/// docs/checks.md: θ = 0, (20 m, 0) → (640, 435)).
 /// </summary>
 internal sealed record SyntheticRoad
 {

@@ -25,7 +25,7 @@ public sealed class SceneRendererTests
     [Fact]
     public void Truth_PointsAreInsideTheFrameNearToFar()
     {
-        // Source: lane-file specification v1: points ordered near to far (y decreasing), at least two, inside the frame.
+        // Source: docs/lane-file.md: points ordered near to far (y decreasing), at least two, inside the frame.
         CameraModel cam = SceneFixtures.Camera();
         using var renderer = new SceneRenderer(cam);
         using var frame = new Mat();
@@ -314,7 +314,7 @@ public sealed class SceneRendererTests
     [Fact]
     public void Dispose_ReleasesEveryOwnedMat()
     {
-        // Source: architecture guide section 6 (whoever creates a Mat disposes it).
+        // Source: DEVELOPERS.md, conventions (whoever creates a Mat disposes it).
         using var frame = new Mat();
         Mat white, yellow;
         using (var renderer = new SceneRenderer(SceneFixtures.Camera(160, 90)))
