@@ -117,7 +117,7 @@ public sealed class RenderCommandTests : IDisposable
         Assert.Equal(3, records.Count);
         foreach (LaneRecord r in records)
         {
-            Assert.Matches("^scene-\\d{4}/frame-\\d{4}\\.png$", r.Frame);
+            Assert.Matches("^lap-\\d{4}/t\\d{4}\\.png$", r.Frame);
             Assert.True(File.Exists(Path.Combine(o, r.Frame)));
             Assert.Equal(320, r.Width);
             r.ValidatePointRange("truth", 320, 180);

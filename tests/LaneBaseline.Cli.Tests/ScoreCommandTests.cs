@@ -44,7 +44,7 @@ public sealed class ScoreCommandTests : IDisposable
         Assert.Equal(0.5, pa.GetProperty("accuracy").GetDouble(), 12);
         Assert.Equal(1.0 / 3, pa.GetProperty("fp_rate").GetDouble(), 12);
         Assert.Equal(0.5, pa.GetProperty("fn_rate").GetDouble(), 12);
-        Assert.Equal(25.625, pa.GetProperty("tolerance_px").GetDouble());
+        Assert.Equal(30.0, pa.GetProperty("tolerance_px").GetDouble()); // 20 px x 1920 / 1280
         Assert.Equal(2, root.GetProperty("by_tag").GetProperty("dusk").GetProperty("frames").GetInt32());
         JsonElement ci = root.GetProperty("intervals").GetProperty("f1@0.50");
         Assert.True(ci[0].GetDouble() <= ci[1].GetDouble());
@@ -115,7 +115,8 @@ public sealed class ScoreCommandTests : IDisposable
         string truth = dir.File("t.lanes.jsonl"), pred = dir.File("p.lanes.jsonl"), json = dir.File("x.json");
         Lanes.WriteFile(truth, [Lanes.Truth("a.png", 1920, 1080, Lanes.Vertical(300, 1080)), Lanes.Truth("b.png", 1280, 720, Lanes.Vertical(300, 720))]);
         Lanes.WriteFile(pred, [Lanes.Pred("a.png", Lanes.Vertical(300, 1080)), Lanes.Pred("b.png", Lanes.Vertical(300, 720))]);
-        Assert.Equal(0, CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", json).Exit);
+        // no --lane-width-px here: the width follows each frame's own size, so no single width_px exists
+        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", json).Exit);
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
         Assert.Equal(JsonValueKind.Null, doc.RootElement.GetProperty("iou_f1").GetProperty("width_px").ValueKind);
         Assert.Equal(JsonValueKind.Null, doc.RootElement.GetProperty("point_accuracy").GetProperty("tolerance_px").ValueKind);
