@@ -106,6 +106,7 @@ public sealed class ColorThresholdStage : IFrameStage
         double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * texture);
         double widthBottom = gradient.MarkingWidthFraction * w;
         int[] pre = workspace.Prefix;
+        long evidenceBefore = 0, evidenceCleared = 0;
 
         for (int y = top; y < h; y++)
         {
@@ -156,9 +157,18 @@ public sealed class ColorThresholdStage : IFrameStage
 
             if (gradient.OrientationToleranceDeg < 90)
             {
-                SuppressOffAxisRuns(workspace, ev, y, x0, x1, d);
+                int before = 0;
+                for (int x = xs; x <= xe; x++)
+                {
+                    before += ev[x] != 0 ? 1 : 0;
+                }
+
+                evidenceBefore += before;
+                evidenceCleared += SuppressOffAxisRuns(workspace, ev, y, x0, x1, d);
             }
         }
+
+        workspace.EvidenceKeptShare = evidenceBefore > 0 ? 1 - ((double)evidenceCleared / evidenceBefore) : 1;
     }
 
     /// <summary>
@@ -174,8 +184,10 @@ public sealed class ColorThresholdStage : IFrameStage
     /// curvature and vanishing-point error); specular streaks of lamps on a wet road are image-vertical and fail
     /// away from the vanishing point's column.
     /// </summary>
-    private unsafe void SuppressOffAxisRuns(FrameWorkspace workspace, byte* ev, int y, int x0, int x1, int d)
+    /// <returns>The number of evidence pixels cleared.</returns>
+    private unsafe int SuppressOffAxisRuns(FrameWorkspace workspace, byte* ev, int y, int x0, int x1, int d)
     {
+        int cleared = 0;
         int w = workspace.Width, h = workspace.Height, bandTop = workspace.BandTop;
         byte* blurBase = (byte*)workspace.Blurred.DataPointer;
         long blurStep = workspace.Blurred.Step();
@@ -243,8 +255,12 @@ public sealed class ColorThresholdStage : IFrameStage
                 {
                     ev[k] = 0;
                 }
+
+                cleared += end - start + 1;
             }
         }
+
+        return cleared;
     }
 
     /// <summary>Columns of row <paramref name="y"/> inside the trapezoid (top-left, top-right, bottom-right, bottom-left), clipped to the frame.</summary>
