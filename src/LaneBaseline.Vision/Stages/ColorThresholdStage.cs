@@ -155,6 +155,11 @@ public sealed class ColorThresholdStage : IFrameStage
                 ev[x] = ridge ? (white || yellow ? (byte)255 : (byte)160) : (yellow ? (byte)100 : (byte)0);
             }
 
+            if (color.SaturatedBlobLightness < 255)
+            {
+                SuppressNearSaturatedBlobs(smooth, ev, x0, x1, d, w);
+            }
+
             if (gradient.OrientationToleranceDeg < 90)
             {
                 int before = 0;
@@ -169,6 +174,41 @@ public sealed class ColorThresholdStage : IFrameStage
         }
 
         workspace.EvidenceKeptShare = evidenceBefore > 0 ? 1 - ((double)evidenceCleared / evidenceBefore) : 1;
+    }
+
+    /// <summary>
+    /// Clears evidence in and around saturated blobs: runs of blurred grey at or above
+    /// <see cref="ColorOptions.SaturatedBlobLightness"/> wider than two marking widths (the sun, its road reflection,
+    /// a headlamp's core) are not paint, and their rims pass the ridge test; evidence within two marking widths of such a
+    /// run is cleared. Paint is never wider than a marking, so a wider saturated run is light, not a line.
+    /// </summary>
+    private unsafe void SuppressNearSaturatedBlobs(byte* smooth, byte* ev, int x0, int x1, int d, int w)
+    {
+        int limit = (int)color.SaturatedBlobLightness;
+        int x = x0;
+        while (x <= x1)
+        {
+            if (smooth[x] < limit)
+            {
+                x++;
+                continue;
+            }
+
+            int start = x;
+            while (x <= x1 && smooth[x] >= limit)
+            {
+                x++;
+            }
+
+            if (x - start > 2 * d)
+            {
+                int a = Math.Max(0, start - (2 * d)), b = Math.Min(w - 1, x - 1 + (2 * d));
+                for (int k = a; k <= b; k++)
+                {
+                    ev[k] = 0;
+                }
+            }
+        }
     }
 
     /// <summary>
