@@ -252,6 +252,16 @@ public sealed class ColorThresholdStage : IFrameStage
             }
 
             int end = x - 1, xm = (start + end) / 2;
+
+            // A run can only be cleared when it is turned towards the vertical by more than the tolerance, so its angle
+            // to the vanishing-point direction is below twice that direction's angle from the vertical: skip the
+            // tensor where even that cannot exceed the tolerance (the result is the same, only cheaper).
+            double vpAngle = Math.Atan2(Math.Abs(xm - vx), Math.Max(1e-9, y - vy));
+            double tolHere = tolBase + (tolGrowth * Math.Sqrt(((xm - vx) * (xm - vx)) + ((y - vy) * (y - vy))) / h);
+            if (2 * vpAngle <= tolHere)
+            {
+                continue;
+            }
             // The window spans the run and both its edges (where the gradients are), sampling at most ~13 columns.
             int xa = Math.Max(1, start - 2), xb = Math.Min(w - 2, end + 2), colStep = Math.Max(1, (xb - xa) / 12);
             double jxx = 0, jyy = 0, jxy = 0;
