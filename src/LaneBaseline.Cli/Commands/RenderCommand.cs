@@ -18,7 +18,7 @@ internal static class RenderCommand
         Option<string?> conditions = new("--conditions")
         {
             Description = "Comma-separated conditions for every scene, or 'none' (default: clean and each condition in turn). Known: " +
-                string.Join(", ", KnownConditions.All) + ".",
+                string.Join(", ", KnownConditions.Every) + ".",
         };
         Option<double?> severity = new("--severity") { Description = "Severity in [0, 1] for the chosen conditions (default: seeded random per scene)." };
         Option<int> sequenceLength = new("--sequence-length") { Description = "Frames per scene; 1 renders stills (default 1).", DefaultValueFactory = _ => 1 };
@@ -86,7 +86,7 @@ internal static class RenderCommand
             {
                 if (!KnownConditions.IsKnown(sweepName))
                 {
-                    throw new UsageException($"--sweep: unknown condition '{sweepName}'. Known: {string.Join(", ", KnownConditions.All)}.");
+                    throw new UsageException($"--sweep: unknown condition '{sweepName}'. Known: {string.Join(", ", KnownConditions.Every)}.");
                 }
 
                 if (conditionList is not null || sev is not null)
@@ -186,7 +186,7 @@ internal static class RenderCommand
         {
             if (!KnownConditions.IsKnown(part))
             {
-                throw new UsageException($"--conditions: unknown condition '{part}'. Known: {string.Join(", ", KnownConditions.All)} (or 'none').");
+                throw new UsageException($"--conditions: unknown condition '{part}'. Known: {string.Join(", ", KnownConditions.Every)} (or 'none').");
             }
 
             if (!list.Contains(part, StringComparer.Ordinal))

@@ -28,8 +28,15 @@ public sealed record ColorOptions
     /// <summary>Half width of the road-statistics wedge at the bottom row, as a fraction of the frame width (0.02–1). Default 0.25.</summary>
     public double StatisticsHalfWidthFraction { get; init; } = 0.25;
 
+    /// <summary>
+    /// Blurred grey level (0–255) at or above which a run wider than two marking widths is a saturated blob (sun,
+    /// reflection, lamp) whose surroundings give no marking evidence; 255 turns the test off. Default 245.
+    /// </summary>
+    public double SaturatedBlobLightness { get; init; } = 245;
+
     internal void Validate(List<OptionsFinding> f)
     {
+        OptionsChecks.Range(f, "color.saturatedBlobLightness", SaturatedBlobLightness, 0, 255);
         OptionsChecks.Range(f, "color.whiteMinContrast", WhiteMinContrast, 0, 255);
         OptionsChecks.Range(f, "color.whiteSpreadFactor", WhiteSpreadFactor, 0, 20);
         OptionsChecks.Range(f, "color.whiteMinLightness", WhiteMinLightness, 0, 255);

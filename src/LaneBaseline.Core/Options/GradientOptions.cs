@@ -25,6 +25,18 @@ public sealed record GradientOptions
     /// <summary>Expected marking width at the bottom image row, as a fraction of the frame width (0.002–0.2). Default 0.025.</summary>
     public double MarkingWidthFraction { get; init; } = 0.025;
 
+    /// <summary>
+    /// Largest angle between a marking run's local orientation (structure tensor) and the direction to the vanishing
+    /// point, in degrees (0–90; 90 keeps everything), at the vanishing point itself. Default 8.
+    /// </summary>
+    public double OrientationToleranceDeg { get; init; } = 8;
+
+    /// <summary>Growth of that angle per frame height of distance from the vanishing point, degrees (0–90). Default 12.</summary>
+    public double OrientationToleranceGrowthDeg { get; init; } = 12;
+
+    /// <summary>Smallest structure-tensor coherence (λ1 − λ2) / (λ1 + λ2) at which the orientation test applies (0–1). Default 0.5.</summary>
+    public double OrientationMinCoherence { get; init; } = 0.5;
+
     internal void Validate(List<OptionsFinding> f)
     {
         OptionsChecks.Range(f, "gradient.blurKernelPx", BlurKernelPx, 1, 15);
@@ -34,5 +46,8 @@ public sealed record GradientOptions
         OptionsChecks.Range(f, "gradient.ridgeMinStep", RidgeMinStep, 0, 255);
         OptionsChecks.Range(f, "gradient.ridgeSpreadFactor", RidgeSpreadFactor, 0, 20);
         OptionsChecks.Range(f, "gradient.markingWidthFraction", MarkingWidthFraction, 0.002, 0.2);
+        OptionsChecks.Range(f, "gradient.orientationToleranceDeg", OrientationToleranceDeg, 0, 90);
+        OptionsChecks.Range(f, "gradient.orientationToleranceGrowthDeg", OrientationToleranceGrowthDeg, 0, 90);
+        OptionsChecks.Range(f, "gradient.orientationMinCoherence", OrientationMinCoherence, 0, 1);
     }
 }

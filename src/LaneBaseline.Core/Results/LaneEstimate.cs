@@ -9,6 +9,15 @@ namespace LaneBaseline.Core.Results;
 /// <param name="RmsPx">Weighted RMS distance of the inlier window centroids from the curve, in bird's-eye pixels.</param>
 /// <param name="PointCount">Number of image points written for this lane.</param>
 /// <param name="Kind">Estimated marking type (<c>solid</c> or <c>dashed</c>), or null when not estimated.</param>
+/// <param name="EvidenceKeptShare">Share (0–1) of the frame's marking-evidence pixels left after the orientation test
+/// cleared runs turned towards the image vertical away from the vanishing point (reflection suppression); 1 when nothing
+/// was cleared, NaN when not measured. Low values mean a frame full of reflections.</param>
+/// <param name="HeadingDeviationDeg">Angle of the fit's tangent at the bottom bird's-eye row from the bird's-eye vertical,
+/// in degrees of bird's-eye pixels (0–90): a boundary that agrees with the vanishing point runs straight up the bird's-eye
+/// view; NaN when not measured.</param>
+/// <param name="ParallelDeviationPx">Agreement with the other boundaries: the smallest, over the frame's other reported
+/// lanes, mean absolute change of the bird's-eye spacing between the two fits from the bottom row up the image (sampled
+/// over the bottom two thirds), in bird's-eye pixels; NaN when the lane is alone.</param>
 public readonly record struct LaneEstimate(
     int Slot,
     double Score,
@@ -17,4 +26,7 @@ public readonly record struct LaneEstimate(
     double Coverage,
     double RmsPx,
     int PointCount,
-    string? Kind = null);
+    string? Kind = null,
+    double EvidenceKeptShare = double.NaN,
+    double HeadingDeviationDeg = double.NaN,
+    double ParallelDeviationPx = double.NaN);

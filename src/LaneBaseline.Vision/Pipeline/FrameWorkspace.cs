@@ -168,6 +168,9 @@ public sealed class FrameWorkspace : IDisposable
 
     internal double RoadSpread { get; set; }
 
+    /// <summary>Share (0–1) of the marking-evidence pixels kept by the colour stage's orientation test.</summary>
+    internal double EvidenceKeptShare { get; set; } = 1;
+
     internal int[] Histogram { get; } = new int[256];
 
     internal int[] DiffHistogram { get; } = new int[256];

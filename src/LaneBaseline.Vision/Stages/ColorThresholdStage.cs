@@ -106,6 +106,7 @@ public sealed class ColorThresholdStage : IFrameStage
         double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * texture);
         double widthBottom = gradient.MarkingWidthFraction * w;
         int[] pre = workspace.Prefix;
+        long evidenceBefore = 0, evidenceCleared = 0;
 
         for (int y = top; y < h; y++)
         {
@@ -153,7 +154,163 @@ public sealed class ColorThresholdStage : IFrameStage
                 bool yellow = yellowish && l >= yellowL;
                 ev[x] = ridge ? (white || yellow ? (byte)255 : (byte)160) : (yellow ? (byte)100 : (byte)0);
             }
+
+            if (color.SaturatedBlobLightness < 255)
+            {
+                SuppressNearSaturatedBlobs(smooth, ev, x0, x1, d, w);
+            }
+
+            if (gradient.OrientationToleranceDeg < 90)
+            {
+                int before = 0;
+                for (int x = xs; x <= xe; x++)
+                {
+                    before += ev[x] != 0 ? 1 : 0;
+                }
+
+                evidenceBefore += before;
+                evidenceCleared += SuppressOffAxisRuns(workspace, ev, y, x0, x1, d);
+            }
         }
+
+        workspace.EvidenceKeptShare = evidenceBefore > 0 ? 1 - ((double)evidenceCleared / evidenceBefore) : 1;
+    }
+
+    /// <summary>
+    /// Clears evidence in and around saturated blobs: runs of blurred grey at or above
+    /// <see cref="ColorOptions.SaturatedBlobLightness"/> wider than two marking widths (the sun, its road reflection,
+    /// a headlamp's core) are not paint, and their rims pass the ridge test; evidence within two marking widths of such a
+    /// run is cleared. Paint is never wider than a marking, so a wider saturated run is light, not a line.
+    /// </summary>
+    private unsafe void SuppressNearSaturatedBlobs(byte* smooth, byte* ev, int x0, int x1, int d, int w)
+    {
+        int limit = (int)color.SaturatedBlobLightness;
+        int x = x0;
+        while (x <= x1)
+        {
+            if (smooth[x] < limit)
+            {
+                x++;
+                continue;
+            }
+
+            int start = x;
+            while (x <= x1 && smooth[x] >= limit)
+            {
+                x++;
+            }
+
+            if (x - start > 2 * d)
+            {
+                int a = Math.Max(0, start - (2 * d)), b = Math.Min(w - 1, x - 1 + (2 * d));
+                for (int k = a; k <= b; k++)
+                {
+                    ev[k] = 0;
+                }
+            }
+        }
+    }
+
+    /// <summary>
+    /// Clears the evidence runs of row <paramref name="y"/> whose local orientation does not point at the vanishing
+    /// point: the structure tensor J = Σ ∇I ∇Iᵀ of the blurred grey image over a square window of half size
+    /// clamp(d / 2, 2, 6) rows around the row, over the run and two pixels beyond each end, gives the dominant gradient direction 0.5·atan2(2Jxy, Jxx − Jyy);
+    /// the marking runs perpendicular to it. When the coherence (λ1 − λ2) / (λ1 + λ2) is at least
+    /// <see cref="GradientOptions.OrientationMinCoherence"/> and the angle to the line through the vanishing point
+    /// exceeds <see cref="GradientOptions.OrientationToleranceDeg"/> + <see cref="GradientOptions.OrientationToleranceGrowthDeg"/>
+    /// × (distance from the vanishing point / frame height) and the run is turned towards the image vertical, the run
+    /// is cleared. Lane markings are straight lines
+    /// on the ground, so their images converge on the vanishing point (the tolerance grows with distance for road
+    /// curvature and vanishing-point error); specular streaks of lamps on a wet road are image-vertical and fail
+    /// away from the vanishing point's column.
+    /// </summary>
+    /// <returns>The number of evidence pixels cleared.</returns>
+    private unsafe int SuppressOffAxisRuns(FrameWorkspace workspace, byte* ev, int y, int x0, int x1, int d)
+    {
+        int cleared = 0;
+        int w = workspace.Width, h = workspace.Height, bandTop = workspace.BandTop;
+        byte* blurBase = (byte*)workspace.Blurred.DataPointer;
+        long blurStep = workspace.Blurred.Step();
+        double vx = workspace.VanishingX, vy = workspace.VanishingY;
+        int r = Math.Clamp(d / 2, 2, 6);
+        int ya = Math.Max(bandTop + 1, y - r), yb = Math.Min(h - 2, y + r);
+        double tolBase = gradient.OrientationToleranceDeg * Math.PI / 180, tolGrowth = gradient.OrientationToleranceGrowthDeg * Math.PI / 180;
+        double minCoherence = gradient.OrientationMinCoherence;
+        int x = x0;
+        while (x <= x1)
+        {
+            if (ev[x] == 0)
+            {
+                x++;
+                continue;
+            }
+
+            int start = x;
+            while (x <= x1 && ev[x] != 0)
+            {
+                x++;
+            }
+
+            int end = x - 1, xm = (start + end) / 2;
+
+            // A run can only be cleared when it is turned towards the vertical by more than the tolerance, so its angle
+            // to the vanishing-point direction is below twice that direction's angle from the vertical: skip the
+            // tensor where even that cannot exceed the tolerance (the result is the same, only cheaper).
+            double vpAngle = Math.Atan2(Math.Abs(xm - vx), Math.Max(1e-9, y - vy));
+            double tolHere = tolBase + (tolGrowth * Math.Sqrt(((xm - vx) * (xm - vx)) + ((y - vy) * (y - vy))) / h);
+            if (2 * vpAngle <= tolHere)
+            {
+                continue;
+            }
+            // The window spans the run and both its edges (where the gradients are), sampling at most ~13 columns.
+            int xa = Math.Max(1, start - 2), xb = Math.Min(w - 2, end + 2), colStep = Math.Max(1, (xb - xa) / 12);
+            double jxx = 0, jyy = 0, jxy = 0;
+            for (int yy = ya; yy <= yb; yy++)
+            {
+                byte* s = blurBase + ((yy - bandTop) * blurStep);
+                byte* up = s - blurStep, down = s + blurStep;
+                for (int xx = xa; xx <= xb; xx += colStep)
+                {
+                    double gx = s[xx + 1] - s[xx - 1], gy = down[xx] - up[xx];
+                    jxx += gx * gx;
+                    jyy += gy * gy;
+                    jxy += gx * gy;
+                }
+            }
+
+            double trace = jxx + jyy;
+            if (trace <= 0)
+            {
+                continue;
+            }
+
+            double diff = Math.Sqrt(((jxx - jyy) * (jxx - jyy)) + (4 * jxy * jxy));
+            if (diff / trace < minCoherence)
+            {
+                continue;
+            }
+
+            // Line direction = gradient direction + 90°; compare with the direction to the vanishing point, modulo 180°.
+            double line = (0.5 * Math.Atan2(2 * jxy, jxx - jyy)) + (Math.PI / 2);
+            double toVp = Math.Atan2(vy - y, vx - xm);
+            double delta = Math.Abs(Math.IEEERemainder(line - toVp, Math.PI));
+            double dist = Math.Sqrt(((xm - vx) * (xm - vx)) + ((y - vy) * (y - vy))) / h;
+            // Only runs turned towards the image vertical are cleared (the reflection signature); runs turned towards
+            // the horizontal are ends of worn paint pieces or dashes and are kept.
+            double fromVertical = Math.Abs(Math.IEEERemainder(line - (Math.PI / 2), Math.PI));
+            double vpFromVertical = Math.Abs(Math.IEEERemainder(toVp - (Math.PI / 2), Math.PI));
+            if (fromVertical < vpFromVertical && delta > tolBase + (tolGrowth * dist))
+            {
+                for (int k = start; k <= end; k++)
+                {
+                    ev[k] = 0;
+                }
+
+                cleared += end - start + 1;
+            }
+        }
+
+        return cleared;
     }
 
     /// <summary>Columns of row <paramref name="y"/> inside the trapezoid (top-left, top-right, bottom-right, bottom-left), clipped to the frame.</summary>

@@ -560,6 +560,50 @@ public sealed class SlidingWindowFitStage : IFrameStage
         Emit(ws, r1, +1, max >= 2);
         Emit(ws, r2, +2, max >= 4);
         Emit(ws, r3, +3, max >= 6);
+        AddAgreementFeatures(ws);
+    }
+
+    /// <summary>
+    /// Evidence features of the reported lanes that see the conditions (see <see cref="LaneEstimate"/>): the frame's
+    /// share of evidence kept by reflection suppression, the heading at the bottom row against the bird's-eye vertical
+    /// (agreement with the vanishing point), and the smallest spacing change against another reported lane
+    /// (agreement with the other boundaries).
+    /// </summary>
+    private static void AddAgreementFeatures(FrameWorkspace ws)
+    {
+        double yb = ws.BirdsEyeHeight - 1;
+        for (int i = 0; i < ws.LaneCount; i++)
+        {
+            LaneEstimate e = ws.Lanes[i];
+            double slope = (2 * e.Fit.A * yb) + e.Fit.B;
+            double parallel = double.NaN;
+            for (int j = 0; j < ws.LaneCount; j++)
+            {
+                if (j == i)
+                {
+                    continue;
+                }
+
+                Quadratic o = ws.Lanes[j].Fit;
+                double w0 = e.Fit.At(yb) - o.At(yb), sum = 0;
+                const int Samples = 8;
+                for (int k = 1; k <= Samples; k++)
+                {
+                    double y = yb * (1 - (k / (Samples * 1.5)));
+                    sum += Math.Abs(e.Fit.At(y) - o.At(y) - w0);
+                }
+
+                double mean = sum / Samples;
+                parallel = double.IsNaN(parallel) ? mean : Math.Min(parallel, mean);
+            }
+
+            ws.Lanes[i] = e with
+            {
+                EvidenceKeptShare = ws.EvidenceKeptShare,
+                HeadingDeviationDeg = Math.Atan(Math.Abs(slope)) * 180 / Math.PI,
+                ParallelDeviationPx = parallel,
+            };
+        }
     }
 
     private static bool Crosses(FrameWorkspace ws, int i, int j)

@@ -38,9 +38,27 @@ public static class KnownConditions
     /// <summary>Strong JPEG compression artefacts.</summary>
     public const string Jpeg = "jpeg";
 
+    /// <summary>Wet road at night: street lamps and oncoming headlights mirrored as long bright streaks on the road.</summary>
+    public const string WetNight = "wet-night";
+
+    /// <summary>Dusk under sodium street lighting: an orange cast that pushes white paint towards yellow, low contrast.</summary>
+    public const string SodiumDusk = "sodium-dusk";
+
+    /// <summary>A low sun straight ahead: a backlit, darker road under a strong veil and a wide bright road reflection.</summary>
+    public const string LowSun = "low-sun";
+
+    /// <summary>Heavy paint wear with repaired patches and dark tar seams running along the lanes.</summary>
+    public const string HeavyWear = "heavy-wear";
+
     /// <summary>Every condition, in the order used by the round-robin of the default scene mix.</summary>
     public static IReadOnlyList<string> All { get; } = [Shadows, Traffic, Night, Rain, Glare, WornPaint, Cracks, Noise, Blur, Jpeg];
 
+    /// <summary>Opt-in conditions: only rendered when named (by <c>--conditions</c> or <c>--sweep</c>), never in the default mix.</summary>
+    public static IReadOnlyList<string> OptIn { get; } = [WetNight, SodiumDusk, LowSun, HeavyWear];
+
+    /// <summary>The default-mix conditions followed by the opt-in ones.</summary>
+    public static IReadOnlyList<string> Every { get; } = [.. All, .. OptIn];
+
     /// <summary>Whether <paramref name="name"/> is a known condition (exact).</summary>
-    public static bool IsKnown(string name) => All.Contains(name, StringComparer.Ordinal);
+    public static bool IsKnown(string name) => Every.Contains(name, StringComparer.Ordinal);
 }

@@ -98,6 +98,47 @@ public sealed partial class SceneRenderer
         {
             DrawCracks(ctx, output, b, cracks);
         }
+
+        double heavy = scene.SeverityOf(KnownConditions.HeavyWear);
+        if (heavy > 0)
+        {
+            DrawRepairs(ctx, output, b, heavy);
+        }
+    }
+
+    /// <summary>
+    /// Heavy wear: repaired patches of fresh (darker) asphalt that straddle a lane line, and dark tar seams that run
+    /// along the lane a little beside each line, so the strongest long edges near a line are not the paint.
+    /// </summary>
+    private void DrawRepairs(in FrameContext ctx, Mat output, double[] b, double severity)
+    {
+        SceneLook l = look;
+        const double BinM = 18;
+        long first = (long)Math.Floor((ctx.SV - 20) / BinM), last = (long)Math.Ceiling((ctx.SV + 150) / BinM);
+        Scalar tar = Bgr(l.SurfaceB * 0.42, l.SurfaceG * 0.42, l.SurfaceR * 0.42);
+        for (long k = first; k <= last; k++)
+        {
+            SplitMix64 rng = BinStream(ctx.Scene, 60, k);
+            for (int i = 0; i < b.Length; i++)
+            {
+                double u = rng.NextDouble(), ps = (k * BinM) + rng.NextDouble(0, BinM), plen = rng.NextDouble(4, 14);
+                double pshift = rng.NextDouble(-0.6, 0.6), pw = rng.NextDouble(0.5, 1.4), ptone = rng.NextDouble(-30, -12);
+                if (u < 0.5 * severity)
+                {
+                    BuildStrip(ctx, ps, ps + plen, b[i] + pshift, pw);
+                    FillGroundPolygon(output, Bgr(l.SurfaceB + ptone, l.SurfaceG + ptone, l.SurfaceR + ptone));
+                }
+
+                u = rng.NextDouble();
+                double ss = (k * BinM) + rng.NextDouble(0, BinM), slen = rng.NextDouble(10, 35);
+                double side = rng.NextDouble() < 0.5 ? -1 : 1, soff = rng.NextDouble(0.25, 0.7), sw = rng.NextDouble(0.03, 0.07);
+                if (u < 0.8 * severity)
+                {
+                    BuildStrip(ctx, ss, ss + slen, b[i] + (side * soff), sw);
+                    FillGroundPolygon(output, tar);
+                }
+            }
+        }
     }
 
     private void DrawConcreteSlabs(in FrameContext ctx, Mat output, double[] b, bool joints)
@@ -242,7 +283,7 @@ public sealed partial class SceneRenderer
             yellowFine.SetTo(Scalar.All(0));
         }
 
-        double worn = scene.SeverityOf(KnownConditions.WornPaint);
+        double worn = Math.Max(scene.SeverityOf(KnownConditions.WornPaint), scene.SeverityOf(KnownConditions.HeavyWear));
         double sa = ctx.SV - 3, sb = ctx.SV + MaxRangeM;
         double half = scene.LineWidthM / 2;
         for (int i = 0; i < b.Length; i++)
@@ -430,7 +471,14 @@ public sealed partial class SceneRenderer
         SceneSpec scene = ctx.Scene;
         SceneLook l = look;
         double worn = scene.SeverityOf(KnownConditions.WornPaint), rain = scene.SeverityOf(KnownConditions.Rain);
+        double heavy = scene.SeverityOf(KnownConditions.HeavyWear);
         double paintK = l.PaintBrightness * (1 - (0.35 * worn)) * (1 - (0.45 * rain)) / 255.0;
+        if (heavy > 0)
+        {
+            // Heavy wear: what paint is left is also dirtier (less bright).
+            paintK *= 1 - (0.4 * heavy);
+        }
+
         double wB = 232, wG = 236, wR = 238, yB = 40, yG = 182, yR = 228;
         if (scene.Concrete)
         {

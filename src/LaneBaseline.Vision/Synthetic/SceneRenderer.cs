@@ -211,8 +211,11 @@ public sealed partial class SceneRenderer : IDisposable
         Compose(ctx, output);
         DrawTraffic(ctx, output);
         ApplyNight(ctx, output);
+        ApplyWetNight(ctx, output);
+        ApplySodiumDusk(ctx, output);
         ApplyRain(ctx, output);
         ApplyGlare(ctx, output);
+        ApplyLowSun(ctx, output);
         ApplyBlur(ctx, output);
         ApplyNoise(ctx, output);
         ApplyJpeg(ctx, output);

@@ -125,6 +125,39 @@ public sealed class StageTests
     }
 
     [Fact]
+    public void Color_VerticalStreakAwayFromTheVanishingColumn_IsCleared_LineThroughTheVanishingPointIsKept()
+    {
+        // Road lines parallel to the vehicle image as lines through the vanishing point (projective geometry, Hartley &
+        // Zisserman 2003, Sec. 8.6); a specular streak under a lamp on a wet road runs image-vertically. Its structure
+        // tensor orientation (Bigün & Granlund 1987) is 90 degrees, the direction to the vanishing point from (250, 150)
+        // is atan2(60, 90) = 33.7 degrees from the horizontal (56.3 from the vertical), beyond the 8 + 12 * 0.6 = 15.2
+        // degree tolerance, so the streak is cleared; the line through the vanishing point is kept.
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
+        Cv2.Line(frame, new Point(60, 179), new Point(160, 90), Scalar.All(230), 4);  // through the preset point (160, 90)
+        Cv2.Line(frame, new Point(250, 115), new Point(250, 179), Scalar.All(230), 4); // vertical streak
+        RunUpTo(ws, o, frame, 4);
+        Assert.Equal(160, ws.VanishingX, 6);
+        using (Mat streak = new Mat(ws.Evidence, new Rect(240, 125, 21, 50)))
+        using (Mat line = new Mat(ws.Evidence, new Rect(60, 125, 100, 50)))
+        {
+            Assert.Equal(0, Cv2.CountNonZero(streak));
+            Assert.True(Cv2.CountNonZero(line) > 50);
+        }
+
+        Assert.True(ws.EvidenceKeptShare < 0.9);
+
+        // With the test switched off the same streak is evidence: the check above is the orientation test's doing.
+        var off = o with { Gradient = o.Gradient with { OrientationToleranceDeg = 90 } };
+        using FrameWorkspace ws2 = Workspace(off, 60);
+        RunUpTo(ws2, off, frame, 4);
+        using Mat streak2 = new Mat(ws2.Evidence, new Rect(240, 125, 21, 50));
+        Assert.True(Cv2.CountNonZero(streak2) > 50);
+        Assert.Equal(1, ws2.EvidenceKeptShare);
+    }
+
+    [Fact]
     public void Warp_MapsRoadLinesThroughTheVanishingPointToColumns()
     {
         // Lines through the vanishing point are images of road lines parallel to the vehicle; the warp must make them

@@ -262,6 +262,10 @@ public sealed class SceneRendererTests
     [InlineData("noise")]
     [InlineData("blur")]
     [InlineData("jpeg")]
+    [InlineData("wet-night")]
+    [InlineData("sodium-dusk")]
+    [InlineData("low-sun")]
+    [InlineData("heavy-wear")]
     public void Condition_AtSeverityZero_IsTheCleanFrame_AndChangesItAtOne(string condition)
     {
         // Source: common practice (a sweep's severity 0 must be the clean baseline for its scenes).
@@ -286,8 +290,35 @@ public sealed class SceneRendererTests
         using var renderer = new SceneRenderer(cam);
         using var frame = new Mat();
         string clean = Describe(renderer.Render(SceneSpec.Create(8, 2, [], 1, 10), 0, frame));
-        IReadOnlyList<RenderCondition> all = KnownConditions.All.Select(c => new RenderCondition(c, 1)).ToList();
+        IReadOnlyList<RenderCondition> all = KnownConditions.Every.Select(c => new RenderCondition(c, 1)).ToList();
         Assert.Equal(clean, Describe(renderer.Render(SceneSpec.Create(8, 2, all, 1, 10), 0, frame)));
+    }
+
+    [Fact]
+    public void SodiumDusk_TurnsTheRoadOrange()
+    {
+        // Source: from memory — low-pressure sodium lamps emit almost only near 589 nm (the sodium D lines), which an
+        // RGB camera records mostly in red, partly in green and hardly in blue: road pixels must have B well below R.
+        CameraModel cam = SceneFixtures.Camera(320, 180);
+        using var renderer = new SceneRenderer(cam);
+        using var clean = new Mat();
+        using var dusk = new Mat();
+        renderer.Render(SceneSpec.Create(5, 0, [], 1, 10), 0, clean);
+        renderer.Render(SceneSpec.Create(5, 0, [new RenderCondition(KnownConditions.SodiumDusk, 1)], 1, 10), 0, dusk);
+        using Mat roadClean = new Mat(clean, new Rect(110, 150, 100, 30));
+        using Mat roadDusk = new Mat(dusk, new Rect(110, 150, 100, 30));
+        Scalar c = Cv2.Mean(roadClean), d = Cv2.Mean(roadDusk);
+        Assert.True(c.Val0 > 0.8 * c.Val2, $"clean road is grey: B {c.Val0:F1}, R {c.Val2:F1}");
+        Assert.True(d.Val0 < 0.4 * d.Val2, $"sodium road is orange: B {d.Val0:F1}, R {d.Val2:F1}");
+    }
+
+    [Fact]
+    public void OptInConditions_AreNotInTheDefaultMix()
+    {
+        // Source: common practice (new test conditions must not change an existing data set's frames).
+        Assert.Equal(10, KnownConditions.All.Count);
+        Assert.Empty(KnownConditions.All.Intersect(KnownConditions.OptIn));
+        Assert.All(KnownConditions.OptIn, c => Assert.True(KnownConditions.IsKnown(c)));
     }
 
     [Fact]
