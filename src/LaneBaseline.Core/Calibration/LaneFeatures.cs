@@ -21,6 +21,9 @@ public static class LaneFeatures
         ("inlierMass", l => Math.Log(1 + Math.Max(0, l.InlierMass)), +1), // log: evidence mass spans three decades
         ("coverage", l => l.Coverage, +1),
         ("rmsPx", l => l.RmsPx, -1),
+        ("evidenceKeptShare", l => double.IsFinite(l.EvidenceKeptShare) ? l.EvidenceKeptShare : 1, +1), // reflections removed: less left, less sure
+        ("headingDeviationDeg", l => double.IsFinite(l.HeadingDeviationDeg) ? Math.Abs(l.HeadingDeviationDeg) : 0, -1),
+        ("parallelDeviation", l => Math.Log(1 + (double.IsFinite(l.ParallelDeviationPx) ? Math.Min(Math.Abs(l.ParallelDeviationPx), 50) : 50)), -1), // a lone lane has no support from others
     ];
 
     /// <summary>The names of <see cref="All"/>, in order.</summary>
