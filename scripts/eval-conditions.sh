@@ -60,19 +60,9 @@ for c in conds:
     scores = []
     for line in open(f"{root}/{c}/pred.lanes.jsonl"):
         scores += [l.get("score", 1.0) for l in json.loads(line)["lanes"]]
-    # ECE over 10 bins [k/10, (k+1)/10): lanes and true positives in a bin are the sweep's counts at the bin's lower
-    # cutoff minus those at its upper cutoff (the sweep re-assigns per cutoff, so this is a close approximation).
-    def at(k):
-        if k >= 10: return (0, 0)
-        r = sweep[round(k / 10, 2)]
-        return (r["tp"], r["tp"] + r["fp"])
-    ece, n = 0.0, len(scores)
-    for k in range(10):
-        in_bin = [x for x in scores if (k / 10 <= x < (k + 1) / 10) or (k == 9 and x >= 1.0)]
-        if not in_bin: continue
-        tp = at(k)[0] - at(k + 1)[0]
-        acc = min(1.0, max(0.0, tp / len(in_bin)))
-        ece += len(in_bin) / n * abs(acc - sum(in_bin) / len(in_bin))
+    # ECE (10 equal-width bins, Naeini et al. 2015) as `score` computes it on lanes matched at IoU 0.50
+    ece = s["calibration"]["ece"] if s.get("calibration") and s["calibration"].get("ece") is not None else float("nan")
+    n = len(scores)
     r5 = sweep[0.5]; n5 = r5["tp"] + r5["fp"]
     p5 = r5["tp"] / n5 if n5 else float("nan")
     print(f"{c:<12} {t['f1']:8.3f} {p5:10.3f} {n5:10d} {ece:6.3f} {n:6d}")
