@@ -70,11 +70,12 @@ public sealed class RasterIouTests : IDisposable
         Assert.Equal(identical, inter == areaT && inter == areaP);
     }
 
-    // Source: docs/metrics.md, line width round(30*width/1640): 1640 -> 30, 1280 -> 23 (23.41), 820 -> 15, tiny -> 1.
+    // Source: docs/metrics.md, line width round(30*width/1640): 1640 -> 30, 1280 -> 23 (23.41), 820 -> 15, 1920 -> 35 (35.12), tiny -> 1.
     [Theory]
     [InlineData(1640, 30)]
     [InlineData(1280, 23)]
     [InlineData(820, 15)]
+    [InlineData(1920, 35)] // 35.12
     [InlineData(10, 1)]
     public void LaneWidth_FollowsSpecification(int frameWidth, int expected) =>
         Assert.Equal(expected, new ScoreSettings().LaneWidthFor(frameWidth));
