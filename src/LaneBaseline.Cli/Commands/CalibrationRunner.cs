@@ -31,7 +31,7 @@ internal sealed class CalibrationRunner(TuneRequest request, double lambda, bool
         PipelineOptions options = KnownPresets.Resolve(request.ConfigSource);
         string baseText = IsName(request.ConfigSource) ? KnownPresets.GetText(request.ConfigSource) : File.ReadAllText(request.ConfigSource);
         PipelineOptions raw = options with { Calibration = null, Tracking = options.Tracking with { Enabled = false } };
-        List<LaneRecord> truth = ReadTruth(request.Truth);
+        List<LaneRecord> truth = LaneFileReader.ReadTruth(request.Truth);
         var images = FrameListing.ListImages(request.Frames).ToDictionary(i => i.Key, StringComparer.Ordinal);
         var items = new FrameItem[truth.Count];
         for (int i = 0; i < truth.Count; i++)
@@ -187,31 +187,4 @@ internal sealed class CalibrationRunner(TuneRequest request, double lambda, bool
         }
     }
 
-    private static List<LaneRecord> ReadTruth(string path)
-    {
-        if (!File.Exists(path))
-        {
-            throw BadInputException.At(path, 0, null, "no such truth file");
-        }
-
-        var records = new List<LaneRecord>();
-        var seen = new HashSet<string>(StringComparer.Ordinal);
-        using var reader = LaneFileReader.Open(path, sizeRequired: true);
-        foreach (LaneRecord r in reader.ReadAll())
-        {
-            if (!seen.Add(r.Frame))
-            {
-                throw BadInputException.At(path, r.LineNumber, "frame", "frame '" + r.Frame + "' appears twice");
-            }
-
-            records.Add(r);
-        }
-
-        if (records.Count == 0)
-        {
-            throw BadInputException.At(path, 0, null, "the truth file holds no frame");
-        }
-
-        return records;
-    }
 }

@@ -25,10 +25,10 @@ internal sealed partial class TuneRunner
 {
     private (IReadOnlyList<LaneRecord> Tuning, IReadOnlyList<LaneRecord> Holdout, bool Overlap) Split()
     {
-        List<LaneRecord> all = ReadTruth(request.Truth);
+        List<LaneRecord> all = LaneFileReader.ReadTruth(request.Truth);
         if (request.HoldoutTruth is string second)
         {
-            List<LaneRecord> other = ReadTruth(second);
+            List<LaneRecord> other = LaneFileReader.ReadTruth(second);
             var keys = all.Select(r => r.Frame).ToHashSet(StringComparer.Ordinal);
             string[] shared = [.. other.Where(r => keys.Contains(r.Frame)).Select(r => r.Frame)];
             if (shared.Length > 0 && !request.AllowOverlap)
@@ -68,33 +68,6 @@ internal sealed partial class TuneRunner
     public static bool IsHoldout(string frameKey, double fraction) =>
         (ShardSpec.Fnv1a64(frameKey) >> 11) * (1.0 / (1UL << 53)) < fraction;
 
-    private static List<LaneRecord> ReadTruth(string path)
-    {
-        if (!File.Exists(path))
-        {
-            throw BadInputException.At(path, 0, null, "no such truth file");
-        }
-
-        var records = new List<LaneRecord>();
-        var seen = new HashSet<string>(StringComparer.Ordinal);
-        using var reader = LaneFileReader.Open(path, sizeRequired: true);
-        foreach (LaneRecord r in reader.ReadAll())
-        {
-            if (!seen.Add(r.Frame))
-            {
-                throw BadInputException.At(path, r.LineNumber, "frame", "frame '" + r.Frame + "' appears twice");
-            }
-
-            records.Add(r);
-        }
-
-        if (records.Count == 0)
-        {
-            throw BadInputException.At(path, 0, null, "the truth file holds no frame");
-        }
-
-        return records;
-    }
 
     private (List<Sample> Tuning, List<Sample> Holdout) LoadSamples(IReadOnlyList<LaneRecord> tuningTruth, IReadOnlyList<LaneRecord> holdoutTruth)
     {

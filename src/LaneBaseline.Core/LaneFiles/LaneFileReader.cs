@@ -117,4 +117,37 @@ public sealed class LaneFileReader : ILaneRecordSource
 
     /// <inheritdoc />
     public void Dispose() => lines.Dispose();
+
+    /// <summary>
+    /// Reads a whole labelled truth file into memory (tune and its calibration fit need every frame): sizes required,
+    /// each frame key once, at least one frame.
+    /// </summary>
+    /// <exception cref="BadInputException">The file is missing, malformed, repeats a frame or holds none.</exception>
+    public static List<LaneRecord> ReadTruth(string path)
+    {
+        if (!File.Exists(path))
+        {
+            throw BadInputException.At(path, 0, null, "no such truth file");
+        }
+
+        var records = new List<LaneRecord>();
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        using var reader = Open(path, sizeRequired: true);
+        foreach (LaneRecord r in reader.ReadAll())
+        {
+            if (!seen.Add(r.Frame))
+            {
+                throw BadInputException.At(path, r.LineNumber, "frame", "frame '" + r.Frame + "' appears twice");
+            }
+
+            records.Add(r);
+        }
+
+        if (records.Count == 0)
+        {
+            throw BadInputException.At(path, 0, null, "the truth file holds no frame");
+        }
+
+        return records;
+    }
 }

@@ -173,26 +173,7 @@ public sealed partial class SceneRenderer
         }
 
         double us = look.SunColumnFraction * width, vs = HorizonRow - (0.07 * height);
-        double sc = 0.035 * width, sh = 0.22 * width, sr = 0.05 * width;
-        // The glare field is smooth: compute it at 1/4 resolution and scale it up.
-        int sw = glareSmall.Cols, shh = glareSmall.Rows;
-        float* small = (float*)glareSmall.DataPointer;
-        long smallStep = glareSmall.Step() / sizeof(float);
-        for (int y = 0; y < shh; y++)
-        {
-            double fy = (y * 4) + 1.5, dy = fy - vs;
-            double below = fy > HorizonRow ? Math.Exp(-(fy - HorizonRow) / (0.22 * height)) : 0;
-            for (int x = 0; x < sw; x++)
-            {
-                double fx = (x * 4) + 1.5, dx = fx - us;
-                double r2 = (dx * dx) + (dy * dy);
-                double add = (255 * Math.Exp(-r2 / (2 * sc * sc))) + (150 * Math.Exp(-Math.Sqrt(r2) / sh));
-                double road = below > 0 ? 170 * below * Math.Exp(-(dx * dx) / (2 * sr * sr)) : 0;
-                small[(y * smallStep) + x] = (float)(add + road);
-            }
-        }
-
-        Cv2.Resize(glareSmall, glareField, glareField.Size(), 0, 0, InterpolationFlags.Linear);
+        SunField(us, vs, 0.035 * width, 0.22 * width, 0.05 * width, 150, 170, 0.22, widenRoad: false);
         float* field = (float*)glareField.DataPointer;
         long fieldStep = glareField.Step() / sizeof(float);
         byte* img = (byte*)output.DataPointer;
@@ -424,26 +405,7 @@ public sealed partial class SceneRenderer
             return;
         }
 
-        double us = (0.4 + (0.2 * look.SunColumnFraction)) * width, vs = HorizonRow - (0.025 * height);
-        double sc = 0.05 * width, sh = 0.3 * width, sr = 0.09 * width;
-        int sw = glareSmall.Cols, shh = glareSmall.Rows;
-        float* small = (float*)glareSmall.DataPointer;
-        long smallStep = glareSmall.Step() / sizeof(float);
-        for (int y = 0; y < shh; y++)
-        {
-            double fy = (y * 4) + 1.5, dy = fy - vs;
-            double below = fy > HorizonRow ? Math.Exp(-(fy - HorizonRow) / (0.35 * height)) : 0;
-            for (int x = 0; x < sw; x++)
-            {
-                double fx = (x * 4) + 1.5, dx = fx - us;
-                double r2 = (dx * dx) + (dy * dy);
-                double add = (255 * Math.Exp(-r2 / (2 * sc * sc))) + (190 * Math.Exp(-Math.Sqrt(r2) / sh));
-                double road = below > 0 ? 200 * below * Math.Exp(-(dx * dx) / (2 * sr * sr * (1 + ((fy - HorizonRow) / (0.2 * height))))) : 0;
-                small[(y * smallStep) + x] = (float)(add + road);
-            }
-        }
-
-        Cv2.Resize(glareSmall, glareField, glareField.Size(), 0, 0, InterpolationFlags.Linear);
+        SunField((0.4 + (0.2 * look.SunColumnFraction)) * width, HorizonRow - (0.025 * height), 0.05 * width, 0.3 * width, 0.09 * width, 190, 200, 0.35, widenRoad: true);
         float* field = (float*)glareField.DataPointer;
         long fieldStep = glareField.Step() / sizeof(float);
         byte* img = (byte*)output.DataPointer;
@@ -461,5 +423,35 @@ public sealed partial class SceneRenderer
                 row[(3 * x) + 2] = ToByte((row[(3 * x) + 2] * dark * (1 - veil)) + (veil * 210) + add);
             }
         }
+    }
+
+    /// <summary>
+    /// The light of a low sun into <c>glareField</c> (grey levels to add): a core and a halo around the sun at
+    /// (<paramref name="us"/>, <paramref name="vs"/>) plus its reflection on the road below the horizon, which fades
+    /// with distance below the horizon over <paramref name="belowFraction"/> of the height and, with
+    /// <paramref name="widenRoad"/>, widens towards the camera. The field is smooth: it is computed at 1/4 resolution
+    /// and scaled up.
+    /// </summary>
+    private unsafe void SunField(double us, double vs, double sc, double sh, double sr, double haloGain, double roadGain, double belowFraction, bool widenRoad)
+    {
+        int sw = glareSmall.Cols, shh = glareSmall.Rows;
+        float* small = (float*)glareSmall.DataPointer;
+        long smallStep = glareSmall.Step() / sizeof(float);
+        for (int y = 0; y < shh; y++)
+        {
+            double fy = (y * 4) + 1.5, dy = fy - vs;
+            double below = fy > HorizonRow ? Math.Exp(-(fy - HorizonRow) / (belowFraction * height)) : 0;
+            double spread = widenRoad ? 2 * sr * sr * (1 + ((fy - HorizonRow) / (0.2 * height))) : 2 * sr * sr;
+            for (int x = 0; x < sw; x++)
+            {
+                double fx = (x * 4) + 1.5, dx = fx - us;
+                double r2 = (dx * dx) + (dy * dy);
+                double add = (255 * Math.Exp(-r2 / (2 * sc * sc))) + (haloGain * Math.Exp(-Math.Sqrt(r2) / sh));
+                double road = below > 0 ? roadGain * below * Math.Exp(-(dx * dx) / spread) : 0;
+                small[(y * smallStep) + x] = (float)(add + road);
+            }
+        }
+
+        Cv2.Resize(glareSmall, glareField, glareField.Size(), 0, 0, InterpolationFlags.Linear);
     }
 }
