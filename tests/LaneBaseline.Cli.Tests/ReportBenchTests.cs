@@ -45,7 +45,7 @@ public sealed class ReportBenchTests : IDisposable
     {
         string score = Score();
         string bad = dir.File("bad.json");
-        File.WriteAllText(bad, "{\"schemaVersion\":1,\"machine\":{}}");
+        File.WriteAllText(bad, "{\"schema_version\":2,\"machine\":{}}");
         string html = dir.File("r.html");
         (int exit, _, string err) = CliRunner.Run("report", "--score", score, "--bench", bad, "-o", html);
         Assert.Equal(3, exit);
