@@ -41,7 +41,18 @@ internal static class Program
     {
         using var stdout = new TextWriterStream(output);
         using IDisposable streams = StandardStreams.Use(stdout, input);
-        ParseResult parse = CreateRoot().Parse(args);
+        RootCommand root = CreateRoot();
+        try
+        {
+            args = SettingsFile.Expand(root, args);
+        }
+        catch (Core.BadInputException ex)
+        {
+            error.WriteLine("error: " + ex.Message);
+            return ExitCodes.InputError;
+        }
+
+        ParseResult parse = root.Parse(args);
         var config = new InvocationConfiguration { Output = output, Error = error };
         if (parse.Errors.Count > 0)
         {

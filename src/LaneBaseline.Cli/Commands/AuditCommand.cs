@@ -45,6 +45,7 @@ internal static class AuditCommand
         Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.")
         {
             pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads, shard, partial,
+            SettingsFile.Option(),
         };
         SharedOptions.AddOutput(command, output, legacyOut, required: false);
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>

@@ -32,10 +32,10 @@ public sealed class OutputSchemaTests : IDisposable
         // One layout whatever the number of systems: systems.NAME holds the same object in both files, and with one
         // system the top level repeats it (the keys of docs/metrics.md stay where they were).
         JsonElement baseOne = a.RootElement.GetProperty("systems").GetProperty("base");
-        Assert.Equal(baseOne.GetRawText(), b.RootElement.GetProperty("systems").GetProperty("base").GetRawText());
+        Assert.Equal(Compact(baseOne), Compact(b.RootElement.GetProperty("systems").GetProperty("base")));
         foreach (string key in new[] { "frames", "truth_lanes", "pred_lanes", "iou_f1", "point_accuracy", "by_tag" })
         {
-            Assert.Equal(baseOne.GetProperty(key).GetRawText(), a.RootElement.GetProperty(key).GetRawText());
+            Assert.Equal(Compact(baseOne.GetProperty(key)), Compact(a.RootElement.GetProperty(key)));
         }
 
         Assert.Equal("lanebaseline", a.RootElement.GetProperty("tool").GetString());
@@ -64,6 +64,8 @@ public sealed class OutputSchemaTests : IDisposable
         AssertSnakeCase(doc.RootElement, "$");
         return doc;
     }
+
+    private static string Compact(JsonElement e) => JsonSerializer.Serialize(e);
 
     private static bool Evaluate(JsonSchema schema, string text) => schema.Evaluate(JsonDocument.Parse(text).RootElement).IsValid;
 
