@@ -34,6 +34,14 @@ public sealed record ColorOptions
     /// </summary>
     public double SaturatedBlobLightness { get; init; } = 245;
 
+    /// <summary>
+    /// Grey-world colour constancy before the white and yellow tests (Buchsbaum 1980): the mean B, G and R of the
+    /// road-statistics wedge give per-channel gains (clamped to 1/4–4) that make the road's mean colour grey, so a
+    /// sodium or dusk cast neither pushes white paint out of the white band nor makes the whole road yellow. The ridge
+    /// test (grey image) is not affected. Default true.
+    /// </summary>
+    public bool GreyWorld { get; init; } = true;
+
     internal void Validate(List<OptionsFinding> f)
     {
         OptionsChecks.Range(f, "color.saturatedBlobLightness", SaturatedBlobLightness, 0, 255);

@@ -168,6 +168,9 @@ public sealed class FrameWorkspace : IDisposable
 
     internal double RoadSpread { get; set; }
 
+    /// <summary>Grey-world gains (B, G, R) the colour stage applied before its white and yellow tests (1 when off).</summary>
+    internal (double B, double G, double R) GreyWorldGains { get; set; } = (1, 1, 1);
+
     /// <summary>Share (0–1) of the marking-evidence pixels kept by the colour stage's orientation test.</summary>
     internal double EvidenceKeptShare { get; set; } = 1;
 

@@ -9,7 +9,10 @@ namespace LaneBaseline.Vision.Stages;
 /// gated by a paired horizontal-gradient (ridge) test whose scale follows the perspective.
 /// </summary>
 /// <remarks>
-/// Steps, one pass per image row below <see cref="FrameWorkspace.RoiTop"/> (and below the Hough search band's top)
+/// Step (0), when <see cref="ColorOptions.GreyWorld"/> is on: grey-world colour constancy (Buchsbaum 1980), the
+/// mean B, G, R of the road wedge below give per-channel gains that make the road grey, applied to every pixel's colour
+/// before the lightness and yellowness tests, so a sodium or dusk cast neither pushes white paint out of the white
+/// band nor makes the whole road yellow. Then steps, one pass per image row below <see cref="FrameWorkspace.RoiTop"/> (and below the Hough search band's top)
 /// inside the region trapezoid:
 /// (1) road statistics: median and robust spread (interquartile range / 1.349) of the HLS lightness
 /// L = (max(R,G,B) + min(R,G,B)) / 2 sampled every <see cref="ColorOptions.StatisticsStridePx"/> pixels inside a wedge
@@ -28,7 +31,8 @@ namespace LaneBaseline.Vision.Stages;
 /// marking; (4) evidence = 255 for ridge and paint colour, 160 for ridge alone, 100 for yellow without a ridge,
 /// 0 otherwise. Pixel (x, y), origin top-left, y down.
 /// <para>References: [1] OpenCV documentation, "Color conversions" (RGB to HLS lightness). [2] J. Canny, IEEE Trans.
-/// PAMI 8(6), 1986, DOI 10.1109/TPAMI.1986.4767851 (step edges as gradient extrema).</para>
+/// PAMI 8(6), 1986, DOI 10.1109/TPAMI.1986.4767851 (step edges as gradient extrema). [3] G. Buchsbaum, "A spatial
+/// processor model for object colour perception", J. Franklin Inst. 310(1):1–26, 1980 (grey world).</para>
 /// </remarks>
 public sealed class ColorThresholdStage : IFrameStage
 {
@@ -72,6 +76,15 @@ public sealed class ColorThresholdStage : IFrameStage
         int stride = color.StatisticsStridePx;
         long total = 0;
         double vx = workspace.VanishingX, halfBottom = color.StatisticsHalfWidthFraction * w;
+        // (0) Grey-world colour constancy on the same wedge (Buchsbaum 1980): per-channel gains that make the road's
+        // mean colour grey, in 1/256 fixed point, clamped to [1/4, 4]; 256 (no change) when switched off.
+        int gainB = 256, gainG = 256, gainR = 256;
+        if (color.GreyWorld)
+        {
+            GreyWorldGains(frameBase, frameStep, top, w, h, vx, vy, halfBottom, stride, out gainB, out gainG, out gainR);
+        }
+
+        workspace.GreyWorldGains = (gainB / 256.0, gainG / 256.0, gainR / 256.0);
         for (int y = top; y < h; y += stride)
         {
             double t = (y - vy) / (h - 1 - vy);
@@ -81,7 +94,8 @@ public sealed class ColorThresholdStage : IFrameStage
             for (int x = x0; x <= x1; x += stride)
             {
                 byte* p = row + (3 * x);
-                int mx = Math.Max(p[0], Math.Max(p[1], p[2])), mn = Math.Min(p[0], Math.Min(p[1], p[2]));
+                int pb = Math.Min(255, (p[0] * gainB) >> 8), pg = Math.Min(255, (p[1] * gainG) >> 8), pr = Math.Min(255, (p[2] * gainR) >> 8);
+                int mx = Math.Max(pb, Math.Max(pg, pr)), mn = Math.Min(pb, Math.Min(pg, pr));
                 hist[(mx + mn) >> 1]++;
                 total++;
                 if (x + stride < w)
@@ -141,7 +155,7 @@ public sealed class ColorThresholdStage : IFrameStage
                 long left = (long)(pre[x - d + 1] - pre[x - (2 * d)]) * nc;
                 long right = (long)(pre[x + (2 * d) + 1] - pre[x + d]) * nc;
                 byte* p = row + (3 * x);
-                int b = p[0], g = p[1], r = p[2];
+                int b = Math.Min(255, (p[0] * gainB) >> 8), g = Math.Min(255, (p[1] * gainG) >> 8), r = Math.Min(255, (p[2] * gainR) >> 8);
                 bool yellowish = Math.Min(r, g) - b >= yellowC;
                 bool ridge = centre - left >= thrScaled && centre - right >= thrScaled;
                 if (!ridge && !yellowish)
@@ -174,6 +188,40 @@ public sealed class ColorThresholdStage : IFrameStage
         }
 
         workspace.EvidenceKeptShare = evidenceBefore > 0 ? 1 - ((double)evidenceCleared / evidenceBefore) : 1;
+    }
+
+    /// <summary>
+    /// Grey-world gains (Buchsbaum 1980): the mean of each channel over the road wedge sample (the same pixels as the
+    /// road statistics) against the mean of the three; gain = grey / channel mean, clamped to [1/4, 4], in 1/256 fixed
+    /// point. A grey road gives gains of 1 (256); an empty or black sample leaves the frame unchanged.
+    /// </summary>
+    private static unsafe void GreyWorldGains(byte* frameBase, long frameStep, int top, int w, int h, double vx, double vy,
+        double halfBottom, int stride, out int gainB, out int gainG, out int gainR)
+    {
+        gainB = gainG = gainR = 256;
+        long sb = 0, sg = 0, sr = 0;
+        for (int y = top; y < h; y += stride)
+        {
+            double t = (y - vy) / (h - 1 - vy);
+            double xc = vx + ((((w - 1) / 2.0) - vx) * t);
+            int x0 = Math.Max(0, (int)(xc - (halfBottom * t))), x1 = Math.Min(w - 1, (int)(xc + (halfBottom * t)));
+            byte* row = frameBase + (y * frameStep);
+            for (int x = x0; x <= x1; x += stride)
+            {
+                byte* p = row + (3 * x);
+                sb += p[0];
+                sg += p[1];
+                sr += p[2];
+            }
+        }
+
+        if (sb > 0 && sg > 0 && sr > 0)
+        {
+            double grey = (sb + sg + sr) / 3.0;
+            gainB = (int)Math.Round(256 * Math.Clamp(grey / sb, 0.25, 4));
+            gainG = (int)Math.Round(256 * Math.Clamp(grey / sg, 0.25, 4));
+            gainR = (int)Math.Round(256 * Math.Clamp(grey / sr, 0.25, 4));
+        }
     }
 
     /// <summary>

@@ -158,6 +158,38 @@ public sealed class StageTests
     }
 
     [Fact]
+    public void Color_GreyWorld_RemovesASodiumCast_SoTheLitRoadIsNotYellow()
+    {
+        // Grey world (Buchsbaum, J. Franklin Inst. 310(1), 1980): the average reflectance of a scene is achromatic, so
+        // per-channel gains grey / channel mean undo a colour cast. Road grey 80 under an orange cast (B x 0.25,
+        // G x 0.7, R x 1.1; low-pressure sodium light is nearly monochromatic at 589 nm, from memory) is (20, 56, 88);
+        // a lit patch of road grey 110 along the bottom rows, wider than any marking, is (28, 77, 121): min(R, G) - B = 49 >= 28 and lightness
+        // 74.5 >= road 54 + 8, so without the gains it passes the yellow-paint test. The wedge mean of mostly road
+        // gives gains near (54.7 / 20, 54.7 / 56, 54.7 / 88) = (2.73, 0.98, 0.62) (derived), which make both greys
+        // achromatic again: no yellow evidence inside the patch.
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(20, 56, 88));
+        Cv2.Rectangle(frame, new Rect(60, 168, 200, 12), new Scalar(28, 77, 121), -1);
+        RunUpTo(ws, o, frame, 4);
+        using (Mat inner = new Mat(ws.Evidence, new Rect(100, 170, 120, 8)))
+        {
+            Assert.Equal(0, Cv2.CountNonZero(inner));
+        }
+
+        Assert.True(ws.GreyWorldGains.B > 2.0 && ws.GreyWorldGains.B < 3.2, $"blue gain {ws.GreyWorldGains.B}");
+        Assert.True(ws.GreyWorldGains.R > 0.5 && ws.GreyWorldGains.R < 0.75, $"red gain {ws.GreyWorldGains.R}");
+
+        // Without the gains the cast patch is "yellow paint": the check above is the grey world's doing.
+        var off = o with { Color = o.Color with { GreyWorld = false } };
+        using FrameWorkspace ws2 = Workspace(off, 60);
+        RunUpTo(ws2, off, frame, 4);
+        using Mat inner2 = new Mat(ws2.Evidence, new Rect(100, 170, 120, 8));
+        Assert.True(Cv2.CountNonZero(inner2) > 400);
+        Assert.Equal((1.0, 1.0, 1.0), ws2.GreyWorldGains);
+    }
+
+    [Fact]
     public void Warp_MapsRoadLinesThroughTheVanishingPointToColumns()
     {
         // Lines through the vanishing point are images of road lines parallel to the vehicle; the warp must make them
