@@ -38,6 +38,9 @@ public sealed class ColorThresholdStage : IFrameStage
 {
     private readonly ColorOptions color;
     private readonly GradientOptions gradient;
+    private readonly Mat equalised = new();
+    private readonly Mat equalisedBlur = new();
+    private CLAHE? clahe;
 
     /// <summary>Creates the stage.</summary>
     public ColorThresholdStage(ColorOptions color, GradientOptions gradient)
@@ -98,12 +101,6 @@ public sealed class ColorThresholdStage : IFrameStage
                 int mx = Math.Max(pb, Math.Max(pg, pr)), mn = Math.Min(pb, Math.Min(pg, pr));
                 hist[(mx + mn) >> 1]++;
                 total++;
-                if (x + stride < w)
-                {
-                    byte* s = blurBase + ((y - workspace.BandTop) * blurStep);
-                    diffHist[Math.Abs(s[x + stride] - s[x])]++;
-                    diffs++;
-                }
             }
         }
 
@@ -111,6 +108,30 @@ public sealed class ColorThresholdStage : IFrameStage
         double spread = Math.Max(1.0, (Percentile(hist, total, 0.75) - Percentile(hist, total, 0.25)) / 1.349);
         workspace.RoadMedian = median;
         workspace.RoadSpread = spread;
+
+        // (1b) Low light: the ridge runs on a CLAHE copy of the grey band (Zuiderveld 1994) when the road is dark.
+        byte* ridgeBase = blurBase;
+        long ridgeStep = blurStep;
+        workspace.Equalised = median < color.ClaheMaxRoadLightness || (color.ClaheMinVeilLightness < 255 && median >= color.ClaheMinVeilLightness);
+        if (workspace.Equalised)
+        {
+            Equalise(workspace);
+            ridgeBase = (byte*)equalisedBlur.DataPointer;
+            ridgeStep = equalisedBlur.Step();
+        }
+
+        for (int y = top; y < h; y += stride)
+        {
+            double t = (y - vy) / (h - 1 - vy);
+            double xc = vx + ((((w - 1) / 2.0) - vx) * t);
+            int x0 = Math.Max(0, (int)(xc - (halfBottom * t))), x1 = Math.Min(w - 1, (int)(xc + (halfBottom * t)));
+            byte* s = ridgeBase + ((y - workspace.BandTop) * ridgeStep);
+            for (int x = x0; x <= x1 && x + stride < w; x += stride)
+            {
+                diffHist[Math.Abs(s[x + stride] - s[x])]++;
+                diffs++;
+            }
+        }
         double whiteThr = Math.Max(color.WhiteMinLightness, median + Math.Max(color.WhiteMinContrast, color.WhiteSpreadFactor * spread));
         double yellowL = median + color.YellowMinContrast;
         double yellowC = color.YellowMinChroma;
@@ -120,6 +141,14 @@ public sealed class ColorThresholdStage : IFrameStage
         double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * texture);
         double widthBottom = gradient.MarkingWidthFraction * w;
         int[] pre = workspace.Prefix;
+
+        // (1c) Mirror columns (dark scenes only): where a light source is, its reflection on a wet road lies below it.
+        bool mirror = color.LightSourceLightness < 255 && median < color.MirrorMaxRoadLightness;
+        if (mirror)
+        {
+            mirror = FindLightColumns(workspace);
+        }
+
         long evidenceBefore = 0, evidenceCleared = 0;
 
         for (int y = top; y < h; y++)
@@ -133,6 +162,7 @@ public sealed class ColorThresholdStage : IFrameStage
             byte* row = frameBase + (y * frameStep);
             byte* ev = evBase + (y * evStep);
             byte* smooth = blurBase + ((y - workspace.BandTop) * blurStep);
+            byte* ridgeRow = ridgeBase + ((y - workspace.BandTop) * ridgeStep);
             double scale = (y - vy) / (h - 1 - vy);
             int d = Math.Max(2, (int)Math.Round(widthBottom * scale));
             int c = Math.Max(1, d / 4);
@@ -142,7 +172,7 @@ public sealed class ColorThresholdStage : IFrameStage
             pre[a0] = 0;
             for (int x = a0; x <= a1; x++)
             {
-                pre[x + 1] = pre[x] + smooth[x];
+                pre[x + 1] = pre[x] + ridgeRow[x];
             }
 
             // Ridge in integers: centreMean - sideMean >= thr  <=>  centreSum*ns - sideSum*nc >= thr*nc*ns.
@@ -174,7 +204,7 @@ public sealed class ColorThresholdStage : IFrameStage
                 SuppressNearSaturatedBlobs(smooth, ev, x0, x1, d, w);
             }
 
-            if (gradient.OrientationToleranceDeg < 90)
+            if (gradient.OrientationToleranceDeg < 90 || mirror)
             {
                 int before = 0;
                 for (int x = xs; x <= xe; x++)
@@ -183,11 +213,107 @@ public sealed class ColorThresholdStage : IFrameStage
                 }
 
                 evidenceBefore += before;
-                evidenceCleared += SuppressOffAxisRuns(workspace, ev, y, x0, x1, d);
+                if (mirror)
+                {
+                    evidenceCleared += SuppressUnderLights(workspace.LightRow, ev, y, x0, x1, d, w);
+                }
+
+                if (gradient.OrientationToleranceDeg < 90)
+                {
+                    evidenceCleared += SuppressOffAxisRuns(workspace, ev, y, x0, x1, d);
+                }
             }
         }
 
         workspace.EvidenceKeptShare = evidenceBefore > 0 ? 1 - ((double)evidenceCleared / evidenceBefore) : 1;
+    }
+
+    /// <summary>
+    /// For every column, the highest row (smallest y) between the top of the frame and
+    /// <see cref="ColorOptions.LightSourceBelowHorizonFraction"/> × height below the horizon whose grey level is at least
+    /// <see cref="ColorOptions.LightSourceLightness"/> (a street lamp, the moon, a vehicle's lights); int.MaxValue where
+    /// there is none. Paint is never above the horizon and is not that bright at night, so these are light sources.
+    /// Lights are small: when more than a quarter of the columns hold one, the sky itself is bright (a dark road under
+    /// a daylight sky, e.g. in shadow) and the test is not applied.
+    /// </summary>
+    /// <returns>Whether the mirror test applies to this frame.</returns>
+    private unsafe bool FindLightColumns(FrameWorkspace workspace)
+    {
+        int w = workspace.Width, h = workspace.Height;
+        int[] lightRow = workspace.LightRow;
+        Array.Fill(lightRow, int.MaxValue);
+        int last = Math.Min(h - 1, (int)(workspace.VanishingY + (color.LightSourceBelowHorizonFraction * h)));
+        byte limit = (byte)Math.Clamp(color.LightSourceLightness, 0, 255);
+        Mat gray = workspace.Gray;
+        byte* grayBase = (byte*)gray.DataPointer;
+        long grayStep = gray.Step();
+        for (int y = 0; y <= last; y++)
+        {
+            byte* row = grayBase + (y * grayStep);
+            for (int x = 0; x < w; x++)
+            {
+                if (row[x] >= limit && lightRow[x] == int.MaxValue)
+                {
+                    lightRow[x] = y;
+                }
+            }
+        }
+
+        int litColumns = 0;
+        for (int x = 0; x < w; x++)
+        {
+            litColumns += lightRow[x] != int.MaxValue ? 1 : 0;
+        }
+
+        return litColumns * 4 <= w;
+    }
+
+    /// <summary>
+    /// Clears the evidence runs of row <paramref name="y"/> that lie below a light source: a run is cleared when a column
+    /// within max(2, d / 2) pixels of it has a light source (see <see cref="FindLightColumns"/>) above row y. A flat wet
+    /// road is a horizontal mirror: the reflection of a light lies on the vertical through the light in a camera without
+    /// roll (law of reflection), stretched into a streak by the road's roughness; a lane line crosses such a column in
+    /// a few rows only, so it loses little.
+    /// </summary>
+    /// <returns>The number of evidence pixels cleared.</returns>
+    private static unsafe int SuppressUnderLights(int[] lightRow, byte* ev, int y, int x0, int x1, int d, int w)
+    {
+        int cleared = 0;
+        int margin = Math.Max(2, d / 2);
+        int x = x0;
+        while (x <= x1)
+        {
+            if (ev[x] == 0)
+            {
+                x++;
+                continue;
+            }
+
+            int start = x;
+            while (x <= x1 && ev[x] != 0)
+            {
+                x++;
+            }
+
+            int end = x - 1;
+            bool lit = false;
+            for (int k = Math.Max(0, start - margin), kEnd = Math.Min(w - 1, end + margin); k <= kEnd && !lit; k++)
+            {
+                lit = lightRow[k] < y;
+            }
+
+            if (lit)
+            {
+                for (int k = start; k <= end; k++)
+                {
+                    ev[k] = 0;
+                }
+
+                cleared += end - start + 1;
+            }
+        }
+
+        return cleared;
     }
 
     /// <summary>
@@ -392,8 +518,40 @@ public sealed class ColorThresholdStage : IFrameStage
         return 255;
     }
 
+    /// <summary>
+    /// Contrast-limited adaptive histogram equalisation (Zuiderveld 1994) of the grey band, then the same Gaussian
+    /// blur as <see cref="GradientStage"/>, into the stage's own buffers: each tile's lightness histogram, clipped at
+    /// <see cref="ColorOptions.ClaheClipLimit"/> times its mean bin count, is equalised and the mappings of the four
+    /// nearest tiles are interpolated bilinearly, which stretches the faint local contrast of paint in a dark scene
+    /// without the noise blow-up of plain equalisation.
+    /// </summary>
+    private void Equalise(FrameWorkspace workspace)
+    {
+        int bandHeight = workspace.Height - workspace.BandTop;
+        int tilesAcross = color.ClaheTilesAcross;
+        int tilesDown = Math.Max(1, (int)Math.Round(tilesAcross * (double)bandHeight / workspace.Width));
+        clahe ??= Cv2.CreateCLAHE(color.ClaheClipLimit, new Size(tilesAcross, tilesDown));
+        using (Mat band = workspace.Gray.RowRange(workspace.BandTop, workspace.Height))
+        {
+            clahe.Apply(band, equalised);
+        }
+
+        int k = gradient.BlurKernelPx;
+        if (k > 1)
+        {
+            Cv2.GaussianBlur(equalised, equalisedBlur, new Size(k, k), 0);
+        }
+        else
+        {
+            equalised.CopyTo(equalisedBlur);
+        }
+    }
+
     /// <inheritdoc />
     public void Dispose()
     {
+        clahe?.Dispose();
+        equalised.Dispose();
+        equalisedBlur.Dispose();
     }
 }
