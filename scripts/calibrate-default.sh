@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
 # Refits the confidence calibration of the default preset (docs/detect.md, "Confidence calibration"):
-# renders the calibration validation set (tuning seed 4242 at 960x540: 400 stills of the default condition mix plus 50 of
+# renders the calibration validation set (tuning seed 4242 at 960x540: 400 stills of the default condition mix plus 100 of
 # each opt-in hard condition: wet-night, sodium-dusk, low-sun, heavy-wear),
 # runs `tune --calibrate` on it with configs/presets/default.yaml (its old calibration ignored) and writes the
 # fitted `calibration:` section back into configs/presets/default.yaml. Deterministic: the same build gives the
@@ -12,14 +12,14 @@ dotnet build src/LaneBaseline.Cli -c Release -nologo -v q >/dev/null
 lb() { dotnet src/LaneBaseline.Cli/bin/Release/net10.0/lanebaseline.dll "$@"; }
 val=out/calibration/validation
 # rendering is deterministic: a complete set (stamp file) from an earlier run is reused
-if [ ! -f "$val/rendered-4242-400-50" ]; then
+if [ ! -f "$val/rendered-4242-400-100" ]; then
   rm -rf "$val"; mkdir -p "$val"
   # the default condition mix, plus the opt-in hard conditions one at a time; keys get their part's folder
-  lb render --out "$val/mix" --seed 4242 --count 400 --size 960x540 --threads 2 >/dev/null
+  lb render -o "$val/mix" --seed 4242 --count 400 --size 960x540 --threads 2 >/dev/null
   for c in wet-night sodium-dusk low-sun heavy-wear; do
-    lb render --out "$val/$c" --seed 4242 --count 50 --size 960x540 --conditions "$c" --threads 2 >/dev/null
+    lb render -o "$val/$c" --seed 4242 --count 100 --size 960x540 --conditions "$c" --threads 2 >/dev/null
   done
-  touch "$val/rendered-4242-400-50"
+  touch "$val/rendered-4242-400-100"
 fi
 sed 's#"frame":"#"frame":"mix/#' "$val/mix/truth.lanes.jsonl" > "$val/truth.lanes.jsonl"
 for c in wet-night sodium-dusk low-sun heavy-wear; do
