@@ -10,6 +10,7 @@ internal static class CommandRunner
     {
         TextWriter stdout = parseResult.InvocationConfiguration.Output;
         TextWriter stderr = parseResult.InvocationConfiguration.Error;
+        using var spool = Core.IO.InputSpool.Begin();
         try
         {
             return body(stdout, stderr);

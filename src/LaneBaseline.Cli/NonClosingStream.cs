@@ -27,9 +27,9 @@ internal sealed class NonClosingStream(Stream inner) : Stream
 
     protected override void Dispose(bool disposing)
     {
-        if (disposing)
+        if (disposing && inner.CanWrite)
         {
-            inner.Flush();
+            inner.Flush(); // skipped once the owner has committed and closed it
         }
 
         base.Dispose(disposing);

@@ -92,6 +92,10 @@ internal static class AuditCommand
             }
 
             string? cameraPath = parseResult.GetValue(camera), sizeText = parseResult.GetValue(size);
+            string? findingsStem = outPath is null ? null : outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? outPath[..^6] : outPath;
+            OutputPaths.Check(
+                [("--pred", parseResult.GetValue(pred)), ("--baseline", parseResult.GetValue(baseline)), ("--camera", cameraPath)],
+                [("-o", outPath), ("--partial", partialPath), ("--report", reportPath), ("--mine", m > 0 ? findingsStem + ".mine.txt" : null)]);
             var settings = new AuditSettings
             {
                 Camera = cameraPath is null ? null : CameraModel.Load(cameraPath),

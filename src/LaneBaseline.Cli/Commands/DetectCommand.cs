@@ -39,7 +39,7 @@ internal static class DetectCommand
             frames, output, config, camera, overlays, stagesDir, stagesEvery, threads, shard, resume, keepGoing, maxFrames, fps, timings,
         };
 
-        command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
+        command.SetAction((parse, cancellationToken) => Task.FromResult(CommandRunner.Run(parse, (stdout, stderr) =>
         {
             int n = parse.GetValue(threads);
             if (n < 1 || n > 256)
@@ -65,6 +65,11 @@ internal static class DetectCommand
                 throw new UsageException("--fps must be a positive frame rate");
             }
 
+            string outputPath = parse.GetValue(output)!, framesPath = parse.GetValue(frames)!, configText = parse.GetValue(config)!;
+            (string, string?)[] inputs = [("FRAMES", framesPath), ("--camera", parse.GetValue(camera)), ("--config", File.Exists(configText) ? configText : null)];
+            OutputPaths.Check(inputs, [("-o", outputPath), ("-o (its configuration)", DetectRunner.ConfigPathFor(outputPath))]);
+            OutputPaths.Check(inputs, [("--overlays", parse.GetValue(overlays))]);
+            OutputPaths.Check(inputs, [("--stages", parse.GetValue(stagesDir))]);
             (int k, int total) = ParseShard(parse.GetValue(shard));
             var request = new DetectRequest
             {
@@ -86,12 +91,12 @@ internal static class DetectCommand
                 Camera = parse.GetValue(camera) is string cameraPath ? Core.Geometry.CameraModel.Load(cameraPath) : null,
                 CameraPath = parse.GetValue(camera),
             };
-            DetectSummary summary = new DetectRunner(request, stderr).Run();
+            DetectSummary summary = new DetectRunner(request, stderr).Run(cancellationToken);
             stdout.WriteLine(string.Create(
                 CultureInfo.InvariantCulture,
                 $"{summary.Written} frames written to {request.Output} ({summary.Lanes} lanes, {summary.Skipped.Count} skipped, {summary.Resumed} kept from a previous run); configuration in {summary.ConfigPath}"));
             return ExitCodes.Success;
-        }));
+        })));
         return command;
     }
 

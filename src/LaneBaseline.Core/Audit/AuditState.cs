@@ -191,7 +191,7 @@ public static class AuditStateMerge
         string? key = null;
         try
         {
-            using var reader = new StreamReader(path, new System.Text.UTF8Encoding(false, true));
+            using var reader = new StreamReader(IO.InputSpool.ReadablePath(path), new System.Text.UTF8Encoding(false, true));
             while (reader.ReadLine() is string text)
             {
                 line++;

@@ -327,7 +327,7 @@ public sealed class ScoreStateReader : IDisposable
             throw BadInputException.At(path, 0, null, Directory.Exists(path) ? "is a directory, expected a score state file" : "file not found");
         }
 
-        var reader = new StreamReader(path, new UTF8Encoding(false, true));
+        var reader = new StreamReader(IO.InputSpool.ReadablePath(path), new UTF8Encoding(false, true));
         try
         {
             string? first = reader.ReadLine();
