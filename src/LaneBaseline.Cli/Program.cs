@@ -1,4 +1,5 @@
 using System.CommandLine;
+using System.Runtime.InteropServices;
 using LaneBaseline.Cli.Commands;
 
 namespace LaneBaseline.Cli;
@@ -6,10 +7,44 @@ namespace LaneBaseline.Cli;
 /// <summary>Entry point: builds the command tree and maps parse errors to exit code 2.</summary>
 internal static class Program
 {
+    /// <summary>How long a command may take to stop after Ctrl-C before the process ends anyway (temporaries removed).</summary>
+    private static readonly TimeSpan StopGrace = TimeSpan.FromSeconds(10);
+
     private static int Main(string[] args)
     {
         NativeLibraryResolver.Install();
-        return Invoke(args, Console.Out, Console.Error);
+
+        // Ctrl-C / SIGTERM: cancel the command, which stops at its next check, removes its temporaries and exits 130.
+        // A second signal, or a command still running after StopGrace, ends the process at once after removing them.
+        using var interrupt = new CancellationTokenSource();
+        int signals = 0;
+        void OnSignal(PosixSignalContext context)
+        {
+            context.Cancel = true;
+            if (Interlocked.Increment(ref signals) > 1)
+            {
+                Stop();
+            }
+
+            interrupt.Cancel();
+            new Thread(() =>
+            {
+                Thread.Sleep(StopGrace);
+                Stop();
+            })
+            { IsBackground = true }.Start();
+        }
+
+        using var sigint = PosixSignalRegistration.Create(PosixSignal.SIGINT, OnSignal);
+        using var sigterm = PosixSignalRegistration.Create(PosixSignal.SIGTERM, OnSignal);
+        return Invoke(args, Console.Out, Console.Error, interrupt.Token);
+    }
+
+    private static void Stop()
+    {
+        Core.IO.TemporaryFiles.DeleteAll();
+        Console.Error.WriteLine("cancelled");
+        Environment.Exit(ExitCodes.Cancelled);
     }
 
     /// <summary>Builds the root command with every subcommand.</summary>
@@ -31,10 +66,12 @@ internal static class Program
     }
 
     /// <summary>Runs the tool in-process (used by tests) with the given writers.</summary>
-    public static int Invoke(string[] args, TextWriter output, TextWriter error)
+    public static int Invoke(string[] args, TextWriter output, TextWriter error, CancellationToken cancellationToken = default)
     {
         ParseResult parse = CreateRoot().Parse(args);
-        var config = new InvocationConfiguration { Output = output, Error = error };
+
+        // Signals are handled in Main (the library's own handler would end the process before temporaries are removed).
+        var config = new InvocationConfiguration { Output = output, Error = error, ProcessTerminationTimeout = null };
         if (parse.Errors.Count > 0)
         {
             foreach (var e in parse.Errors)
@@ -46,6 +83,6 @@ internal static class Program
             return ExitCodes.UsageError;
         }
 
-        return parse.Invoke(config);
+        return parse.InvokeAsync(config, cancellationToken).GetAwaiter().GetResult();
     }
 }

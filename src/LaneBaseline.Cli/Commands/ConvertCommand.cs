@@ -30,6 +30,7 @@ internal static class ConvertCommand
         {
             string inPath = parseResult.GetRequiredValue(input);
             string outPath = parseResult.GetRequiredValue(output);
+            OutputPaths.Check([("INPUT", inPath), ("--reference", parseResult.GetValue(reference))], [("--out", outPath)]);
             string format = (parseResult.GetValue(to) ?? InferFormat(outPath)).ToLowerInvariant();
             if (format is not ("lanes" or "masks" or "openlabel"))
             {

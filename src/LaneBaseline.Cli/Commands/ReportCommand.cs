@@ -28,6 +28,9 @@ internal static class ReportCommand
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
+            OutputPaths.Check(
+                [("--score", parseResult.GetValue(score)), ("--audit", parseResult.GetValue(audit)), ("--bench", parseResult.GetValue(bench)), ("--truth", parseResult.GetValue(truth)), .. CommandArguments.ParseSystems(parseResult.GetValue(pred) ?? []).Select(s => ("--pred", (string?)s.Path))],
+                [("--output", parseResult.GetValue(output))]);
             string? scorePath = parseResult.GetValue(score);
             string? auditPath = parseResult.GetValue(audit);
             if (scorePath is null && auditPath is null)

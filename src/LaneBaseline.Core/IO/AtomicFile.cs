@@ -17,7 +17,7 @@ public sealed class AtomicFile : IDisposable
     public const string TempSuffix = ".tmp";
 
     private const int BufferSize = 1 << 16;
-    private const int SharingViolation = 32, LockViolation = 33;
+    private const int SharingViolation = 32, LockViolation = 33, WouldBlock = 11; // Windows errors; Linux EWOULDBLOCK from flock
     private readonly string finalPath;
     private readonly string? tempPath;
     private FileStream? stream;
@@ -53,6 +53,7 @@ public sealed class AtomicFile : IDisposable
 
         tempPath = finalPath + TempSuffix;
         stream = OpenLocked(path, tempPath);
+        TemporaryFiles.Track(tempPath);
         if (!resume)
         {
             stream.SetLength(0);
@@ -123,6 +124,7 @@ public sealed class AtomicFile : IDisposable
 
         // Renamed while the lock is still held, so no second writer can open the temporary in between.
         File.Move(tempPath, finalPath, overwrite: true);
+        TemporaryFiles.Forget(tempPath);
         committed = true;
         stream.Dispose();
         stream = null;
@@ -141,6 +143,7 @@ public sealed class AtomicFile : IDisposable
         {
             // Deleted while the lock is held: the name is ours until the stream closes.
             TryDelete(tempPath);
+            TemporaryFiles.Forget(tempPath);
         }
 
         stream?.Dispose();
@@ -156,7 +159,7 @@ public sealed class AtomicFile : IDisposable
             {
                 s = new FileStream(temp, FileMode.OpenOrCreate, FileAccess.ReadWrite, FileShare.None, BufferSize);
             }
-            catch (IOException ex) when ((ex.HResult & 0xFFFF) is SharingViolation or LockViolation)
+            catch (IOException ex) when ((ex.HResult & 0xFFFF) is SharingViolation or LockViolation || ex.HResult == WouldBlock)
             {
                 throw BadInputException.At(userPath, 0, null, "another process is writing this output (its temporary " + temp + " is locked); wait for it or choose another output");
             }

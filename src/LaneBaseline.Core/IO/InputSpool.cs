@@ -64,6 +64,7 @@ public sealed class InputSpool : IDisposable
 
             copy = Path.Combine(Path.GetTempPath(), "lanebaseline-input-" + Environment.ProcessId.ToString(CultureInfo.InvariantCulture) + "-" + Guid.NewGuid().ToString("N")[..12] + ".tmp");
             copies.Add(path, copy);
+            TemporaryFiles.Track(copy);
             try
             {
                 var create = new FileStreamOptions { Mode = FileMode.CreateNew, Access = FileAccess.Write, Share = FileShare.None, BufferSize = 1 << 16 };
@@ -101,6 +102,7 @@ public sealed class InputSpool : IDisposable
                 try
                 {
                     File.Delete(copy);
+                    TemporaryFiles.Forget(copy);
                 }
                 catch (IOException)
                 {
