@@ -146,7 +146,9 @@ internal static class AuditCommand
     internal static List<KeyValuePair<string, string>> JobOf(string predPath, string? baselinePath, string? cameraPath, AuditSettings settings, string? sizeText, int minMaskRows) =>
     [
         new("pred", predPath),
+        new("pred_sha256", ContentHash.Of(predPath)),
         new("baseline", baselinePath ?? string.Empty),
+        new("baseline_sha256", baselinePath is null ? string.Empty : ContentHash.Of(baselinePath)),
         new("camera", cameraPath ?? string.Empty),
         new("design_speed_kmh", settings.DesignSpeedKmh.ToString("R", CultureInfo.InvariantCulture)),
         new("size", sizeText ?? string.Empty),

@@ -224,6 +224,7 @@ internal static class ScoreCommand
                         Resamples = request.Resamples,
                         Seed = request.Seed,
                         MaskIou = maskIou,
+                        InputHashes = [ContentHash.Of(request.TruthPath), .. request.Systems.Select(s => ContentHash.Of(s.Path))],
                     });
 #pragma warning restore IDISP004, IDISP003
                 },
