@@ -93,7 +93,7 @@ public sealed class HostilePathTests
     }
 
     [Fact]
-    public void InputSpool_FifoReadTwice_SecondReadSeesTheSameBytes()
+    public async Task InputSpool_FifoReadTwice_SecondReadSeesTheSameBytes()
     {
         if (!OperatingSystem.IsLinux())
         {
@@ -122,7 +122,7 @@ public sealed class HostilePathTests
             copy = first;
         }
 
-        Assert.True(writer.Wait(TimeSpan.FromSeconds(20)));
+        await writer.WaitAsync(TimeSpan.FromSeconds(20));
         Assert.False(File.Exists(copy));
         Assert.Equal(fifo, InputSpool.ReadablePath(fifo)); // no scope: unchanged
     }
