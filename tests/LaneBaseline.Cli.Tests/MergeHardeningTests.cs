@@ -84,6 +84,19 @@ public sealed partial class MergeHardeningTests : IDisposable
         AssertRefused(["merge", s0, s1, "-o", dir.File("f.jsonl")], "different contents of " + truth);
     }
 
+    [Fact]
+    public void AuditStates_ForeignFrameKey_IsRefused()
+    {
+        (string truth, string pred) = WriteSet();
+        string s0 = dir.File("a0.state"), s1 = dir.File("a1.state");
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "--shard", "0/2", "--partial", s0).Exit);
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "--shard", "1/2", "--partial", s1).Exit);
+        string[] l0 = File.ReadAllLines(s0), l1 = File.ReadAllLines(s1);
+        Assert.True(l0.Length > 1 && l1.Length > 1, "both shards hold frames");
+        File.WriteAllLines(s0, [.. l0, l1[1]]);
+        AssertRefused(["merge", s0, s1, "-o", dir.File("f.jsonl")], "a foreign frame key");
+    }
+
     private void AssertRefused(string[] args, string expected)
     {
         string output = args[Array.IndexOf(args, "-o") + 1];

@@ -312,6 +312,11 @@ public static class AuditStateMerge
                     default:
                         throw BadInputException.At(path, line, "t", $"unknown line type '{kind}' (frame or finding)");
                 }
+
+                if (!header.Shard.ContainsFrame(frame))
+                {
+                    throw BadInputException.At(path, line, "frame", $"frame '{frame}' does not belong to shard {header.Shard} (a foreign frame key)");
+                }
             }
         }
         catch (BadInputException)
