@@ -95,13 +95,13 @@ public sealed class HostileUseTests : IDisposable
         File.Copy(jpgs[2], Path.Combine(frames, "c.jpg"));
         string output = dir.File("out.lanes.jsonl");
 
-        (int exit, _, string err) = CliRunner.Run("detect", frames, "-o", output);
+        (int exit, _, string err) = CliRunner.Run("detect", "--frames", frames, "-o", output);
         Assert.Equal(3, exit);
         Assert.Contains("b.jpg", err, StringComparison.Ordinal);
         Assert.Contains("truncated JPEG", err, StringComparison.Ordinal);
         Assert.False(File.Exists(output));
 
-        (exit, _, err) = CliRunner.Run("detect", frames, "-o", output, "--keep-going");
+        (exit, _, err) = CliRunner.Run("detect", "--frames", frames, "-o", output, "--keep-going");
         Assert.Equal(0, exit);
         Assert.Contains("skipped 1 bad frame(s): b.jpg", err, StringComparison.Ordinal);
         using var reader = LaneFileReader.Open(output, sizeRequired: false);
@@ -125,7 +125,7 @@ public sealed class HostileUseTests : IDisposable
         string overlays = dir.File("out/overlays"), stages = dir.File("out/stages");
         Directory.CreateDirectory(dir.File("out"));
 
-        (int exit, _, string err) = CliRunner.Run("detect", list, "-o", dir.File("out/l.lanes.jsonl"), "--overlays", overlays, "--stages", stages);
+        (int exit, _, string err) = CliRunner.Run("detect", "--frames", list, "-o", dir.File("out/l.lanes.jsonl"), "--overlays", overlays, "--stages", stages);
         Assert.True(exit == 0, err);
         Assert.Equal(["abs.jpg", "up.jpg"], Directory.GetFiles(images).Select(Path.GetFileName).Order(StringComparer.Ordinal));
         Assert.Equal(["frames.txt"], Directory.GetFiles(lists).Select(Path.GetFileName));
@@ -147,7 +147,7 @@ public sealed class HostileUseTests : IDisposable
             Lanes.Truth("ok/frame.png", 64, 48, Lanes.Vertical(40, 48)),
         ]);
         string masks = dir.File("masks");
-        (int exit, _, string err) = CliRunner.Run("convert", input, "--out", masks, "--to", "masks");
+        (int exit, _, string err) = CliRunner.Run("convert", input, "-o", masks, "--to", "masks");
         Assert.True(exit == 0, err);
         Assert.False(File.Exists(outside));
         Assert.False(File.Exists(abs));
@@ -172,7 +172,7 @@ public sealed class HostileUseTests : IDisposable
             ["score", "--truth", truth, "--pred", pred, "--json", x, "--csv", x],
             ["merge", truth, pred, "-o", truth],
             ["audit", "--pred", pred, "-o", pred],
-            ["convert", pred, "--out", pred],
+            ["convert", pred, "-o", pred],
             ["report", "--score", truth, "-o", truth],
         ];
         foreach (string[] args in cases)
@@ -206,11 +206,11 @@ public sealed class HostileUseTests : IDisposable
         }
 
         string output = dir.File("out.lanes.jsonl");
-        Assert.Equal(0, CliRunner.Run("detect", frames, "-o", output).Exit);
+        Assert.Equal(0, CliRunner.Run("detect", "--frames", frames, "-o", output).Exit);
         byte[] before = File.ReadAllBytes(output), config = File.ReadAllBytes(dir.File("out.config.yaml"));
         File.WriteAllBytes(Path.Combine(frames, "f1.jpg"), [0xFF, 0xD8, 0xFF, 0xE0, 0, 0, 0]); // corrupt second frame
 
-        (int exit, _, string err) = CliRunner.Run("detect", frames, "-o", output, "--config", "default");
+        (int exit, _, string err) = CliRunner.Run("detect", "--frames", frames, "-o", output, "--config", "default");
         Assert.Equal(3, exit);
         Assert.Contains("f1.jpg", err, StringComparison.Ordinal);
         Assert.Equal(before, File.ReadAllBytes(output));

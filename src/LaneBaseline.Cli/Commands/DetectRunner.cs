@@ -66,10 +66,10 @@ internal sealed partial class DetectRunner
             throw BadInputException.At(request.Input, 0, null, "no such video file");
         }
 
-        string? outDir = Path.GetDirectoryName(Path.GetFullPath(request.Output));
-        if (outDir is not null && !Directory.Exists(outDir))
+        bool toStdout = StandardStreams.IsDash(request.Output);
+        if (!toStdout && Path.GetDirectoryName(Path.GetFullPath(request.Output)) is string outDir)
         {
-            throw BadInputException.At(request.Output, 0, null, "the output folder does not exist");
+            Directory.CreateDirectory(outDir); // a missing output folder is created, as for every output
         }
 
         // The lane file is written to a locked temporary beside it and renamed at the end, so a failed or
@@ -77,9 +77,9 @@ internal sealed partial class DetectRunner
         // (or the old file), byte for byte. The configuration file is renamed into place right after it.
         using AtomicFile output = request.Resume ? AtomicFile.Resume(request.Output) : new AtomicFile(request.Output);
         HashSet<string> done = request.Resume ? ReadResumeState(output.Stream) : [];
-        string configPath = ConfigPathFor(request.Output);
-        using AtomicFile configFile = new(configPath);
-        configFile.Writer.Write(ConfigText());
+        string? configPath = toStdout ? null : ConfigPathFor(request.Output);
+        using AtomicFile? configFile = configPath is null ? null : new AtomicFile(configPath);
+        configFile?.Writer.Write(ConfigText());
 
         int threads = request.Options.Tracking.Enabled ? 1 : request.Threads;
         if (request.Options.Tracking.Enabled && request.Threads > 1)
@@ -95,7 +95,7 @@ internal sealed partial class DetectRunner
         long pipelineTicks = 0;
         int total = images?.Count ?? -1;
         var clock = Stopwatch.StartNew();
-        TimeSpan lastReport = TimeSpan.Zero;
+        using var progress = new ProgressDisplay("detect", "frames", stderr);
         using var cancel = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken);
         using var queue = new BlockingCollection<Work>(Math.Max(2, 2 * threads));
         var results = new ConcurrentDictionary<int, Outcome>();
@@ -191,12 +191,7 @@ internal sealed partial class DetectRunner
                         lanes += outcome.Record!.Lanes.Count;
                     }
 
-                    if (clock.Elapsed - lastReport > TimeSpan.FromSeconds(2))
-                    {
-                        lastReport = clock.Elapsed;
-                        string of = total >= 0 ? "/" + total.ToString(CultureInfo.InvariantCulture) : string.Empty;
-                        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"detect: {next}{of} frames, {next / clock.Elapsed.TotalSeconds:0.0} frames/s"));
-                    }
+                    progress.Report(next, total);
 
                     continue;
                 }
@@ -228,6 +223,7 @@ internal sealed partial class DetectRunner
             }
         }
 
+        progress.Finish();
         if (fatal is not null)
         {
             if (fatal is BadInputException)
@@ -241,7 +237,7 @@ internal sealed partial class DetectRunner
         cancellationToken.ThrowIfCancellationRequested();
         output.Commit(); // every record was flushed as written
 
-        configFile.Commit();
+        configFile?.Commit();
 
         double msPerFrame = written > 0 ? TimeSpan.FromTicks(pipelineTicks).TotalMilliseconds / written : 0;
         stderr.WriteLine(string.Create(
