@@ -41,6 +41,16 @@ internal static class OutputPaths
         }
     }
 
+    /// <summary>The files of <c>--pred [NAME=]FILE</c> values, without reading anything (standard input stays <c>-</c>).</summary>
+    public static IEnumerable<(string Option, string? Path)> Preds(string[]? values)
+    {
+        foreach (string v in values ?? [])
+        {
+            int eq = v.IndexOf('=', StringComparison.Ordinal);
+            yield return ("--pred", eq > 0 && v[..eq].IndexOfAny(['/', '\\']) < 0 ? v[(eq + 1)..] : v);
+        }
+    }
+
     private static List<(string Option, string Path, FileIdentity? Id)> Resolve(IEnumerable<(string Option, string? Path)> paths)
     {
         var list = new List<(string, string, FileIdentity?)>();

@@ -30,7 +30,7 @@ internal static class ReportCommand
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
             OutputPaths.Check(
-                [("--score", parseResult.GetValue(score)), ("--audit", parseResult.GetValue(audit)), ("--bench", parseResult.GetValue(bench)), ("--truth", parseResult.GetValue(truth)), .. CommandArguments.ParseSystems(parseResult.GetValue(pred) ?? []).Select(s => ("--pred", (string?)s.Path))],
+                [("--score", parseResult.GetValue(score)), ("--audit", parseResult.GetValue(audit)), ("--bench", parseResult.GetValue(bench)), ("--truth", parseResult.GetValue(truth)), .. OutputPaths.Preds(parseResult.GetValue(pred))],
                 [("--output", parseResult.GetValue(output))]);
             string? scorePath = parseResult.GetValue(score);
             string? auditPath = parseResult.GetValue(audit);

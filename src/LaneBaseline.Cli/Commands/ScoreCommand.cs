@@ -53,7 +53,7 @@ internal static class ScoreCommand
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
             OutputPaths.Check(
-                [("--truth", parseResult.GetValue(truth)), .. CommandArguments.ParseSystems(parseResult.GetValue(pred) ?? []).Select(s => ("--pred", (string?)s.Path)), ("--camera", parseResult.GetValue(camera))],
+                [("--truth", parseResult.GetValue(truth)), .. OutputPaths.Preds(parseResult.GetValue(pred)), ("--camera", parseResult.GetValue(camera))],
                 [("--json", parseResult.GetValue(json)), ("--csv", parseResult.GetValue(csv)), ("--report", parseResult.GetValue(report)), ("--partial", parseResult.GetValue(partial)), ("--mask-iou-csv", parseResult.GetValue(maskCsv))]);
             var settings = new ScoreSettings
             {
