@@ -24,6 +24,10 @@ public static class LaneFeatures
         ("evidenceKeptShare", l => double.IsFinite(l.EvidenceKeptShare) ? l.EvidenceKeptShare : 1, +1), // reflections removed: less left, less sure
         ("headingDeviationDeg", l => double.IsFinite(l.HeadingDeviationDeg) ? Math.Abs(l.HeadingDeviationDeg) : 0, -1),
         ("parallelDeviation", l => Math.Log(1 + (double.IsFinite(l.ParallelDeviationPx) ? Math.Min(Math.Abs(l.ParallelDeviationPx), 50) : 50)), -1), // a lone lane has no support from others
+        ("jointShare", l => double.IsFinite(l.JointShare) ? l.JointShare : 0.5, +1), // agreement with the joint model; a lone lane is unconfirmed
+        ("fanOut", l => double.IsFinite(l.FanOut) ? l.FanOut : 0, -1), // fans out like an image-vertical streak
+        ("unusedCandidates", l => Math.Log(1 + (double.IsFinite(l.UnusedCandidates) ? l.UnusedCandidates : 0)), -1), // a cluttered frame: other boundary-like evidence was refused
+        ("outerSlot", l => Math.Max(0, Math.Abs(l.Slot) - 1), -1), // 0 for the ego boundaries, 1 for +-2, 2 for +-3: farther out, fewer and fainter pixels
     ];
 
     /// <summary>The names of <see cref="All"/>, in order.</summary>

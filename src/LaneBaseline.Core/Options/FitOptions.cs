@@ -21,6 +21,36 @@ public sealed record FitOptions
     /// <summary>Share of the rows between a lane's far end and the horizon over which it is continued along its image tangent (0–0.95; 0 = off). Default 0.75.</summary>
     public double HorizonExtensionFraction { get; init; } = 0.75;
 
+    /// <summary>
+    /// Whether the reported boundaries are refitted jointly (shared A and B, own C; RANSAC over all their windows) and a
+    /// boundary that disagrees with the others is dropped (true/false). Default true.
+    /// </summary>
+    public bool JointModel { get; init; } = true;
+
+    /// <summary>
+    /// A boundary keeps its place in the joint model only when the joint curve takes at least this share of the window
+    /// mass its own fit took (0–1). Default 0.5.
+    /// </summary>
+    public double JointMinShare { get; init; } = 0.5;
+
+    /// <summary>
+    /// Whether a boundary kept by the joint model is reported with its joint curve (true) or its own curve (false; the
+    /// joint model then only drops disagreeing boundaries and measures agreement). Default false.
+    /// </summary>
+    public bool JointRefit { get; init; }
+
+    /// <summary>
+    /// Fewest windows on the joint curve for a missing boundary next to the kept ones to be added by the model-guided
+    /// search (0–64; 0 = off). Default 2.
+    /// </summary>
+    public int JointRecoverMinWindows { get; init; } = 2;
+
+    /// <summary>
+    /// How much a candidate's raw confidence is lowered when its bird's-eye direction fans out from the camera's ground
+    /// point instead of running parallel: raw score × (1 − penalty × fan-out), fan-out 0–1 (0–1; 0 = off). Default 0.
+    /// </summary>
+    public double FanOutPenalty { get; init; }
+
     internal void Validate(List<OptionsFinding> f)
     {
         OptionsChecks.Range(f, "fit.inlierTolerancePx", InlierTolerancePx, 0.5, 100);
@@ -28,5 +58,8 @@ public sealed record FitOptions
         OptionsChecks.Range(f, "fit.maxCurvature", MaxCurvature, 0, 1);
         OptionsChecks.Range(f, "fit.pointSpacingPx", PointSpacingPx, 1, 200);
         OptionsChecks.Range(f, "fit.horizonExtensionFraction", HorizonExtensionFraction, 0, 0.95);
+        OptionsChecks.Range(f, "fit.jointMinShare", JointMinShare, 0, 1);
+        OptionsChecks.Range(f, "fit.fanOutPenalty", FanOutPenalty, 0, 1);
+        OptionsChecks.Range(f, "fit.jointRecoverMinWindows", JointRecoverMinWindows, 0, 64);
     }
 }

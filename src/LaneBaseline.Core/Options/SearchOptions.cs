@@ -30,8 +30,8 @@ public sealed record SearchOptions
     /// <summary>Allowed relative difference between neighbouring lane widths (0–1). Default 0.3.</summary>
     public double WidthTolerance { get; init; } = 0.3;
 
-    /// <summary>Largest number of boundaries reported (1–6: slots −1, +1, then −2, +2, then −3, +3). Default 6.</summary>
-    public int MaxLanes { get; init; } = 6;
+    /// <summary>Largest number of boundaries reported (1–6: slots −1, +1, then −2, +2, then −3, +3). Default 4 (the near boundaries, the ones the evaluation counts; docs/detect.md).</summary>
+    public int MaxLanes { get; init; } = 4;
 
     /// <summary>Whether to estimate each lane's marking type (solid or dashed) from its window coverage (true/false). Default true.</summary>
     public bool EstimateKind { get; init; } = true;

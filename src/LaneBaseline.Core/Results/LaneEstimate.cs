@@ -18,6 +18,15 @@ namespace LaneBaseline.Core.Results;
 /// <param name="ParallelDeviationPx">Agreement with the other boundaries: the smallest, over the frame's other reported
 /// lanes, mean absolute change of the bird's-eye spacing between the two fits from the bottom row up the image (sampled
 /// over the bottom two thirds), in bird's-eye pixels; NaN when the lane is alone.</param>
+/// <param name="JointShare">Agreement with the joint multi-boundary model (shared heading and curvature): the share (0–1)
+/// of the window mass the lane's own fit took that lies within the inlier distance of its joint curve; NaN when the
+/// lane is alone or the joint model is off.</param>
+/// <param name="FanOut">Where the lane's direction in the bird's-eye view lies between the road's direction (0: parallel
+/// to the other boundaries, or to the bird's-eye vertical for a lone lane) and the ray from the camera's ground point
+/// through its bottom end (1: fanning out like an image-vertical streak); clamped to 0–1; NaN when the two directions
+/// nearly coincide (near the camera's column) and nothing can be told.</param>
+/// <param name="UnusedCandidates">Ambiguity of the frame: fitted, distinct candidate boundaries the slot assignment did
+/// not report (streaks, tar seams, far lines the width and parallel checks refused); NaN when not measured.</param>
 public readonly record struct LaneEstimate(
     int Slot,
     double Score,
@@ -29,4 +38,7 @@ public readonly record struct LaneEstimate(
     string? Kind = null,
     double EvidenceKeptShare = double.NaN,
     double HeadingDeviationDeg = double.NaN,
-    double ParallelDeviationPx = double.NaN);
+    double ParallelDeviationPx = double.NaN,
+    double JointShare = double.NaN,
+    double FanOut = double.NaN,
+    double UnusedCandidates = double.NaN);

@@ -33,11 +33,19 @@ namespace LaneBaseline.Vision.Stages;
 /// <see cref="FitOptions.ExtendToFarEdge"/>) and mapped back with the inverse homography; points outside the frame are
 /// dropped (the longest run inside is kept); (8) the far end is continued along its image tangent towards the horizon
 /// over <see cref="FitOptions.HorizonExtensionFraction"/> of the remaining rows.
+/// With <see cref="FitOptions.JointModel"/>, between (6) and (7) the chosen boundaries are fitted jointly as
+/// x_i = A·y² + B·y + C_i (shared heading and curvature on the ground) by RANSAC over all their window centroids [1]; a
+/// boundary the joint curve does not explain is dropped, and a missing boundary next to the kept ones is searched along
+/// the joint curve at the offset their spacing predicts (<see cref="JointBoundaryModel"/>). Each candidate also
+/// measures its fan-out in the bird's-eye view (direction between the bird's-eye vertical and the ray from the camera's
+/// ground point, where image-vertical reflection streaks go), optionally lowering its raw confidence
+/// (<see cref="FitOptions.FanOutPenalty"/>) and always available to the calibration.
 /// <para>References: [1] M. A. Fischler, R. C. Bolles, "Random Sample Consensus: A Paradigm for Model Fitting with
 /// Applications to Image Analysis and Automated Cartography", Communications of the ACM 24(6):381–395, 1981,
 /// DOI 10.1145/358669.358692. [2] J. Matas, C. Galambos, J. Kittler, CVIU 78(1):119–137, 2000 (Hough seeds).</para>
 /// <para>The steps live in <c>Stages/Search</c>: <see cref="SeedFinder"/> (1), <see cref="WindowSlider"/> (2),
-/// <see cref="CandidateFitter"/> (3, 4), <see cref="SlotAssigner"/> (5–7) and <see cref="MarkingKind"/>; step (8) is
+/// <see cref="CandidateFitter"/> (3, 4), <see cref="SlotAssigner"/> (5–7), <see cref="JointBoundaryModel"/> and
+/// <see cref="MarkingKind"/>; step (8) is
 /// <see cref="LaneSampler"/>.</para>
 /// </remarks>
 public sealed class SlidingWindowFitStage : IFrameStage

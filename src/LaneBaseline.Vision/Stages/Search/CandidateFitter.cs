@@ -1,3 +1,4 @@
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.Options;
 using LaneBaseline.Core.Random;
 using LaneBaseline.Core.Results;
@@ -172,8 +173,43 @@ internal sealed class CandidateFitter
         double score = Math.Min(1, inlierMass / confidence.FullSupportMass)
             * Math.Min(1, coverage / confidence.FullCoverage)
             * Math.Exp(-rms / confidence.ResidualScalePx);
-        ws.CandidateFits[candidate] = new LaneEstimate(0, score, current, inlierMass, coverage, rms, 0);
+        double fanOut = FanOut(ws, current, Math.Max(0, topY));
+        if (double.IsFinite(fanOut))
+        {
+            score *= 1 - (fit.FanOutPenalty * fanOut);
+        }
+
+        ws.CandidateFits[candidate] = new LaneEstimate(0, score, current, inlierMass, coverage, rms, 0, FanOut: fanOut);
         ws.CandidateTopY[candidate] = Math.Max(0, topY);
+    }
+
+    /// <summary>
+    /// Fan-out of a fit in the bird's-eye view (see <see cref="LaneEstimate.FanOut"/>): image-vertical streaks (lamp
+    /// and headlight reflections on a wet road) map to rays from the image of the point at infinity straight down,
+    /// the camera's ground point, while painted boundaries run parallel to the bird's-eye vertical. The fit's mean
+    /// slope between the bottom row and its top window is placed between the vertical (0) and the ray from that point
+    /// through its bottom end (1); NaN when the two directions differ by less than 0.05 (near the camera's column) or
+    /// the fit spans less than a fifth of the rows.
+    /// </summary>
+    internal static double FanOut(FrameWorkspace ws, Quadratic curve, double topY)
+    {
+        PlaneHomography h = ws.ImageToBirdsEye;
+        double yb = ws.BirdsEyeHeight - 1;
+        if (Math.Abs(h.M21) < 1e-12 || yb - topY < 0.2 * ws.BirdsEyeHeight)
+        {
+            return double.NaN;
+        }
+
+        double fx = h.M01 / h.M21, fy = h.M11 / h.M21;
+        double xb = curve.At(yb);
+        if (Math.Abs(yb - fy) < 1)
+        {
+            return double.NaN;
+        }
+
+        double rayslope = (xb - fx) / (yb - fy);
+        double slope = (curve.At(topY) - xb) / (topY - yb);
+        return Math.Abs(rayslope) < 0.05 ? double.NaN : Math.Clamp(slope / rayslope, 0, 1);
     }
 
     private static int MarkInliers(double[] xs, double[] ys, Quadratic q, int m, double tol, bool[] mark)

@@ -15,6 +15,8 @@ internal sealed class SlotAssigner
     private readonly ConfidenceOptions confidence;
     private readonly int[] order = new int[FrameWorkspace.MaxCandidates];
     private readonly int[] accepted = new int[FrameWorkspace.MaxCandidates];
+    private readonly int[] chosen = new int[6];
+    private readonly JointBoundaryModel joint;
 
     /// <summary>Creates the slot assigner.</summary>
     public SlotAssigner(SearchOptions search, FitOptions fit, ConfidenceOptions confidence)
@@ -22,7 +24,11 @@ internal sealed class SlotAssigner
         this.search = search;
         this.fit = fit;
         this.confidence = confidence;
+        joint = new JointBoundaryModel(search, fit, confidence);
     }
+
+    /// <summary>The slots of <see cref="chosen"/>, outermost left to outermost right.</summary>
+    private static ReadOnlySpan<int> Slots => [-3, -2, -1, +1, +2, +3];
 
     /// <summary>Chooses the reported lanes among the fitted candidates and gives them slots.</summary>
     public void Assign(FrameWorkspace ws)
@@ -101,24 +107,35 @@ internal sealed class SlotAssigner
         int l3 = l2 >= 0 && search.MaxLanes >= 5 ? Neighbour(ws, kept, l2, -1, egoWidth, minW, maxW) : -1;
         int r3 = r2 >= 0 && search.MaxLanes >= 6 ? Neighbour(ws, kept, r2, +1, egoWidth, minW, maxW) : -1;
 
-        ws.LaneCount = 0;
         int max = search.MaxLanes;
-        Emit(ws, l3, -3, max >= 5);
-        Emit(ws, l2, -2, max >= 3);
-        Emit(ws, l1, -1, true);
-        Emit(ws, r1, +1, max >= 2);
-        Emit(ws, r2, +2, max >= 4);
-        Emit(ws, r3, +3, max >= 6);
-        AddAgreementFeatures(ws);
+        chosen[0] = max >= 5 ? l3 : -1;
+        chosen[1] = max >= 3 ? l2 : -1;
+        chosen[2] = l1;
+        chosen[3] = max >= 2 ? r1 : -1;
+        chosen[4] = max >= 4 ? r2 : -1;
+        chosen[5] = max >= 6 ? r3 : -1;
+        if (fit.JointModel)
+        {
+            joint.Refine(ws, chosen);
+            joint.Recover(ws, chosen, max);
+        }
+
+        ws.LaneCount = 0;
+        for (int s = 0; s < chosen.Length; s++)
+        {
+            Emit(ws, chosen[s], Slots[s], true);
+        }
+
+        AddAgreementFeatures(ws, Math.Max(0, kept - ws.LaneCount));
     }
 
     /// <summary>
     /// Evidence features of the reported lanes that see the conditions (see <see cref="LaneEstimate"/>): the frame's
     /// share of evidence kept by reflection suppression, the heading at the bottom row against the bird's-eye vertical
     /// (agreement with the vanishing point), and the smallest spacing change against another reported lane
-    /// (agreement with the other boundaries).
+    /// (agreement with the other boundaries), and how many distinct fitted candidates were not reported (ambiguity).
     /// </summary>
-    private static void AddAgreementFeatures(FrameWorkspace ws)
+    private static void AddAgreementFeatures(FrameWorkspace ws, int unused)
     {
         double yb = ws.BirdsEyeHeight - 1;
         for (int i = 0; i < ws.LaneCount; i++)
@@ -151,6 +168,7 @@ internal sealed class SlotAssigner
                 EvidenceKeptShare = ws.EvidenceKeptShare,
                 HeadingDeviationDeg = Math.Atan(Math.Abs(slope)) * 180 / Math.PI,
                 ParallelDeviationPx = parallel,
+                UnusedCandidates = unused,
             };
         }
     }

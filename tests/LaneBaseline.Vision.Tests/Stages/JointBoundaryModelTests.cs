@@ -1,0 +1,116 @@
+using LaneBaseline.Core.Options;
+using LaneBaseline.Core.Results;
+using LaneBaseline.Vision.Pipeline;
+using LaneBaseline.Vision.Stages.Search;
+using OpenCvSharp;
+using Xunit;
+
+namespace LaneBaseline.Vision.Tests.Stages;
+
+/// <summary>
+/// The joint multi-boundary model on constructed window centroids (bird's-eye 480x480, 16 windows of 30 rows).
+/// Source: RANSAC consensus (Fischler &amp; Bolles, CACM 24(6), 1981): the hypothesis explaining the most evidence wins
+/// and points outside the inlier distance do not influence the refit; the shared-shape model x_i = A·y² + B·y + C_i.
+/// </summary>
+public sealed class JointBoundaryModelTests
+{
+    private const double A = 1e-4, B = -0.1;
+
+    private static double Road(double y, double c) => (A * y * y) + (B * y) + c;
+
+    private static FrameWorkspace Workspace() => new(640, 360, 480, 480, 100, 64, 0.5) { WindowCount = 16 };
+
+    private static void SetCandidate(FrameWorkspace ws, int candidate, Func<double, double> x)
+    {
+        for (int k = 0; k < 16; k++)
+        {
+            double y = 480 - (30 * k) - 15;
+            ws.CandidateWindows[candidate][k] = new SearchWindow(x(y), y, 20, 0, (int)(y - 15), 1, (int)(y + 15), true);
+        }
+
+        // Its own fit: the weighted least-squares quadratic of its windows (what the candidate fitter reports).
+        double[] xs = [.. ws.CandidateWindows[candidate].Take(16).Select(w => w.X)];
+        double[] ys = [.. ws.CandidateWindows[candidate].Take(16).Select(w => w.Y)];
+        double[] wts = [.. Enumerable.Repeat(20.0, 16)];
+        Assert.True(Core.Geometry.QuadraticFit.TryFit(xs, ys, wts, default, 480, out Quadratic own));
+        ws.CandidateFits[candidate] = new LaneEstimate(0, 0.9, own, 320, 1, 1, 0);
+    }
+
+    [Fact]
+    public void AnOutlierBoundary_IsDropped_AndTheOthersKeepTheSharedShape()
+    {
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Road(y, 200));
+        SetCandidate(ws, 1, y => Road(y, 320));
+        SetCandidate(ws, 2, y => 420 + (0.4 * (479 - y))); // fans out: a streak, not a boundary of this road
+        int[] chosen = [-1, -1, 0, 1, 2, -1];
+        new JointBoundaryModel(new SearchOptions(), new FitOptions { JointRefit = true }, new ConfidenceOptions()).Refine(ws, chosen);
+        Assert.Equal(new[] { -1, -1, 0, 1, -1, -1 }, chosen);
+        Assert.Equal(A, ws.CandidateFits[0].Fit.A, 9);
+        Assert.Equal(B, ws.CandidateFits[1].Fit.B, 6);
+        Assert.Equal(200, ws.CandidateFits[0].Fit.C, 4);
+        Assert.Equal(320, ws.CandidateFits[1].Fit.C, 4);
+        Assert.Equal(1, ws.CandidateFits[1].JointShare, 9);
+    }
+
+    [Fact]
+    public void ABentBoundary_IsStraightenedByTheOthers()
+    {
+        // Boundary 1's four far windows are pulled 25 px sideways (a reflection beside a faded far end): its own
+        // least-squares fit bends towards them; the joint consensus ignores them and restores the road's shape.
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Road(y, 200));
+        SetCandidate(ws, 1, y => Road(y, 320) + (y < 120 ? 25 : 0));
+        SetCandidate(ws, 2, y => Road(y, 440));
+        double bentBefore = Math.Abs(ws.CandidateFits[1].Fit.At(15) - Road(15, 320));
+        Assert.True(bentBefore > 5, $"the constructed own fit should be bent ({bentBefore:0.0} px)");
+        int[] chosen = [-1, -1, 0, 1, 2, -1];
+        new JointBoundaryModel(new SearchOptions(), new FitOptions { JointRefit = true }, new ConfidenceOptions()).Refine(ws, chosen);
+        Assert.Equal(new[] { -1, -1, 0, 1, 2, -1 }, chosen);
+        Assert.Equal(Road(15, 320), ws.CandidateFits[1].Fit.At(15), 6);
+        Assert.Equal(0.75, ws.CandidateFits[1].JointShare, 9); // 12 of its 16 windows
+    }
+
+    [Fact]
+    public void ALoneBoundary_IsLeftAlone()
+    {
+        // Source: common practice (a shared model needs at least two members).
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => 420 + (0.4 * (479 - y)));
+        LaneEstimate before = ws.CandidateFits[0];
+        int[] chosen = [-1, -1, 0, -1, -1, -1];
+        new JointBoundaryModel(new SearchOptions(), new FitOptions { JointRefit = true }, new ConfidenceOptions()).Refine(ws, chosen);
+        Assert.Equal(0, chosen[2]);
+        Assert.Equal(before, ws.CandidateFits[0]);
+    }
+
+    [Fact]
+    public void AFaintDashedBoundary_IsFoundAlongTheJointCurve()
+    {
+        // Two dashes of a third boundary (one lane width, 120 px, right of +1), too few windows for a fit of its own:
+        // the model-guided search follows the shared shape at the predicted offset and finds it; on the left, where
+        // the road has no further paint, nothing is added. Source: constructed case of the shared-shape model.
+        using FrameWorkspace ws = Workspace();
+        ws.BirdsEye.SetTo(Scalar.All(0));
+        SetCandidate(ws, 0, y => Road(y, 200));
+        SetCandidate(ws, 1, y => Road(y, 320));
+        ws.CandidateCount = 2;
+        foreach ((int y0, int y1) in new[] { (400, 470), (250, 300) })
+        {
+            for (int y = y0; y < y1; y++)
+            {
+                double x = Road(y, 443);
+                Cv2.Line(ws.BirdsEye, new Point((int)Math.Round(x) - 2, y), new Point((int)Math.Round(x) + 2, y), Scalar.All(255));
+            }
+        }
+
+        int[] chosen = [-1, -1, 0, 1, -1, -1];
+        var model = new JointBoundaryModel(new SearchOptions(), new FitOptions(), new ConfidenceOptions());
+        model.Refine(ws, chosen);
+        model.Recover(ws, chosen, 4);
+        Assert.Equal(new[] { -1, -1, 0, 1, 2, -1 }, chosen);
+        Assert.Equal(3, ws.CandidateCount);
+        Assert.Equal(443, ws.CandidateFits[2].Fit.C, 0);
+        Assert.Equal(A, ws.CandidateFits[2].Fit.A, 9);
+    }
+}
