@@ -27,6 +27,7 @@ public static class FrameLoader
             throw BadInputException.At(path, 0, null, "image file is empty (0 bytes)");
         }
 
+        ImageIntegrity.CheckComplete(path);
         Mat mat = Cv2.ImRead(path, ImreadModes.Unchanged);
         try
         {

@@ -36,6 +36,11 @@ public static class MaskFiles
     /// <returns>The mask; the caller owns it.</returns>
     public static Mat Read(string path)
     {
+        if (File.Exists(path))
+        {
+            IO.ImageIntegrity.CheckComplete(path);
+        }
+
         Mat m = Cv2.ImRead(path, ImreadModes.Unchanged);
         try
         {
