@@ -69,7 +69,7 @@ internal sealed partial class DetectRunner
         AtomicFile.WriteAllText(path, text.ToString());
     }
 
-    /// <summary>Reads the frames already written (dropping an unterminated last line) and checks they used this configuration.</summary>
+    /// <summary>Reads the frames already written, streaming (after dropping an unterminated last line), and checks they used this configuration.</summary>
     private HashSet<string> ReadResumeState()
     {
         var done = new HashSet<string>(StringComparer.Ordinal);
@@ -78,13 +78,7 @@ internal sealed partial class DetectRunner
             return done;
         }
 
-        byte[] bytes = File.ReadAllBytes(request.Output);
-        int end = Array.LastIndexOf(bytes, (byte)'\n') + 1;
-        if (end < bytes.Length)
-        {
-            AtomicFile.WriteAllBytes(request.Output, bytes.AsSpan(0, end));
-        }
-
+        LaneFileTail.TrimUnterminatedLine(request.Output); // streamed from the end: bounded memory whatever the file size
         using var reader = LaneFileReader.Open(request.Output, sizeRequired: false);
         foreach (LaneRecord r in reader.ReadAll())
         {
