@@ -25,6 +25,9 @@ internal sealed class ByteLineReader : IDisposable
         buffer = ArrayPool<byte>.Shared.Rent(Math.Min(initialCapacity, maxLineBytes + 1));
     }
 
+    /// <summary>Bytes searched for a line end so far (each byte once: the reader is linear).</summary>
+    public long BytesSearched { get; private set; }
+
     /// <summary>Longest accepted line in bytes, without its line ending.</summary>
     public int MaxLineBytes { get; }
 
@@ -39,6 +42,7 @@ internal sealed class ByteLineReader : IDisposable
         while (true)
         {
             int found = buffer.AsSpan(start + scanned, end - start - scanned).IndexOf((byte)'\n');
+            BytesSearched += found >= 0 ? found + 1 : end - start - scanned;
             if (found >= 0)
             {
                 int nl = start + scanned + found;
