@@ -1,3 +1,4 @@
+using System.Buffers;
 using System.Buffers.Binary;
 
 namespace LaneBaseline.Core.IO;
@@ -12,17 +13,32 @@ public static class ImageHeader
     /// <summary>Most bytes read from the start of a file while looking for the size.</summary>
     public const int MaxHeaderBytes = 1 << 20;
 
+    private const int FirstReadBytes = 1 << 12;
+
     /// <summary>The size the file declares, or null when its format is not one of these or its header is cut short.</summary>
     public static (int Width, int Height)? TryRead(string path)
     {
-        byte[] head;
-        using (var stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1))
+        using var stream = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1);
+        long length = stream.Length;
+        byte[] head = ArrayPool<byte>.Shared.Rent(MaxHeaderBytes);
+        try
         {
-            head = new byte[(int)Math.Min(stream.Length, MaxHeaderBytes)];
-            stream.ReadExactly(head);
-        }
+            // 4 KiB hold the size of every format but a JPEG with large metadata segments before its frame header
+            int have = stream.ReadAtLeast(head.AsSpan(0, (int)Math.Min(length, FirstReadBytes)), (int)Math.Min(length, FirstReadBytes), throwOnEndOfStream: false);
+            (int, int)? size = TryRead(head.AsSpan(0, have));
+            if (size is null && have < length && have >= 2 && head[0] == 0xFF && head[1] == 0xD8)
+            {
+                int more = (int)Math.Min(length, MaxHeaderBytes) - have;
+                have += stream.ReadAtLeast(head.AsSpan(have, more), more, throwOnEndOfStream: false);
+                size = TryRead(head.AsSpan(0, have));
+            }
 
-        return TryRead(head);
+            return size;
+        }
+        finally
+        {
+            ArrayPool<byte>.Shared.Return(head);
+        }
     }
 
     /// <summary>The size declared by the first bytes of an image file, or null.</summary>

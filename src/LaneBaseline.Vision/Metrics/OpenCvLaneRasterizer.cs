@@ -50,7 +50,9 @@ public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
         int nt = truth.Count, np = predictions.Count, total = nt + np;
         if (nt > InputLimits.MaxLanesPerFrame || np > InputLimits.MaxLanesPerFrame || (long)width * height > InputLimits.MaxFramePixels)
         {
-            throw new ArgumentException("the frame is beyond the documented input limits (checked when the input is read)");
+            throw new BadInputException(string.Create(
+                System.Globalization.CultureInfo.InvariantCulture,
+                $"a {width}x{height} frame with {nt} truth and {np} predicted lanes is beyond the documented limits ({InputLimits.MaxLanesPerFrame} lanes, {InputLimits.MaxFramePixels} pixels per frame; docs/reliability.md)"));
         }
 
         EnsureCanvas(width, height);

@@ -143,6 +143,29 @@ public sealed class BoundedInputTests
         }
     }
 
+    // Item 11: a JPEG whose frame header comes after 60 KB of comment segments (read past the first 4 KiB).
+    // Source: ITU-T T.81 B.2.4.5 (COM segment: FF FE, length, bytes). Oracle: OpenCV decodes the same file.
+    [Fact]
+    public void JpegWithLargeSegmentsBeforeItsFrameHeader_SizeFromFile()
+    {
+        using var dir = new TempDir();
+        using var image = new Mat(123, 77, MatType.CV_8UC3, Scalar.All(60));
+        Cv2.ImEncode(".jpg", image, out byte[] jpg);
+        var bytes = new List<byte>(jpg[..2]);
+        for (int k = 0; k < 4; k++)
+        {
+            bytes.AddRange([0xFF, 0xFE, 0x3A, 0x98]); // length 15000 (including the two length bytes)
+            bytes.AddRange(Enumerable.Repeat((byte)'c', 14998));
+        }
+
+        bytes.AddRange(jpg[2..]);
+        string path = dir.File("c.jpg");
+        File.WriteAllBytes(path, [.. bytes]);
+        Assert.Equal((77, 123), ImageHeader.TryRead(path));
+        using Mat decoded = Cv2.ImRead(path);
+        Assert.Equal((decoded.Cols, decoded.Rows), ImageHeader.TryRead(path));
+    }
+
     // Item 11. Before: a small PNG declaring 30000x30000 was decoded (2.6 GB) before its size was checked. Source of
     // the layout: PNG specification (ISO/IEC 15948:2003) sec. 5.2, 5.3, 11.2.2.
     [Fact]
