@@ -142,7 +142,7 @@ public sealed class ReliabilityCommandTests : IDisposable
         foreach (string[] extra in new[] { Array.Empty<string>(), ["--follow-links"] })
         {
             string output = dir.File("d" + extra.Length.ToString(CultureInfo.InvariantCulture) + ".lanes.jsonl");
-            (int exit, _, string err) = CliRunner.Run(["detect", frames, "-o", output, .. extra]);
+            (int exit, _, string err) = CliRunner.Run(["detect", "--frames", frames, "-o", output, .. extra]);
             Assert.True(exit == 0, err);
             Assert.Single(File.ReadAllLines(output));
         }
