@@ -3,13 +3,13 @@
 FROM mcr.microsoft.com/dotnet/sdk:10.0-bookworm-slim AS build
 WORKDIR /src
 COPY . .
-RUN LANEBASELINE_NO_BROWSER=1 bash scripts/setup.sh \
+RUN LANEBASELINE_NO_BROWSER=1 LANEBASELINE_NO_TOOL=1 bash scripts/setup.sh \
  && dotnet publish src/LaneBaseline.Cli -c Release -o /app
 
 FROM mcr.microsoft.com/dotnet/runtime:10.0-bookworm-slim
 WORKDIR /src
 COPY scripts/setup.sh scripts/setup.sh
-RUN LANEBASELINE_NO_BROWSER=1 SKIP_DOTNET_CHECK=1 bash scripts/setup.sh
+RUN LANEBASELINE_NO_BROWSER=1 LANEBASELINE_NO_TOOL=1 SKIP_DOTNET_CHECK=1 bash scripts/setup.sh
 COPY --from=build /app /app
 COPY configs /app/configs
 ENTRYPOINT ["dotnet", "/app/lanebaseline.dll"]

@@ -20,8 +20,9 @@ fi
 [ "${SKIP_DOTNET_CHECK:-0}" = 1 ] || command -v dotnet >/dev/null || { echo "setup: the .NET 10 SDK is required (dotnet not on PATH)" >&2; exit 1; }
 # Put `lanebaseline` on the PATH: pack the command line of this checkout as a .NET tool and install it for the user
 # (docs/deploy.md). Set LANEBASELINE_NO_TOOL=1 to skip (e.g. machines that only run the tests).
-if [ "${LANEBASELINE_NO_TOOL:-0}" != 1 ] && command -v dotnet >/dev/null; then
-  root=$(cd "$(dirname "$0")/.." && pwd)
+root=$(cd "$(dirname "$0")/.." && pwd)
+if [ "${LANEBASELINE_NO_TOOL:-0}" != 1 ] && [ -f "$root/src/LaneBaseline.Cli/LaneBaseline.Cli.csproj" ] \
+   && command -v dotnet >/dev/null && dotnet --list-sdks 2>/dev/null | grep -q .; then
   feed="$root/out/tool"
   rm -rf "$feed"
   echo "setup: packing the lanebaseline tool" >&2

@@ -16,6 +16,7 @@ internal static class CommandRunner
         TextWriter stdout = parseResult.InvocationConfiguration.Output;
         TextWriter stderr = parseResult.InvocationConfiguration.Error;
         using RunContext run = RunContext.Begin();
+        using var spool = Core.IO.InputSpool.Begin();
         try
         {
             (int dashOutputs, int dashInputs) = SharedOptions.CountDashes(parseResult);

@@ -29,7 +29,7 @@ internal static class HelpExamples
         [
             "lanebaseline score --truth truth.lanes.jsonl --pred baseline.lanes.jsonl",
             "lanebaseline score --truth truth.lanes.jsonl --pred baseline=baseline.lanes.jsonl --pred net=net.lanes.jsonl --json score.json --min-f1 0.6",
-            "lanebaseline score --truth truth.lanes.jsonl --pred net.lanes.jsonl --json - | jq .iou_f1.mf1",
+            "lanebaseline score --truth truth.lanes.jsonl --pred net.lanes.jsonl --config score.yaml --json - > score.json",
         ],
         ["audit"] =
         [

@@ -13,7 +13,13 @@ internal sealed class NonClosingStream(Stream inner) : Stream
 
     public override long Position { get => inner.Position; set => throw new NotSupportedException(); }
 
-    public override void Flush() => inner.Flush();
+    public override void Flush()
+    {
+        if (inner.CanWrite)
+        {
+            inner.Flush();
+        }
+    }
 
     public override int Read(byte[] buffer, int offset, int count) => throw new NotSupportedException();
 
@@ -27,9 +33,9 @@ internal sealed class NonClosingStream(Stream inner) : Stream
 
     protected override void Dispose(bool disposing)
     {
-        if (disposing)
+        if (disposing && inner.CanWrite)
         {
-            inner.Flush();
+            inner.Flush(); // skipped once the owner has committed and closed it
         }
 
         base.Dispose(disposing);

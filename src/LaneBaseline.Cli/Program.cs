@@ -1,4 +1,5 @@
 using System.CommandLine;
+using System.Runtime.InteropServices;
 using LaneBaseline.Cli.Commands;
 
 namespace LaneBaseline.Cli;
@@ -6,11 +7,45 @@ namespace LaneBaseline.Cli;
 /// <summary>Entry point: builds the command tree and maps parse errors to exit code 2.</summary>
 internal static class Program
 {
+    /// <summary>How long a command may take to stop after Ctrl-C before the process ends anyway (temporaries removed).</summary>
+    private static readonly TimeSpan StopGrace = TimeSpan.FromSeconds(10);
+
     private static int Main(string[] args)
     {
         NativeLibraryResolver.Install();
+
+        // Ctrl-C / SIGTERM: cancel the command, which stops at its next check, removes its temporaries and exits 130.
+        // A second signal, or a command still running after StopGrace, ends the process at once after removing them.
+        using var interrupt = new CancellationTokenSource();
+        int signals = 0;
+        void OnSignal(PosixSignalContext context)
+        {
+            context.Cancel = true;
+            if (Interlocked.Increment(ref signals) > 1)
+            {
+                Stop();
+            }
+
+            interrupt.Cancel();
+            new Thread(() =>
+            {
+                Thread.Sleep(StopGrace);
+                Stop();
+            })
+            { IsBackground = true }.Start();
+        }
+
+        using var sigint = PosixSignalRegistration.Create(PosixSignal.SIGINT, OnSignal);
+        using var sigterm = PosixSignalRegistration.Create(PosixSignal.SIGTERM, OnSignal);
         using Stream input = Console.OpenStandardInput();
-        return Invoke(args, Console.Out, Console.Error, input);
+        return Invoke(args, Console.Out, Console.Error, input, interrupt.Token);
+    }
+
+    private static void Stop()
+    {
+        Core.IO.TemporaryFiles.DeleteAll();
+        Console.Error.WriteLine("cancelled");
+        Environment.Exit(ExitCodes.Cancelled);
     }
 
     /// <summary>Builds the root command with every subcommand.</summary>
@@ -37,7 +72,7 @@ internal static class Program
     public static int Invoke(string[] args, TextWriter output, TextWriter error) => Invoke(args, output, error, Stream.Null);
 
     /// <summary>Runs the tool with the given writers and standard input (read where an input is <c>-</c>).</summary>
-    public static int Invoke(string[] args, TextWriter output, TextWriter error, Stream input)
+    public static int Invoke(string[] args, TextWriter output, TextWriter error, Stream input, CancellationToken cancellationToken = default)
     {
         using var stdout = new TextWriterStream(output);
         using IDisposable streams = StandardStreams.Use(stdout, input);
@@ -53,7 +88,8 @@ internal static class Program
         }
 
         ParseResult parse = root.Parse(args);
-        var config = new InvocationConfiguration { Output = output, Error = error };
+        // Signals are handled in Main (the library's own handler would end the process before temporaries are removed).
+        var config = new InvocationConfiguration { Output = output, Error = error, ProcessTerminationTimeout = null };
         if (parse.Errors.Count > 0)
         {
             foreach (var e in parse.Errors)
@@ -67,7 +103,7 @@ internal static class Program
             return ExitCodes.UsageError;
         }
 
-        return parse.Invoke(config);
+        return parse.InvokeAsync(config, cancellationToken).GetAwaiter().GetResult();
     }
 
     /// <summary>System.CommandLine's own typo corrections ("Did you mean ...") for unmatched tokens, on stderr.</summary>

@@ -95,6 +95,10 @@ internal static class AuditCommand
             }
 
             string? cameraPath = parseResult.GetValue(camera), sizeText = parseResult.GetValue(size);
+            string? findingsStem = outPath is null ? null : outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? outPath[..^6] : outPath;
+            OutputPaths.Check(
+                [("--pred", parseResult.GetValue(pred)), ("--baseline", parseResult.GetValue(baseline)), ("--camera", cameraPath)],
+                [("-o", outPath), ("--partial", partialPath), ("--report", reportPath), ("--mine", m > 0 ? findingsStem + ".mine.txt" : null)]);
             var settings = new AuditSettings
             {
                 Camera = cameraPath is null ? null : CameraModel.Load(cameraPath),
@@ -145,7 +149,9 @@ internal static class AuditCommand
     internal static List<KeyValuePair<string, string>> JobOf(string predPath, string? baselinePath, string? cameraPath, AuditSettings settings, string? sizeText, int minMaskRows) =>
     [
         new("pred", predPath),
+        new("pred_sha256", ContentHash.Of(predPath)),
         new("baseline", baselinePath ?? string.Empty),
+        new("baseline_sha256", baselinePath is null ? string.Empty : ContentHash.Of(baselinePath)),
         new("camera", cameraPath ?? string.Empty),
         new("design_speed_kmh", settings.DesignSpeedKmh.ToString("R", CultureInfo.InvariantCulture)),
         new("size", sizeText ?? string.Empty),

@@ -32,6 +32,7 @@ internal static class ConvertCommand
         {
             string inPath = RunContext.Input(parseResult.GetRequiredValue(input));
             string outPath = SharedOptions.GetOutput(parseResult, output, legacyOut, stderr)!;
+            OutputPaths.Check([("INPUT", inPath), ("--reference", parseResult.GetValue(reference))], [("--output", outPath)]);
             string format = (parseResult.GetValue(to) ?? InferFormat(outPath)).ToLowerInvariant();
             if (format is not ("lanes" or "masks" or "openlabel"))
             {
@@ -140,10 +141,12 @@ internal static class ConvertCommand
                     while (source.TryRead(out LaneRecord r))
                     {
                         cancellationToken.ThrowIfCancellationRequested();
+                        // A hostile key (absolute, or with '..') is confined to the output folder like every derived path.
                         string maskKey = MaskFiles.MaskKeyFor(r.Frame);
-                        if (!written.TryAdd(maskKey, (r.Frame, r.LineNumber)))
+                        string maskPath = SafeRelativePath.Under(outPath, maskKey, null);
+                        if (!written.TryAdd(maskPath, (r.Frame, r.LineNumber)))
                         {
-                            (string first, long line) = written[maskKey];
+                            (string first, long line) = written[maskPath];
                             throw BadInputException.At(source.DisplayName, r.LineNumber, "frame", $"frame '{r.Frame}' maps to the same mask {maskKey} as frame '{first}' (line {line}); mask folders need one image per frame name without its extension");
                         }
 
@@ -155,7 +158,7 @@ internal static class ConvertCommand
 
                         int lw = maskWidth ?? new ScoreSettings().LaneWidthFor(w);
                         using Mat mask = LaneMaskPainter.Paint(sized.Lanes, w, h, lw);
-                        MaskFiles.Write(Path.Combine(outPath, maskKey), mask);
+                        MaskFiles.Write(maskPath, mask);
                         frames++;
                         lanes += r.Lanes.Count;
                     }

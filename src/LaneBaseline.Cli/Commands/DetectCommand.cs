@@ -52,7 +52,7 @@ internal static class DetectCommand
                 result.AddError(option ? "give the frames once: --frames FRAMES (the positional FRAMES is its deprecated form)" : "Option '--frames' is required.");
             }
         });
-        command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
+        command.SetAction((parse, cancellationToken) => Task.FromResult(CommandRunner.Run(parse, (stdout, stderr) =>
         {
             int n = SharedOptions.CheckThreads(parse.GetValue(threads));
             string input = parse.GetValue(frames) ?? parse.GetValue(framesArgument)!;
@@ -85,6 +85,11 @@ internal static class DetectCommand
                 throw new UsageException("--fps must be a positive frame rate");
             }
 
+            string configText = parse.GetValue(config)!;
+            (string, string?)[] inputs = [("--frames", input), ("--camera", parse.GetValue(camera)), ("--config", File.Exists(configText) ? configText : null)];
+            OutputPaths.Check(inputs, [("-o", outputPath), ("-o (its configuration)", StandardStreams.IsDash(outputPath) ? null : DetectRunner.ConfigPathFor(outputPath))]);
+            OutputPaths.Check(inputs, [("--overlays", parse.GetValue(overlays))]);
+            OutputPaths.Check(inputs, [("--stages", parse.GetValue(stagesDir))]);
             (int k, int total) = ParseShard(parse.GetValue(shard));
             var request = new DetectRequest
             {
@@ -107,14 +112,14 @@ internal static class DetectCommand
                 Camera = parse.GetValue(camera) is string cameraPath ? Core.Geometry.CameraModel.Load(cameraPath) : null,
                 CameraPath = parse.GetValue(camera),
             };
-            DetectSummary summary = new DetectRunner(request, stderr).Run();
+            DetectSummary summary = new DetectRunner(request, stderr).Run(cancellationToken);
             string where = StandardStreams.IsDash(request.Output) ? "standard output" : request.Output;
             string configNote = summary.ConfigPath is null ? "the records carry the configuration hash" : "configuration in " + summary.ConfigPath;
             stdout.WriteLine(string.Create(
                 CultureInfo.InvariantCulture,
                 $"{summary.Written} frames written to {where} ({summary.Lanes} lanes, {summary.Skipped.Count} skipped, {summary.Resumed} kept from a previous run); {configNote}"));
             return ExitCodes.Success;
-        }));
+        })));
         return command;
     }
 

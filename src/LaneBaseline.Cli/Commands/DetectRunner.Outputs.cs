@@ -19,6 +19,7 @@ internal sealed partial class DetectRunner
 {
     private void WriteImages(FrameWorkspace ws, FrameItem item)
     {
+        // Keys come from folder names, list files or video indices; SafeRelativePath keeps every image inside its folder.
         string stem = item.Key.Replace('#', '_');
         if (request.OverlaysDir is string dir)
         {
@@ -30,13 +31,13 @@ internal sealed partial class DetectRunner
                 Cv2.Resize(canvas, canvas, new Size(ws.FrameWidth, ws.FrameHeight), 0, 0, InterpolationFlags.Area);
             }
 
-            Save(Path.Combine(dir, Path.ChangeExtension(stem, ".png")), canvas);
+            Save(SafeRelativePath.Under(dir, stem, ".png"), canvas);
         }
 
         if (request.StagesDir is string sdir && item.Index % request.StagesEvery == 0)
         {
             using Mat sheet = OverlayRenderer.CreateStageSheet(ws);
-            Save(Path.Combine(sdir, Path.ChangeExtension(stem, null) + ".stages.png"), sheet);
+            Save(SafeRelativePath.Under(sdir, stem, ".stages.png"), sheet);
         }
     }
 
@@ -50,7 +51,7 @@ internal sealed partial class DetectRunner
         AtomicFile.WriteAllBytes(path, png);
     }
 
-    private void WriteConfig(string path)
+    private string ConfigText()
     {
         var text = new StringBuilder();
         text.Append("# Effective configuration of a lanebaseline detect run (preset or file: ").Append(request.ConfigSource).Append(").\n");
@@ -66,31 +67,90 @@ internal sealed partial class DetectRunner
         }
 
         text.Append(PresetLoader.ToYaml(request.Options));
-        AtomicFile.WriteAllText(path, text.ToString());
+        return text.ToString();
     }
 
-    /// <summary>Reads the frames already written, streaming (after dropping an unterminated last line), and checks they used this configuration.</summary>
-    private HashSet<string> ReadResumeState()
+    /// <summary>
+    /// Reads the frames already written to the (locked) output being continued, drops an unterminated last line, and
+    /// checks they used this configuration; leaves the stream at its end.
+    /// </summary>
+    private HashSet<string> ReadResumeState(Stream stream)
     {
         var done = new HashSet<string>(StringComparer.Ordinal);
-        if (!File.Exists(request.Output))
+        if (!stream.CanRead || !stream.CanSeek)
         {
-            return done;
+            return done; // a FIFO or device written in place has nothing to continue
         }
 
-        LaneFileTail.TrimUnterminatedLine(request.Output); // streamed from the end: bounded memory whatever the file size
-        using var reader = LaneFileReader.Open(request.Output, sizeRequired: false);
-        foreach (LaneRecord r in reader.ReadAll())
+        stream.SetLength(CompleteLinesLength(stream));
+        stream.Seek(0, SeekOrigin.Begin);
+#pragma warning disable IDISP004 // the reader owns the view it is given; ReadOnlyView leaves the AtomicFile's stream open
+        using (var reader = LaneFileReader.FromStream(new ReadOnlyView(stream), request.Output, sizeRequired: false))
+#pragma warning restore IDISP004
         {
-            string? hash = r.ExtraJson.FirstOrDefault(kv => kv.Key == "config").Value;
-            if (hash != configJson)
+            foreach (LaneRecord r in reader.ReadAll())
             {
-                throw BadInputException.At(request.Output, r.LineNumber, "config", "--resume: this record was written with another configuration (" + (hash ?? "none") + ", now " + configJson + ")");
+                string? hash = r.ExtraJson.FirstOrDefault(kv => kv.Key == "config").Value;
+                if (hash != configJson)
+                {
+                    throw BadInputException.At(request.Output, r.LineNumber, "config", "--resume: this record was written with another configuration (" + (hash ?? "none") + ", now " + configJson + ")");
+                }
+
+                done.Add(r.Frame);
+            }
+        }
+
+        stream.Seek(0, SeekOrigin.End);
+        return done;
+    }
+
+    /// <summary>The length up to and including the last line ending, found by reading backwards from the end.</summary>
+    private static long CompleteLinesLength(Stream stream)
+    {
+        byte[] block = new byte[1 << 16];
+        long end = stream.Length;
+        while (end > 0)
+        {
+            int n = (int)Math.Min(block.Length, end);
+            stream.Seek(end - n, SeekOrigin.Begin);
+            stream.ReadExactly(block, 0, n);
+            int nl = Array.LastIndexOf(block, (byte)'\n', n - 1, n);
+            if (nl >= 0)
+            {
+                return end - n + nl + 1;
             }
 
-            done.Add(r.Frame);
+            end -= n;
         }
 
-        return done;
+        return 0;
+    }
+
+    /// <summary>A read-only view that leaves the underlying stream open when disposed.</summary>
+    private sealed class ReadOnlyView(Stream inner) : Stream
+    {
+        public override bool CanRead => true;
+
+        public override bool CanSeek => false;
+
+        public override bool CanWrite => false;
+
+        public override long Length => inner.Length;
+
+        public override long Position { get => inner.Position; set => throw new NotSupportedException(); }
+
+        public override void Flush()
+        {
+        }
+
+        public override int Read(byte[] buffer, int offset, int count) => inner.Read(buffer, offset, count);
+
+        public override int Read(Span<byte> buffer) => inner.Read(buffer);
+
+        public override long Seek(long offset, SeekOrigin origin) => throw new NotSupportedException();
+
+        public override void SetLength(long value) => throw new NotSupportedException();
+
+        public override void Write(byte[] buffer, int offset, int count) => throw new NotSupportedException();
     }
 }

@@ -53,7 +53,7 @@ internal sealed partial class DetectRunner
         return name + ".config.yaml";
     }
 
-    public DetectSummary Run()
+    public DetectSummary Run(CancellationToken cancellationToken = default)
     {
         bool video = FrameListing.IsVideo(request.Input);
         IReadOnlyList<FrameItem>? images = null;
@@ -72,12 +72,14 @@ internal sealed partial class DetectRunner
             Directory.CreateDirectory(outDir); // a missing output folder is created, as for every output
         }
 
-        HashSet<string> done = request.Resume ? ReadResumeState() : [];
+        // The lane file is written to a locked temporary beside it and renamed at the end, so a failed or
+        // interrupted run leaves the old file as it was; --resume continues what a killed run left in the temporary
+        // (or the old file), byte for byte. The configuration file is renamed into place right after it.
+        using AtomicFile output = request.Resume ? AtomicFile.Resume(request.Output) : new AtomicFile(request.Output);
+        HashSet<string> done = request.Resume ? ReadResumeState(output.Stream) : [];
         string? configPath = toStdout ? null : ConfigPathFor(request.Output);
-        if (configPath is not null)
-        {
-            WriteConfig(configPath);
-        }
+        using AtomicFile? configFile = configPath is null ? null : new AtomicFile(configPath);
+        configFile?.Writer.Write(ConfigText());
 
         int threads = request.Options.Tracking.Enabled ? 1 : request.Threads;
         if (request.Options.Tracking.Enabled && request.Threads > 1)
@@ -85,8 +87,8 @@ internal sealed partial class DetectRunner
             stderr.WriteLine("detect: tracking is on, so frames form one sequence and run on one thread");
         }
 
-#pragma warning disable IDISP004 // the writer owns the stream it is given
-        using var writer = new LaneFileWriter(OpenOutput());
+#pragma warning disable IDISP004 // the writer owns the stream it is given; NonClosingStream only forwards to the AtomicFile's
+        using var writer = new LaneFileWriter(new NonClosingStream(output.Stream));
 #pragma warning restore IDISP004
         var skipped = new List<string>();
         int written = 0, lanes = 0;
@@ -94,7 +96,7 @@ internal sealed partial class DetectRunner
         int total = images?.Count ?? -1;
         var clock = Stopwatch.StartNew();
         using var progress = new ProgressDisplay("detect", "frames", stderr);
-        using var cancel = new CancellationTokenSource();
+        using var cancel = CancellationTokenSource.CreateLinkedTokenSource(cancellationToken);
         using var queue = new BlockingCollection<Work>(Math.Max(2, 2 * threads));
         var results = new ConcurrentDictionary<int, Outcome>();
         var timings = new ConcurrentQueue<double[]>();
@@ -132,7 +134,7 @@ internal sealed partial class DetectRunner
                 queue.CompleteAdding();
                 resultReady.Release();
             }
-        });
+        }, CancellationToken.None); // they stop through the linked token
 
         var workers = new Task[threads];
         for (int t = 0; t < threads; t++)
@@ -160,7 +162,7 @@ internal sealed partial class DetectRunner
                 catch (OperationCanceledException)
                 {
                 }
-            });
+            }, CancellationToken.None); // they stop through the linked token
         }
 
         Exception? fatal = null;
@@ -194,13 +196,14 @@ internal sealed partial class DetectRunner
                     continue;
                 }
 
+                cancellationToken.ThrowIfCancellationRequested();
                 int p = Volatile.Read(ref produced);
                 if (p >= 0 && next >= p && results.IsEmpty)
                 {
                     break;
                 }
 
-                resultReady.Wait(TimeSpan.FromMilliseconds(200));
+                resultReady.Wait(TimeSpan.FromMilliseconds(200), CancellationToken.None); // the token is checked at the top of the loop
             }
         }
         finally
@@ -231,6 +234,11 @@ internal sealed partial class DetectRunner
             throw new InvalidOperationException(fatal.Message, fatal);
         }
 
+        cancellationToken.ThrowIfCancellationRequested();
+        output.Commit(); // every record was flushed as written
+
+        configFile?.Commit();
+
         double msPerFrame = written > 0 ? TimeSpan.FromTicks(pipelineTicks).TotalMilliseconds / written : 0;
         stderr.WriteLine(string.Create(
             CultureInfo.InvariantCulture,
@@ -246,22 +254,6 @@ internal sealed partial class DetectRunner
         }
 
         return new DetectSummary(written, lanes, done.Count, skipped, configPath, msPerFrame);
-    }
-
-    /// <summary>
-    /// The lane file is streamed record by record (flushed each, so --resume can continue a killed run): standard output
-    /// for <c>-</c>, a FIFO or device in place, else the file (appended with --resume).
-    /// </summary>
-    private Stream OpenOutput()
-    {
-        if (StandardStreams.IsDash(request.Output))
-        {
-            return new NonClosingStream(StandardStreams.Output);
-        }
-
-        OutputTarget target = OutputTarget.Resolve(request.Output);
-        FileMode mode = target.InPlace ? FileMode.Open : request.Resume ? FileMode.Append : FileMode.Create;
-        return new FileStream(target.Path, mode, FileAccess.Write, FileShare.Read, 1 << 16);
     }
 
     private sealed record Work(int Sequence, FrameItem Item, Mat? Decoded);

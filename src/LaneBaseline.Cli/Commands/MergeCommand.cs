@@ -42,6 +42,10 @@ internal static class MergeCommand
             string[] paths = parseResult.GetRequiredValue(inputs);
             string outPath = parseResult.GetRequiredValue(output);
             int threadCount = SharedOptions.CheckThreads(parseResult.GetValue(threads));
+            string outStem = outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? outPath[..^6] : outPath;
+            OutputPaths.Check(
+                [.. paths.Select(p => ("input", (string?)p))],
+                [("-o", outPath), ("--csv", parseResult.GetValue(csv)), ("--mask-iou-csv", parseResult.GetValue(maskCsv)), ("--report", parseResult.GetValue(report)), ("--mine", parseResult.GetValue(mine) > 0 ? outStem + ".mine.txt" : null)]);
             InputKind[] kinds = [.. paths.Select(KindOf)];
             if (kinds.Distinct().Count() > 1)
             {
@@ -144,7 +148,7 @@ internal static class MergeCommand
             throw BadInputException.At(path, 0, null, Directory.Exists(path) ? "is a directory" : "file not found");
         }
 
-        using var stream = File.OpenRead(path);
+        using var stream = File.OpenRead(InputSpool.ReadablePath(path));
         var head = new byte[64];
         int n = stream.Read(head, 0, head.Length);
         ReadOnlySpan<byte> span = head.AsSpan(0, n);

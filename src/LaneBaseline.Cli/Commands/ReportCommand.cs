@@ -29,6 +29,9 @@ internal static class ReportCommand
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
+            OutputPaths.Check(
+                [("--score", parseResult.GetValue(score)), ("--audit", parseResult.GetValue(audit)), ("--bench", parseResult.GetValue(bench)), ("--truth", parseResult.GetValue(truth)), .. OutputPaths.Preds(parseResult.GetValue(pred))],
+                [("--output", parseResult.GetValue(output))]);
             string? scorePath = parseResult.GetValue(score);
             string? auditPath = parseResult.GetValue(audit);
             if (scorePath is null && auditPath is null)

@@ -52,6 +52,9 @@ internal static class ScoreCommand
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
+            OutputPaths.Check(
+                [("--truth", parseResult.GetValue(truth)), .. OutputPaths.Preds(parseResult.GetValue(pred)), ("--camera", parseResult.GetValue(camera))],
+                [("--json", parseResult.GetValue(json)), ("--csv", parseResult.GetValue(csv)), ("--report", parseResult.GetValue(report)), ("--partial", parseResult.GetValue(partial)), ("--mask-iou-csv", parseResult.GetValue(maskCsv))]);
             var settings = new ScoreSettings
             {
                 LaneWidthPx = parseResult.GetValue(laneWidth),
@@ -211,6 +214,7 @@ internal static class ScoreCommand
                         Resamples = request.Resamples,
                         Seed = request.Seed,
                         MaskIou = maskIou,
+                        InputHashes = [ContentHash.Of(request.TruthPath), .. request.Systems.Select(s => ContentHash.Of(s.Path))],
                     });
 #pragma warning restore IDISP004, IDISP003
                 },

@@ -46,10 +46,11 @@ internal static class ScoreOutputWriter
             }
         }
 
-        csvFile?.Commit();
-        if (request.JsonPath is not null)
+        // Every output is prepared before the first is committed: the page (which reads every gallery image and can
+        // fail on a bad one) is written last-but-one and the CSV and JSON are renamed into place only after it.
+        using AtomicFile? jsonFile = request.JsonPath is null ? null : new AtomicFile(request.JsonPath);
+        if (jsonFile is not null)
         {
-            using var jsonFile = new AtomicFile(request.JsonPath);
             if (RunContext.ReadStdin)
             {
                 // The settings name the inputs: standard input is named '-', not its private temporary copy.
@@ -61,8 +62,6 @@ internal static class ScoreOutputWriter
             {
                 ScoreJsonWriter.Write(jsonFile.Stream, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]));
             }
-
-            jsonFile.Commit();
         }
 
         if (request.Report is (string reportPath, var framesDir))
@@ -74,6 +73,9 @@ internal static class ScoreOutputWriter
             ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", null, gallery, DateTimeOffset.UtcNow, CancellationToken.None);
             stderr.WriteLine("score: wrote report " + reportPath);
         }
+
+        csvFile?.Commit();
+        jsonFile?.Commit();
 
         if (request.MinF1 is double gate)
         {

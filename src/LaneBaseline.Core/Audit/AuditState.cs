@@ -171,6 +171,22 @@ public static class AuditStateMerge
             headers.Add(Read(path, frames, findings, ordinals));
         }
 
+        for (int i = 1; i < headers.Count; i++)
+        {
+            // Name the first setting that differs (a content hash: the same path held other contents).
+            foreach (KeyValuePair<string, string> kv in headers[0].Job)
+            {
+                string? other = headers[i].JobValue(kv.Key);
+                if (other is not null && !string.Equals(other, kv.Value, StringComparison.Ordinal))
+                {
+                    string what = kv.Key.EndsWith("_sha256", StringComparison.Ordinal)
+                        ? $"belongs to a different audit job than {paths[0]}: it was made from different contents of {headers[0].JobValue(kv.Key[..^7])} ({other} vs {kv.Value}); re-run every shard on the same inputs"
+                        : $"belongs to a different audit job than {paths[0]}: its {kv.Key} is '{other}' where that state's is '{kv.Value}'";
+                    throw BadInputException.At(paths[i], 1, kv.Key, what);
+                }
+            }
+        }
+
         ShardCoverage.Check(paths, [.. headers.Select(h => (h.Shard, h.JobKey()))], "audit ", "inputs, settings, input frames or shard count");
         AuditStateHeader first = headers[0];
         long audited = headers.Sum(h => h.Frames), compared = headers.Sum(h => h.ComparedFrames);
@@ -191,7 +207,7 @@ public static class AuditStateMerge
         string? key = null;
         try
         {
-            using var reader = new StreamReader(path, new System.Text.UTF8Encoding(false, true));
+            using var reader = new StreamReader(IO.InputSpool.ReadablePath(path), new System.Text.UTF8Encoding(false, true));
             while (reader.ReadLine() is string text)
             {
                 line++;
@@ -295,6 +311,11 @@ public static class AuditStateMerge
                         break;
                     default:
                         throw BadInputException.At(path, line, "t", $"unknown line type '{kind}' (frame or finding)");
+                }
+
+                if (!header.Shard.ContainsFrame(frame))
+                {
+                    throw BadInputException.At(path, line, "frame", $"frame '{frame}' does not belong to shard {header.Shard} (a foreign frame key)");
                 }
             }
         }

@@ -101,7 +101,7 @@ public sealed class OpenLabelSource : ILaneRecordSource
         JsonDocument doc;
         try
         {
-            using FileStream s = File.OpenRead(path);
+            using FileStream s = File.OpenRead(IO.InputSpool.ReadablePath(path));
             doc = JsonDocument.Parse(s, new JsonDocumentOptions { MaxDepth = 64 });
         }
         catch (JsonException ex)

@@ -3,7 +3,8 @@ namespace LaneBaseline.Core.LaneFiles;
 /// <summary>
 /// Merges lane files written by sharded runs into the file one unsharded run writes: records are copied verbatim
 /// (byte for byte) in ascending ordinal order of their frame keys, the order in which <c>detect</c> visits a folder.
-/// Each input must already be in that order; a frame present in two inputs is an error.
+/// Each input must already be in that order; a frame present in two inputs is an error, and so are records of
+/// different detect configurations (their <c>config</c> hashes differ: shards run with different presets).
 /// </summary>
 public static class LaneFileMerge
 {
@@ -28,6 +29,7 @@ public static class LaneFileMerge
 
             string? last = null;
             long count = 0;
+            (string Hash, string File)? config = null;
             while (true)
             {
                 int best = -1;
@@ -54,6 +56,19 @@ public static class LaneFileMerge
                         string.Equals(rec.Frame, last, StringComparison.Ordinal)
                             ? $"frame '{rec.Frame}' appears in more than one input"
                             : $"frame '{rec.Frame}' is out of order (inputs must be sorted by frame key, as detect writes them)");
+                }
+
+                if (rec.ExtraJson.FirstOrDefault(kv => kv.Key == "config").Value is string hash)
+                {
+                    config ??= (hash, inputs[best]);
+                    if (!string.Equals(hash, config.Value.Hash, StringComparison.Ordinal))
+                    {
+                        throw BadInputException.At(
+                            inputs[best],
+                            rec.LineNumber,
+                            "config",
+                            $"frame '{rec.Frame}' was detected with configuration {hash} but {config.Value.File} with {config.Value.Hash}: shards of one run must use one preset");
+                    }
                 }
 
                 output.Write(raw);

@@ -53,7 +53,7 @@ public sealed class LaneFileReader : ILaneRecordSource
 
         try
         {
-            return new LaneFileReader(path, new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16, FileOptions.SequentialScan), sizeRequired)
+            return new LaneFileReader(path, new FileStream(IO.InputSpool.ReadablePath(path), FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16, FileOptions.SequentialScan), sizeRequired)
             {
                 KeepRawLine = keepRawLine,
             };

@@ -38,6 +38,12 @@ public sealed record ScoreStateHeader
     /// <summary>Whether the state also carries mask IoU (truth and every prediction are mask folders).</summary>
     public bool MaskIou { get; init; }
 
+    /// <summary>
+    /// Content hashes (<see cref="IO.ContentHash"/>) of the truth and each system's predictions, in that order; empty in
+    /// states written before they were recorded. <c>merge</c> refuses states whose inputs had different contents.
+    /// </summary>
+    public IReadOnlyList<string> InputHashes { get; init; } = [];
+
     /// <summary>Canonical JSON of everything but the shard index (equal for every shard of one job).</summary>
     public string JobKey()
     {
@@ -121,6 +127,17 @@ public sealed class ScoreStateWriter : IDisposable
             if (header.MaskIou)
             {
                 json.WriteBoolean("mask_iou", true);
+            }
+
+            if (header.InputHashes.Count > 0)
+            {
+                json.WriteStartArray("input_sha256");
+                foreach (string h in header.InputHashes)
+                {
+                    json.WriteStringValue(h);
+                }
+
+                json.WriteEndArray();
             }
 
             json.WriteEndObject();
@@ -327,7 +344,7 @@ public sealed class ScoreStateReader : IDisposable
             throw BadInputException.At(path, 0, null, Directory.Exists(path) ? "is a directory, expected a score state file" : "file not found");
         }
 
-        var reader = new StreamReader(path, new UTF8Encoding(false, true));
+        var reader = new StreamReader(IO.InputSpool.ReadablePath(path), new UTF8Encoding(false, true));
         try
         {
             string? first = reader.ReadLine();
@@ -378,6 +395,21 @@ public sealed class ScoreStateReader : IDisposable
             string frame = r.GetProperty("frame").GetString()!;
             string[] tags = [.. r.GetProperty("tags").EnumerateArray().Select(t => t.GetString()!)];
             int w = r.GetProperty("w").GetInt32(), h = r.GetProperty("h").GetInt32();
+            if (w <= 0 || h <= 0)
+            {
+                throw BadInputException.At(path, line, "w", string.Create(CultureInfo.InvariantCulture, $"frame '{frame}' has size {w}x{h}; sizes are positive"));
+            }
+
+            if (ordinal < 0 || ordinal >= Header.TruthFrames)
+            {
+                throw BadInputException.At(path, line, "o", string.Create(CultureInfo.InvariantCulture, $"ordinal {ordinal} of frame '{frame}' is outside the truth's {Header.TruthFrames} frames"));
+            }
+
+            if (!Header.Shard.ContainsFrame(frame))
+            {
+                throw BadInputException.At(path, line, "frame", $"frame '{frame}' does not belong to shard {Header.Shard} (a foreign frame key)");
+            }
+
             var row = new List<FrameScore>();
             foreach (JsonElement s in r.GetProperty("s").EnumerateArray())
             {
@@ -399,6 +431,10 @@ public sealed class ScoreStateReader : IDisposable
                     throw BadInputException.At(path, line, "s.tp", "counts are negative or exceed the lane counts");
                 }
 
+                double[] ious = [.. s.GetProperty("iou").EnumerateArray().Select(v => v.GetDouble())];
+                double acc = s.GetProperty("acc").GetDouble();
+                int matched = s.GetProperty("m").GetInt32();
+                CheckConsistent(frame, nt, np, ious, acc, matched, ctp, cp);
                 double[] laneScores = s.TryGetProperty("ps", out JsonElement ps) ? [.. ps.EnumerateArray().Select(v => v.GetDouble())] : [];
                 bool[] laneHits = s.TryGetProperty("ph", out JsonElement ph) ? [.. ph.EnumerateArray().Select(v => v.GetInt32() != 0)] : [];
                 if (laneScores.Length != laneHits.Length || laneScores.Length > np)
@@ -416,9 +452,9 @@ public sealed class ScoreStateReader : IDisposable
                     TruthLanes = nt,
                     PredLanes = np,
                     TruePositives = tp,
-                    AssignedIous = [.. s.GetProperty("iou").EnumerateArray().Select(v => v.GetDouble())],
-                    PointAccuracySum = s.GetProperty("acc").GetDouble(),
-                    PointMatched = s.GetProperty("m").GetInt32(),
+                    AssignedIous = ious,
+                    PointAccuracySum = acc,
+                    PointMatched = matched,
                     ConfidenceTruePositives = ctp,
                     ConfidencePredLanes = cp,
                     HasConfidence = s.GetProperty("conf").GetBoolean(),
@@ -442,6 +478,33 @@ public sealed class ScoreStateReader : IDisposable
     }
 
     private static int[] Ints(JsonElement e) => [.. e.EnumerateArray().Select(v => v.GetInt32())];
+
+    /// <summary>
+    /// The per-frame counts must be ones a scorer can produce (a hand-edited state could otherwise give an accuracy of
+    /// 1e9): at most min(truth, predicted) assigned pairs, IoUs in [0, 1], a point-accuracy sum in [0, pairs], and
+    /// per-cut-off counts within the lane counts.
+    /// </summary>
+    private void CheckConsistent(string frame, int nt, int np, double[] ious, double acc, int matched, int[] ctp, int[] cp)
+    {
+        int pairs = Math.Min(nt, np);
+        if (ious.Length > pairs || ious.Any(v => !(v >= 0 && v <= 1)))
+        {
+            throw BadInputException.At(path, line, "s.iou", $"frame '{frame}': {ious.Length.ToString(CultureInfo.InvariantCulture)} assigned IoUs for {nt.ToString(CultureInfo.InvariantCulture)} truth and {np.ToString(CultureInfo.InvariantCulture)} predicted lanes, or an IoU outside [0, 1]");
+        }
+
+        if (matched < 0 || matched > pairs || !(acc >= 0 && acc <= pairs + 1e-9))
+        {
+            throw BadInputException.At(path, line, "s.acc", string.Create(CultureInfo.InvariantCulture, $"frame '{frame}': point accuracy sum {acc} with {matched} matched lanes is impossible (each assigned pair's accuracy is in [0, 1] and there are at most {pairs} pairs)"));
+        }
+
+        for (int k = 0; k < cp.Length; k++)
+        {
+            if (cp[k] < 0 || cp[k] > np || ctp[k] < 0 || ctp[k] > Math.Min(cp[k], nt))
+            {
+                throw BadInputException.At(path, line, "s.ctp", $"frame '{frame}': confidence cut-off counts exceed the lane counts");
+            }
+        }
+    }
 
     private string? ReadLine()
     {
@@ -560,11 +623,12 @@ public sealed class ScoreStateReader : IDisposable
                     Camera = r.TryGetProperty("camera", out JsonElement cam) ? Geometry.CameraModel.Parse(cam.GetString()!, path + " (camera)") : null,
                 },
                 MaskIou = r.TryGetProperty("mask_iou", out JsonElement mi) && mi.GetBoolean(),
+                InputHashes = r.TryGetProperty("input_sha256", out JsonElement ih) ? [.. ih.EnumerateArray().Select(v => v.GetString()!)] : [],
                 Resamples = r.GetProperty("bootstrap").GetInt32(),
                 Seed = r.GetProperty("seed").GetUInt64(),
             };
         }
-        catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException)
+        catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException or ArgumentException or OverflowException)
         {
             throw BadInputException.At(path, 1, null, "not a score state header: " + ex.Message);
         }
@@ -579,6 +643,30 @@ public sealed class ScoreStateReader : IDisposable
 /// <summary>Merges partial score states of shards 0..N−1 back into the results of one unsharded run.</summary>
 public static class ScoreStateMerge
 {
+    /// <summary>Refuses states whose inputs (same paths) had different contents, naming the input and both states.</summary>
+    private static void CheckSameContents(IReadOnlyList<string> paths, IReadOnlyList<ScoreStateHeader> headers)
+    {
+        ScoreStateHeader h0 = headers[0];
+        string[] names = [h0.Truth, .. h0.Systems.Select(s => s.Path)];
+        for (int i = 1; i < headers.Count; i++)
+        {
+            IReadOnlyList<string> a = h0.InputHashes, b = headers[i].InputHashes;
+            if (a.Count != b.Count)
+            {
+                throw BadInputException.At(paths[i], 1, "input_sha256", $"records {b.Count.ToString(CultureInfo.InvariantCulture)} input hashes where {paths[0]} records {a.Count.ToString(CultureInfo.InvariantCulture)} (states of different jobs or versions)");
+            }
+
+            for (int k = 0; k < a.Count; k++)
+            {
+                if (!string.Equals(a[k], b[k], StringComparison.Ordinal))
+                {
+                    string input = k < names.Length ? names[k] : "input " + k.ToString(CultureInfo.InvariantCulture);
+                    throw BadInputException.At(paths[i], 1, "input_sha256", $"was made from different contents of {input} than {paths[0]} ({b[k]} vs {a[k]}); re-run every shard on the same inputs");
+                }
+            }
+        }
+    }
+
     /// <summary>
     /// Checks that the states belong to one job and cover every shard once, then replays their frames in truth
     /// order (a k-way merge on the frame ordinal; each state is already in that order).
@@ -605,6 +693,7 @@ public static class ScoreStateMerge
             }
 
             ScoreStateHeader h0 = readers[0].Header;
+            CheckSameContents(paths, [.. readers.Select(r => r.Header)]);
             ShardCoverage.Check(paths, [.. readers.Select(r => (r.Header.Shard, r.Header.JobKey()))], string.Empty, "truth, systems, settings or shard count");
 
             onHeader?.Invoke(h0);

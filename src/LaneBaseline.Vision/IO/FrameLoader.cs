@@ -29,6 +29,7 @@ public static class FrameLoader
         }
 
         CheckDeclaredSize(path, limits.MaxWidthPx, limits.MaxHeightPx, "limits.* in the preset");
+        ImageIntegrity.CheckComplete(path);
         Mat mat = Cv2.ImRead(path, ImreadModes.Unchanged);
         try
         {

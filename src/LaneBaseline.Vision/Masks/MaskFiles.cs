@@ -41,6 +41,11 @@ public static class MaskFiles
     public static Mat Read(string path)
     {
         IO.FrameLoader.CheckDeclaredSize(path, MaxSidePx, MaxSidePx, "the mask limit");
+        if (File.Exists(path))
+        {
+            IO.ImageIntegrity.CheckComplete(path);
+        }
+
         Mat m = Cv2.ImRead(path, ImreadModes.Unchanged);
         try
         {

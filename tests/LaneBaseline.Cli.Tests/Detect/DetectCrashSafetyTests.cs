@@ -7,7 +7,8 @@ using Xunit;
 namespace LaneBaseline.Cli.Tests.Detect;
 
 // Issue requirement (crash safety): a detect process killed with SIGKILL at random points and then resumed yields
-// the identical lane file; Ctrl-C (SIGINT) stops with exit 130 and leaves a valid prefix.
+// the identical lane file; Ctrl-C (SIGINT) stops with exit 130, leaves the old output as it was and removes its
+// temporary (issue 17, items 6 and 14). A killed run's records are in OUT.tmp, which --resume continues.
 public sealed class DetectCrashSafetyTests : IDisposable
 {
     private readonly TempDir dir = new();
@@ -37,27 +38,32 @@ public sealed class DetectCrashSafetyTests : IDisposable
                 p.WaitForExit(30_000);
             }
 
-            if (File.Exists(part))
+            Assert.False(File.Exists(part)); // renamed into place only when complete
+            if (File.Exists(part + ".tmp"))
             {
-                AssertValidPrefix(part, expected);
+                AssertValidPrefix(part + ".tmp", expected);
             }
 
             Assert.Equal(0, CliRunner.Run("detect", frames, "-o", part, "--threads", "1", "--resume").Exit);
             Assert.Equal(expected, File.ReadAllBytes(part));
+            Assert.False(File.Exists(part + ".tmp"));
         }
     }
 
     [Fact]
-    public void Detect_Interrupted_Exits130_WithValidPrefix()
+    public void Detect_Interrupted_Exits130_KeepsTheOldOutput_RemovesTheTemporary()
     {
         string frames = RenderFrames();
         string full = dir.File("full.lanes.jsonl");
         Assert.Equal(0, CliRunner.Run("detect", frames, "-o", full, "--threads", "1").Exit);
         string part = dir.File("part.lanes.jsonl");
+        byte[] old = "{\"frame\":\"old.png\",\"lanes\":[]}\n"u8.ToArray();
+        File.WriteAllBytes(part, old);
+        string temp = part + ".tmp";
         using Process p = Start(frames, part);
-        // Wait until the run is under way (first record written), then send SIGINT.
+        // Wait until the run is under way (first record written to the temporary), then send SIGINT.
         var clock = Stopwatch.StartNew();
-        while (!p.HasExited && (!File.Exists(part) || new FileInfo(part).Length == 0) && clock.ElapsedMilliseconds < 60_000)
+        while (!p.HasExited && (!File.Exists(temp) || new FileInfo(temp).Length == 0) && clock.ElapsedMilliseconds < 60_000)
         {
             Thread.Sleep(20);
         }
@@ -73,8 +79,15 @@ public sealed class DetectCrashSafetyTests : IDisposable
         }
 
         Assert.True(p.WaitForExit(30_000));
-        Assert.True(p.ExitCode is 130 or 0, $"exit {p.ExitCode}");
-        AssertValidPrefix(part, File.ReadAllBytes(full));
+        if (p.ExitCode == 0)
+        {
+            return; // it finished between the check and the signal
+        }
+
+        Assert.Equal(130, p.ExitCode);
+        Assert.Equal(old, File.ReadAllBytes(part));
+        Assert.False(File.Exists(temp));
+        Assert.False(File.Exists(dir.File("part.config.yaml")));
     }
 
     private static void AssertValidPrefix(string path, byte[] expected)

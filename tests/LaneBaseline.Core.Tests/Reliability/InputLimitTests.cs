@@ -103,20 +103,6 @@ public sealed class InputLimitTests
         Assert.InRange(lines.BytesSearched, Length, Length + 1);
     }
 
-    // Item 12 (--resume): the unfinished last record is cut off by reading backwards, whatever the file size.
-    [Fact]
-    public void TrimUnterminatedLine_KeepsCompleteRecordsOnly()
-    {
-        using var dir = new TempDir();
-        string path = dir.File("o.lanes.jsonl");
-        string complete = string.Concat(Enumerable.Repeat(Line(3), 3000)); // > 64 KiB, so the search crosses chunks
-        string cut = "{\"frame\":\"late\",\"lanes\":[{\"poi" + new string(' ', 70000);
-        File.WriteAllText(path, complete + cut);
-        Assert.Equal(Encoding.UTF8.GetByteCount(cut), LaneFileTail.TrimUnterminatedLine(path));
-        Assert.Equal(complete, File.ReadAllText(path));
-        Assert.Equal(0, LaneFileTail.TrimUnterminatedLine(path));
-    }
-
     // Item 13. Before: Utf8JsonReader.GetString threw InvalidOperationException (exit 1, a stack trace with
     // LANEBASELINE_DEBUG). Source: RFC 8259 sec. 8.2 (an unpaired surrogate escape is not a Unicode character).
     [Theory]

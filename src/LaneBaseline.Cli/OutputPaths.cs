@@ -1,0 +1,82 @@
+namespace LaneBaseline.Cli;
+
+/// <summary>
+/// Refuses, before any work, an output that is also an input (<c>score --json T</c> where T is the truth,
+/// <c>merge s0 s1 -o s0</c>) and one file named by two outputs (<c>--json x --csv x</c>): usage errors, exit 2. Paths
+/// are compared by their full resolved path (symbolic links followed) and, when both exist, by device and inode
+/// (hard links). <c>-</c> (standard input or output) and FIFOs or devices such as <c>/dev/stdout</c> are exempt: they
+/// are streams, not files that could be overwritten.
+/// </summary>
+internal static class OutputPaths
+{
+    /// <summary>Checks <paramref name="outputs"/> against <paramref name="inputs"/> and each other; nulls are skipped.</summary>
+    public static void Check(IEnumerable<(string Option, string? Path)> inputs, IEnumerable<(string Option, string? Path)> outputs)
+    {
+        var seenInputs = Resolve(inputs);
+        var seenOutputs = new List<(string Option, string Path, FileIdentity? Id)>();
+        foreach ((string option, string path, FileIdentity? id) in Resolve(outputs))
+        {
+            if (id is { IsStream: true })
+            {
+                continue;
+            }
+
+            foreach ((string inOption, string inPath, FileIdentity? inId) in seenInputs)
+            {
+                if (Same(path, id, inPath, inId))
+                {
+                    throw new UsageException($"{option} {path} would overwrite the input given as {inOption}; choose another output path");
+                }
+            }
+
+            foreach ((string outOption, string outPath, FileIdentity? outId) in seenOutputs)
+            {
+                if (Same(path, id, outPath, outId))
+                {
+                    throw new UsageException($"{outOption} and {option} both write {path}; give each output its own path");
+                }
+            }
+
+            seenOutputs.Add((option, path, id));
+        }
+    }
+
+    /// <summary>The files of <c>--pred [NAME=]FILE</c> values, without reading anything (standard input stays <c>-</c>).</summary>
+    public static IEnumerable<(string Option, string? Path)> Preds(string[]? values)
+    {
+        foreach (string v in values ?? [])
+        {
+            int eq = v.IndexOf('=', StringComparison.Ordinal);
+            yield return ("--pred", eq > 0 && v[..eq].IndexOfAny(['/', '\\']) < 0 ? v[(eq + 1)..] : v);
+        }
+    }
+
+    private static List<(string Option, string Path, FileIdentity? Id)> Resolve(IEnumerable<(string Option, string? Path)> paths)
+    {
+        var list = new List<(string, string, FileIdentity?)>();
+        foreach ((string option, string? path) in paths)
+        {
+            if (path is null || path == "-" || path.Length == 0)
+            {
+                continue;
+            }
+
+            string full;
+            try
+            {
+                full = OutputTarget.Resolve(path).Path;
+            }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or ArgumentException)
+            {
+                full = System.IO.Path.GetFullPath(path);
+            }
+
+            list.Add((option, full, FileIdentity.Of(full)));
+        }
+
+        return list;
+    }
+
+    private static bool Same(string a, FileIdentity? aId, string b, FileIdentity? bId) =>
+        aId is { } x && bId is { } y ? x.Device == y.Device && x.Inode == y.Inode : string.Equals(a, b, StringComparison.Ordinal);
+}
