@@ -34,13 +34,23 @@ internal static class CommandRunner
         }
         catch (BadInputException ex)
         {
-            stderr.WriteLine("error: " + run.Clean(ex.Message));
+            stderr.WriteLine("error: " + OneLine(run.Clean(ex.Message)));
             return ExitCodes.InputError;
         }
         catch (UsageException ex)
         {
-            stderr.WriteLine("usage error: " + run.Clean(ex.Message));
+            stderr.WriteLine("usage error: " + OneLine(run.Clean(ex.Message)));
             return ExitCodes.UsageError;
+        }
+        catch (IOException ex) when (IsDiskFull(ex))
+        {
+            stderr.WriteLine("error: no space left on the device while writing (" + OneLine(run.Clean(ex.Message)) + "); no output was committed");
+            return ExitCodes.InputError;
+        }
+        catch (OpenCvSharp.OpenCVException ex)
+        {
+            stderr.WriteLine("error: " + OneLine(TranslateOpenCv(ex)));
+            return ExitCodes.InputError;
         }
         catch (OperationCanceledException)
         {
@@ -51,7 +61,7 @@ internal static class CommandRunner
         catch (Exception ex)
 #pragma warning restore CA1031
         {
-            stderr.WriteLine("internal error: " + ex.GetType().Name + ": " + ex.Message);
+            stderr.WriteLine("internal error: " + ex.GetType().Name + ": " + OneLine(ex.Message));
             if (Environment.GetEnvironmentVariable("LANEBASELINE_DEBUG") == "1")
             {
                 stderr.WriteLine(ex.ToString());
@@ -59,6 +69,51 @@ internal static class CommandRunner
 
             return ExitCodes.InternalError;
         }
+    }
+
+    /// <summary>
+    /// One printable line: control characters (C0, DEL, C1; a hostile frame key may carry terminal escapes or line
+    /// breaks) and lone surrogates are shown as <c>\uXXXX</c>, so the message stays one line and cannot drive the terminal.
+    /// </summary>
+    internal static string OneLine(string message)
+    {
+        var text = new System.Text.StringBuilder(message.Length);
+        for (int i = 0; i < message.Length; i++)
+        {
+            char c = message[i];
+            bool pair = char.IsHighSurrogate(c) && i + 1 < message.Length && char.IsLowSurrogate(message[i + 1]);
+            if (pair)
+            {
+                text.Append(c).Append(message[++i]);
+            }
+            else if (char.IsControl(c) || char.IsSurrogate(c))
+            {
+                text.Append("\\u").Append(((int)c).ToString("X4", System.Globalization.CultureInfo.InvariantCulture));
+            }
+            else
+            {
+                text.Append(c);
+            }
+        }
+
+        return text.ToString();
+    }
+
+    /// <summary>Whether an I/O failure is a full disk or quota (ENOSPC 28, EDQUOT 122 on Linux; Windows 0x70, 0x27).</summary>
+    internal static bool IsDiskFull(IOException ex) =>
+        (ex.HResult & 0xFFFF) is 28 or 122 or 0x70 or 0x27 || ex.Message.Contains("No space left", StringComparison.OrdinalIgnoreCase);
+
+    /// <summary>OpenCV's own error text (function, file, line of its source) in plain words.</summary>
+    internal static string TranslateOpenCv(OpenCvSharp.OpenCVException ex)
+    {
+        string what = ex.Status switch
+        {
+            OpenCvSharp.ErrorCode.StsNoMem => "the image library ran out of memory",
+            OpenCvSharp.ErrorCode.StsOutOfRange or OpenCvSharp.ErrorCode.StsBadSize or OpenCvSharp.ErrorCode.StsBadArg => "an image or drawing size is outside what the image library accepts",
+            _ => "the image library refused the input",
+        };
+        string reason = string.IsNullOrWhiteSpace(ex.ErrMsg) ? ex.Message : ex.ErrMsg;
+        return what + " (" + reason.Trim() + (string.IsNullOrEmpty(ex.FuncName) ? string.Empty : " in " + ex.FuncName) + ")";
     }
 }
 

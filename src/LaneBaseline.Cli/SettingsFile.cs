@@ -154,6 +154,7 @@ internal static class SettingsFile
             throw BadInputException.At(path, 0, null, "cannot read the settings: " + ex.Message);
         }
 
+        LaneBaseline.Core.Options.YamlDepth.Check(text, path); // the loader below recurses once per level
         var stream = new YamlStream();
         try
         {

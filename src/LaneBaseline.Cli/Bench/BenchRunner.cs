@@ -28,6 +28,9 @@ internal sealed class BenchRunner
         this.stderr = stderr;
     }
 
+    /// <summary>Most bytes the decoded frames and their resized copies may take together (frames beyond are not decoded).</summary>
+    public const long MemoryBudgetBytes = 1L << 30;
+
     public BenchResult Run()
     {
         MachineInfo machine = MachineInfo.Collect();
@@ -120,7 +123,7 @@ internal sealed class BenchRunner
             }
 
             using var reader = new VideoFrameReader(path, request.Options.Limits);
-            while (frames.Count < request.MaxFrames)
+            while (frames.Count < request.MaxFrames && WithinBudget(frames))
             {
                 long t0 = Stopwatch.GetTimestamp();
                 if (!reader.TryRead(out Mat frame, out FrameItem item))
@@ -141,6 +144,11 @@ internal sealed class BenchRunner
         {
             foreach (FrameItem item in FrameListing.ListImages(path).Take(request.MaxFrames))
             {
+                if (!WithinBudget(frames))
+                {
+                    break;
+                }
+
                 long t0 = Stopwatch.GetTimestamp();
                 Mat frame = FrameLoader.Load(item.Path!, request.Options.Limits);
                 decodeMs.Add(Stopwatch.GetElapsedTime(t0).TotalMilliseconds);
@@ -148,18 +156,38 @@ internal sealed class BenchRunner
             }
         }
 
+        if (frames.Count < request.MaxFrames && !WithinBudget(frames))
+        {
+            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"bench: {frames.Count} frames kept within the {MemoryBudgetBytes >> 20} MiB memory budget for decoded and resized frames"));
+        }
+
         return TimingStats.From(decodeMs);
+    }
+
+    /// <summary>Whether one more frame like those held fits the memory budget (decoded frame plus its copy at the largest size).</summary>
+    private bool WithinBudget(List<(string Key, Mat Frame)> frames)
+    {
+        if (frames.Count == 0)
+        {
+            return true;
+        }
+
+        long largest = request.Sizes.Count > 0 ? request.Sizes.Max(s => (long)s.Width * s.Height * 3) : 0;
+        long perFrame = frames.Max(f => (long)f.Frame.Total() * f.Frame.ElemSize());
+        long copy = Math.Max(largest, perFrame);
+        return (frames.Count + 1) * (perFrame + copy) <= MemoryBudgetBytes;
     }
 
     private TimingStats RenderAndDecode(List<(string Key, Mat Frame)> frames)
     {
-        (int w, int h) = request.Sizes.Count > 0 ? request.Sizes.MaxBy(s => s.Width * s.Height) : (1280, 720);
+        (int w, int h) = request.Sizes.Count > 0 ? request.Sizes.MaxBy(s => (long)s.Width * s.Height) : (1280, 720);
+        int count = (int)Math.Clamp(MemoryBudgetBytes / (2L * w * h * 3), 1, request.RenderCount); // no more scenes than the frames kept
         string dir = Path.Combine(Path.GetTempPath(), "lanebaseline-bench-" + Environment.ProcessId.ToString(CultureInfo.InvariantCulture) + "-" + Guid.NewGuid().ToString("N")[..8]);
         try
         {
-            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"bench: rendering {request.RenderCount} scenes at {w}x{h} (seed {request.Seed})"));
+            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"bench: rendering {count} scenes at {w}x{h} (seed {request.Seed})"));
             RenderJob.Run(
-                new RenderJobOptions { OutDir = dir, Seed = request.Seed, Count = request.RenderCount, Camera = CameraModel.CreateDefault(w, h), Threads = 1 },
+                new RenderJobOptions { OutDir = dir, Seed = request.Seed, Count = count, Camera = CameraModel.CreateDefault(w, h), Threads = 1 },
                 null);
             return Decode(dir, frames);
         }

@@ -31,6 +31,7 @@ internal static class DetectCommand
         Option<string?> shard = new("--shard") { Description = "K/N (0 <= K < N): process only the frames whose sequence (frame key without its trailing number) hashes to shard K (stable FNV-1a hash, as score and audit --shard), so tracked sequences are never split; join shards with 'merge'." };
         Option<bool> resume = new("--resume") { Description = "Keep the records already in the output file and process only the missing frames." };
         Option<bool> keepGoing = new("--keep-going") { Description = "Report a bad frame on stderr, skip it and continue; the skipped frames are listed at the end." };
+        Option<bool> followLinks = new("--follow-links") { Description = "Enter symbolic links to folders when scanning a frames folder (without it they are skipped; each real folder is entered once, so link loops end)." };
         Option<int?> maxFrames = new("--max-frames") { Description = "Stop after N frames (after --shard)." };
         Option<bool> timings = new("--timings")
         {
@@ -40,7 +41,7 @@ internal static class DetectCommand
 
         Command command = new("detect", "Run the classical lane pipeline over frames and write one lane-file record per frame.")
         {
-            frames, framesArgument, output, config, camera, overlays, stagesDir, stagesEvery, threads, shard, resume, keepGoing, maxFrames, fps, timings,
+            frames, framesArgument, output, config, camera, overlays, stagesDir, stagesEvery, threads, shard, resume, keepGoing, followLinks, maxFrames, fps, timings,
         };
 
         command.Validators.Add(result =>
@@ -104,6 +105,7 @@ internal static class DetectCommand
                 ShardCount = total,
                 Resume = parse.GetValue(resume),
                 KeepGoing = parse.GetValue(keepGoing),
+                FollowLinks = parse.GetValue(followLinks),
                 MaxFrames = limit,
                 ImageFps = rate,
                 Timings = parse.GetValue(timings),

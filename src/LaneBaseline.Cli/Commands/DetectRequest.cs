@@ -29,6 +29,9 @@ internal sealed record DetectRequest
 
     public bool KeepGoing { get; init; }
 
+    /// <summary>Whether a frames-folder scan enters symbolic links to folders (<c>--follow-links</c>).</summary>
+    public bool FollowLinks { get; init; }
+
     public int? MaxFrames { get; init; }
 
     public double ImageFps { get; init; } = 10;

@@ -59,7 +59,7 @@ internal sealed partial class DetectRunner
         IReadOnlyList<FrameItem>? images = null;
         if (!video)
         {
-            images = FrameListing.ListImages(request.Input);
+            images = FrameListing.ListImages(request.Input, request.FollowLinks);
         }
         else if (!File.Exists(request.Input))
         {

@@ -62,9 +62,9 @@ internal static class ScoreCommand
                 ExtraThresholds = CommandArguments.ParseThresholds(parseResult.GetValue(iou) ?? []),
                 Camera = parseResult.GetValue(camera) is string cameraPath ? CameraModel.Load(cameraPath) : null,
             };
-            if (settings.LaneWidthPx is <= 0)
+            if (settings.LaneWidthPx is <= 0 or > ScoreSettings.MaxLaneWidthPx)
             {
-                throw new UsageException("--lane-width-px must be a positive whole number");
+                throw new UsageException($"--lane-width-px must be a whole number from 1 to {ScoreSettings.MaxLaneWidthPx}");
             }
 
             if (settings.TolerancePx is double tp && (!(tp > 0) || !double.IsFinite(tp)))
@@ -73,9 +73,9 @@ internal static class ScoreCommand
             }
 
             int resamples = parseResult.GetValue(bootstrap);
-            if (resamples < 0)
+            if (resamples is < 0 or > ScoreSettings.MaxBootstrapResamples)
             {
-                throw new UsageException("--bootstrap must be 0 or more");
+                throw new UsageException($"--bootstrap must be from 0 to {ScoreSettings.MaxBootstrapResamples} resamples");
             }
 
             int threadCount = SharedOptions.CheckThreads(parseResult.GetValue(threads));

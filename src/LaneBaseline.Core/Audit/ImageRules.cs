@@ -21,6 +21,13 @@ public static class ImageRules
         ArgumentNullException.ThrowIfNull(record);
         ArgumentNullException.ThrowIfNull(settings);
         ArgumentNullException.ThrowIfNull(sink);
+        int start = sink.Count;
+        CheckRules(record, ordinal, width, height, settings, sink);
+        CapPerRule(sink, start);
+    }
+
+    private static void CheckRules(LaneRecord record, long ordinal, int width, int height, AuditSettings settings, List<AuditFinding> sink)
+    {
         IReadOnlyList<Lane> lanes = record.Lanes;
         double tol = settings.OrderTolerancePx;
         double? horizon = settings.HorizonRow ?? LaneSampling.EstimateHorizon(lanes, height);
@@ -108,41 +115,40 @@ public static class ImageRules
             }
         }
 
-        // LBA-I05 near duplicates.
+        // LBA-I05 near duplicates. Only pairs whose x-extents come within dupPx of each other can have a median gap
+        // under dupPx (every sampled x lies within its lane's point extent), so the pairs are swept in x order and
+        // then checked in (i, j) order: the same findings in the same order as checking every pair.
         double dupPx = Math.Max(1, Math.Round(30.0 * width / 1640.0, MidpointRounding.ToEven));
-        for (int i = 0; i < lanes.Count; i++)
+        foreach ((int i, int j) in PairsWithinX(lanes, dupPx))
         {
-            for (int j = i + 1; j < lanes.Count; j++)
+            (double lo, double hi) = LaneSampling.Common(lanes[i], lanes[j], double.NegativeInfinity);
+            (double ilo, double ihi) = LaneSampling.Extent(lanes[i]);
+            (double jlo, double jhi) = LaneSampling.Extent(lanes[j]);
+            double shorter = Math.Min(ihi - ilo, jhi - jlo);
+            if (hi - lo < 0.5 * shorter || hi - lo <= 0)
             {
-                (double lo, double hi) = LaneSampling.Common(lanes[i], lanes[j], double.NegativeInfinity);
-                (double ilo, double ihi) = LaneSampling.Extent(lanes[i]);
-                (double jlo, double jhi) = LaneSampling.Extent(lanes[j]);
-                double shorter = Math.Min(ihi - ilo, jhi - jlo);
-                if (hi - lo < 0.5 * shorter || hi - lo <= 0)
-                {
-                    continue;
-                }
+                continue;
+            }
 
-                var dx = new List<double>();
-                for (double y = Math.Floor(hi); y >= lo; y -= 2)
+            var dx = new List<double>();
+            for (double y = Math.Floor(hi); y >= lo; y -= 2)
+            {
+                if (LaneSampling.XAt(lanes[i], y, out double xi) && LaneSampling.XAt(lanes[j], y, out double xj))
                 {
-                    if (LaneSampling.XAt(lanes[i], y, out double xi) && LaneSampling.XAt(lanes[j], y, out double xj))
-                    {
-                        dx.Add(Math.Abs(xi - xj));
-                    }
+                    dx.Add(Math.Abs(xi - xj));
                 }
+            }
 
-                if (dx.Count == 0)
-                {
-                    continue;
-                }
+            if (dx.Count == 0)
+            {
+                continue;
+            }
 
-                dx.Sort();
-                double median = dx[dx.Count / 2];
-                if (median < dupPx)
-                {
-                    sink.Add(F(AuditRules.NearDuplicate, j, i, median, dupPx, "px", Inv($"lane {j} runs {median:0.#} px from lane {i} (median over common rows)")));
-                }
+            dx.Sort();
+            double median = dx[dx.Count / 2];
+            if (median < dupPx)
+            {
+                sink.Add(F(AuditRules.NearDuplicate, j, i, median, dupPx, "px", Inv($"lane {j} runs {median:0.#} px from lane {i} (median over common rows)")));
             }
         }
 
@@ -179,6 +185,94 @@ public static class ImageRules
 
         // LBA-I07 neighbouring width ratio, at the nearest row with three lanes and the nearest row with all of them.
         CheckWidthRatio(record, ordinal, lanes, height, settings, sink);
+    }
+
+    /// <summary>
+    /// The pairs (i &lt; j) whose point x-extents are closer than <paramref name="gapPx"/>, in (i, j) order: a sweep over
+    /// the lanes sorted by their smallest x, so far-apart lanes cost nothing (Shamos and Hoey 1976, sweep-line pair search).
+    /// </summary>
+    internal static List<(int I, int J)> PairsWithinX(IReadOnlyList<Lane> lanes, double gapPx)
+    {
+        int n = lanes.Count;
+        var lo = new double[n];
+        var hi = new double[n];
+        var order = new int[n];
+        for (int k = 0; k < n; k++)
+        {
+            double a = double.PositiveInfinity, b = double.NegativeInfinity;
+            foreach (LanePoint p in lanes[k].Points)
+            {
+                a = Math.Min(a, p.X);
+                b = Math.Max(b, p.X);
+            }
+
+            (lo[k], hi[k], order[k]) = (a, b, k);
+        }
+
+        Array.Sort(order, (a, b) => lo[a] != lo[b] ? lo[a].CompareTo(lo[b]) : a.CompareTo(b));
+        var pairs = new List<(int, int)>();
+        for (int s = 0; s < n; s++)
+        {
+            int a = order[s];
+            for (int t = s + 1; t < n && lo[order[t]] - hi[a] < gapPx; t++)
+            {
+                int b = order[t];
+                pairs.Add(a < b ? (a, b) : (b, a));
+            }
+        }
+
+        pairs.Sort();
+        return pairs;
+    }
+
+    /// <summary>
+    /// Keeps the first <see cref="InputLimits.MaxFindingsPerFrameAndRule"/> findings of each rule among
+    /// <c>sink[start..]</c> (one frame) and replaces the rest by one finding that counts them.
+    /// </summary>
+    internal static void CapPerRule(List<AuditFinding> sink, int start)
+    {
+        const int Cap = InputLimits.MaxFindingsPerFrameAndRule;
+        if (sink.Count - start <= Cap)
+        {
+            return;
+        }
+
+        var kept = new List<AuditFinding>(sink.Count - start);
+        var seen = new Dictionary<string, int>(StringComparer.Ordinal);
+        for (int k = start; k < sink.Count; k++)
+        {
+            AuditFinding f = sink[k];
+            int n = seen.GetValueOrDefault(f.Rule) + 1;
+            seen[f.Rule] = n;
+            if (n <= Cap)
+            {
+                kept.Add(f);
+            }
+        }
+
+        var result = new List<AuditFinding>(kept.Count + seen.Count);
+        for (int k = 0; k < kept.Count; k++)
+        {
+            AuditFinding f = kept[k];
+            result.Add(f);
+            bool lastOfRule = k + 1 == kept.Count || kept[k + 1].Rule != f.Rule;
+            if (lastOfRule && seen[f.Rule] > Cap)
+            {
+                int rest = seen[f.Rule] - Cap;
+                result.Add(f with
+                {
+                    Lane = null,
+                    OtherLane = null,
+                    Value = rest,
+                    Limit = Cap,
+                    Unit = "findings",
+                    Message = Inv($"{rest} more findings of {f.Rule} in this frame (at most {Cap} per frame and rule are listed)"),
+                });
+            }
+        }
+
+        sink.RemoveRange(start, sink.Count - start);
+        sink.AddRange(result);
     }
 
     private static void CheckWidthRatio(LaneRecord record, long ordinal, IReadOnlyList<Lane> lanes, int height, AuditSettings settings, List<AuditFinding> sink)

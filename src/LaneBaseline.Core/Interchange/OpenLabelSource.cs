@@ -127,6 +127,19 @@ public sealed class OpenLabelSource : ILaneRecordSource
     /// <inheritdoc />
     public bool TryRead(out LaneRecord record)
     {
+        try
+        {
+            return TryReadFrame(out record);
+        }
+        catch (InvalidOperationException)
+        {
+            // JsonElement.GetString on a string holding a lone UTF-16 surrogate escape
+            throw Error("openlabel.frames." + frames[next - 1].Number.ToString(CultureInfo.InvariantCulture), "a string holds a lone UTF-16 surrogate escape (\\uD800-\\uDFFF without its pair), which is not text");
+        }
+    }
+
+    private bool TryReadFrame(out LaneRecord record)
+    {
         if (next >= frames.Count)
         {
             record = null!;
@@ -220,6 +233,11 @@ public sealed class OpenLabelSource : ILaneRecordSource
                 int k = 0;
                 foreach (JsonElement poly in Items(polys, oat + ".object_data.poly2d"))
                 {
+                    if (lanes.Count == InputLimits.MaxLanesPerFrame)
+                    {
+                        throw Error(at, $"frame '{key}': more than {InputLimits.MaxLanesPerFrame} lanes in one frame (the documented limit)");
+                    }
+
                     lanes.Add(ReadLane(poly, oat + ".object_data.poly2d[" + k.ToString(CultureInfo.InvariantCulture) + "]"));
                     k++;
                 }
@@ -231,6 +249,7 @@ public sealed class OpenLabelSource : ILaneRecordSource
         {
             try
             {
+                InputLimits.CheckFrameSize(DisplayName, 0, w, h);
                 record.ValidatePointRange(DisplayName, w, h);
             }
             catch (BadInputException e)

@@ -4,21 +4,32 @@ namespace LaneBaseline.Core.LaneFiles;
 
 /// <summary>
 /// Reads a stream line by line as raw UTF-8 bytes ('\n' separated, a trailing '\r' removed), holding one line
-/// in memory at a time. The returned span is valid until the next call.
+/// in memory at a time. The returned span is valid until the next call. Each byte is searched for the line end once
+/// (linear however small the reads of a pipe are), and a line longer than <see cref="MaxLineBytes"/> is bad input.
 /// </summary>
 internal sealed class ByteLineReader : IDisposable
 {
     private readonly Stream stream;
+    private readonly string displayName;
     private byte[] buffer;
     private int start;
     private int end;
+    private int scanned; // bytes from start already known to hold no '\n'
     private bool eof;
 
-    public ByteLineReader(Stream stream, int initialCapacity = 1 << 16)
+    public ByteLineReader(Stream stream, string displayName, int initialCapacity = 1 << 16, int maxLineBytes = InputLimits.MaxLineBytes)
     {
         this.stream = stream;
-        buffer = ArrayPool<byte>.Shared.Rent(initialCapacity);
+        this.displayName = displayName;
+        MaxLineBytes = maxLineBytes;
+        buffer = ArrayPool<byte>.Shared.Rent(Math.Min(initialCapacity, maxLineBytes + 1));
     }
+
+    /// <summary>Bytes searched for a line end so far (each byte once: the reader is linear).</summary>
+    public long BytesSearched { get; private set; }
+
+    /// <summary>Longest accepted line in bytes, without its line ending.</summary>
+    public int MaxLineBytes { get; }
 
     /// <summary>Number of lines returned so far (the one-based number of the last line).</summary>
     public long LineNumber { get; private set; }
@@ -30,11 +41,15 @@ internal sealed class ByteLineReader : IDisposable
     {
         while (true)
         {
-            int nl = Array.IndexOf(buffer, (byte)'\n', start, end - start);
-            if (nl >= 0)
+            int found = buffer.AsSpan(start + scanned, end - start - scanned).IndexOf((byte)'\n');
+            BytesSearched += found >= 0 ? found + 1 : end - start - scanned;
+            if (found >= 0)
             {
+                int nl = start + scanned + found;
                 line = Trim(buffer.AsSpan(start, nl - start));
+                CheckLength(line.Length);
                 start = nl + 1;
+                scanned = 0;
                 LineNumber++;
                 LastLineUnterminated = false;
                 return true;
@@ -45,7 +60,9 @@ internal sealed class ByteLineReader : IDisposable
                 if (end > start)
                 {
                     line = Trim(buffer.AsSpan(start, end - start));
+                    CheckLength(line.Length);
                     start = end;
+                    scanned = 0;
                     LineNumber++;
                     LastLineUnterminated = true;
                     return true;
@@ -55,7 +72,20 @@ internal sealed class ByteLineReader : IDisposable
                 return false;
             }
 
+            scanned = end - start;
+            CheckLength(scanned - 1L); // a pending line of Max + 2 bytes is too long whatever follows (at most one '\r' is dropped)
             Fill();
+        }
+    }
+
+    /// <summary>Throws when a line's content (without its line ending) is longer than <see cref="MaxLineBytes"/>.</summary>
+    private void CheckLength(long contentBytes)
+    {
+        if (contentBytes > MaxLineBytes)
+        {
+            throw BadInputException.At(displayName, LineNumber + 1, null, string.Create(
+                System.Globalization.CultureInfo.InvariantCulture,
+                $"the line is longer than {MaxLineBytes} bytes, the documented maximum line length"));
         }
     }
 
@@ -73,7 +103,9 @@ internal sealed class ByteLineReader : IDisposable
 
         if (end == buffer.Length)
         {
-            byte[] bigger = ArrayPool<byte>.Shared.Rent(buffer.Length * 2);
+            // at most MaxLineBytes + 2 bytes are ever held (a line, its '\r' and one byte that proves it too long)
+            int size = (int)Math.Min((long)buffer.Length * 2, (long)MaxLineBytes + 2);
+            byte[] bigger = ArrayPool<byte>.Shared.Rent(size);
             Buffer.BlockCopy(buffer, 0, bigger, 0, end);
             ArrayPool<byte>.Shared.Return(buffer);
             buffer = bigger;

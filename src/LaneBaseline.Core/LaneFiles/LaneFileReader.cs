@@ -16,7 +16,7 @@ public sealed class LaneFileReader : ILaneRecordSource
     private LaneFileReader(string displayName, Stream stream, bool sizeRequired)
     {
         DisplayName = displayName;
-        lines = new ByteLineReader(stream);
+        lines = new ByteLineReader(stream, displayName);
         this.sizeRequired = sizeRequired;
     }
 

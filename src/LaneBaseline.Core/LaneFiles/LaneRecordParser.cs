@@ -71,7 +71,7 @@ internal static class LaneRecordParser
                 break;
             }
 
-            string name = reader.GetString()!;
+            string name = GetText(ref reader, state, "key");
             state.Key = name;
             if (!seen.Add(name))
             {
@@ -140,6 +140,7 @@ internal static class LaneRecordParser
         };
         if (width is int w && height is int h)
         {
+            InputLimits.CheckFrameSize(state.File, state.Line, w, h);
             record.ValidatePointRange(state.File, w, h);
         }
 
@@ -160,6 +161,11 @@ internal static class LaneRecordParser
             if (reader.TokenType == JsonTokenType.EndArray)
             {
                 return lanes;
+            }
+
+            if (lanes.Count == InputLimits.MaxLanesPerFrame)
+            {
+                throw state.Error("lanes", string.Create(CultureInfo.InvariantCulture, $"more than {InputLimits.MaxLanesPerFrame} lanes in one frame (the documented limit)"));
             }
 
             string laneKey = "lanes[" + lanes.Count.ToString(CultureInfo.InvariantCulture) + "]";
@@ -190,7 +196,7 @@ internal static class LaneRecordParser
                 break;
             }
 
-            string name = reader.GetString()!;
+            string name = GetText(ref reader, state, laneKey);
             string key = laneKey + "." + name;
             state.Key = key;
             if (!seen.Add(name))
@@ -377,7 +383,20 @@ internal static class LaneRecordParser
             throw state.Error(key, "expected a string");
         }
 
-        return reader.GetString()!;
+        return GetText(ref reader, state, key);
+    }
+
+    /// <summary>The current string token; a lone UTF-16 surrogate escape (<c>\uD800</c> without its pair) is bad input.</summary>
+    private static string GetText(ref Utf8JsonReader reader, State state, string key)
+    {
+        try
+        {
+            return reader.GetString()!;
+        }
+        catch (InvalidOperationException)
+        {
+            throw state.Error(key, "the string holds a lone UTF-16 surrogate escape (\\uD800-\\uDFFF without its pair), which is not text");
+        }
     }
 
     private static string ReadRaw(ref Utf8JsonReader reader, ReadOnlySpan<byte> line)

@@ -88,6 +88,7 @@ public sealed class ScoreRun
         var truthIndex = new Dictionary<string, int>(StringComparer.Ordinal);
         var sizes = new List<(int W, int H)>();
         var truthRequest = new LaneSourceRequest { SizeRequired = true };
+        var tagNames = new HashSet<string>(StringComparer.Ordinal);
         using (ILaneRecordSource truth = Opener(truthPath, truthRequest))
         {
             while (truth.TryRead(out LaneRecord r))
@@ -97,6 +98,16 @@ public sealed class ScoreRun
                     throw BadInputException.At(truthPath, r.LineNumber, "width", string.Create(
                         CultureInfo.InvariantCulture,
                         $"frame '{r.Frame}' is {r.Width}x{r.Height} but the camera file describes {cam.ImageWidth}x{cam.ImageHeight} images"));
+                }
+
+                foreach (string tag in r.Tags)
+                {
+                    if (tagNames.Add(tag) && tagNames.Count > InputLimits.MaxDistinctTags)
+                    {
+                        throw BadInputException.At(truthPath, r.LineNumber, "tags", string.Create(
+                            CultureInfo.InvariantCulture,
+                            $"frame '{r.Frame}' brings the number of distinct tags above {InputLimits.MaxDistinctTags} (the documented limit; each tag gets its own breakdown per system)"));
+                    }
                 }
 
                 truthIndex.Add(r.Frame, sizes.Count);

@@ -3,6 +3,12 @@ namespace LaneBaseline.Core.Metrics;
 /// <summary>What the scorer measures with: thresholds, lane width and point tolerance overrides.</summary>
 public sealed record ScoreSettings
 {
+    /// <summary>Widest accepted <c>--lane-width-px</c> (OpenCV draws at most 32767 px thick; 1000 px is far beyond any lane).</summary>
+    public const int MaxLaneWidthPx = 1000;
+
+    /// <summary>Most accepted bootstrap resamples (100 times the default; time grows with resamples x frames).</summary>
+    public const int MaxBootstrapResamples = 100_000;
+
     /// <summary>Fixed lane width in pixels for the IoU rasterisation, or null for <c>round(30 * width / 1640)</c>.</summary>
     public int? LaneWidthPx { get; init; }
 

@@ -30,6 +30,7 @@ public static class PresetLoader
     public static PipelineOptions Parse(string yaml, string file)
     {
         ArgumentNullException.ThrowIfNull(yaml);
+        YamlDepth.Check(yaml, file);
         var stream = new YamlStream();
         try
         {

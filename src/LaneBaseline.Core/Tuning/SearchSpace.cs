@@ -36,6 +36,7 @@ public sealed class SearchSpace
     public static SearchSpace Parse(string yaml, string fileName)
     {
         ArgumentNullException.ThrowIfNull(yaml);
+        Options.YamlDepth.Check(yaml, fileName);
         var stream = new YamlStream();
         try
         {

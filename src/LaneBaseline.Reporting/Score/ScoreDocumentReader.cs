@@ -158,6 +158,11 @@ public static class ScoreDocumentReader
         {
             foreach (JsonProperty p in ctx.Object(tags, path + ".by_tag").EnumerateObject())
             {
+                if (byTag.Count == InputLimits.MaxDistinctTags)
+                {
+                    throw ctx.Error(path + ".by_tag", $"more than {InputLimits.MaxDistinctTags} tags (the documented limit)");
+                }
+
                 byTag.Add(new(p.Name, ReadTally(ctx, ctx.Object(p.Value, path + ".by_tag." + p.Name), path + ".by_tag." + p.Name)));
             }
         }

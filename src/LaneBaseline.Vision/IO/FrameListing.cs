@@ -22,14 +22,20 @@ public static class FrameListing
     public static bool IsVideo(string path) => HasExtension(path, VideoExtensions);
 
     /// <summary>Lists the image frames of a folder, list file or single image.</summary>
+    /// <param name="input">A folder, a list file or one image.</param>
+    /// <param name="followLinks">
+    /// Whether a folder scan enters symbolic links to folders. Off by default: a link loop would never end and a link
+    /// to a parent would repeat frames. When on, each real folder is entered once (loops and repeats are skipped).
+    /// Links to image files are always read.
+    /// </param>
     /// <exception cref="BadInputException">The input does not exist, lists a missing file, or holds no image.</exception>
-    public static IReadOnlyList<FrameItem> ListImages(string input)
+    public static IReadOnlyList<FrameItem> ListImages(string input, bool followLinks = false)
     {
         ArgumentNullException.ThrowIfNull(input);
         if (Directory.Exists(input))
         {
             string root = Path.GetFullPath(input);
-            var keys = Directory.EnumerateFiles(root, "*", SearchOption.AllDirectories)
+            var keys = FilesUnder(root, followLinks, input)
                 .Where(f => HasExtension(f, ImageExtensions))
                 .Select(f => (Key: Path.GetRelativePath(root, f).Replace('\\', '/'), Path: f))
                 .OrderBy(k => k.Key, StringComparer.Ordinal)
@@ -91,6 +97,88 @@ public static class FrameListing
         }
 
         return items.ToArray();
+    }
+
+    /// <summary>
+    /// Every file under <paramref name="root"/> (recursive). Links to folders are skipped unless
+    /// <paramref name="followLinks"/>; then every real folder (link target resolved) is entered at most once.
+    /// </summary>
+    /// <exception cref="BadInputException">A folder cannot be read.</exception>
+    public static List<string> FilesUnder(string root, bool followLinks, string displayName)
+    {
+        ArgumentNullException.ThrowIfNull(root);
+        var files = new List<string>();
+        var visited = new HashSet<string>(StringComparer.Ordinal) { RealPath(root) };
+        var pending = new Stack<string>();
+        pending.Push(root);
+        while (pending.Count > 0)
+        {
+            string dir = pending.Pop();
+            FileSystemInfo[] entries;
+            try
+            {
+                entries = new DirectoryInfo(dir).GetFileSystemInfos();
+                Array.Sort(entries, (a, b) => string.CompareOrdinal(a.Name, b.Name));
+            }
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or System.Security.SecurityException)
+            {
+                throw BadInputException.At(displayName, 0, null, "cannot read the folder '" + Path.GetRelativePath(root, dir) + "': " + ex.Message);
+            }
+
+            foreach (FileSystemInfo entry in entries)
+            {
+                bool isLink = entry.LinkTarget is not null;
+                if (!isLink)
+                {
+                    if (entry is DirectoryInfo)
+                    {
+                        if (!followLinks || visited.Add(RealPath(entry.FullName)))
+                        {
+                            pending.Push(entry.FullName); // with links followed, a folder also reached through a link is entered once
+                        }
+                    }
+                    else
+                    {
+                        files.Add(entry.FullName);
+                    }
+
+                    continue;
+                }
+
+                if (File.Exists(entry.FullName))
+                {
+                    files.Add(entry.FullName); // a link to a file (File.Exists follows links; a dangling link is neither)
+                }
+                else if (followLinks && Directory.Exists(entry.FullName) && visited.Add(RealPath(entry.FullName)))
+                {
+                    pending.Push(entry.FullName);
+                }
+            }
+        }
+
+        return files;
+    }
+
+    private static string RealPath(string dir)
+    {
+        try
+        {
+            return new DirectoryInfo(dir).ResolveLinkTarget(returnFinalTarget: true)?.FullName is string target
+                ? RealPath(target)
+                : RealParent(dir);
+        }
+        catch (IOException)
+        {
+            return dir;
+        }
+    }
+
+    /// <summary>The path with every linked parent folder resolved, so two routes to one folder compare equal.</summary>
+    private static string RealParent(string dir)
+    {
+        string full = Path.TrimEndingDirectorySeparator(Path.GetFullPath(dir));
+        string? parent = Path.GetDirectoryName(full);
+        return parent is null ? full : Path.Combine(RealPath(parent), Path.GetFileName(full));
     }
 
     /// <summary>Key of video frame <paramref name="index"/>: <c>VIDEO#</c> and six digits.</summary>

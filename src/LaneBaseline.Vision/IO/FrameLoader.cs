@@ -1,5 +1,6 @@
 using System.Globalization;
 using LaneBaseline.Core;
+using LaneBaseline.Core.IO;
 using LaneBaseline.Core.Options;
 using OpenCvSharp;
 
@@ -27,6 +28,7 @@ public static class FrameLoader
             throw BadInputException.At(path, 0, null, "image file is empty (0 bytes)");
         }
 
+        CheckDeclaredSize(path, limits.MaxWidthPx, limits.MaxHeightPx, "limits.* in the preset");
         ImageIntegrity.CheckComplete(path);
         Mat mat = Cv2.ImRead(path, ImreadModes.Unchanged);
         try
@@ -37,6 +39,36 @@ public static class FrameLoader
         {
             mat.Dispose();
             throw;
+        }
+    }
+
+    /// <summary>
+    /// Refuses an image whose header declares more than <paramref name="maxWidthPx"/> x <paramref name="maxHeightPx"/>
+    /// or more than <see cref="InputLimits.MaxFramePixels"/> pixels, before any pixel is decoded (<see cref="ImageHeader"/>).
+    /// Formats whose header is not read are left to the decoder and checked after decoding.
+    /// </summary>
+    /// <exception cref="BadInputException">The declared size is too large.</exception>
+    public static void CheckDeclaredSize(string path, int maxWidthPx, int maxHeightPx, string limitsSource)
+    {
+        (int Width, int Height)? size;
+        try
+        {
+            size = ImageHeader.TryRead(path);
+        }
+        catch (IOException ex)
+        {
+            throw BadInputException.At(path, 0, null, "cannot be read: " + ex.Message);
+        }
+        catch (UnauthorizedAccessException ex)
+        {
+            throw BadInputException.At(path, 0, null, "cannot be read: " + ex.Message);
+        }
+
+        if (size is (int w, int h) && (w > maxWidthPx || h > maxHeightPx || (long)w * h > InputLimits.MaxFramePixels))
+        {
+            throw BadInputException.At(path, 0, null, string.Create(
+                CultureInfo.InvariantCulture,
+                $"the image header declares {w}x{h} pixels, more than the accepted {maxWidthPx}x{maxHeightPx} ({limitsSource}) and at most {InputLimits.MaxFramePixels} pixels; refused before decoding"));
         }
     }
 

@@ -25,17 +25,22 @@ public static class MaskFiles
     /// <summary>Every <c>*.png</c> under a folder, as '/'-separated relative paths in ordinal order.</summary>
     public static List<string> List(string dir)
     {
-        var list = Directory.EnumerateFiles(dir, "*.png", SearchOption.AllDirectories)
+        var list = IO.FrameListing.FilesUnder(dir, followLinks: false, dir)
+            .Where(f => f.EndsWith(".png", StringComparison.Ordinal))
             .Select(f => Path.GetRelativePath(dir, f).Replace(Path.DirectorySeparatorChar, '/'))
             .ToList();
         list.Sort(StringComparer.Ordinal);
         return list;
     }
 
-    /// <summary>Reads a mask and checks it is one channel of 8 or 16 bits.</summary>
+    /// <summary>Longest accepted side of a mask in pixels (and at most <see cref="InputLimits.MaxFramePixels"/> pixels in all).</summary>
+    public const int MaxSidePx = 32768;
+
+    /// <summary>Reads a mask and checks it is one channel of 8 or 16 bits (its declared size is checked before decoding).</summary>
     /// <returns>The mask; the caller owns it.</returns>
     public static Mat Read(string path)
     {
+        IO.FrameLoader.CheckDeclaredSize(path, MaxSidePx, MaxSidePx, "the mask limit");
         if (File.Exists(path))
         {
             IO.ImageIntegrity.CheckComplete(path);
@@ -57,6 +62,11 @@ public static class MaskFiles
             if (m.Depth() != MatType.CV_8U && m.Depth() != MatType.CV_16U)
             {
                 throw BadInputException.At(path, 0, null, "an instance mask must be 8- or 16-bit unsigned");
+            }
+
+            if (m.Cols > MaxSidePx || m.Rows > MaxSidePx || (long)m.Cols * m.Rows > InputLimits.MaxFramePixels)
+            {
+                throw BadInputException.At(path, 0, null, string.Create(CultureInfo.InvariantCulture, $"a {m.Cols}x{m.Rows} mask is larger than the accepted {MaxSidePx}x{MaxSidePx} and {InputLimits.MaxFramePixels} pixels"));
             }
 
             return m;

@@ -78,7 +78,7 @@ public sealed class MaskFolderSource : ILaneRecordSource
         (int w, int h) = request.Reference is { } r && r.TryGetValue(frame, out var size) ? size
             : request.Size ?? (mask.Cols, mask.Rows);
         dropped.Clear();
-        IReadOnlyList<Lane> lanes = extractor.Extract(mask, w, h, dropped);
+        IReadOnlyList<Lane> lanes = extractor.Extract(mask, w, h, dropped, path);
         foreach ((int id, int rows) in dropped)
         {
             OnNote?.Invoke(string.Create(CultureInfo.InvariantCulture, $"{path}: lane id {id} covers {rows} row(s), fewer than {extractor.MinRows}; dropped"));

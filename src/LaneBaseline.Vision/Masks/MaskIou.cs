@@ -1,3 +1,4 @@
+using LaneBaseline.Core;
 using LaneBaseline.Core.Metrics;
 using OpenCvSharp;
 
@@ -34,6 +35,13 @@ public static class MaskIou
         else
         {
             Count(truth, pred, areaT, areaP, inter);
+        }
+
+        if (areaT.Count > InputLimits.MaxLanesPerFrame || areaP.Count > InputLimits.MaxLanesPerFrame)
+        {
+            throw BadInputException.At(frame, 0, null, string.Create(
+                System.Globalization.CultureInfo.InvariantCulture,
+                $"the {(areaT.Count > InputLimits.MaxLanesPerFrame ? "truth" : "prediction")} mask holds {Math.Max(areaT.Count, areaP.Count)} lane ids; at most {InputLimits.MaxLanesPerFrame} per frame are accepted (the documented limit)"));
         }
 
         int[] tIds = [.. areaT.Keys], pIds = [.. areaP.Keys];

@@ -1,3 +1,4 @@
+using LaneBaseline.Core;
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using OpenCvSharp;
@@ -43,12 +44,25 @@ public sealed class MaskLaneExtractor
     /// <param name="frameWidth">Frame width the lanes are expressed in.</param>
     /// <param name="frameHeight">Frame height the lanes are expressed in.</param>
     /// <param name="dropped">Receives (id, rows) of every id dropped for covering too few rows.</param>
-    public IReadOnlyList<Lane> Extract(Mat mask, int frameWidth, int frameHeight, List<(int Id, int Rows)> dropped)
+    /// <param name="source">The mask's name in messages.</param>
+    /// <exception cref="BadInputException">The mask holds more than <see cref="InputLimits.MaxLanesPerFrame"/> lane ids.</exception>
+    public IReadOnlyList<Lane> Extract(Mat mask, int frameWidth, int frameHeight, List<(int Id, int Rows)> dropped, string source = "mask")
     {
         ArgumentNullException.ThrowIfNull(mask);
         ArgumentNullException.ThrowIfNull(dropped);
         int h = mask.Rows, w = mask.Cols;
-        Accumulate(mask, h, w);
+        if (!Accumulate(mask, h, w))
+        {
+            foreach (int id in activeIds)
+            {
+                rowsById[id].Clear();
+            }
+
+            activeIds.Clear();
+            throw BadInputException.At(source, 0, null, string.Create(
+                System.Globalization.CultureInfo.InvariantCulture,
+                $"the mask holds more than {InputLimits.MaxLanesPerFrame} lane ids; at most {InputLimits.MaxLanesPerFrame} per frame are accepted (the documented limit)"));
+        }
 
         activeIds.Sort();
         var lanes = new List<Lane>(activeIds.Count);
@@ -96,7 +110,8 @@ public sealed class MaskLaneExtractor
         return lanes;
     }
 
-    private unsafe void Accumulate(Mat mask, int h, int w)
+    /// <summary>Collects each id's row centres; false (stopping early) when the mask holds too many ids.</summary>
+    private unsafe bool Accumulate(Mat mask, int h, int w)
     {
         if (h != bufferHeight)
         {
@@ -124,12 +139,23 @@ public sealed class MaskLaneExtractor
                 {
                     if (!rowsById.TryGetValue(id, out last))
                     {
+                        if (rowsById.Count >= 2 * InputLimits.MaxLanesPerFrame)
+                        {
+                            ForgetInactive(); // buffers of ids seen only in earlier frames
+                        }
+
                         last = new IdRows(h);
                         rowsById.Add(id, last);
                     }
 
                     if (!last.Active)
                     {
+                        if (activeIds.Count >= InputLimits.MaxLanesPerFrame)
+                        {
+                            GC.KeepAlive(mask);
+                            return false;
+                        }
+
                         last.Active = true;
                         activeIds.Add(id);
                     }
@@ -142,6 +168,18 @@ public sealed class MaskLaneExtractor
         }
 
         GC.KeepAlive(mask);
+        return true;
+    }
+
+    private void ForgetInactive()
+    {
+        foreach ((int id, IdRows rows) in rowsById)
+        {
+            if (!rows.Active)
+            {
+                rowsById.Remove(id);
+            }
+        }
     }
 
     private sealed class IdRows(int height)

@@ -1,0 +1,150 @@
+using System.Globalization;
+using System.Text;
+using LaneBaseline.Testing;
+using OpenCvSharp;
+using Xunit;
+
+namespace LaneBaseline.Cli.Tests;
+
+// Regression tests of issue 17 items 8, 10 and 13 from the command line: each hostile input gets exit 2 or 3 and
+// one clear line (docs/cli.md exit codes; limits in docs/reliability.md), never exit 1 or a stack trace.
+public sealed class ReliabilityCommandTests : IDisposable
+{
+    private readonly TempDir dir = new();
+
+    public void Dispose() => dir.Dispose();
+
+    private string Truth(string name = "t.lanes.jsonl", string frame = "a.png", string tags = "")
+    {
+        string path = dir.File(name);
+        File.WriteAllText(path, "{\"frame\":\"" + frame + "\",\"width\":640,\"height\":360," + tags + "\"lanes\":[{\"points\":[[100,359],[200,100]]}]}\n");
+        return path;
+    }
+
+    private static void AssertOneLine(string err, string prefix)
+    {
+        // progress and timing lines may come first; the failure is one line, the last
+        string[] lines = err.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Single(lines, l => l.Contains("error", StringComparison.Ordinal));
+        Assert.StartsWith(prefix, lines[^1], StringComparison.Ordinal);
+        Assert.DoesNotContain(" at LaneBaseline.", err, StringComparison.Ordinal);
+    }
+
+    // Item 8. Before: 100,000 lanes in one frame asked for a frame-sized canvas each (~90 GB at 1280x720) and the
+    // process died (exit 1 or killed).
+    [Fact]
+    public void Score_HundredThousandLanesInOneFrame_Exit3BeforeScoring()
+    {
+        string truth = Truth();
+        string pred = dir.File("p.lanes.jsonl");
+        var line = new StringBuilder("{\"frame\":\"a.png\",\"lanes\":[");
+        for (int i = 0; i < 100_000; i++)
+        {
+            line.Append(i == 0 ? string.Empty : ",").Append(CultureInfo.InvariantCulture, $"{{\"points\":[[{i % 640},359],[{i % 640},0]]}}");
+        }
+
+        File.WriteAllText(pred, line.Append("]}\n").ToString());
+        string json = dir.File("s.json");
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", json);
+        Assert.Equal(3, exit);
+        AssertOneLine(err, "error: " + pred + ":1: lanes: more than 500 lanes in one frame");
+        Assert.False(File.Exists(json));
+    }
+
+    // Item 13. Before: --bootstrap 2147483647 ran for days, --lane-width-px 100000 failed inside OpenCV (exit 1).
+    [Theory]
+    [InlineData("--bootstrap", "2147483647", "usage error: --bootstrap must be from 0 to 100000 resamples")]
+    [InlineData("--lane-width-px", "100000", "usage error: --lane-width-px must be a whole number from 1 to 1000")]
+    public void Score_AbsurdOptionValue_Exit2(string option, string value, string message)
+    {
+        string truth = Truth();
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", truth, option, value);
+        Assert.Equal(2, exit);
+        AssertOneLine(err, message);
+    }
+
+    // Item 13. Before: the rename onto a folder failed with an IOException (exit 1).
+    [Fact]
+    public void Score_OutputPathIsAFolder_Exit3()
+    {
+        string truth = Truth();
+        string folder = dir.File("out");
+        Directory.CreateDirectory(folder);
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", truth, "--json", folder);
+        Assert.Equal(3, exit);
+        AssertOneLine(err, "error: " + folder + ": the output path is a folder; give a file name");
+    }
+
+    // Item 13. Before: a full disk surfaced as "internal error: IOException" (exit 1). /dev/full answers every
+    // write with ENOSPC (Linux man page full(4)).
+    [Fact]
+    public void Score_DiskFull_Exit3()
+    {
+        if (!File.Exists("/dev/full"))
+        {
+            return; // not Linux: nothing to simulate a full disk with
+        }
+
+        string truth = Truth();
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", truth, "--json", "/dev/full", "--bootstrap", "0");
+        Assert.Equal(3, exit);
+        AssertOneLine(err, "error: no space left on the device while writing");
+    }
+
+    // Item 13. Before: a frame key with an escape sequence and a line break was printed raw, so the message could
+    // drive the terminal and spread over two lines.
+    [Fact]
+    public void ControlCharactersInKeys_AreEscapedWhenPrinted()
+    {
+        string path = dir.File("k.lanes.jsonl");
+        string rec = "{\"frame\":\"x\\u001b[31m\\ny\",\"width\":640,\"height\":360,\"lanes\":[]}\n";
+        File.WriteAllText(path, rec + rec);
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", path, "--pred", path);
+        Assert.Equal(3, exit);
+        AssertOneLine(err, "error: " + path + ":2: frame: duplicate frame 'x\\u001B[31m\\u000Ay'");
+        Assert.DoesNotContain('\u001b', err);
+    }
+
+    // Item 13 (22,000 tags x 40 systems). Before: every tag got a breakdown per system and the report's per-tag
+    // lookups were quadratic; now more than 1,000 distinct tags is bad input before anything is scored.
+    [Fact]
+    public void Score_TooManyDistinctTags_Exit3()
+    {
+        string path = dir.File("tags.lanes.jsonl");
+        string tags = string.Join(",", Enumerable.Range(0, 1001).Select(i => "\"t" + i.ToString(CultureInfo.InvariantCulture) + "\""));
+        File.WriteAllText(path, "{\"frame\":\"a.png\",\"width\":640,\"height\":360,\"tags\":[" + tags + "],\"lanes\":[]}\n");
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", path, "--pred", path);
+        Assert.Equal(3, exit);
+        AssertOneLine(err, "error: " + path + ":1: tags: frame 'a.png' brings the number of distinct tags above 1000");
+    }
+
+    // Item 13: OpenCV's own texts (function, source file) are translated into one plain line.
+    [Fact]
+    public void OpenCvFailure_TranslatedToOneLine()
+    {
+        var ex = new OpenCVException(ErrorCode.StsNoMem, "OutOfMemoryError", "Failed to allocate 92160000000 bytes", "/build/alloc.cpp", 73);
+        string text = CommandRunner.TranslateOpenCv(ex);
+        Assert.Equal("the image library ran out of memory (Failed to allocate 92160000000 bytes in OutOfMemoryError)", text);
+    }
+
+    // Item 10. Before: a link to the parent folder made detect list the frame again on every level of the loop.
+    [Fact]
+    public void Detect_LinkLoopInFramesFolder_EachFrameOnce()
+    {
+        string frames = dir.File("frames");
+        Directory.CreateDirectory(frames);
+        using (var image = new Mat(48, 64, MatType.CV_8UC3, Scalar.All(40)))
+        {
+            Cv2.ImWrite(Path.Combine(frames, "f0001.png"), image);
+        }
+
+        Directory.CreateSymbolicLink(Path.Combine(frames, "loop"), frames);
+        foreach (string[] extra in new[] { Array.Empty<string>(), ["--follow-links"] })
+        {
+            string output = dir.File("d" + extra.Length.ToString(CultureInfo.InvariantCulture) + ".lanes.jsonl");
+            (int exit, _, string err) = CliRunner.Run(["detect", "--frames", frames, "-o", output, .. extra]);
+            Assert.True(exit == 0, err);
+            Assert.Single(File.ReadAllLines(output));
+        }
+    }
+}
