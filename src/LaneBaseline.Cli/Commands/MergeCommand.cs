@@ -111,7 +111,10 @@ internal static class MergeCommand
                     });
                 maskCsvFile?.Commit();
                 stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"merge: {results[0].Overall.Frames} frames from {paths.Length} shard state(s)"));
-                var request = new ScoreRequest(header.Truth, header.Systems, header.Settings, header.Resamples, header.Seed, threadCount, outPath, csvFile is null ? null : "csv", parseResult.GetValue(minF1));
+                var request = new ScoreRequest(header.Truth, header.Systems, header.Settings, header.Resamples, header.Seed, threadCount, outPath, csvFile is null ? null : "csv", parseResult.GetValue(minF1))
+                {
+                    BootstrapUnit = header.Unit,
+                };
                 return ScoreOutputWriter.Finish(stdout, stderr, request, results, csvFile, maskIou);
             }
 
