@@ -17,7 +17,7 @@ public static class HtmlReportWriter
 {
     /// <summary>Section ids of a page with score results, in page order (every one is always present; empty ones say why).</summary>
     public static readonly IReadOnlyList<string> SectionIds =
-        ["headline", "iou-curve", "confidence", "tags", "paired", "gallery", "tag-gallery", "audit", "configuration", "caution"];
+        ["headline", "iou-curve", "confidence", "tags", "paired", "regressions", "gallery", "tag-gallery", "audit", "configuration", "caution"];
 
     /// <summary>Section ids of a page made from audit findings alone.</summary>
     public static readonly IReadOnlyList<string> AuditOnlySectionIds = ["audit", "configuration", "caution"];
@@ -60,13 +60,19 @@ public static class HtmlReportWriter
 
         h.Append(" · generated <time datetime=\"")
          .Append(Time(input.GeneratedAt)).Append("\">").Append(Time(input.GeneratedAt)).Append("</time></p>\n")
-         .Append("<p class=\"caution-banner\">").Append(E(SafetyNotice.Text)).Append("</p>\n</header>\n");
+         .Append("<p class=\"caution-banner\">").Append(E(SafetyNotice.Text)).Append("</p>\n");
+        if (doc is not null)
+        {
+            h.Append("<p id=\"verdict\" class=\"verdict\">").Append(E(Verdict(doc, input.Gallery?.Regressions))).Append("</p>\n");
+        }
+
+        h.Append("</header>\n");
 
         h.Append("<nav>");
         if (doc is not null)
         {
             h.Append("<a href=\"#headline\">Headline</a><a href=\"#iou-curve\">F1 vs IoU</a><a href=\"#confidence\">Confidence</a>")
-             .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#gallery\">Worst frames</a><a href=\"#tag-gallery\">Worst by tag</a>");
+             .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#regressions\">Regressions</a><a href=\"#gallery\">Worst frames</a><a href=\"#tag-gallery\">Worst by tag</a>");
         }
 
         h.Append("<a href=\"#audit\">Audit</a>").Append(input.Bench is null ? string.Empty : "<a href=\"#bench\">Cost</a>").Append("<a href=\"#configuration\">Configuration</a><a href=\"#caution\">Caution</a></nav>\n<main>\n");
@@ -79,6 +85,7 @@ public static class HtmlReportWriter
             WriteTags(h, systems);
             WritePaired(h, doc);
             var base64 = new Dictionary<(string System, string Frame), string>();
+            WriteRegressions(h, systems.Count, input.Gallery);
             WriteGallery(h, input.Gallery, base64);
             WriteTagGallery(h, input.Gallery, base64);
         }
@@ -94,6 +101,112 @@ public static class HtmlReportWriter
         h.Append("<section id=\"caution\">\n<h2>Safety caution</h2>\n<p>").Append(E(SafetyNotice.Text)).Append("</p>\n</section>\n");
         h.Append("</main>\n<footer>LaneBaseline report · ").Append(Time(input.GeneratedAt)).Append("</footer>\n</body>\n</html>\n");
         return h.ToString();
+    }
+
+    /// <summary>
+    /// The page's one-line answer: which system is better on F1@0.50 and on point accuracy, by how much, and whether
+    /// the 95 % paired interval of the difference excludes 0. Compares the regression gallery's network with its
+    /// baseline when there is one, else the first paired comparison of the file.
+    /// </summary>
+    public static string Verdict(ScoreDocument doc, RegressionGallery? regressions = null)
+    {
+        ArgumentNullException.ThrowIfNull(doc);
+        if (doc.Paired.Count == 0)
+        {
+            SystemResult only = doc.Systems[0];
+            Ci? ci = only.Intervals?.Get("f1@0.50");
+            return "Verdict: one system (" + only.Name + "): F1@0.50 " + F(only.Overall.At("0.50")?.F1 ?? double.NaN, "0.000")
+                + (ci is Ci c ? " [" + F(c.Low, "0.000") + ", " + F(c.High, "0.000") + "]" : string.Empty)
+                + ", point accuracy " + F(only.Overall.Point.Accuracy, "0.000") + ". Score a second system on the same truth to compare.";
+        }
+
+        PairedResult pair = doc.Paired[0];
+        bool flip = false;
+        if (regressions is not null)
+        {
+            PairedResult? match = doc.Paired.FirstOrDefault(p => (p.A == regressions.Network && p.B == regressions.Baseline) || (p.A == regressions.Baseline && p.B == regressions.Network));
+            if (match is not null)
+            {
+                pair = match;
+                flip = match.A == regressions.Baseline;
+            }
+        }
+
+        string a = flip ? pair.B : pair.A, b = flip ? pair.A : pair.B;
+        string Part(string key, string label)
+        {
+            PairedStatistic? st = pair.Statistics.FirstOrDefault(x => x.Key == key);
+            if (st is null || !double.IsFinite(st.Diff))
+            {
+                return label + ": not computed";
+            }
+
+            double d = flip ? -st.Diff : st.Diff;
+            Ci? ci = st.Ci95 is Ci c0 ? (flip ? new Ci(-c0.High, -c0.Low) : c0) : null;
+            string who = d > 0 ? a + " is better" : d < 0 ? a + " is worse" : a + " and " + b + " are equal";
+            string text = label + ": " + who + (d == 0 ? string.Empty : " by " + F(Math.Abs(d), "0.000"));
+            if (ci is Ci c)
+            {
+                bool excludes = c.Low > 0 || c.High < 0;
+                text += " (95 % paired interval of " + a + " − " + b + " [" + F(c.Low, "0.000") + ", " + F(c.High, "0.000") + "] "
+                    + (excludes ? "excludes 0" : "includes 0: not a clear difference") + ")";
+            }
+            else
+            {
+                text += " (no interval: bootstrap off)";
+            }
+
+            return text;
+        }
+
+        return "Verdict, " + a + " against " + b + ": " + Part("f1@0.50", "F1@0.50") + "; " + Part("accuracy", "point accuracy") + ".";
+    }
+
+    private static void WriteRegressions(StringBuilder h, int systemCount, Gallery? gallery)
+    {
+        h.Append("<section id=\"regressions\">\n<h2>Largest regressions</h2>\n");
+        RegressionGallery? r = gallery?.Regressions;
+        if (r is null)
+        {
+            h.Append("<p class=\"empty\">").Append(systemCount < 2
+                ? "Needs two systems on the same truth (a network and the baseline)."
+                : "Not requested: pass <code>--frames DIR</code> to draw the frames where the network does worse than the baseline.").Append("</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<p>").Append(E(r.Selection)).Append(" <strong>").Append(E(r.Network)).Append("</strong> is worse than <strong>").Append(E(r.Baseline))
+         .Append("</strong> on ").Append(Count(r.Worse, "frame")).Append(", better on ").Append(Count(r.Better, "frame")).Append(", of ").Append(Count(r.Total, "frame")).Append(".</p>\n");
+        h.Append("<p class=\"legend\" id=\"regression-legend\"><span class=\"key\"><span class=\"line truth\"></span>truth lane found (broad green band)</span>")
+         .Append("<span class=\"key\"><span class=\"line miss\"></span>truth lane missed (broad brick-red band, ticks across)</span>")
+         .Append("<span class=\"key\"><span class=\"line pred\"></span>").Append(E(r.Network)).Append(" lane that matches (magenta, dots)</span>")
+         .Append("<span class=\"key\"><span class=\"line fp\"></span>").Append(E(r.Network)).Append(" lane matching nothing (ochre, dashed)</span>")
+         .Append("<br>Matches at IoU 0.50, as the score counts them. Click a thumbnail for the full-size overlay.</p>\n");
+        if (r.Frames.Count == 0)
+        {
+            h.Append("<p class=\"empty\">No frame where ").Append(E(r.Network)).Append(" scores a lower frame F1 than ").Append(E(r.Baseline)).Append(".</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<div class=\"gallery\">\n");
+        foreach (RegressionFrame f in r.Frames)
+        {
+            GalleryFrame t = f.Thumb;
+            string img = "<img alt=\"" + E(t.Frame) + " drawn with true positives, false positives and misses\" width=\"" + I(t.Width) + "\" height=\"" + I(t.Height)
+                + "\" src=\"data:image/jpeg;base64," + Convert.ToBase64String(t.Jpeg.Span) + "\">";
+            h.Append("<figure class=\"thumb\" data-frame=\"").Append(E(t.Frame)).Append("\" data-delta=\"").Append(R(f.Delta)).Append("\">")
+             .Append(f.FullSizeHref is null ? img : "<a href=\"" + E(f.FullSizeHref) + "\">" + img + "</a>")
+             .Append("<figcaption><code>").Append(E(t.Frame)).Append("</code><br>Δ F1@0.50 <strong>").Append(F(f.Delta, "+0.000;−0.000;0.000")).Append("</strong>: ")
+             .Append(E(r.Network)).Append(' ').Append(F(t.F1, "0.000")).Append(" (TP ").Append(I(t.Tp)).Append(", FP ").Append(I(t.Fp)).Append(", FN ").Append(I(t.Fn)).Append("), ")
+             .Append(E(r.Baseline)).Append(' ').Append(F(f.BaselineF1, "0.000"));
+            if (t.Tags.Count > 0)
+            {
+                h.Append("<br>tags: ").Append(E(string.Join(", ", t.Tags)));
+            }
+
+            h.Append("</figcaption></figure>\n");
+        }
+
+        h.Append("</div>\n</section>\n");
     }
 
     private static void WriteHeadline(StringBuilder h, IReadOnlyList<SystemResult> systems)
@@ -523,6 +636,9 @@ public static class HtmlReportWriter
         .legend .line { display:inline-block; width:28px; vertical-align:middle; margin-right:6px; border-top-style:solid; }
         .legend .truth { border-top-width:5px; border-top-color:var(--truth); }
         .legend .pred { border-top-width:2px; border-top-color:var(--pred); }
+        .legend .miss { border-top-width:5px; border-top-color:var(--miss); }
+        .legend .fp { border-top-width:2px; border-top-style:dashed; border-top-color:var(--fp); }
+        .verdict { font-size:1.05em; font-weight:600; border-left:5px solid var(--accent); padding:6px 12px; background:var(--band); }
         .gallery { display:grid; grid-template-columns:repeat(auto-fill, minmax(260px, 1fr)); gap:12px; }
         .thumb { margin:0; border:1px solid var(--rule); padding:6px; background:var(--band); }
         .thumb img { display:block; width:100%; height:auto; }

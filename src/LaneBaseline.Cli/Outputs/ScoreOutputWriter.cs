@@ -88,7 +88,7 @@ internal static class ScoreOutputWriter
             using var buffer = new MemoryStream();
             ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
             ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
-            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads) { Candidates = galleryFrames };
+            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads) { Candidates = galleryFrames, Settings = request.Settings, Focus = request.Focus };
             ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", null, gallery, DateTimeOffset.UtcNow, CancellationToken.None);
             stderr.WriteLine("score: wrote report " + reportPath);
         }
