@@ -1,0 +1,234 @@
+using LaneBaseline.Core.Options;
+using LaneBaseline.Core.Results;
+using LaneBaseline.Vision.Pipeline;
+
+namespace LaneBaseline.Vision.Stages.Search;
+
+/// <summary>
+/// Steps (5) to (7) of the <c>search</c> stage: duplicates dropped, slots by lane-width and parallelism consistency,
+/// each reported lane sampled back into the image with its marking kind and agreement features.
+/// </summary>
+internal sealed class SlotAssigner
+{
+    private readonly SearchOptions search;
+    private readonly FitOptions fit;
+    private readonly ConfidenceOptions confidence;
+    private readonly int[] order = new int[FrameWorkspace.MaxCandidates];
+    private readonly int[] accepted = new int[FrameWorkspace.MaxCandidates];
+
+    /// <summary>Creates the slot assigner.</summary>
+    public SlotAssigner(SearchOptions search, FitOptions fit, ConfidenceOptions confidence)
+    {
+        this.search = search;
+        this.fit = fit;
+        this.confidence = confidence;
+    }
+
+    /// <summary>Chooses the reported lanes among the fitted candidates and gives them slots.</summary>
+    public void Assign(FrameWorkspace ws)
+    {
+        int n = ws.CandidateCount, bw = ws.BirdsEyeWidth, bh = ws.BirdsEyeHeight;
+        double yb = bh - 1;
+
+        // Candidates by score (descending; index breaks ties so the order is deterministic).
+        int count = 0;
+        for (int i = 0; i < n; i++)
+        {
+            if (ws.CandidateFits[i].Score >= confidence.MinScore)
+            {
+                int pos = count++;
+                while (pos > 0 && ws.CandidateFits[order[pos - 1]].Score < ws.CandidateFits[i].Score)
+                {
+                    order[pos] = order[pos - 1];
+                    pos--;
+                }
+
+                order[pos] = i;
+            }
+        }
+
+        // Drop duplicates: mean separation over the shared rows below half the minimum separation.
+        int kept = 0;
+        for (int o = 0; o < count; o++)
+        {
+            int i = order[o];
+            bool duplicate = false;
+            for (int a = 0; a < kept && !duplicate; a++)
+            {
+                int j = accepted[a];
+                double top = Math.Max(ws.CandidateTopY[i], ws.CandidateTopY[j]);
+                double sum = 0;
+                for (int s = 0; s <= 4; s++)
+                {
+                    double y = yb - ((yb - top) * s / 4);
+                    sum += Math.Abs(ws.CandidateFits[i].Fit.At(y) - ws.CandidateFits[j].Fit.At(y));
+                }
+
+                duplicate = sum / 5 < search.MinSeparationPx / 2.0 || Crosses(ws, i, j);
+            }
+
+            if (!duplicate)
+            {
+                accepted[kept++] = i;
+            }
+        }
+
+        // Nearest left and right of the vehicle centre (bird's-eye centre column).
+        double centre = (bw - 1) / 2.0;
+        int l1 = Nearest(ws, kept, centre, -1, double.NegativeInfinity);
+        int r1 = Nearest(ws, kept, centre, +1, double.PositiveInfinity);
+        double minW = search.MinLaneWidthFraction * bw, maxW = search.MaxLaneWidthFraction * bw;
+        if (l1 >= 0 && r1 >= 0)
+        {
+            double width = Xb(ws, r1) - Xb(ws, l1);
+            if (width < minW || width > maxW || !Parallel(ws, l1, r1))
+            {
+                // Implausible ego lane (width, or boundaries not parallel on the ground): keep the stronger boundary only.
+                if (ws.CandidateFits[l1].Score >= ws.CandidateFits[r1].Score)
+                {
+                    r1 = -1;
+                }
+                else
+                {
+                    l1 = -1;
+                }
+            }
+        }
+
+        double egoWidth = l1 >= 0 && r1 >= 0 ? Xb(ws, r1) - Xb(ws, l1) : double.NaN;
+        int l2 = l1 >= 0 ? Neighbour(ws, kept, l1, -1, egoWidth, minW, maxW) : -1;
+        int r2 = r1 >= 0 ? Neighbour(ws, kept, r1, +1, egoWidth, minW, maxW) : -1;
+        int l3 = l2 >= 0 && search.MaxLanes >= 5 ? Neighbour(ws, kept, l2, -1, egoWidth, minW, maxW) : -1;
+        int r3 = r2 >= 0 && search.MaxLanes >= 6 ? Neighbour(ws, kept, r2, +1, egoWidth, minW, maxW) : -1;
+
+        ws.LaneCount = 0;
+        int max = search.MaxLanes;
+        Emit(ws, l3, -3, max >= 5);
+        Emit(ws, l2, -2, max >= 3);
+        Emit(ws, l1, -1, true);
+        Emit(ws, r1, +1, max >= 2);
+        Emit(ws, r2, +2, max >= 4);
+        Emit(ws, r3, +3, max >= 6);
+        AddAgreementFeatures(ws);
+    }
+
+    /// <summary>
+    /// Evidence features of the reported lanes that see the conditions (see <see cref="LaneEstimate"/>): the frame's
+    /// share of evidence kept by reflection suppression, the heading at the bottom row against the bird's-eye vertical
+    /// (agreement with the vanishing point), and the smallest spacing change against another reported lane
+    /// (agreement with the other boundaries).
+    /// </summary>
+    private static void AddAgreementFeatures(FrameWorkspace ws)
+    {
+        double yb = ws.BirdsEyeHeight - 1;
+        for (int i = 0; i < ws.LaneCount; i++)
+        {
+            LaneEstimate e = ws.Lanes[i];
+            double slope = (2 * e.Fit.A * yb) + e.Fit.B;
+            double parallel = double.NaN;
+            for (int j = 0; j < ws.LaneCount; j++)
+            {
+                if (j == i)
+                {
+                    continue;
+                }
+
+                Quadratic o = ws.Lanes[j].Fit;
+                double w0 = e.Fit.At(yb) - o.At(yb), sum = 0;
+                const int Samples = 8;
+                for (int k = 1; k <= Samples; k++)
+                {
+                    double y = yb * (1 - (k / (Samples * 1.5)));
+                    sum += Math.Abs(e.Fit.At(y) - o.At(y) - w0);
+                }
+
+                double mean = sum / Samples;
+                parallel = double.IsNaN(parallel) ? mean : Math.Min(parallel, mean);
+            }
+
+            ws.Lanes[i] = e with
+            {
+                EvidenceKeptShare = ws.EvidenceKeptShare,
+                HeadingDeviationDeg = Math.Atan(Math.Abs(slope)) * 180 / Math.PI,
+                ParallelDeviationPx = parallel,
+            };
+        }
+    }
+
+    private static bool Crosses(FrameWorkspace ws, int i, int j)
+    {
+        double top = Math.Max(ws.CandidateTopY[i], ws.CandidateTopY[j]);
+        double yb = ws.BirdsEyeHeight - 1;
+        double d0 = ws.CandidateFits[i].Fit.At(yb) - ws.CandidateFits[j].Fit.At(yb);
+        double d1 = ws.CandidateFits[i].Fit.At(top) - ws.CandidateFits[j].Fit.At(top);
+        return d0 * d1 < 0;
+    }
+
+    private static double Xb(FrameWorkspace ws, int i) => ws.CandidateFits[i].Fit.At(ws.BirdsEyeHeight - 1);
+
+    private int Nearest(FrameWorkspace ws, int kept, double from, int side, double limit)
+    {
+        int best = -1;
+        double bestD = double.MaxValue;
+        for (int a = 0; a < kept; a++)
+        {
+            int i = accepted[a];
+            double d = (Xb(ws, i) - from) * side;
+            if (d > 0 && d < bestD && (side < 0 ? Xb(ws, i) > limit : Xb(ws, i) < limit))
+            {
+                bestD = d;
+                best = i;
+            }
+        }
+
+        return best;
+    }
+
+    private int Neighbour(FrameWorkspace ws, int kept, int from, int side, double egoWidth, double minW, double maxW)
+    {
+        int next = Nearest(ws, kept, Xb(ws, from), side, side < 0 ? double.NegativeInfinity : double.PositiveInfinity);
+        if (next < 0)
+        {
+            return -1;
+        }
+
+        double width = Math.Abs(Xb(ws, next) - Xb(ws, from));
+        bool plausible = double.IsNaN(egoWidth)
+            ? width >= minW && width <= maxW
+            : Math.Abs(width - egoWidth) <= search.WidthTolerance * egoWidth;
+        return plausible && Parallel(ws, from, next) ? next : -1;
+    }
+
+    /// <summary>
+    /// Whether two boundaries stay parallel on the ground: their bird's-eye spacing at the far end of their common
+    /// support differs from the spacing at the bottom row by at most <see cref="SearchOptions.WidthTolerance"/>.
+    /// </summary>
+    private bool Parallel(FrameWorkspace ws, int a, int b)
+    {
+        double yb = ws.BirdsEyeHeight - 1;
+        double top = Math.Max(ws.CandidateTopY[a], ws.CandidateTopY[b]);
+        double w0 = Math.Abs(ws.CandidateFits[a].Fit.At(yb) - ws.CandidateFits[b].Fit.At(yb));
+        double w1 = Math.Abs(ws.CandidateFits[a].Fit.At(top) - ws.CandidateFits[b].Fit.At(top));
+        return Math.Abs(w1 - w0) <= search.WidthTolerance * w0;
+    }
+
+    private void Emit(FrameWorkspace ws, int candidate, int slot, bool allowed)
+    {
+        if (candidate < 0 || !allowed)
+        {
+            return;
+        }
+
+        LaneEstimate e = ws.CandidateFits[candidate];
+        int lane = ws.LaneCount;
+        int points = LaneSampler.Sample(ws, fit, e.Fit, fit.ExtendToFarEdge ? 0 : ws.CandidateTopY[candidate], ws.LanePoints[lane]);
+        if (points < 2)
+        {
+            return;
+        }
+
+        ws.Lanes[lane] = e with { Slot = slot, PointCount = points, Kind = search.EstimateKind ? MarkingKind.Estimate(ws, candidate, e.Fit) : null };
+        ws.LaneCandidate[lane] = candidate;
+        ws.LaneCount = lane + 1;
+    }
+}
