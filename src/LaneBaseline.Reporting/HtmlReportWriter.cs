@@ -82,7 +82,7 @@ public static class HtmlReportWriter
             WriteHeadline(h, systems);
             WriteIouCurve(h, systems);
             WriteConfidence(h, systems);
-            WriteTags(h, systems);
+            WriteTags(h, systems, Roles(doc, input.Gallery?.Regressions));
             WritePaired(h, doc);
             var base64 = new Dictionary<(string System, string Frame), string>();
             WriteRegressions(h, systems.Count, input.Gallery);
@@ -122,13 +122,14 @@ public static class HtmlReportWriter
 
         PairedResult pair = doc.Paired[0];
         bool flip = false;
-        if (regressions is not null)
+        if (Roles(doc, regressions) is (int net, int bas))
         {
-            PairedResult? match = doc.Paired.FirstOrDefault(p => (p.A == regressions.Network && p.B == regressions.Baseline) || (p.A == regressions.Baseline && p.B == regressions.Network));
+            string nn = doc.Systems[net].Name, bn = doc.Systems[bas].Name;
+            PairedResult? match = doc.Paired.FirstOrDefault(p => (p.A == nn && p.B == bn) || (p.A == bn && p.B == nn));
             if (match is not null)
             {
                 pair = match;
-                flip = match.A == regressions.Baseline;
+                flip = match.A == bn;
             }
         }
 
@@ -279,6 +280,22 @@ public static class HtmlReportWriter
 
         h.Append("<p>Each point keeps only lanes whose confidence reaches a cutoff (0.00, 0.05, … 0.95); lanes without a confidence are always kept. IoU threshold 0.50.</p>\n");
         h.Append("<figure class=\"chart\" id=\"chart-confidence\">").Append(Charts.PrecisionRecall(systems, "c2")).Append("<figcaption>Precision against recall as the confidence cutoff rises.</figcaption></figure>\n");
+        SystemResult[] calibrated = [.. systems.Where(s => s.Calibration is not null)];
+        if (calibrated.Length > 0)
+        {
+            h.Append("<h3 id=\"reliability\">Reliability of the lane scores</h3>\n<p>Lanes grouped into ten equal score bins; a well-calibrated system's points lie on the diagonal. ECE = Σ (lanes in bin / all) · |precision − mean score| (Naeini, Cooper &amp; Hauskrecht 2015).</p>\n");
+            h.Append("<figure class=\"chart\" id=\"chart-reliability\">").Append(Charts.Reliability(systems, "c7")).Append("<figcaption>Precision at IoU 0.50 against the mean score per bin, one curve per system.</figcaption></figure>\n");
+            h.Append("<div class=\"scroll\"><table id=\"calibration-table\">\n<thead><tr><th>System</th><th>Scored lanes</th><th>ECE</th><th>Best-F1 score threshold</th><th>Best F1</th></tr></thead>\n<tbody>\n");
+            foreach (SystemResult r in calibrated)
+            {
+                CalibrationSummary c = r.Calibration!;
+                h.Append("<tr data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(E(r.Name)).Append("</th>").Append(Td("scored_lanes", c.ScoredLanes))
+                 .Append(TdCi("ece", c.Ece, null)).Append(TdCi("best_threshold", c.BestThreshold, null)).Append(TdCi("best_f1", c.BestF1, null)).Append("</tr>\n");
+            }
+
+            h.Append("</tbody>\n</table></div>\n");
+        }
+
         h.Append("<details><summary>Sweep table (one row per system and cutoff)</summary>\n<div class=\"scroll\"><table id=\"confidence-table\">\n<thead><tr><th>System</th><th>Min confidence</th><th>TP</th><th>FP</th><th>FN</th><th>Precision</th><th>Recall</th><th>F1</th></tr></thead>\n<tbody>\n");
         foreach (SystemResult r in with)
         {
@@ -295,7 +312,67 @@ public static class HtmlReportWriter
         h.Append("</tbody>\n</table></div>\n</details>\n</section>\n");
     }
 
-    private static void WriteTags(StringBuilder h, IReadOnlyList<SystemResult> systems)
+    /// <summary>
+    /// The kind of a truth tag, for grouping: road layout (curve, straight, lanes-N, two-way, lane-change), road
+    /// surface (asphalt, concrete), markings (markings-*, worn-paint) and condition (every other tag: light, weather,
+    /// image effects, traffic). The order of the kinds is the order of this list.
+    /// </summary>
+    public static readonly IReadOnlyList<string> TagKinds = ["condition", "road layout", "road surface", "markings"];
+
+    /// <summary>The kind of one tag (see <see cref="TagKinds"/>).</summary>
+    public static string TagKind(string tag)
+    {
+        ArgumentNullException.ThrowIfNull(tag);
+        if (tag is "curve" or "straight" or "two-way" or "lane-change" || tag.StartsWith("lanes-", StringComparison.Ordinal))
+        {
+            return "road layout";
+        }
+
+        if (tag is "asphalt" or "concrete")
+        {
+            return "road surface";
+        }
+
+        return tag.StartsWith("markings-", StringComparison.Ordinal) || tag == "worn-paint" ? "markings" : "condition";
+    }
+
+    /// <summary>
+    /// The network and the baseline the page compares (indices into the systems): the regression gallery's when there
+    /// is one, else the system named <c>baseline</c> (or <c>base</c>, else the first) and the first other system.
+    /// Null with one system.
+    /// </summary>
+    public static (int Network, int Baseline)? Roles(ScoreDocument doc, RegressionGallery? regressions)
+    {
+        ArgumentNullException.ThrowIfNull(doc);
+        IReadOnlyList<SystemResult> systems = doc.Systems;
+        if (systems.Count < 2)
+        {
+            return null;
+        }
+
+        int Index(string name)
+        {
+            for (int i = 0; i < systems.Count; i++)
+            {
+                if (systems[i].Name == name)
+                {
+                    return i;
+                }
+            }
+
+            return -1;
+        }
+
+        if (regressions is not null && Index(regressions.Network) is int n && n >= 0 && Index(regressions.Baseline) is int b0 && b0 >= 0)
+        {
+            return (n, b0);
+        }
+
+        int b = Index("baseline") is int i1 && i1 >= 0 ? i1 : Index("base") is int i2 && i2 >= 0 ? i2 : 0;
+        return (b == 0 ? 1 : 0, b);
+    }
+
+    private static void WriteTags(StringBuilder h, IReadOnlyList<SystemResult> systems, (int Network, int Baseline)? roles)
     {
         h.Append("<section id=\"tags\">\n<h2>By tag</h2>\n");
         var tags = systems.SelectMany(s => s.ByTag.Select(kv => kv.Key)).Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal).ToList();
@@ -315,6 +392,8 @@ public static class HtmlReportWriter
             WriteSeverity(h, systems, levels);
         }
 
+        WriteTagComparison(h, systems, tags, roles);
+        h.Append("<details><summary>Per tag and system (frames, truth lanes, mF1)</summary>\n");
         h.Append("<div class=\"scroll\"><table id=\"tag-table\">\n<thead><tr><th>Tag</th><th>System</th><th>Frames</th><th>Truth lanes</th><th>F1@0.50</th><th>mF1</th><th>Point accuracy</th></tr></thead>\n<tbody>\n");
         foreach (string tag in tags)
         {
@@ -333,8 +412,62 @@ public static class HtmlReportWriter
             }
         }
 
-        h.Append("</tbody>\n</table></div>\n</section>\n");
+        h.Append("</tbody>\n</table></div>\n</details>\n</section>\n");
     }
+
+    /// <summary>Tags grouped by kind (stable order), systems side by side, and network − baseline with its sign.</summary>
+    private static void WriteTagComparison(StringBuilder h, IReadOnlyList<SystemResult> systems, IReadOnlyList<string> tags, (int Network, int Baseline)? roles)
+    {
+        h.Append("<p class=\"note\">F1 at IoU 0.50 / point accuracy per tag, tags grouped by kind (")
+         .Append(E(string.Join(", ", TagKinds))).Append(") and in ordinal order within a kind.");
+        if (roles is (int net, int bas))
+        {
+            h.Append(" Δ is ").Append(E(systems[net].Name)).Append(" − ").Append(E(systems[bas].Name))
+             .Append(" on the same frames; the score file holds intervals for all frames only (Headline, Paired), so none are shown per tag.");
+        }
+
+        h.Append("</p>\n<div class=\"scroll\"><table id=\"tag-compare-table\">\n<thead><tr><th>Kind</th><th>Tag</th><th>Frames</th>");
+        foreach (SystemResult r in systems)
+        {
+            h.Append("<th>").Append(E(r.Name)).Append(" F1@0.50</th><th>").Append(E(r.Name)).Append(" point acc.</th>");
+        }
+
+        if (roles is not null)
+        {
+            h.Append("<th>Δ F1@0.50</th><th>Δ point acc.</th>");
+        }
+
+        h.Append("</tr></thead>\n<tbody>\n");
+        foreach (string kind in TagKinds)
+        {
+            foreach (string tag in tags.Where(t => TagKind(t) == kind))
+            {
+                Tally?[] row = [.. systems.Select(r => r.ByTag.FirstOrDefault(kv => kv.Key == tag).Value)];
+                long frames = row.Where(t => t is not null).Select(t => t!.Frames).DefaultIfEmpty(0).Max();
+                h.Append("<tr data-tag=\"").Append(E(tag)).Append("\" data-kind=\"").Append(E(kind)).Append("\"><td class=\"t\">").Append(E(kind)).Append("</td><th scope=\"row\">")
+                 .Append(E(tag)).Append("</th>").Append(Td("frames", frames));
+                for (int s = 0; s < systems.Count; s++)
+                {
+                    h.Append(TdCi("f1@0.50", row[s]?.At("0.50")?.F1 ?? double.NaN, null)).Append(TdCi("accuracy", row[s]?.Point.Accuracy ?? double.NaN, null));
+                }
+
+                if (roles is (int n, int b))
+                {
+                    double df = (row[n]?.At("0.50")?.F1 ?? double.NaN) - (row[b]?.At("0.50")?.F1 ?? double.NaN);
+                    double da = (row[n]?.Point.Accuracy ?? double.NaN) - (row[b]?.Point.Accuracy ?? double.NaN);
+                    h.Append(TdDelta("delta_f1@0.50", df)).Append(TdDelta("delta_accuracy", da));
+                }
+
+                h.Append("</tr>\n");
+            }
+        }
+
+        h.Append("</tbody>\n</table></div>\n");
+    }
+
+    private static string TdDelta(string key, double value) =>
+        "<td data-key=\"" + E(key) + "\" data-value=\"" + R(value) + "\" class=\"" + (value < 0 ? "worse" : value > 0 ? "better" : "same") + "\">"
+        + F(value, "+0.000;−0.000;0.000") + "</td>";
 
     private static void WritePaired(StringBuilder h, ScoreDocument doc)
     {
@@ -625,7 +758,8 @@ public static class HtmlReportWriter
         th:first-child, thead th { text-align:left; } thead th { background:var(--band); white-space:normal; vertical-align:bottom; }
         #headline-table thead th { max-width:7.5em; }
         #settings-table td, #versions-table td { text-align:left; white-space:normal; word-break:break-all; }
-        td.t { text-align:left; } td.msg { white-space:normal; min-width:16em; }
+        #tag-compare-table th { text-align:left; }
+        td.t { text-align:left; } td.worse { color:var(--miss); font-weight:600; } td.better { color:var(--truth); } td.msg { white-space:normal; min-width:16em; }
         .ci { display:block; color:var(--muted); font-size:0.82em; }
         .swatch { display:inline-block; width:0.8em; height:0.8em; border-radius:2px; margin-right:6px; vertical-align:baseline; }
         figure { margin:8px 0; }
