@@ -13,11 +13,11 @@ lb() { dotnet src/LaneBaseline.Cli/bin/Release/net10.0/lanebaseline.dll "$@"; }
 val=out/calibration/validation
 rm -rf "$val"; mkdir -p "$val"
 # the default condition mix, plus the opt-in hard conditions one at a time; keys get their part's folder
-lb render --out "$val/mix" --seed 4242 --count 400 --size 960x540 --threads 2 >/dev/null
+lb render -o "$val/mix" --seed 4242 --count 400 --size 960x540 --threads 2 >/dev/null
 : > "$val/truth.lanes.jsonl"
 sed 's#"frame":"#"frame":"mix/#' "$val/mix/truth.lanes.jsonl" >> "$val/truth.lanes.jsonl"
 for c in wet-night sodium-dusk low-sun heavy-wear; do
-  lb render --out "$val/$c" --seed 4242 --count 50 --size 960x540 --conditions "$c" --threads 2 >/dev/null
+  lb render -o "$val/$c" --seed 4242 --count 50 --size 960x540 --conditions "$c" --threads 2 >/dev/null
   sed "s#\"frame\":\"#\"frame\":\"$c/#" "$val/$c/truth.lanes.jsonl" >> "$val/truth.lanes.jsonl"
 done
 lb tune --calibrate --frames "$val" --truth "$val/truth.lanes.jsonl" --config configs/presets/default.yaml \

@@ -10,7 +10,7 @@ lb() { dotnet src/LaneBaseline.Cli/bin/Release/net10.0/lanebaseline.dll "$@"; }
 out=out/demo
 rm -rf "$out"; mkdir -p "$out"
 
-lb detect sample-frames -o "$out/baseline.lanes.jsonl" --config default --overlays "$out/overlays" "$@"
+lb detect --frames sample-frames -o "$out/baseline.lanes.jsonl" --config default --overlays "$out/overlays" "$@"
 lb audit --pred "$out/baseline.lanes.jsonl" --camera sample-frames/camera.json --design-speed-kmh 80 \
   -o "$out/findings.jsonl" >"$out/audit.txt" || true
 lb score --truth sample-frames/truth.lanes.jsonl --pred baseline="$out/baseline.lanes.jsonl" \

@@ -34,7 +34,7 @@ for set in ${sets//,/ }; do
     d="$out/$set/$c"
     if [ ! -f "$d/frames/truth.lanes.jsonl" ]; then
       cond=$c; [ "$c" = clean ] && cond=none
-      lb render --out "$d/frames" --seed "$seed" --count "$count" --size "$size" --conditions "$cond" >/dev/null 2>&1
+      lb render -o "$d/frames" --seed "$seed" --count "$count" --size "$size" --conditions "$cond" >/dev/null 2>&1
     fi
     python3 - "$d/frames/truth.lanes.jsonl" "$d/truth4.lanes.jsonl" <<'PY'
 import json, sys
@@ -44,7 +44,7 @@ with open(sys.argv[1]) as f, open(sys.argv[2], "w") as o:
         r["lanes"] = [l for l in r["lanes"] if abs(l.get("slot", 0)) in (1, 2)]
         o.write(json.dumps(r) + "\n")
 PY
-    lb detect "$d/frames" -o "$d/pred.lanes.jsonl" --config "$config" --threads 2 >/dev/null 2>&1
+    lb detect --frames "$d/frames" -o "$d/pred.lanes.jsonl" --config "$config" --threads 2 >/dev/null 2>&1
     lb score --truth "$d/truth4.lanes.jsonl" --pred "$d/pred.lanes.jsonl" --json "$d/score.json" --bootstrap 0 >/dev/null 2>&1
   done
   echo "== $set (seed $seed, $count frames per condition, $size, preset $config) =="

@@ -18,3 +18,25 @@ if [ "${#need[@]}" -gt 0 ]; then
   DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq --no-install-recommends "${need[@]}" >/dev/null
 fi
 [ "${SKIP_DOTNET_CHECK:-0}" = 1 ] || command -v dotnet >/dev/null || { echo "setup: the .NET 10 SDK is required (dotnet not on PATH)" >&2; exit 1; }
+# Put `lanebaseline` on the PATH: pack the command line of this checkout as a .NET tool and install it for the user
+# (docs/deploy.md). Set LANEBASELINE_NO_TOOL=1 to skip (e.g. machines that only run the tests).
+if [ "${LANEBASELINE_NO_TOOL:-0}" != 1 ] && command -v dotnet >/dev/null; then
+  root=$(cd "$(dirname "$0")/.." && pwd)
+  feed="$root/out/tool"
+  rm -rf "$feed"
+  echo "setup: packing the lanebaseline tool" >&2
+  dotnet pack "$root/src/LaneBaseline.Cli" -c Release -o "$feed" -nologo -v q >/dev/null
+  # The same version number on every pack: drop the installed copy and the cached package so this build is installed.
+  dotnet tool uninstall --global lanebaseline >/dev/null 2>&1 || true
+  rm -rf "${NUGET_PACKAGES:-$HOME/.nuget/packages}/lanebaseline"
+  nupkg=$(ls "$feed"/lanebaseline.*.nupkg | head -n 1)
+  version=$(basename "$nupkg" .nupkg); version=${version#lanebaseline.}
+  dotnet tool install --global lanebaseline --version "$version" --add-source "$feed" --ignore-failed-sources >/dev/null
+  tools="$HOME/.dotnet/tools"
+  if [ "$(id -u)" = 0 ] && [ -d /usr/local/bin ]; then
+    ln -sf "$tools/lanebaseline" /usr/local/bin/lanebaseline
+  elif ! command -v lanebaseline >/dev/null; then
+    echo "setup: add $tools to your PATH (export PATH=\"\$PATH:$tools\") to run lanebaseline" >&2
+  fi
+  echo "setup: $("$tools/lanebaseline" --version)" >&2
+fi

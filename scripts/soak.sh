@@ -30,5 +30,5 @@ for n in "${detect_counts[@]}"; do
     mkdir -p "$f"; mapfile -t src < <(find "$PWD/sample-frames" -name '*.jpg' | sort)
     for ((i = 0; i < n; i++)); do ln -s "${src[$((i % ${#src[@]}))]}" "$f/$(printf '%06d' "$i").jpg"; done
   fi
-  printf '%-8s %8s  %s\n' detect "$n" "$(peak dotnet "$lb" detect "$f" -o "$out/detect-$n.lanes.jsonl" --threads 1)"
+  printf '%-8s %8s  %s\n' detect "$n" "$(peak dotnet "$lb" detect --frames "$f" -o "$out/detect-$n.lanes.jsonl" --threads 1)"
 done

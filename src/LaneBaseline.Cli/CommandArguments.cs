@@ -28,7 +28,8 @@ internal static class CommandArguments
         return list;
     }
 
-    internal static IReadOnlyList<ScoredSystem> ParseSystems(string[] values)
+    /// <summary>Parses <c>--pred [NAME=]FILE</c> values; with <paramref name="stdin"/>, <c>-</c> reads standard input (named "stdin" unless named).</summary>
+    internal static IReadOnlyList<ScoredSystem> ParseSystems(string[] values, bool stdin = false)
     {
         var systems = new List<ScoredSystem>();
         foreach (string v in values)
@@ -62,6 +63,17 @@ internal static class CommandArguments
             if (systems.Any(s => s.Name == name))
             {
                 throw new UsageException($"--pred: the name '{name}' is given twice; name systems as NAME=FILE");
+            }
+
+            if (StandardStreams.IsDash(path))
+            {
+                if (!stdin)
+                {
+                    throw new UsageException("--pred -: standard input is read by score and audit only");
+                }
+
+                name = name == StandardStreams.Dash ? "stdin" : name;
+                path = RunContext.Input(path);
             }
 
             systems.Add(new ScoredSystem(name, path));

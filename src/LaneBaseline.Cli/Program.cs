@@ -9,7 +9,8 @@ internal static class Program
     private static int Main(string[] args)
     {
         NativeLibraryResolver.Install();
-        return Invoke(args, Console.Out, Console.Error);
+        using Stream input = Console.OpenStandardInput();
+        return Invoke(args, Console.Out, Console.Error, input);
     }
 
     /// <summary>Builds the root command with every subcommand.</summary>
@@ -27,13 +28,31 @@ internal static class Program
         root.Subcommands.Add(ReportCommand.Create());
         root.Subcommands.Add(MergeCommand.Create());
         root.Subcommands.Add(BenchCommand.Create());
+        HelpExamples.Install(root);
+        VersionText.Install(root);
         return root;
     }
 
     /// <summary>Runs the tool in-process (used by tests) with the given writers.</summary>
-    public static int Invoke(string[] args, TextWriter output, TextWriter error)
+    public static int Invoke(string[] args, TextWriter output, TextWriter error) => Invoke(args, output, error, Stream.Null);
+
+    /// <summary>Runs the tool with the given writers and standard input (read where an input is <c>-</c>).</summary>
+    public static int Invoke(string[] args, TextWriter output, TextWriter error, Stream input)
     {
-        ParseResult parse = CreateRoot().Parse(args);
+        using var stdout = new TextWriterStream(output);
+        using IDisposable streams = StandardStreams.Use(stdout, input);
+        RootCommand root = CreateRoot();
+        try
+        {
+            args = SettingsFile.Expand(root, args);
+        }
+        catch (Core.BadInputException ex)
+        {
+            error.WriteLine("error: " + ex.Message);
+            return ExitCodes.InputError;
+        }
+
+        ParseResult parse = root.Parse(args);
         var config = new InvocationConfiguration { Output = output, Error = error };
         if (parse.Errors.Count > 0)
         {
@@ -42,10 +61,30 @@ internal static class Program
                 error.WriteLine("usage error: " + e.Message);
             }
 
+            WriteSuggestions(parse, error);
+
             error.WriteLine("Run 'lanebaseline " + (parse.CommandResult.Command is RootCommand ? string.Empty : parse.CommandResult.Command.Name + " ") + "--help' for the options.");
             return ExitCodes.UsageError;
         }
 
         return parse.Invoke(config);
+    }
+
+    /// <summary>System.CommandLine's own typo corrections ("Did you mean ...") for unmatched tokens, on stderr.</summary>
+    private static void WriteSuggestions(ParseResult parse, TextWriter error)
+    {
+        if (parse.UnmatchedTokens.Count == 0 || parse.Action is not System.CommandLine.Invocation.ParseErrorAction action)
+        {
+            return;
+        }
+
+        action.ShowHelp = false;
+        action.ShowTypoCorrections = true;
+        using var suggestions = new StringWriter();
+        parse.Invoke(new InvocationConfiguration { Output = suggestions, Error = TextWriter.Null });
+        foreach (string line in suggestions.ToString().Split('\n', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
+        {
+            error.WriteLine(line);
+        }
     }
 }

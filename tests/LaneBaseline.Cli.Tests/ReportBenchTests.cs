@@ -31,7 +31,7 @@ public sealed class ReportBenchTests : IDisposable
         JsonElement[] runs = [.. doc.RootElement.GetProperty("runs").EnumerateArray()];
         string table = Regex.Match(page, "<table id=\"bench-table\">.*?</table>", RegexOptions.Singleline).Value;
         Assert.Equal(runs.Length, Regex.Count(table, "<tr><th scope=\"row\">"));
-        string fps = runs[0].GetProperty("framesPerSecond").GetDouble().ToString("0.0", CultureInfo.InvariantCulture);
+        string fps = runs[0].GetProperty("frames_per_second").GetDouble().ToString("0.0", CultureInfo.InvariantCulture);
         Assert.Contains("<td>" + fps + "</td>", table, StringComparison.Ordinal);
 
         // The section sits between the audit section and the configuration.
@@ -45,7 +45,7 @@ public sealed class ReportBenchTests : IDisposable
     {
         string score = Score();
         string bad = dir.File("bad.json");
-        File.WriteAllText(bad, "{\"schemaVersion\":1,\"machine\":{}}");
+        File.WriteAllText(bad, "{\"schema_version\":2,\"machine\":{}}");
         string html = dir.File("r.html");
         (int exit, _, string err) = CliRunner.Run("report", "--score", score, "--bench", bad, "-o", html);
         Assert.Equal(3, exit);

@@ -6,7 +6,7 @@ namespace LaneBaseline.Cli.Bench;
 /// <summary>Writes a <see cref="BenchResult"/> as the stdout table and as the JSON document of docs/bench.md.</summary>
 internal static class BenchReportWriter
 {
-    public const int SchemaVersion = 1;
+    public const int SchemaVersion = 2; // 2: snake_case keys (1 had camelCase)
 
     public static void WriteTable(BenchResult result, TextWriter output)
     {
@@ -52,26 +52,27 @@ internal static class BenchReportWriter
         ArgumentNullException.ThrowIfNull(result);
         using var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true });
         w.WriteStartObject();
-        w.WriteString("tool", "lanebaseline bench");
-        w.WriteNumber("schemaVersion", SchemaVersion);
-        w.WriteString("createdUtc", DateTime.UtcNow.ToString("yyyy-MM-ddTHH:mm:ssZ", CultureInfo.InvariantCulture));
+        w.WriteString("tool", "lanebaseline");
+        w.WriteString("command", "bench");
+        w.WriteNumber("schema_version", SchemaVersion);
+        w.WriteString("created_utc", DateTime.UtcNow.ToString("yyyy-MM-ddTHH:mm:ssZ", CultureInfo.InvariantCulture));
         MachineInfo m = result.Machine;
         w.WriteStartObject("machine");
-        w.WriteString("cpuModel", m.CpuModel);
-        w.WriteNumber("logicalCores", m.LogicalCores);
+        w.WriteString("cpu_model", m.CpuModel);
+        w.WriteNumber("logical_cores", m.LogicalCores);
         w.WriteString("architecture", m.Architecture);
         w.WriteString("os", m.Os);
         w.WriteString("dotnet", m.DotNet);
         w.WriteStartObject("opencv");
         w.WriteString("version", m.OpenCvVersion);
-        w.WriteString("simdBaseline", m.OpenCvSimdBaseline);
-        w.WriteString("simdDispatched", m.OpenCvSimdDispatched);
-        w.WriteString("hostSimd", m.HostSimd);
+        w.WriteString("simd_baseline", m.OpenCvSimdBaseline);
+        w.WriteString("simd_dispatched", m.OpenCvSimdDispatched);
+        w.WriteString("host_simd", m.HostSimd);
         w.WriteString("ipp", m.OpenCvIpp);
         w.WriteBoolean("optimized", m.OpenCvOptimized);
-        w.WriteString("parallelFramework", m.OpenCvParallel);
-        w.WriteNumber("defaultThreads", m.OpenCvDefaultThreads);
-        w.WriteNumber("threadsPerWorker", 1);
+        w.WriteString("parallel_framework", m.OpenCvParallel);
+        w.WriteNumber("default_threads", m.OpenCvDefaultThreads);
+        w.WriteNumber("threads_per_worker", 1);
         w.WriteEndObject();
         w.WriteEndObject();
 
@@ -88,12 +89,12 @@ internal static class BenchReportWriter
         }
 
         w.WriteString("config", result.Config);
-        w.WriteNumber("frameCount", result.FrameKeys.Count);
+        w.WriteNumber("frame_count", result.FrameKeys.Count);
         w.WriteNumber("width", result.SourceWidth);
         w.WriteNumber("height", result.SourceHeight);
-        w.WriteNumber("warmupCallsPerWorker", result.Warmup);
+        w.WriteNumber("warmup_calls_per_worker", result.Warmup);
         w.WriteNumber("passes", result.Passes);
-        w.WritePropertyName("decodeMs");
+        w.WritePropertyName("decode_ms");
         WriteStats(w, result.Decode);
         w.WriteStartArray("frames");
         foreach (string k in result.FrameKeys)
@@ -112,7 +113,7 @@ internal static class BenchReportWriter
             w.WriteNumber("height", run.Height);
             w.WriteNumber("workers", run.Workers);
             w.WriteStartObject("pipeline");
-            w.WritePropertyName("frameMs");
+            w.WritePropertyName("frame_ms");
             WriteStats(w, run.Pipeline);
             w.WriteStartArray("stages");
             foreach (NamedTiming s in run.Stages)
@@ -124,7 +125,7 @@ internal static class BenchReportWriter
             WriteKeys(w, run.PipelineFrameKeys);
             w.WriteEndObject();
             w.WriteStartObject("floor");
-            w.WritePropertyName("frameMs");
+            w.WritePropertyName("frame_ms");
             WriteStats(w, run.Floor);
             w.WriteStartArray("primitives");
             foreach (NamedTiming p in run.FloorPrimitives)
@@ -136,19 +137,19 @@ internal static class BenchReportWriter
             WriteKeys(w, run.FloorFrameKeys);
             w.WriteEndObject();
             w.WriteStartObject("ratio");
-            WriteNumber(w, "medianOfPairs", run.RatioMedianOfPairs);
-            WriteNumber(w, "ofMedians", run.RatioOfMedians);
+            WriteNumber(w, "median_of_pairs", run.RatioMedianOfPairs);
+            WriteNumber(w, "of_medians", run.RatioOfMedians);
             w.WriteEndObject();
-            WriteNumber(w, "framesPerSecond", run.FramesPerSecond);
-            WriteNumber(w, "allocatedBytesPerFrame", run.AllocatedBytesPerFrame);
-            w.WriteNumber("maxAllocatedBytesPerFrame", run.MaxAllocatedBytesPerFrame);
+            WriteNumber(w, "frames_per_second", run.FramesPerSecond);
+            WriteNumber(w, "allocated_bytes_per_frame", run.AllocatedBytesPerFrame);
+            w.WriteNumber("max_allocated_bytes_per_frame", run.MaxAllocatedBytesPerFrame);
             if (run.PeakRssBytes is long rss)
             {
-                w.WriteNumber("peakRssBytes", rss);
+                w.WriteNumber("peak_rss_bytes", rss);
             }
             else
             {
-                w.WriteNull("peakRssBytes");
+                w.WriteNull("peak_rss_bytes");
             }
 
             w.WriteEndObject();
@@ -160,8 +161,8 @@ internal static class BenchReportWriter
 
     private static void WriteKeys(Utf8JsonWriter w, IReadOnlyList<string> keys)
     {
-        w.WriteNumber("frameCalls", keys.Count);
-        w.WriteStartArray("frameKeys");
+        w.WriteNumber("frame_calls", keys.Count);
+        w.WriteStartArray("frame_keys");
         foreach (string k in keys)
         {
             w.WriteStringValue(k);
@@ -174,9 +175,9 @@ internal static class BenchReportWriter
     {
         w.WriteStartObject();
         w.WriteString("name", t.Name);
-        WriteNumber(w, "medianMs", t.Stats.Median);
-        WriteNumber(w, "p95Ms", t.Stats.P95);
-        WriteNumber(w, "meanMs", t.Stats.Mean);
+        WriteNumber(w, "median_ms", t.Stats.Median);
+        WriteNumber(w, "p95_ms", t.Stats.P95);
+        WriteNumber(w, "mean_ms", t.Stats.Mean);
         w.WriteEndObject();
     }
 

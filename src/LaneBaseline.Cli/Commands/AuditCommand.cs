@@ -22,10 +22,11 @@ internal static class AuditCommand
 {
     public static Command Create()
     {
-        Option<string> pred = new("--pred") { Description = "Lanes to audit: a lane file, a mask folder or an OpenLABEL file.", Required = true };
+        Option<string> pred = new("--pred") { Description = "Lanes to audit: a lane file, a mask folder or an OpenLABEL file ('-': standard input).", Required = true };
         Option<string?> baseline = new("--baseline") { Description = "The classical baseline's lanes on the same frames; frames where they disagree are ranked for labelling." };
-        Option<string?> output = new("--out", "-o") { Description = "Findings file (JSON Lines, ranked worst frame first); required unless --partial is given." };
-        Option<string?> frames = new("--frames") { Description = "Frames root: overlays are drawn on FRAMES/<frame key> when it exists." };
+        Option<string> output = SharedOptions.Output("Findings file (JSON Lines, ranked worst frame first; '-': standard output); required unless --partial is given.");
+        Option<string> legacyOut = SharedOptions.LegacyOut();
+        Option<string> frames = SharedOptions.Frames("Frames root: overlays are drawn on FRAMES/<frame key> when it exists.");
         Option<string?> size = new("--size") { Description = "Frame size WxH for records without one." };
         Option<double?> horizon = new("--horizon-row") { Description = "Horizon row in pixels (default: estimated per frame from the lanes' vanishing point)." };
         Option<double> fps = new("--fps") { Description = "Frame rate of numbered sequences (temporal rules).", DefaultValueFactory = _ => 10.0 };
@@ -39,22 +40,20 @@ internal static class AuditCommand
         Option<double> speed = new("--design-speed-kmh") { Description = "Design speed for the curve-radius rule, R = V^2 / (127 (e + f)) with e 0.08, f 0.12.", DefaultValueFactory = _ => 100.0 };
         Option<string?> report = new("--report") { Description = "Also write a self-contained HTML page of the findings (per rule and the first findings)." };
         Option<string?> generatedAt = new("--generated-at") { Description = "Time printed as 'generated' in the --report page (ISO 8601), for reproducible pages; default now." };
-        Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<int> threads = SharedOptions.Threads("Worker threads (results do not depend on it).");
         Option<string?> shard = new("--shard") { Description = "Audit only shard K/N: whole sequences (frame key without its trailing number) by a stable hash, e.g. 0/4." };
         Option<string?> partial = new("--partial") { Description = "Write this shard's findings and frame scores to a state file for 'merge' (instead of the findings file)." };
 
-        Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.\n" + SafetyNotice.Text)
+        Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.")
         {
             pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads, shard, partial, stills, summaryJson,
+            SettingsFile.Option(),
         };
+        SharedOptions.AddOutput(command, output, legacyOut, required: false);
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
             AuditSeverity? gateSeverity = CommandArguments.ParseGate(parseResult.GetValue(failOn)!);
-            int threadCount = parseResult.GetValue(threads);
-            if (threadCount < 1)
-            {
-                throw new UsageException("--threads must be at least 1");
-            }
+            int threadCount = SharedOptions.CheckThreads(parseResult.GetValue(threads));
 
             double rate = parseResult.GetValue(fps);
             if (!(rate > 0) || !double.IsFinite(rate))
@@ -79,7 +78,7 @@ internal static class AuditCommand
                 throw new UsageException("--design-speed-kmh must be a positive number");
             }
 
-            string? outPath = parseResult.GetValue(output), partialPath = parseResult.GetValue(partial), reportPath = parseResult.GetValue(report);
+            string? outPath = SharedOptions.GetOutput(parseResult, output, legacyOut, stderr), partialPath = parseResult.GetValue(partial), reportPath = parseResult.GetValue(report);
             ShardSpec? shardSpec = LaneInputs.ParseShard(parseResult.GetValue(shard));
             if (partialPath is not null)
             {
@@ -92,6 +91,10 @@ internal static class AuditCommand
             {
                 throw new UsageException("give -o FINDINGS.jsonl (or --partial STATE with --shard)");
             }
+            else if (StandardStreams.IsDash(outPath) && (n > 0 || m > 0 || reportPath is not null))
+            {
+                throw new UsageException("--overlays, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
+            }
 
             string? cameraPath = parseResult.GetValue(camera), sizeText = parseResult.GetValue(size);
             var settings = new AuditSettings
@@ -103,12 +106,12 @@ internal static class AuditCommand
                 FramesPerSecond = rate,
                 Stills = parseResult.GetValue(stills),
             };
-            string predPath = parseResult.GetRequiredValue(pred);
-            string? baselinePath = parseResult.GetValue(baseline);
+            string predPath = RunContext.Input(parseResult.GetRequiredValue(pred));
+            string? baselinePath = parseResult.GetValue(baseline) is string b ? RunContext.Input(b) : null;
             DateTimeOffset at = ReportPage.ParseGeneratedAt(parseResult.GetValue(generatedAt));
             var clock = Stopwatch.StartNew();
             LaneSourceOpener opener = LaneInputs.Opener(settings.Size, rows, stderr);
-            AuditResult result = Run(stderr, predPath, baselinePath, settings, opener, shardSpec, threadCount, clock, cancellationToken);
+            AuditResult result = Run(stderr, predPath, baselinePath, settings, opener, shardSpec, threadCount, cancellationToken);
             int exit;
             if (partialPath is not null)
             {
@@ -167,24 +170,15 @@ internal static class AuditCommand
         LaneSourceOpener opener,
         ShardSpec? shard,
         int threads,
-        Stopwatch clock,
         CancellationToken cancellationToken)
     {
-        long lastReport = 0;
+        using var progress = new ProgressDisplay("audit", "frames", stderr);
         var run = new AuditRun(settings)
         {
             Threads = threads,
             Opener = opener,
             Shard = shard,
-            OnProgress = done =>
-            {
-                long now = clock.ElapsedMilliseconds;
-                if (now - lastReport >= 2000)
-                {
-                    lastReport = now;
-                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"audit: {done} frames"));
-                }
-            },
+            OnProgress = done => progress.Report(done),
         };
         return run.Execute(predPath, baselinePath, CreateRasterizer, cancellationToken);
     }

@@ -10,24 +10,28 @@ internal static class BenchCommand
 {
     public static Command Create()
     {
-        Option<string?> frames = new("--frames") { Description = "Frames to measure: a folder of images, a .txt/.lst list, one image or a video. Default: rendered scenes (--render)." };
+        Option<string> frames = SharedOptions.Frames("Frames to measure: a folder of images, a .txt/.lst list, one image or a video (without it: rendered scenes, --render).");
         Option<int?> render = new("--render") { Description = "Render N scenes (seeded) at the largest --size (default 1280x720) and measure them. Default 24 when --frames is not given." };
-        Option<ulong> seed = new("--seed") { Description = "Seed of the rendered scenes (default 1).", DefaultValueFactory = _ => 1UL };
+        Option<ulong> seed = new("--seed") { Description = "Seed of the rendered scenes.", DefaultValueFactory = _ => 1UL };
         Option<string[]> size = new("--size")
         {
             Description = "Processing size WxH; repeat or separate by commas for several (frames are resized to each). Default: the frames' own size.",
             AllowMultipleArgumentsPerToken = false,
         };
-        Option<string> threads = new("--threads", "-j") { Description = "Worker counts to measure, comma-separated (e.g. 1,2); one pipeline per worker, OpenCV on one thread in each. Default 1.", DefaultValueFactory = _ => "1" };
+        Option<string> threads = new("--threads", "-j")
+        {
+            Description = "Worker counts to measure, comma-separated (e.g. 1,2); one pipeline per worker, OpenCV on one thread in each.",
+            DefaultValueFactory = _ => Environment.ProcessorCount.ToString(CultureInfo.InvariantCulture),
+        };
         Option<string> config = new("--config", "-c")
         {
-            Description = "Preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file. Default: default.",
+            Description = "Preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file.",
             DefaultValueFactory = _ => "default",
         };
-        Option<int> warmup = new("--warmup") { Description = "Frame calls per worker before measuring (not recorded). Default 5.", DefaultValueFactory = _ => 5 };
-        Option<int> passes = new("--passes") { Description = "Measured passes over the frames. Default 3.", DefaultValueFactory = _ => 3 };
-        Option<int> maxFrames = new("--max-frames") { Description = "Most frames read from --frames (they are held decoded in memory). Default 60.", DefaultValueFactory = _ => 60 };
-        Option<string?> json = new("--json") { Description = "Also write the figures as JSON (schema in docs/bench.md)." };
+        Option<int> warmup = new("--warmup") { Description = "Frame calls per worker before measuring (not recorded).", DefaultValueFactory = _ => 5 };
+        Option<int> passes = new("--passes") { Description = "Measured passes over the frames.", DefaultValueFactory = _ => 3 };
+        Option<int> maxFrames = new("--max-frames") { Description = "Most frames read from --frames (they are held decoded in memory).", DefaultValueFactory = _ => 60 };
+        Option<string?> json = new("--json") { Description = "Also write the figures as JSON (docs/bench.md; '-': standard output, the table then goes to stderr)." };
 
         Command command = new("bench", "Measure per-stage latency, frames per second and memory beside the bare OpenCV primitives on the same frames.")
         {

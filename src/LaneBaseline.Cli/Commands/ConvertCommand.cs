@@ -14,8 +14,9 @@ internal static class ConvertCommand
 {
     public static Command Create()
     {
-        Argument<string> input = new("INPUT") { Description = "A lane file (*.lanes.jsonl), a folder of instance-mask PNGs, or an OpenLABEL file (*.json)." };
-        Option<string> output = new("--out", "-o") { Description = "Output: *.jsonl lane file, *.json OpenLABEL file, or a folder for masks.", Required = true };
+        Argument<string> input = new("INPUT") { Description = "A lane file (*.lanes.jsonl), a folder of instance-mask PNGs, or an OpenLABEL file (*.json); '-' reads standard input." };
+        Option<string> output = SharedOptions.Output("Output: *.jsonl lane file, *.json OpenLABEL file, or a folder for masks; '-' writes a lane file (or --to openlabel) to standard output.");
+        Option<string> legacyOut = SharedOptions.LegacyOut();
         Option<string?> to = new("--to") { Description = "Output format: lanes, masks or openlabel (default: from the output name)." };
         Option<string?> reference = new("--reference") { Description = "Lane file whose frame keys and sizes name and size the frames of a mask folder or an OpenLABEL file without them." };
         Option<string?> size = new("--size") { Description = "Frame size WxH for inputs that do not carry one (masks are rescaled to it)." };
@@ -26,14 +27,20 @@ internal static class ConvertCommand
         {
             input, output, to, reference, size, maskWidth, minRows,
         };
+        SharedOptions.AddOutput(command, output, legacyOut, required: true);
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
-            string inPath = parseResult.GetRequiredValue(input);
-            string outPath = parseResult.GetRequiredValue(output);
+            string inPath = RunContext.Input(parseResult.GetRequiredValue(input));
+            string outPath = SharedOptions.GetOutput(parseResult, output, legacyOut, stderr)!;
             string format = (parseResult.GetValue(to) ?? InferFormat(outPath)).ToLowerInvariant();
             if (format is not ("lanes" or "masks" or "openlabel"))
             {
                 throw new UsageException("--to must be lanes, masks or openlabel");
+            }
+
+            if (format == "masks" && StandardStreams.IsDash(outPath))
+            {
+                throw new UsageException("masks are written to a folder; -o - takes a lane file or --to openlabel");
             }
 
             int? width = parseResult.GetValue(maskWidth);
@@ -54,7 +61,8 @@ internal static class ConvertCommand
     }
 
     private static string InferFormat(string outPath) =>
-        outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? "lanes"
+        StandardStreams.IsDash(outPath) ? "lanes"
+        : outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? "lanes"
         : outPath.EndsWith(".json", StringComparison.OrdinalIgnoreCase) ? "openlabel"
         : "masks";
 
@@ -156,7 +164,8 @@ internal static class ConvertCommand
             }
         }
 
-        stdout.WriteLine(string.Create(CultureInfo.InvariantCulture, $"convert: {frames} frames, {lanes} lanes -> {outPath} ({format})"));
+        string where = StandardStreams.IsDash(outPath) ? "standard output" : outPath;
+        stdout.WriteLine(string.Create(CultureInfo.InvariantCulture, $"convert: {frames} frames, {lanes} lanes -> {where} ({format})"));
         return ExitCodes.Success;
     }
 

@@ -42,4 +42,4 @@ internal sealed record DetectRequest
 }
 
 /// <summary>What a detect run did.</summary>
-internal sealed record DetectSummary(int Written, int Lanes, int Resumed, IReadOnlyList<string> Skipped, string ConfigPath, double MsPerFrame);
+internal sealed record DetectSummary(int Written, int Lanes, int Resumed, IReadOnlyList<string> Skipped, string? ConfigPath, double MsPerFrame);

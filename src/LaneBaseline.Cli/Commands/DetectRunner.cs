@@ -66,15 +66,18 @@ internal sealed partial class DetectRunner
             throw BadInputException.At(request.Input, 0, null, "no such video file");
         }
 
-        string? outDir = Path.GetDirectoryName(Path.GetFullPath(request.Output));
-        if (outDir is not null && !Directory.Exists(outDir))
+        bool toStdout = StandardStreams.IsDash(request.Output);
+        if (!toStdout && Path.GetDirectoryName(Path.GetFullPath(request.Output)) is string outDir)
         {
-            throw BadInputException.At(request.Output, 0, null, "the output folder does not exist");
+            Directory.CreateDirectory(outDir); // a missing output folder is created, as for every output
         }
 
         HashSet<string> done = request.Resume ? ReadResumeState() : [];
-        string configPath = ConfigPathFor(request.Output);
-        WriteConfig(configPath);
+        string? configPath = toStdout ? null : ConfigPathFor(request.Output);
+        if (configPath is not null)
+        {
+            WriteConfig(configPath);
+        }
 
         int threads = request.Options.Tracking.Enabled ? 1 : request.Threads;
         if (request.Options.Tracking.Enabled && request.Threads > 1)
@@ -83,15 +86,14 @@ internal sealed partial class DetectRunner
         }
 
 #pragma warning disable IDISP004 // the writer owns the stream it is given
-        using var writer = new LaneFileWriter(new FileStream(
-            request.Output, request.Resume ? FileMode.Append : FileMode.Create, FileAccess.Write, FileShare.Read, 1 << 16));
+        using var writer = new LaneFileWriter(OpenOutput());
 #pragma warning restore IDISP004
         var skipped = new List<string>();
         int written = 0, lanes = 0;
         long pipelineTicks = 0;
         int total = images?.Count ?? -1;
         var clock = Stopwatch.StartNew();
-        TimeSpan lastReport = TimeSpan.Zero;
+        using var progress = new ProgressDisplay("detect", "frames", stderr);
         using var cancel = new CancellationTokenSource();
         using var queue = new BlockingCollection<Work>(Math.Max(2, 2 * threads));
         var results = new ConcurrentDictionary<int, Outcome>();
@@ -187,12 +189,7 @@ internal sealed partial class DetectRunner
                         lanes += outcome.Record!.Lanes.Count;
                     }
 
-                    if (clock.Elapsed - lastReport > TimeSpan.FromSeconds(2))
-                    {
-                        lastReport = clock.Elapsed;
-                        string of = total >= 0 ? "/" + total.ToString(CultureInfo.InvariantCulture) : string.Empty;
-                        stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"detect: {next}{of} frames, {next / clock.Elapsed.TotalSeconds:0.0} frames/s"));
-                    }
+                    progress.Report(next, total);
 
                     continue;
                 }
@@ -223,6 +220,7 @@ internal sealed partial class DetectRunner
             }
         }
 
+        progress.Finish();
         if (fatal is not null)
         {
             if (fatal is BadInputException)
@@ -248,6 +246,22 @@ internal sealed partial class DetectRunner
         }
 
         return new DetectSummary(written, lanes, done.Count, skipped, configPath, msPerFrame);
+    }
+
+    /// <summary>
+    /// The lane file is streamed record by record (flushed each, so --resume can continue a killed run): standard output
+    /// for <c>-</c>, a FIFO or device in place, else the file (appended with --resume).
+    /// </summary>
+    private Stream OpenOutput()
+    {
+        if (StandardStreams.IsDash(request.Output))
+        {
+            return new NonClosingStream(StandardStreams.Output);
+        }
+
+        OutputTarget target = OutputTarget.Resolve(request.Output);
+        FileMode mode = target.InPlace ? FileMode.Open : request.Resume ? FileMode.Append : FileMode.Create;
+        return new FileStream(target.Path, mode, FileAccess.Write, FileShare.Read, 1 << 16);
     }
 
     private sealed record Work(int Sequence, FrameItem Item, Mat? Decoded);

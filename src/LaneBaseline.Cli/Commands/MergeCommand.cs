@@ -20,14 +20,15 @@ internal static class MergeCommand
     public static Command Create()
     {
         Argument<string[]> inputs = new("inputs") { Description = "Score states, audit states or lane files of every shard (one kind).", Arity = ArgumentArity.OneOrMore };
-        Option<string> output = new("--output", "-o") { Description = "Merged score JSON (score states), findings file (audit states) or lane file (lane files).", Required = true };
+        Option<string> output = SharedOptions.Output("Merged score JSON (score states), findings file (audit states) or lane file (lane files); '-': standard output.");
+        output.Required = true;
         Option<string?> csv = new("--csv") { Description = "Score states only: also write the per-frame CSV." };
         Option<string?> maskCsv = new("--mask-iou-csv") { Description = "Score states of mask folders only: also write the per-lane mask IoU CSV." };
         Option<double?> minF1 = new("--min-f1") { Description = "Score states only: quality gate, exit 4 when F1@0.50 is below this." };
-        Option<int> threads = new("--threads") { Description = "Threads for the bootstrap (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<int> threads = SharedOptions.Threads("Threads for the bootstrap (results do not depend on it).");
         Option<int> mine = new("--mine") { Description = "Audit states only: also write the N frames most worth labelling to OUT.mine.txt.", DefaultValueFactory = _ => 0 };
         Option<int> overlays = new("--overlays") { Description = "Audit states only: draw the N worst frames to OUT.overlays/ (reads the predictions named in the states).", DefaultValueFactory = _ => 0 };
-        Option<string?> frames = new("--frames") { Description = "Audit states only: frames root for --overlays." };
+        Option<string> frames = SharedOptions.Frames("Audit states only: frames root for --overlays.");
         Option<string> failOn = new("--fail-on") { Description = "Audit states only: exit 4 when a finding of this severity or worse exists (none, warning, error).", DefaultValueFactory = _ => "none" };
         Option<string?> report = new("--report") { Description = "Audit states only: also write the findings page (HTML)." };
         Option<string?> generatedAt = new("--generated-at") { Description = "Audit states only: time printed in the --report page (ISO 8601)." };
@@ -40,7 +41,7 @@ internal static class MergeCommand
         {
             string[] paths = parseResult.GetRequiredValue(inputs);
             string outPath = parseResult.GetRequiredValue(output);
-            int threadCount = Math.Max(1, parseResult.GetValue(threads));
+            int threadCount = SharedOptions.CheckThreads(parseResult.GetValue(threads));
             InputKind[] kinds = [.. paths.Select(KindOf)];
             if (kinds.Distinct().Count() > 1)
             {
@@ -172,6 +173,11 @@ internal static class MergeCommand
         if (mine < 0 || overlays < 0)
         {
             throw new UsageException("--overlays and --mine must be 0 or more");
+        }
+
+        if (StandardStreams.IsDash(outPath) && (mine > 0 || overlays > 0 || reportPath is not null))
+        {
+            throw new UsageException("--overlays, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
         }
 
         DateTimeOffset at = Reports.ReportPage.ParseGeneratedAt(generatedAt);

@@ -6,27 +6,28 @@ using LaneBaseline.Vision.Synthetic;
 
 namespace LaneBaseline.Cli.Commands;
 
-/// <summary><c>render --out DIR</c>: synthetic road scenes with exact ground truth and a camera file, from a seed.</summary>
+/// <summary><c>render -o DIR</c>: synthetic road scenes with exact ground truth and a camera file, from a seed.</summary>
 internal static class RenderCommand
 {
     public static Command Create()
     {
-        Option<string> outDir = new("--out", "-o") { Description = "Output folder (frames, truth.lanes.jsonl, camera.json).", Required = true };
-        Option<ulong> seed = new("--seed") { Description = "Seed of everything random (default 1).", DefaultValueFactory = _ => 1UL };
-        Option<int> count = new("--count") { Description = "Number of scenes (default 10).", DefaultValueFactory = _ => 10 };
-        Option<string> size = new("--size") { Description = "Frame size WxH (default 1280x720).", DefaultValueFactory = _ => "1280x720" };
+        Option<string> outDir = SharedOptions.Output("Output folder (frames, truth.lanes.jsonl, camera.json).");
+        Option<string> legacyOut = SharedOptions.LegacyOut();
+        Option<ulong> seed = new("--seed") { Description = "Seed of everything random.", DefaultValueFactory = _ => 1UL };
+        Option<int> count = new("--count") { Description = "Number of scenes.", DefaultValueFactory = _ => 10 };
+        Option<string> size = new("--size") { Description = "Frame size WxH.", DefaultValueFactory = _ => "1280x720" };
         Option<string?> conditions = new("--conditions")
         {
             Description = "Comma-separated conditions for every scene, or 'none' (default: clean and each condition in turn). Known: " +
                 string.Join(", ", KnownConditions.Every) + ".",
         };
         Option<double?> severity = new("--severity") { Description = "Severity in [0, 1] for the chosen conditions (default: seeded random per scene)." };
-        Option<int> sequenceLength = new("--sequence-length") { Description = "Frames per scene; 1 renders stills (default 1).", DefaultValueFactory = _ => 1 };
-        Option<double> fps = new("--fps") { Description = "Frame rate of sequences (default 10).", DefaultValueFactory = _ => 10.0 };
-        Option<string> format = new("--format") { Description = "Frame format: jpg or png (default jpg).", DefaultValueFactory = _ => "jpg" };
-        Option<int> quality = new("--quality") { Description = "JPEG quality 1-100 (default 92).", DefaultValueFactory = _ => 92 };
+        Option<int> sequenceLength = new("--sequence-length") { Description = "Frames per scene; 1 renders stills.", DefaultValueFactory = _ => 1 };
+        Option<double> fps = new("--fps") { Description = "Frame rate of sequences.", DefaultValueFactory = _ => 10.0 };
+        Option<string> format = new("--format") { Description = "Frame format: jpg or png.", DefaultValueFactory = _ => "jpg" };
+        Option<int> quality = new("--quality") { Description = "JPEG quality 1-100.", DefaultValueFactory = _ => 92 };
         Option<string?> sweep = new("--sweep") { Description = "Render every scene at severities 0, 0.25, 0.5, 0.75, 1 of this condition, tagged severity=X." };
-        Option<int> threads = new("--threads") { Description = "Worker threads (output is identical for any value; default: CPU count).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<int> threads = SharedOptions.Threads("Worker threads (output is identical for any value).");
         Option<string?> cameraFile = new("--camera") { Description = "camera.json to render through (sets the frame size; default: 1.5 m high, 2° pitch, f = 0.78125·width)." };
         Option<string?> overlays = new("--overlays") { Description = "Also write PNG frames with the truth drawn over them to this folder." };
 
@@ -34,12 +35,19 @@ internal static class RenderCommand
         {
             outDir, seed, count, size, conditions, severity, sequenceLength, fps, format, quality, sweep, threads, cameraFile, overlays,
         };
+        SharedOptions.AddOutput(command, outDir, legacyOut, required: true);
 
         command.SetAction(parseResult => CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
             int n = parseResult.GetValue(count);
             int len = parseResult.GetValue(sequenceLength);
             int threadCount = parseResult.GetValue(threads);
+            string outPath = SharedOptions.GetOutput(parseResult, outDir, legacyOut, stderr)!;
+            if (StandardStreams.IsDash(outPath))
+            {
+                throw new UsageException("render writes a folder of frames; -o - (standard output) does not apply");
+            }
+
             double frameRate = parseResult.GetValue(fps);
             string fmt = parseResult.GetValue(format)!.ToLowerInvariant();
             string? sweepName = parseResult.GetValue(sweep);
@@ -114,7 +122,7 @@ internal static class RenderCommand
 
             var options = new RenderJobOptions
             {
-                OutDir = parseResult.GetValue(outDir)!,
+                OutDir = outPath,
                 Seed = parseResult.GetValue(seed),
                 Count = n,
                 SequenceLength = len,
@@ -130,7 +138,7 @@ internal static class RenderCommand
             };
             if (File.Exists(options.OutDir))
             {
-                throw new UsageException($"--out {options.OutDir}: is a file; give a folder.");
+                throw new UsageException($"-o/--output {options.OutDir}: is a file; give a folder.");
             }
 
             if (options.OverlayDir is not null && File.Exists(options.OverlayDir))
@@ -139,23 +147,23 @@ internal static class RenderCommand
             }
 
             var clock = Stopwatch.StartNew();
-            long lastReport = -1;
             int frames;
             try
             {
+                using var progress = new ProgressDisplay("render", "frames", stderr);
                 frames = RenderJob.Run(options, (done, total) =>
                 {
-                    long second = clock.ElapsedMilliseconds / 2000;
-                    if (done == total || second != lastReport)
+                    progress.Report(done, total);
+                    if (done == total)
                     {
-                        lastReport = second;
+                        progress.Finish();
                         stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"render: {done}/{total} frames ({100.0 * done / total:0}%)"));
                     }
                 });
             }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
             {
-                throw new UsageException($"--out {options.OutDir}: cannot write there: {ex.Message}", ex);
+                throw new UsageException($"-o/--output {options.OutDir}: cannot write there: {ex.Message}", ex);
             }
             double seconds = clock.Elapsed.TotalSeconds;
             stdout.WriteLine(string.Create(

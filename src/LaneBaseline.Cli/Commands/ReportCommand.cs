@@ -15,15 +15,16 @@ internal static class ReportCommand
         Option<string?> score = new("--score") { Description = "Results of 'score --json' (one or several systems). At least one of --score and --audit." };
         Option<string?> audit = new("--audit") { Description = "Findings of 'audit' (JSON Lines): adds findings per rule and the first findings." };
         Option<string?> bench = new("--bench") { Description = "Results of 'bench --json': adds per-stage cost bars beside the OpenCV floor (needs --score)." };
-        Option<string> output = new("--output", "-o") { Description = "The HTML page to write.", Required = true };
-        Option<string?> frames = new("--frames") { Description = "Folder of the frame images (frame keys are relative to it); with --truth and --pred, draws the worst frames." };
+        Option<string> output = SharedOptions.Output("The HTML page to write ('-': standard output).");
+        output.Required = true;
+        Option<string> frames = SharedOptions.Frames("Folder of the frame images (frame keys are relative to it); with --truth and --pred, draws the worst frames.");
         Option<string?> truth = new("--truth") { Description = "Ground-truth lane file, for the worst-frame gallery." };
         Option<string[]> pred = new("--pred") { Description = "Prediction lane file for the gallery; repeat as NAME=FILE for several systems.", AllowMultipleArgumentsPerToken = false };
         Option<string?> generatedAt = new("--generated-at") { Description = "Time printed as 'generated' (ISO 8601), for reproducible pages; default now." };
         Option<string?> focus = new("--focus") { Description = "The network of the Largest regressions gallery (default: the first system not named 'baseline' or 'base')." };
-        Option<int> threads = new("--threads") { Description = "Worker threads for scoring the gallery's frames (the page does not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<int> threads = SharedOptions.Threads("Worker threads for scoring the gallery's frames (the page does not depend on it).");
 
-        Command command = new("report", "Write one self-contained HTML page (tables, charts, worst frames, audit findings, settings) from score results and/or audit findings.\n" + SafetyNotice.Text)
+        Command command = new("report", "Write one self-contained HTML page (tables, charts, worst frames, audit findings, settings) from score results and/or audit findings.")
         {
             score, audit, bench, output, frames, truth, pred, generatedAt, threads, focus,
         };
@@ -42,11 +43,7 @@ internal static class ReportCommand
             string? truthPath = parseResult.GetValue(truth);
             string[] preds = parseResult.GetValue(pred) ?? [];
             DateTimeOffset at = ReportPage.ParseGeneratedAt(parseResult.GetValue(generatedAt));
-            int threadCount = parseResult.GetValue(threads);
-            if (threadCount < 1)
-            {
-                throw new UsageException("--threads must be at least 1");
-            }
+            int threadCount = SharedOptions.CheckThreads(parseResult.GetValue(threads));
 
             ScoreDocument? doc = scorePath is null ? null : ScoreDocumentReader.Read(scorePath);
             if (framesDir is not null && truthPath is null && preds.Length == 0 && doc is not null)

@@ -19,15 +19,15 @@ internal static class ScoreCommand
 {
     public static Command Create()
     {
-        Option<string> truth = new("--truth") { Description = "Ground truth: a lane file (*.lanes.jsonl), a folder of instance-mask PNGs, or an OpenLABEL file (*.json).", Required = true };
+        Option<string> truth = new("--truth") { Description = "Ground truth: a lane file (*.lanes.jsonl), a folder of instance-mask PNGs, or an OpenLABEL file (*.json); '-' reads standard input.", Required = true };
         Option<string[]> pred = new("--pred")
         {
-            Description = "Predictions (lane file, mask folder DIR/<frame key with .png>, or OpenLABEL *.json); repeat as NAME=FILE to compare several systems on the same frames.",
+            Description = "Predictions (lane file, mask folder DIR/<frame key with .png>, or OpenLABEL *.json); repeat as NAME=FILE to compare several systems on the same frames; '-' reads standard input.",
             Required = true,
             AllowMultipleArgumentsPerToken = false,
         };
-        Option<string?> json = new("--json") { Description = "Write the full results as JSON to this file." };
-        Option<string?> csv = new("--csv") { Description = "Write one row per frame (tp/fp/fn at IoU 0.50, mean matched IoU, point accuracy)." };
+        Option<string?> json = new("--json") { Description = "Write the full results as JSON to this file ('-': standard output, the table then goes to stderr)." };
+        Option<string?> csv = new("--csv") { Description = "Write one row per frame (tp/fp/fn at IoU 0.50, mean matched IoU, point accuracy); '-': standard output." };
         Option<int?> laneWidth = new("--lane-width-px") { Description = "Rasterised lane width in pixels (default round(30*width/1640))." };
         Option<double?> tolerance = new("--tolerance-px") { Description = "Base point tolerance in pixels (default 20*width/1280)." };
         Option<string[]> iou = new("--iou") { Description = "Extra IoU thresholds to report, e.g. --iou 0.4 --iou 0.6 or --iou 0.4,0.6." };
@@ -35,8 +35,8 @@ internal static class ScoreCommand
         Option<ulong> seed = new("--seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
         Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
         Option<string?> report = new("--report") { Description = "Also write the HTML report (as 'lanebaseline report') to this file." };
-        Option<string?> frames = new("--frames") { Description = "Folder of the frame images, for the report's worst-frame gallery (needs --report)." };
-        Option<int> threads = new("--threads") { Description = "Worker threads (results do not depend on it).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        Option<string> frames = SharedOptions.Frames("Folder of the frame images, for the report's worst-frame gallery (needs --report).");
+        Option<int> threads = SharedOptions.Threads("Worker threads (results do not depend on it).");
         Option<string?> shard = new("--shard") { Description = "Score only shard K/N of the frames: whole sequences (frame key without its trailing number) by a stable hash, as detect and audit --shard, e.g. 0/4." };
         Option<string?> camera = new("--camera") { Description = "camera.json: also report metric-space errors (lateral error at 5/10/20/30 m, ego-lane width, curvature) on the road plane." };
         Option<string?> size = new("--size") { Description = "Frame size WxH for truth masks (default: each mask's own size); prediction masks are rescaled to the truth's size." };
@@ -56,10 +56,11 @@ internal static class ScoreCommand
         };
         Option<string?> focus = new("--focus") { Description = "With --report --frames: tag galleries for this system only (default: every system)." };
 
-        Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.\n" + SafetyNotice.Text)
+        Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.")
         {
             truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, report, frames, threads, shard, partial, camera, size, minMaskRows, maskCsv,
             missing, extra, bootstrapUnit, gates, focus,
+            SettingsFile.Option(),
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -87,11 +88,7 @@ internal static class ScoreCommand
                 throw new UsageException("--bootstrap must be 0 or more");
             }
 
-            int threadCount = parseResult.GetValue(threads);
-            if (threadCount < 1)
-            {
-                throw new UsageException("--threads must be at least 1");
-            }
+            int threadCount = SharedOptions.CheckThreads(parseResult.GetValue(threads));
 
             double? gate = parseResult.GetValue(minF1);
             if (gate is double g && (g < 0 || g > 1 || double.IsNaN(g)))
@@ -107,7 +104,7 @@ internal static class ScoreCommand
             }
 
             ShardSpec? shardSpec = LaneInputs.ParseShard(parseResult.GetValue(shard));
-            IReadOnlyList<ScoredSystem> systems = CommandArguments.ParseSystems(parseResult.GetRequiredValue(pred));
+            IReadOnlyList<ScoredSystem> systems = CommandArguments.ParseSystems(parseResult.GetRequiredValue(pred), stdin: true);
             IReadOnlyList<ScoreGate> gateList = ParseGates(parseResult.GetValue(gates) ?? [], systems, resamples);
             IouThreshold[] gateThresholds = [.. gateList.Where(g => g.UsesThreshold).Select(g => g.Threshold).Where(t => !settings.Thresholds.Contains(t))];
             if (gateThresholds.Length > 0)
@@ -123,7 +120,7 @@ internal static class ScoreCommand
             }
 
             var request = new ScoreRequest(
-                parseResult.GetRequiredValue(truth),
+                RunContext.Input(parseResult.GetRequiredValue(truth)),
                 systems,
                 settings,
                 resamples,
@@ -181,7 +178,7 @@ internal static class ScoreCommand
         {
             ScoreOutputWriter.WriteCsvHeader(csvWriter, request.Systems.Count > 1);
         }
-        long lastReport = 0;
+        using var progress = new ProgressDisplay("score", "frames", stderr);
         int halfIndex = request.Settings.HalfIndex;
 
         // score --report --frames: the gallery's candidates are captured from this run's frame scores (no second pass).
@@ -206,17 +203,10 @@ internal static class ScoreCommand
 
                 galleryFrames?.Add(row);
             },
-            OnProgress = (done, total) =>
-            {
-                long now = clock.ElapsedMilliseconds;
-                if (now - lastReport >= 2000 && done < total)
-                {
-                    lastReport = now;
-                    stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"score: {done}/{total} frames"));
-                }
-            },
+            OnProgress = (done, total) => progress.Report(done, total),
         };
         IReadOnlyList<SystemScore> results = run.Execute(CreateRasterizer, cancellationToken);
+        progress.Finish();
         double scoreSeconds = clock.Elapsed.TotalSeconds;
         long frames = results[0].Overall.Frames;
         stderr.WriteLine(string.Create(

@@ -9,26 +9,28 @@ internal static class TuneCommand
 {
     public static Command Create()
     {
-        Option<string> frames = new("--frames") { Description = "Folder (recursive), .txt/.lst list or single image of the labelled frames.", Required = true };
-        Option<string> truth = new("--truth") { Description = "Truth lane file for the frames (split into tuning and holdout frames).", Required = true };
+        Option<string> frames = SharedOptions.Frames("Folder (recursive), .txt/.lst list or single image of the labelled frames.");
+        frames.Required = true;
+        Option<string> truth = new("--truth") { Description = "Truth lane file for the frames (split into tuning and holdout frames); '-' reads standard input.", Required = true };
         Option<string?> space = new("--space") { Description = "Search-space YAML (default: the built-in configs/tune-space.yaml)." };
         Option<string> config = new("--config", "-c")
         {
-            Description = "Base preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file; trial values are set on it. Default: default.",
+            Description = "Base preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file; trial values are set on it.",
             DefaultValueFactory = _ => "default",
         };
-        Option<int> budget = new("--budget") { Description = "Trials to evaluate (default 40).", DefaultValueFactory = _ => 40 };
-        Option<ulong> seed = new("--seed") { Description = "Seed of the search (default 1).", DefaultValueFactory = _ => 1UL };
-        Option<string> objective = new("--objective") { Description = "f1 (F1 at IoU 0.5), mf1 (mean F1 over IoU 0.50:0.05:0.95) or accuracy (row-sampled point accuracy). Default f1.", DefaultValueFactory = _ => "f1" };
+        Option<int> budget = new("--budget") { Description = "Trials to evaluate.", DefaultValueFactory = _ => 40 };
+        Option<ulong> seed = new("--seed") { Description = "Seed of the search.", DefaultValueFactory = _ => 1UL };
+        Option<string> objective = new("--objective") { Description = "f1 (F1 at IoU 0.5), mf1 (mean F1 over IoU 0.50:0.05:0.95) or accuracy (row-sampled point accuracy).", DefaultValueFactory = _ => "f1" };
         Option<double?> holdout = new("--holdout") { Description = "Fraction of the truth frames kept out of tuning, chosen by a hash of the frame key (default 0.3)." };
         Option<string?> holdoutTruth = new("--holdout-truth") { Description = "A separate truth file of holdout frames (replaces --holdout; its frames are looked up under --frames)." };
         Option<bool> allowOverlap = new("--allow-overlap") { Description = "Allow reporting the score on frames that were also used for tuning." };
-        Option<int> threads = new("--threads", "-j") { Description = "Trials evaluated in parallel (results do not depend on it). Default 1.", DefaultValueFactory = _ => 1 };
+        Option<int> threads = SharedOptions.Threads("Trials evaluated in parallel (results do not depend on it).");
         Option<bool> resume = new("--resume") { Description = "Reuse the trials already in OUT.trials.jsonl and continue the search." };
         Option<string?> date = new("--date") { Description = "Date written in the output header (ISO 8601, UTC; default now), e.g. for reproducible files." };
-        Option<string> output = new("--output", "-o") { Description = "Preset YAML to write; the trial log goes to OUT.trials.jsonl beside it.", Required = true };
+        Option<string> output = SharedOptions.Output("Preset YAML to write ('-': standard output); the trial log goes to OUT.trials.jsonl beside it (tune.trials.jsonl for '-').");
+        output.Required = true;
         Option<bool> calibrate = new("--calibrate") { Description = "Instead of a search: fit the preset's confidence calibration (score = probability of a true positive at IoU 0.50) on all truth frames and write the preset with its calibration section (docs/detect.md)." };
-        Option<double> l2 = new("--calibration-l2") { Description = "With --calibrate: L2 penalty on the standardised logistic weights (default 1).", DefaultValueFactory = _ => 1.0 };
+        Option<double> l2 = new("--calibration-l2") { Description = "With --calibrate: L2 penalty on the standardised logistic weights.", DefaultValueFactory = _ => 1.0 };
         Option<bool> logisticOnly = new("--logistic-only") { Description = "With --calibrate: the logistic map alone, without the isotonic step." };
 
         Command command = new("tune", "Search preset parameters for the best score on labelled frames, keeping holdout frames out of the search.")
@@ -39,11 +41,7 @@ internal static class TuneCommand
 
         command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
         {
-            int n = parse.GetValue(threads);
-            if (n < 1 || n > 256)
-            {
-                throw new UsageException("--threads must be between 1 and 256");
-            }
+            int n = SharedOptions.CheckThreads(parse.GetValue(threads));
 
             int b = parse.GetValue(budget);
             if (b < 1 || b > 100_000)
@@ -72,7 +70,7 @@ internal static class TuneCommand
             var request = new TuneRequest
             {
                 Frames = parse.GetValue(frames)!,
-                Truth = parse.GetValue(truth)!,
+                Truth = RunContext.Input(parse.GetValue(truth)!),
                 SpacePath = parse.GetValue(space),
                 ConfigSource = parse.GetValue(config)!,
                 Budget = b,

@@ -38,7 +38,7 @@ internal sealed partial class TuneRunner
             json.WriteNumber("budget", request.Budget);
             json.WriteString("space", ShortHash(spaceText));
             json.WriteString("base", PresetLoader.Hash(baseOptions));
-            json.WriteString("tuningFrames", ShortHash(frames));
+            json.WriteString("tuning_frames", ShortHash(frames));
             json.WriteEndObject();
             json.WriteEndObject();
         }

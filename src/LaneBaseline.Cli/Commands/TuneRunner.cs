@@ -57,15 +57,14 @@ internal sealed partial class TuneRunner
         this.stderr = stderr;
     }
 
-    /// <summary>Path of the trial log written beside the output preset.</summary>
-    public static string LogPathFor(string output) => output + ".trials.jsonl";
+    /// <summary>Path of the trial log written beside the output preset (<c>tune.trials.jsonl</c> in the current folder when the preset goes to standard output).</summary>
+    public static string LogPathFor(string output) => StandardStreams.IsDash(output) ? "tune.trials.jsonl" : output + ".trials.jsonl";
 
     public TuneSummary Run()
     {
-        string? outDir = Path.GetDirectoryName(Path.GetFullPath(request.Output));
-        if (outDir is not null && !Directory.Exists(outDir))
+        if (!StandardStreams.IsDash(request.Output) && Path.GetDirectoryName(Path.GetFullPath(request.Output)) is string outDir)
         {
-            throw new UsageException(request.Output + ": the output folder does not exist");
+            Directory.CreateDirectory(outDir); // a missing output folder is created, as for every output
         }
 
         PipelineOptions baseOptions = KnownPresets.Resolve(request.ConfigSource, stderr);

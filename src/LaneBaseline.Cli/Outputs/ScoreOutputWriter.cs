@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Text;
 using LaneBaseline.Cli.Reports;
 using LaneBaseline.Core;
 using LaneBaseline.Core.Geometry;
@@ -56,7 +57,7 @@ internal static class ScoreOutputWriter
             stderr.WriteLine("note: no truth and no predicted lanes at all in some system's frames; by definition it scores 1.0");
         }
 
-        ScoreTableWriter.Write(stdout, request.TruthPath, results, request.Settings, boot);
+        ScoreTableWriter.Write(stdout, RunContext.Display(request.TruthPath), results, request.Settings, boot);
         if (maskIou is not null)
         {
             stdout.WriteLine();
@@ -72,14 +73,18 @@ internal static class ScoreOutputWriter
         if (request.JsonPath is not null)
         {
             using var jsonFile = new AtomicFile(request.JsonPath);
-            ScoreJsonWriter.Write(
-                jsonFile.Stream,
-                results,
-                request.Settings,
-                boot,
-                request.TruthPath,
-                maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]),
-                gates.Length == 0 ? null : w => WriteGates(w, gates));
+            if (RunContext.ReadStdin)
+            {
+                // The settings name the inputs: standard input is named '-', not its private temporary copy.
+                using var buffer = new MemoryStream();
+                ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]), gates.Length == 0 ? null : w => WriteGates(w, gates));
+                jsonFile.Writer.Write(RunContext.Display(Encoding.UTF8.GetString(buffer.ToArray())));
+            }
+            else
+            {
+                ScoreJsonWriter.Write(jsonFile.Stream, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]), gates.Length == 0 ? null : w => WriteGates(w, gates));
+            }
+
             jsonFile.Commit();
         }
 

@@ -8,20 +8,31 @@ namespace LaneBaseline.Core.IO;
 /// <see cref="Commit"/>, so an error or interruption never leaves a half-written output (disposing without committing
 /// deletes the temporary). A missing output folder is created. A symbolic link is followed and its final target
 /// replaced (the link stays). An existing output that is not a regular file (FIFO, character device, or a link to
-/// one) is written in place and never renamed over.
+/// one) is written in place and never renamed over. The path <c>-</c> is standard output (<see cref="StandardStreams"/>):
+/// written as it goes and flushed on <see cref="Commit"/>, never closed.
 /// </summary>
 public sealed class AtomicFile : IDisposable
 {
     private const int BufferSize = 1 << 16;
     private readonly string finalPath;
     private readonly string? tempPath;
+    private readonly bool standardOutput;
     private FileStream? stream;
+    private Stream? stdout; // standard output for the path '-': borrowed, never disposed
     private StreamWriter? writer;
     private bool committed;
 
     /// <summary>Opens the output <paramref name="path"/> for writing.</summary>
     public AtomicFile(string path)
     {
+        if (StandardStreams.IsDash(path))
+        {
+            finalPath = path;
+            standardOutput = true;
+            stdout = StandardStreams.Output;
+            return;
+        }
+
         OutputTarget target = OutputTarget.Resolve(path);
         finalPath = target.Path;
         if (target.InPlace)
@@ -41,7 +52,7 @@ public sealed class AtomicFile : IDisposable
     }
 
     /// <summary>The stream to write (owned by this object).</summary>
-    public Stream Stream => stream ?? throw new ObjectDisposedException(nameof(AtomicFile));
+    public Stream Stream => (Stream?)stream ?? stdout ?? throw new ObjectDisposedException(nameof(AtomicFile));
 
     /// <summary>A UTF-8 (no BOM) text writer on <see cref="Stream"/>, owned by this object.</summary>
     public TextWriter Writer => writer ??= new StreamWriter(Stream, new UTF8Encoding(false), BufferSize, leaveOpen: true);
@@ -64,8 +75,18 @@ public sealed class AtomicFile : IDisposable
     /// <summary>Flushes and puts the file in place.</summary>
     public void Commit()
     {
-        ObjectDisposedException.ThrowIf(stream is null, this);
         writer?.Flush();
+        if (standardOutput)
+        {
+            ObjectDisposedException.ThrowIf(stdout is null, this);
+            stdout.Flush();
+            stdout = null;
+            committed = true;
+            return;
+        }
+
+        ObjectDisposedException.ThrowIf(stream is null, this);
+
         if (tempPath is null)
         {
             stream.Flush();
@@ -85,6 +106,20 @@ public sealed class AtomicFile : IDisposable
     /// <inheritdoc/>
     public void Dispose()
     {
+        if (standardOutput)
+        {
+            // Standard output belongs to the process: flush what was written, never close it.
+            if (stdout is not null)
+            {
+                writer?.Flush();
+                stdout.Flush();
+            }
+
+            writer = null;
+            stdout = null;
+            return;
+        }
+
         if (stream is not null)
         {
             writer?.Dispose();

@@ -12,12 +12,20 @@ public sealed class LaneFileWriter : IDisposable
 {
     private static readonly JsonWriterOptions WriterOptions = new() { Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping, SkipValidation = false };
     private readonly Stream stream;
+    private readonly bool leaveOpen;
     private readonly ArrayBufferWriter<byte> buffer = new(4096);
 
     /// <summary>Creates a writer on a stream that it then owns.</summary>
     public LaneFileWriter(Stream stream)
+        : this(stream, leaveOpen: false)
+    {
+    }
+
+    /// <summary>Creates a writer on a stream; with <paramref name="leaveOpen"/> the caller keeps owning it (e.g. an <c>AtomicFile</c>'s).</summary>
+    public LaneFileWriter(Stream stream, bool leaveOpen)
     {
         this.stream = stream;
+        this.leaveOpen = leaveOpen;
     }
 
     /// <summary>Whether to flush the stream after every record (default true).</summary>
@@ -132,8 +140,11 @@ public sealed class LaneFileWriter : IDisposable
     public void Dispose()
     {
         stream.Flush();
+        if (!leaveOpen)
+        {
 #pragma warning disable IDISP007 // the writer owns the stream it was given (documented contract)
-        stream.Dispose();
+            stream.Dispose();
 #pragma warning restore IDISP007
+        }
     }
 }

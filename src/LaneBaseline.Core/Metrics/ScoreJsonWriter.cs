@@ -53,6 +53,12 @@ public static class ScoreJsonWriter
         _ => "accuracy",
     };
 
+    /// <summary>The <c>tool</c> value every JSON output of the command line carries.</summary>
+    public const string Tool = "lanebaseline";
+
+    /// <summary>The <c>schema_version</c> of this document (docs/schema/score.schema.json); bumped when a key changes meaning or goes.</summary>
+    public const int SchemaVersion = 1;
+
     /// <summary>
     /// Writes the whole document to a stream; <paramref name="systemExtra"/> may add keys to each system's object
     /// (e.g. <c>mask_iou</c> when truth and predictions are mask folders).
@@ -69,18 +75,27 @@ public static class ScoreJsonWriter
         ArgumentNullException.ThrowIfNull(systems);
         ArgumentNullException.ThrowIfNull(settings);
         using var json = new Utf8JsonWriter(stream, Options);
+        json.WriteStartObject();
+        json.WriteString("tool", Tool);
+        json.WriteNumber("schema_version", SchemaVersion);
         if (systems.Count == 1)
         {
-            json.WriteStartObject();
+            // One system: its keys at the top level (docs/metrics.md) and, for one layout whatever the number of
+            // systems, the same object again under systems.NAME.
             WriteSystemBody(json, systems[0], 0, settings, bootstrap);
             systemExtra?.Invoke(json, 0);
+            json.WriteStartObject("systems");
+            json.WriteStartObject(systems[0].System.Name);
+            WriteSystemBody(json, systems[0], 0, settings, bootstrap);
+            systemExtra?.Invoke(json, 0);
+            json.WriteEndObject();
+            json.WriteEndObject();
             WriteSettings(json, systems, settings, bootstrap, truthPath);
             documentExtra?.Invoke(json);
             json.WriteEndObject();
             return;
         }
 
-        json.WriteStartObject();
         json.WriteStartObject("systems");
         for (int s = 0; s < systems.Count; s++)
         {

@@ -34,8 +34,59 @@ public sealed record ColorOptions
     /// </summary>
     public double SaturatedBlobLightness { get; init; } = 245;
 
+    /// <summary>
+    /// Grey-world colour constancy before the white and yellow tests (Buchsbaum 1980): the mean B, G and R of the
+    /// road-statistics wedge give per-channel gains (clamped to 1/4–4) that make the road's mean colour grey, so a
+    /// sodium or dusk cast neither pushes white paint out of the white band nor makes the whole road yellow. The ridge
+    /// test (grey image) is not affected. Default true.
+    /// </summary>
+    public bool GreyWorld { get; init; } = true;
+
+    /// <summary>
+    /// Road lightness (median HLS lightness of the road wedge after the grey-world gains, 0–255) below which the ridge
+    /// test runs on a locally equalised copy of the grey band (CLAHE, Zuiderveld 1994) instead of the plain one, to
+    /// recover faint paint in low light; 0 never equalises, 255 always does. Default 80.
+    /// </summary>
+    public double ClaheMaxRoadLightness { get; init; } = 80;
+
+    /// <summary>
+    /// Road lightness (as for <see cref="ClaheMaxRoadLightness"/>, 0–255) at or above which the ridge test also runs on
+    /// the equalised copy: a veiled road under a low sun ahead is bright and its paint contrast is compressed; 255 turns
+    /// this trigger off. Default 150.
+    /// </summary>
+    public double ClaheMinVeilLightness { get; init; } = 150;
+
+    /// <summary>CLAHE clip limit: the histogram of a tile is clipped at this multiple of its mean bin count (1–40). Default 2.</summary>
+    public double ClaheClipLimit { get; init; } = 2;
+
+    /// <summary>CLAHE tiles across the frame width (the band is cut into square-ish tiles of width / this, 2–32). Default 8.</summary>
+    public int ClaheTilesAcross { get; init; } = 8;
+
+    /// <summary>
+    /// Grey level (0–255) from which a pixel above the horizon (or just below it) is a light source whose reflection on a
+    /// wet road lies straight below it; evidence in those columns below the light is cleared. 255 turns the test off.
+    /// Default 250.
+    /// </summary>
+    public double LightSourceLightness { get; init; } = 250;
+
+    /// <summary>How far below the horizon light sources are looked for (vehicle lights), fraction of the height (0–0.5). Default 0.1.</summary>
+    public double LightSourceBelowHorizonFraction { get; init; } = 0.1;
+
+    /// <summary>
+    /// Road lightness (median HLS lightness of the road wedge after the grey-world gains, 0–255) below which the
+    /// mirror test runs: only at night, when bright pixels near the horizon are lamps and lights, not sky. Default 80.
+    /// </summary>
+    public double MirrorMaxRoadLightness { get; init; } = 80;
+
     internal void Validate(List<OptionsFinding> f)
     {
+        OptionsChecks.Range(f, "color.lightSourceLightness", LightSourceLightness, 0, 255);
+        OptionsChecks.Range(f, "color.lightSourceBelowHorizonFraction", LightSourceBelowHorizonFraction, 0, 0.5);
+        OptionsChecks.Range(f, "color.mirrorMaxRoadLightness", MirrorMaxRoadLightness, 0, 255);
+        OptionsChecks.Range(f, "color.claheMaxRoadLightness", ClaheMaxRoadLightness, 0, 255);
+        OptionsChecks.Range(f, "color.claheMinVeilLightness", ClaheMinVeilLightness, 0, 255);
+        OptionsChecks.Range(f, "color.claheClipLimit", ClaheClipLimit, 1, 40);
+        OptionsChecks.Range(f, "color.claheTilesAcross", ClaheTilesAcross, 2, 32);
         OptionsChecks.Range(f, "color.saturatedBlobLightness", SaturatedBlobLightness, 0, 255);
         OptionsChecks.Range(f, "color.whiteMinContrast", WhiteMinContrast, 0, 255);
         OptionsChecks.Range(f, "color.whiteSpreadFactor", WhiteSpreadFactor, 0, 20);

@@ -48,6 +48,7 @@ public static class PresetLoader
         }
 
         PipelineOptions? options = null;
+        var errors = new List<string>(); // every unknown key and bad value, so one run lists them all
         YamlNode? root = stream.Documents.Count == 0 ? null : stream.Documents[0].RootNode;
         if (root is not null && !IsNull(root))
         {
@@ -57,29 +58,22 @@ public static class PresetLoader
             var buffer = new ArrayBufferWriter<byte>(4096);
             using (var json = new Utf8JsonWriter(buffer))
             {
-                WriteObject(json, root, defaults.RootElement, OptionsJsonContext.Default.PipelineOptions, string.Empty, file);
+                WriteObject(json, root, defaults.RootElement, OptionsJsonContext.Default.PipelineOptions, string.Empty, file, errors);
             }
 
             options = JsonSerializer.Deserialize(buffer.WrittenSpan, OptionsJsonContext.Default.PipelineOptions);
         }
 
         options ??= new PipelineOptions();
-        IReadOnlyList<OptionsFinding> findings = options.Validate();
-        if (findings.Count > 0)
+        foreach (OptionsFinding finding in options.Validate())
         {
-            var lines = new StringBuilder();
-            for (int i = 0; i < findings.Count; i++)
-            {
-                OptionsFinding finding = findings[i];
-                if (i > 0)
-                {
-                    lines.Append('\n');
-                }
+            errors.Add(BadInputException.At(file, FindLine(yaml, finding.Key), finding.Key, finding.Problem).Message);
+        }
 
-                lines.Append(BadInputException.At(file, FindLine(yaml, finding.Key), finding.Key, finding.Problem).Message);
-            }
-
-            throw new BadInputException(lines.ToString());
+        if (errors.Count > 0)
+        {
+            // In file order (a stable sort on the line number each message starts with).
+            throw new BadInputException(string.Join('\n', errors.OrderBy(m => LineOf(m, file))));
         }
 
         return options;
@@ -87,11 +81,22 @@ public static class PresetLoader
 
     // Writes one option record as a JSON object: each property from the YAML mapping when given there (checked
     // against its type), else from the defaults.
-    private static void WriteObject(Utf8JsonWriter json, YamlNode node, JsonElement defaults, JsonTypeInfo type, string path, string file)
+    // The line number of a "file:line: key: problem" message (0 when it has none).
+    private static int LineOf(string message, string file)
+    {
+        ReadOnlySpan<char> rest = message.AsSpan(Math.Min(file.Length + 1, message.Length));
+        int colon = rest.IndexOf(':');
+        return colon > 0 && int.TryParse(rest[..colon], NumberStyles.None, CultureInfo.InvariantCulture, out int line) ? line : 0;
+    }
+
+    // A key with a bad value gets its default and an entry in errors, so every problem of the file is reported at once.
+    private static void WriteObject(Utf8JsonWriter json, YamlNode node, JsonElement defaults, JsonTypeInfo type, string path, string file, List<string> errors)
     {
         if (node is not YamlMappingNode map)
         {
-            throw BadInputException.At(file, node.Start.Line, path.Length == 0 ? null : path, "expected a mapping of keys to values");
+            errors.Add(BadInputException.At(file, node.Start.Line, path.Length == 0 ? null : path, "expected a mapping of keys to values").Message);
+            defaults.WriteTo(json);
+            return;
         }
 
         var given = new Dictionary<string, YamlNode>(StringComparer.Ordinal);
@@ -102,12 +107,13 @@ public static class PresetLoader
             if (!type.Properties.Any(p => p.Name == name))
             {
                 string known = string.Join(", ", type.Properties.Select(p => p.Name));
-                throw BadInputException.At(file, kv.Key.Start.Line, key, $"unknown key (known here: {known})");
+                errors.Add(BadInputException.At(file, kv.Key.Start.Line, key, $"unknown key (known here: {known})").Message);
+                continue;
             }
 
             if (!given.TryAdd(name, kv.Value))
             {
-                throw BadInputException.At(file, kv.Key.Start.Line, key, "key given twice");
+                errors.Add(BadInputException.At(file, kv.Key.Start.Line, key, "key given twice").Message);
             }
         }
 
@@ -119,44 +125,65 @@ public static class PresetLoader
             if (!given.TryGetValue(name, out YamlNode? value))
             {
                 defaults.GetProperty(name).WriteTo(json);
+                continue;
             }
-            else if (property.PropertyType == typeof(double[]))
+
+            var scratch = new ArrayBufferWriter<byte>(256);
+            try
             {
-                WriteSequence(json, value, key, file, v => WriteDouble(json, ParseDouble(v, key, file)));
-            }
-            else if (property.PropertyType == typeof(string[]))
-            {
-                WriteSequence(json, value, key, file, v => json.WriteStringValue(Scalar(v, key, file, "a name")));
-            }
-            else if (property.PropertyType == typeof(int))
-            {
-                json.WriteNumberValue(ParseInt(value, key, file));
-            }
-            else if (property.PropertyType == typeof(double))
-            {
-                WriteDouble(json, ParseDouble(value, key, file));
-            }
-            else if (property.PropertyType == typeof(bool))
-            {
-                json.WriteBooleanValue(ParseBool(value, key, file));
-            }
-            else if (IsNull(value))
-            {
-                json.WriteNullValue(); // a section with no keys: Validate reports it
-            }
-            else
-            {
-                JsonElement sectionDefaults = defaults.GetProperty(name);
-                if (sectionDefaults.ValueKind == JsonValueKind.Null && property.PropertyType == typeof(CalibrationOptions))
+                using (var one = new Utf8JsonWriter(scratch))
                 {
-                    sectionDefaults = CalibrationDefaults; // an optional section: absent by default
+                    WriteValue(one, property, value, defaults, name, key, file, errors);
                 }
 
-                WriteObject(json, value, sectionDefaults, OptionsJsonContext.Default.GetTypeInfo(property.PropertyType)!, key, file);
+                json.WriteRawValue(scratch.WrittenSpan, skipInputValidation: true);
+            }
+            catch (BadInputException ex)
+            {
+                errors.Add(ex.Message);
+                defaults.GetProperty(name).WriteTo(json);
             }
         }
 
         json.WriteEndObject();
+    }
+
+    private static void WriteValue(Utf8JsonWriter json, JsonPropertyInfo property, YamlNode value, JsonElement defaults, string name, string key, string file, List<string> errors)
+    {
+        if (property.PropertyType == typeof(double[]))
+        {
+            WriteSequence(json, value, key, file, v => WriteDouble(json, ParseDouble(v, key, file)));
+        }
+        else if (property.PropertyType == typeof(string[]))
+        {
+            WriteSequence(json, value, key, file, v => json.WriteStringValue(Scalar(v, key, file, "a name")));
+        }
+        else if (property.PropertyType == typeof(int))
+        {
+            json.WriteNumberValue(ParseInt(value, key, file));
+        }
+        else if (property.PropertyType == typeof(double))
+        {
+            WriteDouble(json, ParseDouble(value, key, file));
+        }
+        else if (property.PropertyType == typeof(bool))
+        {
+            json.WriteBooleanValue(ParseBool(value, key, file));
+        }
+        else if (IsNull(value))
+        {
+            json.WriteNullValue(); // a section with no keys: Validate reports it
+        }
+        else
+        {
+            JsonElement sectionDefaults = defaults.GetProperty(name);
+            if (sectionDefaults.ValueKind == JsonValueKind.Null && property.PropertyType == typeof(CalibrationOptions))
+            {
+                sectionDefaults = CalibrationDefaults; // an optional section: absent by default
+            }
+
+            WriteObject(json, value, sectionDefaults, OptionsJsonContext.Default.GetTypeInfo(property.PropertyType)!, key, file, errors);
+        }
     }
 
     private static JsonElement CalibrationDefaults { get; } =

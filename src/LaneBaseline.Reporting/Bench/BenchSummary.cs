@@ -47,10 +47,10 @@ public static class BenchSummaryReader
         {
             using JsonDocument doc = JsonDocument.Parse(File.ReadAllBytes(path));
             JsonElement root = doc.RootElement;
-            key = "schemaVersion";
-            if (root.GetProperty("schemaVersion").GetInt32() != 1)
+            key = "schema_version";
+            if (root.GetProperty("schema_version").GetInt32() != 2)
             {
-                throw BadInputException.At(path, 0, key, "only schema version 1 is understood");
+                throw BadInputException.At(path, 0, key, "only schema version 2 is understood (bench JSON with snake_case keys; rerun bench)");
             }
 
             key = "machine";
@@ -58,7 +58,7 @@ public static class BenchSummaryReader
             JsonElement cv = m.GetProperty("opencv");
             string machine = string.Create(
                 CultureInfo.InvariantCulture,
-                $"{m.GetProperty("cpuModel").GetString()} · {m.GetProperty("logicalCores").GetInt32()} cores · {m.GetProperty("os").GetString()} · {m.GetProperty("dotnet").GetString()} · OpenCV {cv.GetProperty("version").GetString()}");
+                $"{m.GetProperty("cpu_model").GetString()} · {m.GetProperty("logical_cores").GetInt32()} cores · {m.GetProperty("os").GetString()} · {m.GetProperty("dotnet").GetString()} · OpenCV {cv.GetProperty("version").GetString()}");
             var runs = new List<BenchRun>();
             int i = 0;
             foreach (JsonElement r in root.GetProperty("runs").EnumerateArray())
@@ -66,18 +66,18 @@ public static class BenchSummaryReader
                 key = "runs[" + i.ToString(CultureInfo.InvariantCulture) + "]";
                 JsonElement pipe = r.GetProperty("pipeline");
                 var stages = pipe.GetProperty("stages").EnumerateArray()
-                    .Select(s => (s.GetProperty("name").GetString()!, Finite(s.GetProperty("medianMs")), Finite(s.GetProperty("p95Ms"))))
+                    .Select(s => (s.GetProperty("name").GetString()!, Finite(s.GetProperty("median_ms")), Finite(s.GetProperty("p95_ms"))))
                     .ToList();
                 int workers = r.GetProperty("workers").GetInt32();
                 runs.Add(new BenchRun(
                     string.Create(CultureInfo.InvariantCulture, $"{r.GetProperty("width").GetInt32()}x{r.GetProperty("height").GetInt32()}, {workers} worker{(workers == 1 ? string.Empty : "s")}"),
                     stages,
-                    Finite(pipe.GetProperty("frameMs").GetProperty("median")),
-                    Finite(pipe.GetProperty("frameMs").GetProperty("p95")),
-                    Finite(r.GetProperty("floor").GetProperty("frameMs").GetProperty("median")),
-                    Finite(r.GetProperty("ratio").GetProperty("medianOfPairs")),
-                    Finite(r.GetProperty("framesPerSecond")),
-                    Finite(r.GetProperty("allocatedBytesPerFrame"))));
+                    Finite(pipe.GetProperty("frame_ms").GetProperty("median")),
+                    Finite(pipe.GetProperty("frame_ms").GetProperty("p95")),
+                    Finite(r.GetProperty("floor").GetProperty("frame_ms").GetProperty("median")),
+                    Finite(r.GetProperty("ratio").GetProperty("median_of_pairs")),
+                    Finite(r.GetProperty("frames_per_second")),
+                    Finite(r.GetProperty("allocated_bytes_per_frame"))));
                 i++;
             }
 

@@ -44,6 +44,7 @@ public sealed class FrameWorkspace : IDisposable
         birdsEye.Create(birdsEyeHeight, birdsEyeWidth, MatType.CV_8UC1);
         Segments = new HoughSegment[Math.Max(maxSegments, 4)];
         Prefix = new int[width + 1];
+        LightRow = new int[width];
         ColumnMass = new double[birdsEyeWidth];
         Smoothed = new double[birdsEyeWidth];
         CandidateX = new double[MaxCandidates];
@@ -168,6 +169,12 @@ public sealed class FrameWorkspace : IDisposable
 
     internal double RoadSpread { get; set; }
 
+    /// <summary>Whether the colour stage ran its ridge test on the CLAHE-equalised grey band in this frame (a dark road).</summary>
+    internal bool Equalised { get; set; }
+
+    /// <summary>Grey-world gains (B, G, R) the colour stage applied before its white and yellow tests (1 when off).</summary>
+    internal (double B, double G, double R) GreyWorldGains { get; set; } = (1, 1, 1);
+
     /// <summary>Share (0–1) of the marking-evidence pixels kept by the colour stage's orientation test.</summary>
     internal double EvidenceKeptShare { get; set; } = 1;
 
@@ -181,6 +188,9 @@ public sealed class FrameWorkspace : IDisposable
     internal int PriorSeedCount { get; set; }
 
     internal int[] Prefix { get; }
+
+    /// <summary>Per column, the highest row of a light source found by the colour stage's mirror test (int.MaxValue: none).</summary>
+    internal int[] LightRow { get; }
 
     internal double[] ColumnMass { get; }
 

@@ -9,7 +9,10 @@ namespace LaneBaseline.Vision.Stages;
 /// gated by a paired horizontal-gradient (ridge) test whose scale follows the perspective.
 /// </summary>
 /// <remarks>
-/// Steps, one pass per image row below <see cref="FrameWorkspace.RoiTop"/> (and below the Hough search band's top)
+/// Step (0), when <see cref="ColorOptions.GreyWorld"/> is on: grey-world colour constancy (Buchsbaum 1980), the
+/// mean B, G, R of the road wedge below give per-channel gains that make the road grey, applied to every pixel's colour
+/// before the lightness and yellowness tests, so a sodium or dusk cast neither pushes white paint out of the white
+/// band nor makes the whole road yellow. Then steps, one pass per image row below <see cref="FrameWorkspace.RoiTop"/> (and below the Hough search band's top)
 /// inside the region trapezoid:
 /// (1) road statistics: median and robust spread (interquartile range / 1.349) of the HLS lightness
 /// L = (max(R,G,B) + min(R,G,B)) / 2 sampled every <see cref="ColorOptions.StatisticsStridePx"/> pixels inside a wedge
@@ -28,12 +31,16 @@ namespace LaneBaseline.Vision.Stages;
 /// marking; (4) evidence = 255 for ridge and paint colour, 160 for ridge alone, 100 for yellow without a ridge,
 /// 0 otherwise. Pixel (x, y), origin top-left, y down.
 /// <para>References: [1] OpenCV documentation, "Color conversions" (RGB to HLS lightness). [2] J. Canny, IEEE Trans.
-/// PAMI 8(6), 1986, DOI 10.1109/TPAMI.1986.4767851 (step edges as gradient extrema).</para>
+/// PAMI 8(6), 1986, DOI 10.1109/TPAMI.1986.4767851 (step edges as gradient extrema). [3] G. Buchsbaum, "A spatial
+/// processor model for object colour perception", J. Franklin Inst. 310(1):1–26, 1980 (grey world).</para>
 /// </remarks>
 public sealed class ColorThresholdStage : IFrameStage
 {
     private readonly ColorOptions color;
     private readonly GradientOptions gradient;
+    private readonly Mat equalised = new();
+    private readonly Mat equalisedBlur = new();
+    private CLAHE? clahe;
 
     /// <summary>Creates the stage.</summary>
     public ColorThresholdStage(ColorOptions color, GradientOptions gradient)
@@ -72,6 +79,15 @@ public sealed class ColorThresholdStage : IFrameStage
         int stride = color.StatisticsStridePx;
         long total = 0;
         double vx = workspace.VanishingX, halfBottom = color.StatisticsHalfWidthFraction * w;
+        // (0) Grey-world colour constancy on the same wedge (Buchsbaum 1980): per-channel gains that make the road's
+        // mean colour grey, in 1/256 fixed point, clamped to [1/4, 4]; 256 (no change) when switched off.
+        int gainB = 256, gainG = 256, gainR = 256;
+        if (color.GreyWorld)
+        {
+            GreyWorldGains(frameBase, frameStep, top, w, h, vx, vy, halfBottom, stride, out gainB, out gainG, out gainR);
+        }
+
+        workspace.GreyWorldGains = (gainB / 256.0, gainG / 256.0, gainR / 256.0);
         for (int y = top; y < h; y += stride)
         {
             double t = (y - vy) / (h - 1 - vy);
@@ -81,15 +97,10 @@ public sealed class ColorThresholdStage : IFrameStage
             for (int x = x0; x <= x1; x += stride)
             {
                 byte* p = row + (3 * x);
-                int mx = Math.Max(p[0], Math.Max(p[1], p[2])), mn = Math.Min(p[0], Math.Min(p[1], p[2]));
+                int pb = Math.Min(255, (p[0] * gainB) >> 8), pg = Math.Min(255, (p[1] * gainG) >> 8), pr = Math.Min(255, (p[2] * gainR) >> 8);
+                int mx = Math.Max(pb, Math.Max(pg, pr)), mn = Math.Min(pb, Math.Min(pg, pr));
                 hist[(mx + mn) >> 1]++;
                 total++;
-                if (x + stride < w)
-                {
-                    byte* s = blurBase + ((y - workspace.BandTop) * blurStep);
-                    diffHist[Math.Abs(s[x + stride] - s[x])]++;
-                    diffs++;
-                }
             }
         }
 
@@ -97,6 +108,30 @@ public sealed class ColorThresholdStage : IFrameStage
         double spread = Math.Max(1.0, (Percentile(hist, total, 0.75) - Percentile(hist, total, 0.25)) / 1.349);
         workspace.RoadMedian = median;
         workspace.RoadSpread = spread;
+
+        // (1b) Low light: the ridge runs on a CLAHE copy of the grey band (Zuiderveld 1994) when the road is dark.
+        byte* ridgeBase = blurBase;
+        long ridgeStep = blurStep;
+        workspace.Equalised = median < color.ClaheMaxRoadLightness || (color.ClaheMinVeilLightness < 255 && median >= color.ClaheMinVeilLightness);
+        if (workspace.Equalised)
+        {
+            Equalise(workspace);
+            ridgeBase = (byte*)equalisedBlur.DataPointer;
+            ridgeStep = equalisedBlur.Step();
+        }
+
+        for (int y = top; y < h; y += stride)
+        {
+            double t = (y - vy) / (h - 1 - vy);
+            double xc = vx + ((((w - 1) / 2.0) - vx) * t);
+            int x0 = Math.Max(0, (int)(xc - (halfBottom * t))), x1 = Math.Min(w - 1, (int)(xc + (halfBottom * t)));
+            byte* s = ridgeBase + ((y - workspace.BandTop) * ridgeStep);
+            for (int x = x0; x <= x1 && x + stride < w; x += stride)
+            {
+                diffHist[Math.Abs(s[x + stride] - s[x])]++;
+                diffs++;
+            }
+        }
         double whiteThr = Math.Max(color.WhiteMinLightness, median + Math.Max(color.WhiteMinContrast, color.WhiteSpreadFactor * spread));
         double yellowL = median + color.YellowMinContrast;
         double yellowC = color.YellowMinChroma;
@@ -106,6 +141,14 @@ public sealed class ColorThresholdStage : IFrameStage
         double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * texture);
         double widthBottom = gradient.MarkingWidthFraction * w;
         int[] pre = workspace.Prefix;
+
+        // (1c) Mirror columns (dark scenes only): where a light source is, its reflection on a wet road lies below it.
+        bool mirror = color.LightSourceLightness < 255 && median < color.MirrorMaxRoadLightness;
+        if (mirror)
+        {
+            mirror = FindLightColumns(workspace);
+        }
+
         long evidenceBefore = 0, evidenceCleared = 0;
 
         for (int y = top; y < h; y++)
@@ -119,6 +162,7 @@ public sealed class ColorThresholdStage : IFrameStage
             byte* row = frameBase + (y * frameStep);
             byte* ev = evBase + (y * evStep);
             byte* smooth = blurBase + ((y - workspace.BandTop) * blurStep);
+            byte* ridgeRow = ridgeBase + ((y - workspace.BandTop) * ridgeStep);
             double scale = (y - vy) / (h - 1 - vy);
             int d = Math.Max(2, (int)Math.Round(widthBottom * scale));
             int c = Math.Max(1, d / 4);
@@ -128,7 +172,7 @@ public sealed class ColorThresholdStage : IFrameStage
             pre[a0] = 0;
             for (int x = a0; x <= a1; x++)
             {
-                pre[x + 1] = pre[x] + smooth[x];
+                pre[x + 1] = pre[x] + ridgeRow[x];
             }
 
             // Ridge in integers: centreMean - sideMean >= thr  <=>  centreSum*ns - sideSum*nc >= thr*nc*ns.
@@ -141,7 +185,7 @@ public sealed class ColorThresholdStage : IFrameStage
                 long left = (long)(pre[x - d + 1] - pre[x - (2 * d)]) * nc;
                 long right = (long)(pre[x + (2 * d) + 1] - pre[x + d]) * nc;
                 byte* p = row + (3 * x);
-                int b = p[0], g = p[1], r = p[2];
+                int b = Math.Min(255, (p[0] * gainB) >> 8), g = Math.Min(255, (p[1] * gainG) >> 8), r = Math.Min(255, (p[2] * gainR) >> 8);
                 bool yellowish = Math.Min(r, g) - b >= yellowC;
                 bool ridge = centre - left >= thrScaled && centre - right >= thrScaled;
                 if (!ridge && !yellowish)
@@ -160,7 +204,7 @@ public sealed class ColorThresholdStage : IFrameStage
                 SuppressNearSaturatedBlobs(smooth, ev, x0, x1, d, w);
             }
 
-            if (gradient.OrientationToleranceDeg < 90)
+            if (gradient.OrientationToleranceDeg < 90 || mirror)
             {
                 int before = 0;
                 for (int x = xs; x <= xe; x++)
@@ -169,11 +213,141 @@ public sealed class ColorThresholdStage : IFrameStage
                 }
 
                 evidenceBefore += before;
-                evidenceCleared += SuppressOffAxisRuns(workspace, ev, y, x0, x1, d);
+                if (mirror)
+                {
+                    evidenceCleared += SuppressUnderLights(workspace.LightRow, ev, y, x0, x1, d, w);
+                }
+
+                if (gradient.OrientationToleranceDeg < 90)
+                {
+                    evidenceCleared += SuppressOffAxisRuns(workspace, ev, y, x0, x1, d);
+                }
             }
         }
 
         workspace.EvidenceKeptShare = evidenceBefore > 0 ? 1 - ((double)evidenceCleared / evidenceBefore) : 1;
+    }
+
+    /// <summary>
+    /// For every column, the highest row (smallest y) between the top of the frame and
+    /// <see cref="ColorOptions.LightSourceBelowHorizonFraction"/> × height below the horizon whose grey level is at least
+    /// <see cref="ColorOptions.LightSourceLightness"/> (a street lamp, the moon, a vehicle's lights); int.MaxValue where
+    /// there is none. Paint is never above the horizon and is not that bright at night, so these are light sources.
+    /// Lights are small: when more than a quarter of the columns hold one, the sky itself is bright (a dark road under
+    /// a daylight sky, e.g. in shadow) and the test is not applied.
+    /// </summary>
+    /// <returns>Whether the mirror test applies to this frame.</returns>
+    private unsafe bool FindLightColumns(FrameWorkspace workspace)
+    {
+        int w = workspace.Width, h = workspace.Height;
+        int[] lightRow = workspace.LightRow;
+        Array.Fill(lightRow, int.MaxValue);
+        int last = Math.Min(h - 1, (int)(workspace.VanishingY + (color.LightSourceBelowHorizonFraction * h)));
+        byte limit = (byte)Math.Clamp(color.LightSourceLightness, 0, 255);
+        Mat gray = workspace.Gray;
+        byte* grayBase = (byte*)gray.DataPointer;
+        long grayStep = gray.Step();
+        for (int y = 0; y <= last; y++)
+        {
+            byte* row = grayBase + (y * grayStep);
+            for (int x = 0; x < w; x++)
+            {
+                if (row[x] >= limit && lightRow[x] == int.MaxValue)
+                {
+                    lightRow[x] = y;
+                }
+            }
+        }
+
+        int litColumns = 0;
+        for (int x = 0; x < w; x++)
+        {
+            litColumns += lightRow[x] != int.MaxValue ? 1 : 0;
+        }
+
+        return litColumns * 4 <= w;
+    }
+
+    /// <summary>
+    /// Clears the evidence runs of row <paramref name="y"/> that lie below a light source: a run is cleared when a column
+    /// within max(2, d / 2) pixels of it has a light source (see <see cref="FindLightColumns"/>) above row y. A flat wet
+    /// road is a horizontal mirror: the reflection of a light lies on the vertical through the light in a camera without
+    /// roll (law of reflection), stretched into a streak by the road's roughness; a lane line crosses such a column in
+    /// a few rows only, so it loses little.
+    /// </summary>
+    /// <returns>The number of evidence pixels cleared.</returns>
+    private static unsafe int SuppressUnderLights(int[] lightRow, byte* ev, int y, int x0, int x1, int d, int w)
+    {
+        int cleared = 0;
+        int margin = Math.Max(2, d / 2);
+        int x = x0;
+        while (x <= x1)
+        {
+            if (ev[x] == 0)
+            {
+                x++;
+                continue;
+            }
+
+            int start = x;
+            while (x <= x1 && ev[x] != 0)
+            {
+                x++;
+            }
+
+            int end = x - 1;
+            bool lit = false;
+            for (int k = Math.Max(0, start - margin), kEnd = Math.Min(w - 1, end + margin); k <= kEnd && !lit; k++)
+            {
+                lit = lightRow[k] < y;
+            }
+
+            if (lit)
+            {
+                for (int k = start; k <= end; k++)
+                {
+                    ev[k] = 0;
+                }
+
+                cleared += end - start + 1;
+            }
+        }
+
+        return cleared;
+    }
+
+    /// <summary>
+    /// Grey-world gains (Buchsbaum 1980): the mean of each channel over the road wedge sample (the same pixels as the
+    /// road statistics) against the mean of the three; gain = grey / channel mean, clamped to [1/4, 4], in 1/256 fixed
+    /// point. A grey road gives gains of 1 (256); an empty or black sample leaves the frame unchanged.
+    /// </summary>
+    private static unsafe void GreyWorldGains(byte* frameBase, long frameStep, int top, int w, int h, double vx, double vy,
+        double halfBottom, int stride, out int gainB, out int gainG, out int gainR)
+    {
+        gainB = gainG = gainR = 256;
+        long sb = 0, sg = 0, sr = 0;
+        for (int y = top; y < h; y += stride)
+        {
+            double t = (y - vy) / (h - 1 - vy);
+            double xc = vx + ((((w - 1) / 2.0) - vx) * t);
+            int x0 = Math.Max(0, (int)(xc - (halfBottom * t))), x1 = Math.Min(w - 1, (int)(xc + (halfBottom * t)));
+            byte* row = frameBase + (y * frameStep);
+            for (int x = x0; x <= x1; x += stride)
+            {
+                byte* p = row + (3 * x);
+                sb += p[0];
+                sg += p[1];
+                sr += p[2];
+            }
+        }
+
+        if (sb > 0 && sg > 0 && sr > 0)
+        {
+            double grey = (sb + sg + sr) / 3.0;
+            gainB = (int)Math.Round(256 * Math.Clamp(grey / sb, 0.25, 4));
+            gainG = (int)Math.Round(256 * Math.Clamp(grey / sg, 0.25, 4));
+            gainR = (int)Math.Round(256 * Math.Clamp(grey / sr, 0.25, 4));
+        }
     }
 
     /// <summary>
@@ -344,8 +518,40 @@ public sealed class ColorThresholdStage : IFrameStage
         return 255;
     }
 
+    /// <summary>
+    /// Contrast-limited adaptive histogram equalisation (Zuiderveld 1994) of the grey band, then the same Gaussian
+    /// blur as <see cref="GradientStage"/>, into the stage's own buffers: each tile's lightness histogram, clipped at
+    /// <see cref="ColorOptions.ClaheClipLimit"/> times its mean bin count, is equalised and the mappings of the four
+    /// nearest tiles are interpolated bilinearly, which stretches the faint local contrast of paint in a dark scene
+    /// without the noise blow-up of plain equalisation.
+    /// </summary>
+    private void Equalise(FrameWorkspace workspace)
+    {
+        int bandHeight = workspace.Height - workspace.BandTop;
+        int tilesAcross = color.ClaheTilesAcross;
+        int tilesDown = Math.Max(1, (int)Math.Round(tilesAcross * (double)bandHeight / workspace.Width));
+        clahe ??= Cv2.CreateCLAHE(color.ClaheClipLimit, new Size(tilesAcross, tilesDown));
+        using (Mat band = workspace.Gray.RowRange(workspace.BandTop, workspace.Height))
+        {
+            clahe.Apply(band, equalised);
+        }
+
+        int k = gradient.BlurKernelPx;
+        if (k > 1)
+        {
+            Cv2.GaussianBlur(equalised, equalisedBlur, new Size(k, k), 0);
+        }
+        else
+        {
+            equalised.CopyTo(equalisedBlur);
+        }
+    }
+
     /// <inheritdoc />
     public void Dispose()
     {
+        clahe?.Dispose();
+        equalised.Dispose();
+        equalisedBlur.Dispose();
     }
 }

@@ -1,6 +1,7 @@
 using System.Collections.Concurrent;
 using System.Globalization;
 using LaneBaseline.Core.Geometry;
+using LaneBaseline.Core.IO;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Random;
 using OpenCvSharp;
@@ -91,11 +92,11 @@ public static class RenderJob
 
         options.Camera.Save(Path.Combine(options.OutDir, "camera.json"));
         string truthPath = Path.Combine(options.OutDir, "truth.lanes.jsonl");
-        string truthTmp = truthPath + ".tmp";
         var pool = new ConcurrentBag<Worker>();
         try
         {
-            using (LaneFileWriter writer = LaneFileWriter.Create(truthTmp))
+            using var truthFile = new AtomicFile(truthPath);
+            using (var writer = new LaneFileWriter(truthFile.Stream, leaveOpen: true) { FlushEachRecord = false })
             {
                 int batch = Math.Max(1, options.Threads) * 4;
                 var results = new LaneRecord[batch];
@@ -117,18 +118,13 @@ public static class RenderJob
                 }
             }
 
-            File.Move(truthTmp, truthPath, overwrite: true);
+            truthFile.Commit();
         }
         finally
         {
             while (pool.TryTake(out Worker? w))
             {
                 w.Dispose();
-            }
-
-            if (File.Exists(truthTmp))
-            {
-                File.Delete(truthTmp);
             }
         }
 
@@ -153,15 +149,13 @@ public static class RenderJob
                 ? [new ImageEncodingParam(ImwriteFlags.PngCompression, 6)]
                 : [new ImageEncodingParam(ImwriteFlags.JpegQuality, options.JpegQuality)];
             Cv2.ImEncode(ext, frame, out byte[] bytes, prms);
-            string tmp = path + ".tmp";
-            File.WriteAllBytes(tmp, bytes);
-            File.Move(tmp, path, overwrite: true);
+            AtomicFile.WriteAllBytes(path, bytes);
             if (options.OverlayDir is not null)
             {
                 TruthOverlay.Draw(frame, truth.Lanes);
                 string overlay = Path.Combine(options.OverlayDir, Path.ChangeExtension(job.Key, ".png").Replace('/', Path.DirectorySeparatorChar));
-                Directory.CreateDirectory(Path.GetDirectoryName(overlay)!);
-                Cv2.ImWrite(overlay, frame);
+                Cv2.ImEncode(".png", frame, out byte[] png);
+                AtomicFile.WriteAllBytes(overlay, png);
             }
 
             var tags = new List<string>(truth.Tags);

@@ -27,27 +27,28 @@ public sealed class BenchCommandTests : IDisposable
 
         using JsonDocument doc = JsonDocument.Parse(File.ReadAllText(json));
         JsonElement root = doc.RootElement;
-        Assert.Equal("lanebaseline bench", root.GetProperty("tool").GetString());
-        Assert.Equal(BenchReportWriter.SchemaVersion, root.GetProperty("schemaVersion").GetInt32());
+        Assert.Equal("lanebaseline", root.GetProperty("tool").GetString());
+        Assert.Equal("bench", root.GetProperty("command").GetString());
+        Assert.Equal(BenchReportWriter.SchemaVersion, root.GetProperty("schema_version").GetInt32());
 
         JsonElement machine = root.GetProperty("machine");
-        Assert.False(string.IsNullOrWhiteSpace(machine.GetProperty("cpuModel").GetString()));
+        Assert.False(string.IsNullOrWhiteSpace(machine.GetProperty("cpu_model").GetString()));
         // Source: the .NET runtime itself (Environment.ProcessorCount) and OpenCV itself (cv::getVersionString).
-        Assert.Equal(Environment.ProcessorCount, machine.GetProperty("logicalCores").GetInt32());
+        Assert.Equal(Environment.ProcessorCount, machine.GetProperty("logical_cores").GetInt32());
         JsonElement opencv = machine.GetProperty("opencv");
         Assert.Equal(Cv2.GetVersionString(), opencv.GetProperty("version").GetString());
-        foreach (string key in new[] { "simdBaseline", "simdDispatched", "hostSimd", "ipp", "parallelFramework" })
+        foreach (string key in new[] { "simd_baseline", "simd_dispatched", "host_simd", "ipp", "parallel_framework" })
         {
             Assert.False(string.IsNullOrWhiteSpace(opencv.GetProperty(key).GetString()), key);
         }
 
-        Assert.Equal(1, opencv.GetProperty("threadsPerWorker").GetInt32());
+        Assert.Equal(1, opencv.GetProperty("threads_per_worker").GetInt32());
 
         JsonElement input = root.GetProperty("input");
         Assert.Equal("render", input.GetProperty("source").GetString());
-        Assert.Equal(2, input.GetProperty("frameCount").GetInt32());
+        Assert.Equal(2, input.GetProperty("frame_count").GetInt32());
         Assert.Equal(2, input.GetProperty("frames").GetArrayLength());
-        AssertStats(input.GetProperty("decodeMs"), 2);
+        AssertStats(input.GetProperty("decode_ms"), 2);
 
         JsonElement[] runs = [.. root.GetProperty("runs").EnumerateArray()];
         Assert.Equal([1, 2], runs.Select(r => r.GetProperty("workers").GetInt32()));
@@ -56,27 +57,27 @@ public sealed class BenchCommandTests : IDisposable
             Assert.Equal(128, run.GetProperty("width").GetInt32());
             Assert.Equal(96, run.GetProperty("height").GetInt32());
             JsonElement pipeline = run.GetProperty("pipeline");
-            AssertStats(pipeline.GetProperty("frameMs"), 4);
+            AssertStats(pipeline.GetProperty("frame_ms"), 4);
             string[] stageNames = [.. pipeline.GetProperty("stages").EnumerateArray().Select(s => s.GetProperty("name").GetString()!)];
             Assert.Equal(["resize", "gradient", "hough", "region", "color", "warp", "search", "calibrate"], stageNames); // 128-wide frames are enlarged first (limits.workingWidthPx); the default preset is calibrated
             foreach (JsonElement s in pipeline.GetProperty("stages").EnumerateArray())
             {
-                AssertPositive(s, "medianMs", "p95Ms", "meanMs");
+                AssertPositive(s, "median_ms", "p95_ms", "mean_ms");
             }
 
             JsonElement floor = run.GetProperty("floor");
-            AssertStats(floor.GetProperty("frameMs"), 4);
+            AssertStats(floor.GetProperty("frame_ms"), 4);
             Assert.Equal(FloorPrimitives.Names, floor.GetProperty("primitives").EnumerateArray().Select(p => p.GetProperty("name").GetString()));
             foreach (JsonElement p in floor.GetProperty("primitives").EnumerateArray())
             {
-                AssertPositive(p, "medianMs", "p95Ms", "meanMs");
+                AssertPositive(p, "median_ms", "p95_ms", "mean_ms");
             }
 
-            AssertPositive(run.GetProperty("ratio"), "medianOfPairs", "ofMedians");
-            AssertPositive(run, "framesPerSecond", "peakRssBytes");
-            double bytes = run.GetProperty("allocatedBytesPerFrame").GetDouble();
+            AssertPositive(run.GetProperty("ratio"), "median_of_pairs", "of_medians");
+            AssertPositive(run, "frames_per_second", "peak_rss_bytes");
+            double bytes = run.GetProperty("allocated_bytes_per_frame").GetDouble();
             Assert.True(double.IsFinite(bytes) && bytes >= 0, "allocatedBytesPerFrame " + bytes);
-            Assert.True(run.GetProperty("maxAllocatedBytesPerFrame").GetInt64() >= bytes);
+            Assert.True(run.GetProperty("max_allocated_bytes_per_frame").GetInt64() >= bytes);
         }
 
         Assert.Empty(Directory.GetFiles(dir.Path, "*.tmp"));
@@ -108,8 +109,8 @@ public sealed class BenchCommandTests : IDisposable
         Assert.Equal(expected, pipelineKeys.Order(StringComparer.Ordinal));
         Assert.Equal(expected, floorKeys.Order(StringComparer.Ordinal));
         Assert.Equal(pipelineKeys, floorKeys);
-        Assert.Equal(expected.Length, run.GetProperty("pipeline").GetProperty("frameMs").GetProperty("count").GetInt32());
-        Assert.Equal(expected.Length, run.GetProperty("floor").GetProperty("frameMs").GetProperty("count").GetInt32());
+        Assert.Equal(expected.Length, run.GetProperty("pipeline").GetProperty("frame_ms").GetProperty("count").GetInt32());
+        Assert.Equal(expected.Length, run.GetProperty("floor").GetProperty("frame_ms").GetProperty("count").GetInt32());
     }
 
     [Fact]
@@ -201,8 +202,8 @@ public sealed class BenchCommandTests : IDisposable
 
     private static string[] Keys(JsonElement side)
     {
-        JsonElement keys = side.GetProperty("frameKeys");
-        Assert.Equal(keys.GetArrayLength(), side.GetProperty("frameCalls").GetInt32());
+        JsonElement keys = side.GetProperty("frame_keys");
+        Assert.Equal(keys.GetArrayLength(), side.GetProperty("frame_calls").GetInt32());
         return [.. keys.EnumerateArray().Select(e => e.GetString()!)];
     }
 

@@ -83,6 +83,21 @@ public sealed class PresetLoaderTests
         Assert.Contains("p.yaml:5: warp.farRowFraction:", ex.Message, StringComparison.Ordinal);
     }
 
+    // Source: docs/detect.md ("a preset with several errors lists all of them"): unknown keys, wrong types and
+    // out-of-range values of one file come in one message, one line each, in file order.
+    [Fact]
+    public void SeveralKindsOfErrors_AreAllReported_InOneMessage()
+    {
+        const string yaml = "gradient:\n  cannyLowThreshhold: 40\nsearch:\n  windowCount: many\nhough:\n  votes: 0\nbogus: 1\n";
+        var ex = Assert.Throws<BadInputException>(() => PresetLoader.Parse(yaml, "q.yaml"));
+        string[] lines = ex.Message.Split('\n');
+        Assert.Equal(4, lines.Length);
+        Assert.StartsWith("q.yaml:2: gradient.cannyLowThreshhold: unknown key", lines[0], StringComparison.Ordinal);
+        Assert.StartsWith("q.yaml:4: search.windowCount:", lines[1], StringComparison.Ordinal);
+        Assert.StartsWith("q.yaml:6: hough.votes:", lines[2], StringComparison.Ordinal);
+        Assert.StartsWith("q.yaml:7: bogus: unknown key", lines[3], StringComparison.Ordinal);
+    }
+
     [Fact]
     public void WrongType_IsAnError_NamingTheLine()
     {

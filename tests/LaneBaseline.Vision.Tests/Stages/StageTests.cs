@@ -158,6 +158,109 @@ public sealed class StageTests
     }
 
     [Fact]
+    public void Color_GreyWorld_RemovesASodiumCast_SoTheLitRoadIsNotYellow()
+    {
+        // Grey world (Buchsbaum, J. Franklin Inst. 310(1), 1980): the average reflectance of a scene is achromatic, so
+        // per-channel gains grey / channel mean undo a colour cast. Road grey 80 under an orange cast (B x 0.25,
+        // G x 0.7, R x 1.1; low-pressure sodium light is nearly monochromatic at 589 nm, from memory) is (20, 56, 88);
+        // a lit patch of road grey 110 along the bottom rows, wider than any marking, is (28, 77, 121): min(R, G) - B = 49 >= 28 and lightness
+        // 74.5 >= road 54 + 8, so without the gains it passes the yellow-paint test. The wedge mean of mostly road
+        // gives gains near (54.7 / 20, 54.7 / 56, 54.7 / 88) = (2.73, 0.98, 0.62) (derived), which make both greys
+        // achromatic again: no yellow evidence inside the patch.
+        var o = new PipelineOptions();
+        using FrameWorkspace ws = Workspace(o, 60);
+        using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(20, 56, 88));
+        Cv2.Rectangle(frame, new Rect(60, 168, 200, 12), new Scalar(28, 77, 121), -1);
+        RunUpTo(ws, o, frame, 4);
+        using (Mat inner = new Mat(ws.Evidence, new Rect(100, 170, 120, 8)))
+        {
+            Assert.Equal(0, Cv2.CountNonZero(inner));
+        }
+
+        Assert.True(ws.GreyWorldGains.B > 2.0 && ws.GreyWorldGains.B < 3.2, $"blue gain {ws.GreyWorldGains.B}");
+        Assert.True(ws.GreyWorldGains.R > 0.5 && ws.GreyWorldGains.R < 0.75, $"red gain {ws.GreyWorldGains.R}");
+
+        // Without the gains the cast patch is "yellow paint": the check above is the grey world's doing.
+        var off = o with { Color = o.Color with { GreyWorld = false } };
+        using FrameWorkspace ws2 = Workspace(off, 60);
+        RunUpTo(ws2, off, frame, 4);
+        using Mat inner2 = new Mat(ws2.Evidence, new Rect(100, 170, 120, 8));
+        Assert.True(Cv2.CountNonZero(inner2) > 400);
+        Assert.Equal((1.0, 1.0, 1.0), ws2.GreyWorldGains);
+    }
+
+    [Fact]
+    public void Color_Clahe_InADarkScene_RecoversFaintPaintThePlainRidgeMisses()
+    {
+        // CLAHE (Zuiderveld, "Contrast Limited Adaptive Histogram Equalization", Graphics Gems IV, 1994) maps each tile
+        // through its clipped cumulative histogram, so the slope of the mapping over a densely used grey range (a
+        // textured road) approaches the clip limit + 1 while a sparse range keeps a slope near 1 (derived). A dark road
+        // (grey 26-34, a deterministic texture) with paint at 42, a step of 12 below gradient.ridgeMinStep (14), gives no
+        // ridge on the plain band; equalised, the road's 8 levels spread over about 20 and the step exceeds 14.
+        var o = new PipelineOptions();
+        using var frame = new Mat(H, W, MatType.CV_8UC3);
+        for (int y = 0; y < H; y++)
+        {
+            for (int x = 0; x < W; x++)
+            {
+                byte v = (byte)(26 + (((x * 7) + (y * 13)) % 9));
+                frame.Set(y, x, new Vec3b(v, v, v));
+            }
+        }
+
+        Cv2.Line(frame, new Point(60, 179), new Point(160, 90), Scalar.All(42), 6);  // through the preset point
+        var off = o with { Color = o.Color with { ClaheMaxRoadLightness = 0, ClaheMinVeilLightness = 255 } };
+        using FrameWorkspace plain = Workspace(off, 60);
+        RunUpTo(plain, off, frame, 4);
+        using FrameWorkspace equalised = Workspace(o, 60);
+        RunUpTo(equalised, o, frame, 4);
+        Assert.False(plain.Equalised);
+        Assert.True(equalised.Equalised);
+        using Mat linePlain = new Mat(plain.Evidence, new Rect(60, 130, 70, 50));
+        using Mat lineEq = new Mat(equalised.Evidence, new Rect(60, 130, 70, 50));
+        Assert.True(Cv2.CountNonZero(linePlain) < 20, $"plain ridge found {Cv2.CountNonZero(linePlain)} pixels");
+        Assert.True(Cv2.CountNonZero(lineEq) > 100, $"equalised ridge found {Cv2.CountNonZero(lineEq)} pixels");
+
+        // A road of ordinary lightness (grey 100-108) is neither dark nor veiled: no equalisation.
+        using var day = new Mat(H, W, MatType.CV_8UC3, Scalar.All(104));
+        using FrameWorkspace dayWs = Workspace(o, 60);
+        RunUpTo(dayWs, o, day, 4);
+        Assert.False(dayWs.Equalised);
+    }
+
+    [Fact]
+    public void Color_StreakStraightBelowALamp_IsCleared_InADarkScene()
+    {
+        // A flat wet road is a horizontal mirror: by the law of reflection the mirror image of a light lies on the
+        // vertical through the light in a camera without roll (derived), smeared into a streak by the road's roughness.
+        // A lamp (grey 255) above the horizon at column 250 and a streak of grey 200 below it: the streak is cleared; a
+        // line through the vanishing point is kept. The orientation test is off so the mirror test alone is checked.
+        var o = new PipelineOptions();
+        o = o with { Gradient = o.Gradient with { OrientationToleranceDeg = 90 } };
+        using var frame = new Mat(H, W, MatType.CV_8UC3, Scalar.All(30));
+        Cv2.Rectangle(frame, new Rect(0, 0, W, 90), Scalar.All(15), -1);                 // night sky
+        Cv2.Circle(frame, new Point(250, 50), 3, Scalar.All(255), -1);                    // street lamp
+        Cv2.Line(frame, new Point(250, 115), new Point(250, 179), Scalar.All(200), 4);   // its reflection
+        Cv2.Line(frame, new Point(60, 179), new Point(160, 90), Scalar.All(200), 4);     // a lane line
+        using FrameWorkspace ws = Workspace(o, 60);
+        RunUpTo(ws, o, frame, 4);
+        Assert.Equal(160, ws.VanishingX, 6);
+        using (Mat streak = new Mat(ws.Evidence, new Rect(240, 125, 21, 50)))
+        using (Mat line = new Mat(ws.Evidence, new Rect(60, 125, 100, 50)))
+        {
+            Assert.Equal(0, Cv2.CountNonZero(streak));
+            Assert.True(Cv2.CountNonZero(line) > 50);
+        }
+
+        // With the test off (lightSourceLightness 255) the same streak is evidence.
+        var off = o with { Color = o.Color with { LightSourceLightness = 255 } };
+        using FrameWorkspace ws2 = Workspace(off, 60);
+        RunUpTo(ws2, off, frame, 4);
+        using Mat streak2 = new Mat(ws2.Evidence, new Rect(240, 125, 21, 50));
+        Assert.True(Cv2.CountNonZero(streak2) > 50);
+    }
+
+    [Fact]
     public void Warp_MapsRoadLinesThroughTheVanishingPointToColumns()
     {
         // Lines through the vanishing point are images of road lines parallel to the vehicle; the warp must make them

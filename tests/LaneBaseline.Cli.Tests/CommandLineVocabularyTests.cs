@@ -1,0 +1,292 @@
+using System.CommandLine;
+using System.Text;
+using System.Text.Json;
+using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Testing;
+using OpenCvSharp;
+using Xunit;
+
+namespace LaneBaseline.Cli.Tests;
+
+/// <summary>
+/// One command line (docs/cli.md "Shared vocabulary"): the same names, aliases and defaults on every command,
+/// <c>-</c> for standard input and output, deprecated spellings still working with a note, typo suggestions and
+/// examples in help.
+/// </summary>
+public sealed class CommandLineVocabularyTests : IDisposable
+{
+    private readonly TempDir dir = new();
+
+    public void Dispose() => dir.Dispose();
+
+    private static IEnumerable<Command> Commands() => Program.CreateRoot().Subcommands;
+
+    private static (int Exit, string Out, string Err) RunWithInput(string stdin, params string[] args)
+    {
+        using var output = new StringWriter();
+        using var error = new StringWriter();
+        using var input = new MemoryStream(Encoding.UTF8.GetBytes(stdin));
+        int exit = Program.Invoke(args, output, error, input);
+        return (exit, output.ToString(), error.ToString());
+    }
+
+    private string Truth()
+    {
+        string path = dir.File("truth.lanes.jsonl");
+        Lanes.WriteFile(path,
+        [
+            Lanes.Truth("s/000001.png", 640, 360, Lanes.Of((100, 359), (300, 180)), Lanes.Of((540, 359), (340, 180))),
+            Lanes.Truth("s/000002.png", 640, 360, Lanes.Of((110, 359), (305, 180))),
+        ]);
+        return path;
+    }
+
+    // Source: docs/cli.md (shared vocabulary): every command names its main output -o/--output, its worker count
+    // -j/--threads defaulting to the number of cores, and frame inputs --frames.
+    [Fact]
+    public void EveryCommand_UsesTheSharedNamesAliasesAndDefaults()
+    {
+        string[] writers = ["detect", "audit", "tune", "convert", "render", "report", "merge"];
+        string[] threaded = ["detect", "score", "audit", "tune", "render", "report", "merge", "bench"];
+        foreach (Command command in Commands())
+        {
+            List<Option> visible = [.. command.Options.Where(o => !o.Hidden)];
+            Option? output = visible.FirstOrDefault(o => o.Name == "--output");
+            Assert.Equal(writers.Contains(command.Name), output is not null);
+            if (output is not null)
+            {
+                Assert.Equal(["-o"], output.Aliases);
+            }
+
+            // No other visible option takes -o or another spelling of the output.
+            Assert.DoesNotContain(visible, o => o != output && (o.Aliases.Contains("-o") || o.Name == "--out"));
+            Option? legacy = command.Options.FirstOrDefault(o => o.Name == "--out");
+            Assert.True(legacy is null || legacy.Hidden, command.Name + ": --out is deprecated and hidden");
+
+            Option? threads = visible.FirstOrDefault(o => o.Name == "--threads");
+            Assert.Equal(threaded.Contains(command.Name), threads is not null);
+            if (threads is not null)
+            {
+                Assert.Equal(["-j"], threads.Aliases);
+                Assert.True(threads.HasDefaultValue, command.Name);
+                object? value = threads.GetDefaultValue();
+                Assert.Equal(Environment.ProcessorCount.ToString(System.Globalization.CultureInfo.InvariantCulture), Convert.ToString(value, System.Globalization.CultureInfo.InvariantCulture));
+            }
+
+            // Frame inputs are --frames everywhere (detect's positional FRAMES is hidden and deprecated).
+            Assert.DoesNotContain(visible, o => o.Name != "--frames" && o.Name.Contains("frame", StringComparison.Ordinal) && o.Name is not ("--max-frames"));
+            Assert.All(command.Arguments, a => Assert.True(!a.Name.Contains("FRAMES", StringComparison.Ordinal) || a.Hidden));
+
+            // Defaults are stated once: by the help's [default: ...], not again in the description.
+            foreach (Option o in visible.Where(o => o.HasDefaultValue))
+            {
+                // (--config lists the preset names, one of which is called "default".)
+                string description = (o.Description ?? string.Empty).Replace("(default, ", "(", StringComparison.Ordinal);
+                Assert.False(description.Contains("default", StringComparison.OrdinalIgnoreCase), command.Name + " " + o.Name + ": " + description);
+            }
+        }
+    }
+
+    [Fact]
+    public void DeprecatedOut_StillWorks_WithANote()
+    {
+        string truth = Truth(), copy = dir.File("copy.lanes.jsonl");
+        (int exit, _, string err) = CliRunner.Run("convert", truth, "--out", copy);
+        Assert.Equal(0, exit);
+        Assert.Contains("note: --out is deprecated, use -o/--output", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllText(truth), File.ReadAllText(copy));
+        Assert.Equal(2, CliRunner.Run("convert", truth, "--out", copy, "-o", copy).Exit);
+        Assert.Equal(2, CliRunner.Run("convert", truth).Exit); // the output is still required
+    }
+
+    [Fact]
+    public void DetectPositionalFrames_StillWorks_WithANote_AndGivingBothIsAUsageError()
+    {
+        string frames = dir.File("frames");
+        Directory.CreateDirectory(frames);
+        using (Mat m = new LaneBaseline.Vision.Tests.Pipeline.SyntheticRoad { Width = 320, Height = 180, Seed = 3 }.Render())
+        {
+            Cv2.ImWrite(Path.Combine(frames, "a.png"), m);
+        }
+
+        (int exit, _, string err) = CliRunner.Run("detect", frames, "-o", dir.File("a.lanes.jsonl"), "-j", "1");
+        Assert.Equal(0, exit);
+        Assert.Contains("note: the positional FRAMES is deprecated", err, StringComparison.Ordinal);
+        (exit, _, err) = CliRunner.Run("detect", "--frames", frames, "-o", dir.File("b.lanes.jsonl"), "-j", "1");
+        Assert.Equal(0, exit);
+        Assert.DoesNotContain("deprecated", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllText(dir.File("a.lanes.jsonl")), File.ReadAllText(dir.File("b.lanes.jsonl")));
+        Assert.Equal(2, CliRunner.Run("detect", frames, "--frames", frames, "-o", dir.File("c.lanes.jsonl")).Exit);
+        Assert.Equal(2, CliRunner.Run("detect", "-o", dir.File("c.lanes.jsonl")).Exit);
+    }
+
+    // Source: docs/cli.md: '-' is standard output; the JSON alone is on stdout, the table moves to stderr.
+    [Fact]
+    public void Score_PredFromStdin_JsonToStdout_KeepsStdoutPureJson()
+    {
+        string truth = Truth();
+        (int exit, string stdout, string stderr) = RunWithInput(File.ReadAllText(truth), "score", "--truth", truth, "--pred", "-", "--json", "-", "--bootstrap", "0");
+        Assert.Equal(0, exit);
+        using JsonDocument doc = JsonDocument.Parse(stdout);
+        // Prediction = truth: F1 1 at IoU 0.50 (3 lanes, all matched).
+        Assert.Equal(3, doc.RootElement.GetProperty("iou_f1").GetProperty("thresholds").GetProperty("0.50").GetProperty("tp").GetInt32());
+        Assert.Contains("F1@.50", stderr, StringComparison.Ordinal);
+
+        // The same run from files gives the same results; the settings name standard input '-'.
+        string json = dir.File("s.json");
+        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", "stdin=" + truth, "--json", json, "--bootstrap", "0").Exit);
+        using JsonDocument fromFile = JsonDocument.Parse(File.ReadAllText(json));
+        foreach (string key in new[] { "iou_f1", "point_accuracy", "by_tag" })
+        {
+            Assert.Equal(fromFile.RootElement.GetProperty(key).GetRawText(), doc.RootElement.GetProperty(key).GetRawText());
+        }
+
+        Assert.DoesNotContain("lanebaseline-stdin-", stdout, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Stdin_BadInput_IsNamedDash_AndExitsThree()
+    {
+        string truth = Truth();
+        (int exit, _, string err) = RunWithInput("{\"frame\": 3}\n", "score", "--truth", truth, "--pred", "-");
+        Assert.Equal(3, exit);
+        Assert.StartsWith("error: -:1:", err, StringComparison.Ordinal);
+        Assert.DoesNotContain("lanebaseline-stdin-", err, StringComparison.Ordinal);
+    }
+
+    [Theory]
+    [InlineData("score", "--truth", "-", "--pred", "-")]
+    [InlineData("score", "--truth", "T", "--pred", "P", "--json", "-", "--csv", "-")]
+    [InlineData("audit", "--pred", "-", "--baseline", "-", "-o", "x.jsonl")]
+    public void TwoDashes_AreAUsageError(params string[] args)
+    {
+        (int exit, _, string err) = RunWithInput(string.Empty, args);
+        Assert.Equal(2, exit);
+        Assert.Contains("only one", err, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Convert_StdinToStdout_IsAFilter()
+    {
+        string truth = Truth();
+        (int exit, string stdout, string stderr) = RunWithInput(File.ReadAllText(truth), "convert", "-", "-o", "-");
+        Assert.Equal(0, exit);
+        Assert.Equal(File.ReadAllText(truth), stdout);
+        Assert.Contains("convert: 2 frames, 3 lanes -> standard output", stderr, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Audit_PredFromStdin_FindingsToStdout()
+    {
+        string truth = Truth(), file = dir.File("f.jsonl");
+        (int exit, string stdout, _) = RunWithInput(File.ReadAllText(truth), "audit", "--pred", "-", "-o", "-", "-j", "1");
+        Assert.Equal(0, exit);
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", truth, "-o", file, "-j", "1").Exit);
+        Assert.Equal(File.ReadAllText(file), stdout);
+    }
+
+    [Fact]
+    public void Detect_ToStdout_StreamsRecords_AndWritesNothingElse()
+    {
+        string frames = dir.File("frames");
+        Directory.CreateDirectory(frames);
+        for (int i = 0; i < 2; i++)
+        {
+            using Mat m = new LaneBaseline.Vision.Tests.Pipeline.SyntheticRoad { Width = 320, Height = 180, Seed = (ulong)i + 1 }.Render();
+            Cv2.ImWrite(Path.Combine(frames, $"f{i}.png"), m);
+        }
+
+        (int exit, string stdout, string stderr) = CliRunner.Run("detect", "--frames", frames, "-o", "-", "-j", "1");
+        Assert.Equal(0, exit);
+        string[] lines = stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal(2, lines.Length);
+        Assert.All(lines, l => Assert.StartsWith("{\"frame\":\"f", l, StringComparison.Ordinal));
+        Assert.Contains("2 frames written to standard output", stderr, StringComparison.Ordinal);
+        Assert.Equal(["frames"], Directory.GetFileSystemEntries(dir.Path).Select(Path.GetFileName).Where(n => n != "truth.lanes.jsonl"));
+    }
+
+    [Fact]
+    public void MissingOutputFolder_IsCreated()
+    {
+        string truth = Truth(), json = dir.File(Path.Combine("new", "deeper", "s.json"));
+        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", truth, "--json", json, "--bootstrap", "0").Exit);
+        Assert.True(File.Exists(json));
+    }
+
+    // Source: issue "outputs that never clobber": an existing output that is a FIFO is written in place, never renamed over.
+    [Fact]
+    public async Task Fifo_Output_IsWrittenInPlace()
+    {
+        if (!OperatingSystem.IsLinux())
+        {
+            return;
+        }
+
+        string truth = Truth(), fifo = dir.File("pipe.json");
+        using (var mk = System.Diagnostics.Process.Start("mkfifo", [fifo]))
+        {
+            mk.WaitForExit();
+            Assert.Equal(0, mk.ExitCode);
+        }
+
+        var reader = Task.Run(() => File.ReadAllText(fifo));
+        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", truth, "--json", fifo, "--bootstrap", "0").Exit);
+        using JsonDocument doc = JsonDocument.Parse(await reader.WaitAsync(TimeSpan.FromSeconds(60)));
+        Assert.Equal(2, doc.RootElement.GetProperty("frames").GetInt32());
+        using var check = System.Diagnostics.Process.Start("test", ["-p", fifo])!;
+        check.WaitForExit();
+        Assert.Equal(0, check.ExitCode); // still a FIFO
+    }
+
+    [Fact]
+    public void Typo_SuggestsTheCommand()
+    {
+        (int exit, _, string err) = CliRunner.Run("scor");
+        Assert.Equal(2, exit);
+        Assert.Contains("Did you mean", err, StringComparison.Ordinal);
+        Assert.Contains("\nscore", err.Replace("\r", string.Empty, StringComparison.Ordinal), StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Help_EndsWithExamplesThatParse_AndTheCautionAppearsOnceInTheRootHelp()
+    {
+        (int exit, string rootHelp, _) = CliRunner.Run("--help");
+        Assert.Equal(0, exit);
+        Assert.Equal(1, Count(rootHelp, Core.SafetyNotice.Text));
+        foreach (Command command in Commands())
+        {
+            (int e, string help, _) = CliRunner.Run(command.Name, "--help");
+            Assert.Equal(0, e);
+            Assert.Equal(0, Count(help, Core.SafetyNotice.Text));
+            string tail = help[help.LastIndexOf("Examples:", StringComparison.Ordinal)..];
+            string[] examples = [.. tail.Split('\n').Skip(1).Select(l => l.Trim()).Where(l => l.Length > 0)];
+            Assert.InRange(examples.Length, 1, 3);
+            foreach (string example in examples)
+            {
+                // Every part of a pipeline is a command of this tool that parses without errors.
+                foreach (string part in example.Split(" | "))
+                {
+                    string[] words = part.Split(' ', StringSplitOptions.RemoveEmptyEntries);
+                    if (words[0] != "lanebaseline")
+                    {
+                        continue;
+                    }
+
+                    ParseResult parse = Program.CreateRoot().Parse(words[1..]);
+                    Assert.True(parse.Errors.Count == 0, example + ": " + string.Join("; ", parse.Errors.Select(x => x.Message)));
+                }
+            }
+        }
+
+        static int Count(string text, string part)
+        {
+            int n = 0;
+            for (int i = text.IndexOf(part, StringComparison.Ordinal); i >= 0; i = text.IndexOf(part, i + 1, StringComparison.Ordinal))
+            {
+                n++;
+            }
+
+            return n;
+        }
+    }
+}
