@@ -104,7 +104,9 @@ internal static class ScoreTableWriter
         if (results.Count > 1)
         {
             o.WriteLine();
-            o.WriteLine("Paired differences (A - B on the same frames" + (boot is null ? ")" : "; 95 % interval from joint resampling of frames)") + ":");
+            o.WriteLine("Paired differences (A - B on the same frames" + (boot is null ? ")" : boot.Unit == BootstrapUnit.Sequence
+                ? string.Create(CultureInfo.InvariantCulture, $"; 95 % interval from joint resampling of {boot.Units} sequences)")
+                : "; 95 % interval from joint resampling of frames)") + ":");
             for (int a = 0; a < results.Count; a++)
             {
                 for (int b = a + 1; b < results.Count; b++)

@@ -43,7 +43,7 @@ internal static partial class Charts
 
         plot.XLabel("IoU threshold");
         plot.YLabel("F1");
-        plot.Axes.SetLimits(0, 1, 0, 1.05);
+        plot.Axes.SetLimits(0, 1, 0, 1.0); // F1 ends at 1.0
         plot.ShowLegend(Alignment.LowerLeft);
         return ToSvg(plot, 900, 420, idPrefix, "F1 against IoU threshold");
     }
@@ -69,9 +69,65 @@ internal static partial class Charts
 
         plot.XLabel("Recall at IoU 0.50");
         plot.YLabel("Precision at IoU 0.50");
-        plot.Axes.SetLimits(0, 1.02, 0, 1.05);
+        // zoomed to the data: the sweep's points with a margin of a tenth of their span (at least 0.02), inside [0, 1]
+        double[] rs = [.. systems.SelectMany(x => x.ConfidenceSweep).Select(p => p.Counts.Recall).Where(double.IsFinite)];
+        double[] ps = [.. systems.SelectMany(x => x.ConfidenceSweep).Select(p => p.Counts.Precision).Where(double.IsFinite)];
+        (double x0, double x1) = ZoomRange(rs);
+        (double y0, double y1) = ZoomRange(ps);
+        plot.Axes.SetLimits(x0, x1, y0, y1);
         plot.ShowLegend(Alignment.LowerLeft);
         return ToSvg(plot, 900, 420, idPrefix, "Precision against recall over lane confidence");
+    }
+
+    /// <summary>An axis range around values in [0, 1]: their span plus a tenth of it each side (at least 0.02), clipped to [0, 1]; [0, 1] without values.</summary>
+    public static (double Low, double High) ZoomRange(IReadOnlyCollection<double> values)
+    {
+        ArgumentNullException.ThrowIfNull(values);
+        if (values.Count == 0)
+        {
+            return (0, 1);
+        }
+
+        double lo = values.Min(), hi = values.Max(), pad = Math.Max(0.02, (hi - lo) / 10);
+        return (Math.Max(0, lo - pad), Math.Min(1, hi + pad));
+    }
+
+    /// <summary>
+    /// Reliability diagram: per score bin with lanes, the share of true positives at IoU 0.50 against the bin's mean
+    /// score, one curve per system, and the diagonal of perfect calibration.
+    /// </summary>
+    public static string Reliability(IReadOnlyList<SystemResult> systems, string idPrefix)
+    {
+        using var plot = NewPlot();
+        var diagonal = plot.Add.Line(0, 0, 1, 1);
+        diagonal.Color = Color.FromHex(Palette.Grey);
+        diagonal.LinePattern = LinePattern.Dashed;
+        diagonal.LegendText = "perfect calibration";
+        for (int s = 0; s < systems.Count; s++)
+        {
+            if (systems[s].Calibration is not { } cal)
+            {
+                continue;
+            }
+
+            ReliabilityBin[] bins = [.. cal.Bins.Where(b => b.Lanes > 0 && double.IsFinite(b.MeanScore) && double.IsFinite(b.Precision))];
+            if (bins.Length == 0)
+            {
+                continue;
+            }
+
+            var line = plot.Add.Scatter(bins.Select(b => b.MeanScore).ToArray(), bins.Select(b => b.Precision).ToArray());
+            line.LegendText = systems[s].Name + string.Create(CultureInfo.InvariantCulture, $" (ECE {cal.Ece:0.000})");
+            line.Color = Color.FromHex(SystemColor(s));
+            line.LineWidth = 2;
+            line.MarkerSize = 7;
+        }
+
+        plot.XLabel("Mean lane score in the bin");
+        plot.YLabel("Precision at IoU 0.50");
+        plot.Axes.SetLimits(0, 1, 0, 1.0);
+        plot.ShowLegend(Alignment.UpperLeft);
+        return ToSvg(plot, 900, 420, idPrefix, "Reliability of lane scores");
     }
 
     /// <summary>F1 at IoU 0.50 per tag, grouped bars with one bar per system.</summary>
@@ -105,7 +161,7 @@ internal static partial class Charts
         bool crowded = CategoryTicks(plot, [.. Enumerable.Range(0, tags.Count).Select(t => (t * (n + 1)) + ((n - 1) / 2.0))], tags);
         AddSystemLegend(plot, systems);
         plot.YLabel("F1 at IoU 0.50");
-        plot.Axes.SetLimits(-0.8, (tags.Count * (n + 1)) - 1.2, 0, 1.1);
+        plot.Axes.SetLimits(-0.8, (tags.Count * (n + 1)) - 1.2, 0, 1.0); // F1 ends at 1.0
         return ToSvg(plot, 900, crowded ? 480 : 400, idPrefix, "F1 at IoU 0.50 per tag");
     }
 
@@ -153,7 +209,7 @@ internal static partial class Charts
         plot.XLabel("Condition severity (render --sweep)");
         plot.YLabel("F1 at IoU 0.50");
         double lo = Math.Min(0, levels.Min(l => l.Severity)), hi = Math.Max(1, levels.Max(l => l.Severity));
-        plot.Axes.SetLimits(lo - 0.03, hi + 0.03, 0, 1.05);
+        plot.Axes.SetLimits(lo - 0.03, hi + 0.03, 0, 1.0); // F1 ends at 1.0
         plot.ShowLegend(Alignment.LowerLeft);
         return ToSvg(plot, 900, 380, idPrefix, "F1 at IoU 0.50 against condition severity");
     }
@@ -206,6 +262,7 @@ internal static partial class Charts
 
         plot.ShowLegend(Alignment.UpperRight);
         plot.YLabel("Findings");
+        plot.Axes.Left.TickGenerator = new ScottPlot.TickGenerators.NumericAutomatic { IntegerTicksOnly = true }; // counts
         double max = rules.Select(r => (double)r.Findings).DefaultIfEmpty(0).Max();
         plot.Axes.SetLimits(-0.8, Math.Max(1, rules.Count - 0.2), 0, Math.Max(1, max * 1.15));
         return ToSvg(plot, 900, crowded ? 440 : 380, idPrefix, "Audit findings per rule");

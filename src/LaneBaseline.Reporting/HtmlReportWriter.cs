@@ -17,7 +17,7 @@ public static class HtmlReportWriter
 {
     /// <summary>Section ids of a page with score results, in page order (every one is always present; empty ones say why).</summary>
     public static readonly IReadOnlyList<string> SectionIds =
-        ["headline", "iou-curve", "confidence", "tags", "paired", "gallery", "tag-gallery", "audit", "configuration", "caution"];
+        ["headline", "iou-curve", "confidence", "tags", "paired", "regressions", "gallery", "tag-gallery", "audit", "configuration", "caution"];
 
     /// <summary>Section ids of a page made from audit findings alone.</summary>
     public static readonly IReadOnlyList<string> AuditOnlySectionIds = ["audit", "configuration", "caution"];
@@ -60,13 +60,19 @@ public static class HtmlReportWriter
 
         h.Append(" · generated <time datetime=\"")
          .Append(Time(input.GeneratedAt)).Append("\">").Append(Time(input.GeneratedAt)).Append("</time></p>\n")
-         .Append("<p class=\"caution-banner\">").Append(E(SafetyNotice.Text)).Append("</p>\n</header>\n");
+         .Append("<p class=\"caution-banner\">").Append(E(SafetyNotice.Text)).Append("</p>\n");
+        if (doc is not null)
+        {
+            h.Append("<p id=\"verdict\" class=\"verdict\">").Append(E(Verdict(doc, input.Gallery?.Regressions))).Append("</p>\n");
+        }
+
+        h.Append("</header>\n");
 
         h.Append("<nav>");
         if (doc is not null)
         {
             h.Append("<a href=\"#headline\">Headline</a><a href=\"#iou-curve\">F1 vs IoU</a><a href=\"#confidence\">Confidence</a>")
-             .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#gallery\">Worst frames</a><a href=\"#tag-gallery\">Worst by tag</a>");
+             .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#regressions\">Regressions</a><a href=\"#gallery\">Worst frames</a><a href=\"#tag-gallery\">Worst by tag</a>");
         }
 
         h.Append("<a href=\"#audit\">Audit</a>").Append(input.Bench is null ? string.Empty : "<a href=\"#bench\">Cost</a>").Append("<a href=\"#configuration\">Configuration</a><a href=\"#caution\">Caution</a></nav>\n<main>\n");
@@ -76,9 +82,10 @@ public static class HtmlReportWriter
             WriteHeadline(h, systems);
             WriteIouCurve(h, systems);
             WriteConfidence(h, systems);
-            WriteTags(h, systems);
+            WriteTags(h, systems, Roles(doc, input.Gallery?.Regressions));
             WritePaired(h, doc);
             var base64 = new Dictionary<(string System, string Frame), string>();
+            WriteRegressions(h, systems.Count, input.Gallery);
             WriteGallery(h, input.Gallery, base64);
             WriteTagGallery(h, input.Gallery, base64);
         }
@@ -94,6 +101,113 @@ public static class HtmlReportWriter
         h.Append("<section id=\"caution\">\n<h2>Safety caution</h2>\n<p>").Append(E(SafetyNotice.Text)).Append("</p>\n</section>\n");
         h.Append("</main>\n<footer>LaneBaseline report · ").Append(Time(input.GeneratedAt)).Append("</footer>\n</body>\n</html>\n");
         return h.ToString();
+    }
+
+    /// <summary>
+    /// The page's one-line answer: which system is better on F1@0.50 and on point accuracy, by how much, and whether
+    /// the 95 % paired interval of the difference excludes 0. Compares the regression gallery's network with its
+    /// baseline when there is one, else the first paired comparison of the file.
+    /// </summary>
+    public static string Verdict(ScoreDocument doc, RegressionGallery? regressions = null)
+    {
+        ArgumentNullException.ThrowIfNull(doc);
+        if (doc.Paired.Count == 0)
+        {
+            SystemResult only = doc.Systems[0];
+            Ci? ci = only.Intervals?.Get("f1@0.50");
+            return "Verdict: one system (" + only.Name + "): F1@0.50 " + F(only.Overall.At("0.50")?.F1 ?? double.NaN, "0.000")
+                + (ci is Ci c ? " [" + F(c.Low, "0.000") + ", " + F(c.High, "0.000") + "]" : string.Empty)
+                + ", point accuracy " + F(only.Overall.Point.Accuracy, "0.000") + ". Score a second system on the same truth to compare.";
+        }
+
+        PairedResult pair = doc.Paired[0];
+        bool flip = false;
+        if (Roles(doc, regressions) is (int net, int bas))
+        {
+            string nn = doc.Systems[net].Name, bn = doc.Systems[bas].Name;
+            PairedResult? match = doc.Paired.FirstOrDefault(p => (p.A == nn && p.B == bn) || (p.A == bn && p.B == nn));
+            if (match is not null)
+            {
+                pair = match;
+                flip = match.A == bn;
+            }
+        }
+
+        string a = flip ? pair.B : pair.A, b = flip ? pair.A : pair.B;
+        string Part(string key, string label)
+        {
+            PairedStatistic? st = pair.Statistics.FirstOrDefault(x => x.Key == key);
+            if (st is null || !double.IsFinite(st.Diff))
+            {
+                return label + ": not computed";
+            }
+
+            double d = flip ? -st.Diff : st.Diff;
+            Ci? ci = st.Ci95 is Ci c0 ? (flip ? new Ci(-c0.High, -c0.Low) : c0) : null;
+            string who = d > 0 ? a + " is better" : d < 0 ? a + " is worse" : a + " and " + b + " are equal";
+            string text = label + ": " + who + (d == 0 ? string.Empty : " by " + F(Math.Abs(d), "0.000"));
+            if (ci is Ci c)
+            {
+                bool excludes = c.Low > 0 || c.High < 0;
+                text += " (95 % paired interval of " + a + " − " + b + " [" + F(c.Low, "0.000") + ", " + F(c.High, "0.000") + "] "
+                    + (excludes ? "excludes 0" : "includes 0: not a clear difference") + ")";
+            }
+            else
+            {
+                text += " (no interval: bootstrap off)";
+            }
+
+            return text;
+        }
+
+        return "Verdict, " + a + " against " + b + ": " + Part("f1@0.50", "F1@0.50") + "; " + Part("accuracy", "point accuracy") + ".";
+    }
+
+    private static void WriteRegressions(StringBuilder h, int systemCount, Gallery? gallery)
+    {
+        h.Append("<section id=\"regressions\">\n<h2>Largest regressions</h2>\n");
+        RegressionGallery? r = gallery?.Regressions;
+        if (r is null)
+        {
+            h.Append("<p class=\"empty\">").Append(systemCount < 2
+                ? "Needs two systems on the same truth (a network and the baseline)."
+                : "Not requested: pass <code>--frames DIR</code> to draw the frames where the network does worse than the baseline.").Append("</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<p>").Append(E(r.Selection)).Append(" <strong>").Append(E(r.Network)).Append("</strong> is worse than <strong>").Append(E(r.Baseline))
+         .Append("</strong> on ").Append(Count(r.Worse, "frame")).Append(", better on ").Append(Count(r.Better, "frame")).Append(", of ").Append(Count(r.Total, "frame")).Append(".</p>\n");
+        h.Append("<p class=\"legend\" id=\"regression-legend\"><span class=\"key\"><span class=\"line truth\"></span>truth lane found (broad green band)</span>")
+         .Append("<span class=\"key\"><span class=\"line miss\"></span>truth lane missed (broad brick-red band, ticks across)</span>")
+         .Append("<span class=\"key\"><span class=\"line pred\"></span>").Append(E(r.Network)).Append(" lane that matches (magenta, dots)</span>")
+         .Append("<span class=\"key\"><span class=\"line fp\"></span>").Append(E(r.Network)).Append(" lane matching nothing (ochre, dashed)</span>")
+         .Append("<br>Matches at IoU 0.50, as the score counts them. Click a thumbnail for the full-size overlay.</p>\n");
+        if (r.Frames.Count == 0)
+        {
+            h.Append("<p class=\"empty\">No frame where ").Append(E(r.Network)).Append(" scores a lower frame F1 than ").Append(E(r.Baseline)).Append(".</p>\n</section>\n");
+            return;
+        }
+
+        h.Append("<div class=\"gallery\">\n");
+        foreach (RegressionFrame f in r.Frames)
+        {
+            GalleryFrame t = f.Thumb;
+            string img = "<img alt=\"" + E(t.Frame) + " drawn with true positives, false positives and misses\" width=\"" + I(t.Width) + "\" height=\"" + I(t.Height)
+                + "\" src=\"data:image/jpeg;base64," + Convert.ToBase64String(t.Jpeg.Span) + "\">";
+            h.Append("<figure class=\"thumb\" data-frame=\"").Append(E(t.Frame)).Append("\" data-delta=\"").Append(R(f.Delta)).Append("\">")
+             .Append(f.FullSizeHref is null ? img : "<a href=\"" + E(f.FullSizeHref) + "\">" + img + "</a>")
+             .Append("<figcaption><code>").Append(E(t.Frame)).Append("</code><br>Δ F1@0.50 <strong>").Append(F(f.Delta, "+0.000;−0.000;0.000")).Append("</strong>: ")
+             .Append(E(r.Network)).Append(' ').Append(F(t.F1, "0.000")).Append(" (TP ").Append(I(t.Tp)).Append(", FP ").Append(I(t.Fp)).Append(", FN ").Append(I(t.Fn)).Append("), ")
+             .Append(E(r.Baseline)).Append(' ').Append(F(f.BaselineF1, "0.000"));
+            if (t.Tags.Count > 0)
+            {
+                h.Append("<br>tags: ").Append(E(string.Join(", ", t.Tags)));
+            }
+
+            h.Append("</figcaption></figure>\n");
+        }
+
+        h.Append("</div>\n</section>\n");
     }
 
     private static void WriteHeadline(StringBuilder h, IReadOnlyList<SystemResult> systems)
@@ -166,6 +280,22 @@ public static class HtmlReportWriter
 
         h.Append("<p>Each point keeps only lanes whose confidence reaches a cutoff (0.00, 0.05, … 0.95); lanes without a confidence are always kept. IoU threshold 0.50.</p>\n");
         h.Append("<figure class=\"chart\" id=\"chart-confidence\">").Append(Charts.PrecisionRecall(systems, "c2")).Append("<figcaption>Precision against recall as the confidence cutoff rises.</figcaption></figure>\n");
+        SystemResult[] calibrated = [.. systems.Where(s => s.Calibration is not null)];
+        if (calibrated.Length > 0)
+        {
+            h.Append("<h3 id=\"reliability\">Reliability of the lane scores</h3>\n<p>Lanes grouped into ten equal score bins; a well-calibrated system's points lie on the diagonal. ECE = Σ (lanes in bin / all) · |precision − mean score| (Naeini, Cooper &amp; Hauskrecht 2015).</p>\n");
+            h.Append("<figure class=\"chart\" id=\"chart-reliability\">").Append(Charts.Reliability(systems, "c7")).Append("<figcaption>Precision at IoU 0.50 against the mean score per bin, one curve per system.</figcaption></figure>\n");
+            h.Append("<div class=\"scroll\"><table id=\"calibration-table\">\n<thead><tr><th>System</th><th>Scored lanes</th><th>ECE</th><th>Best-F1 score threshold</th><th>Best F1</th></tr></thead>\n<tbody>\n");
+            foreach (SystemResult r in calibrated)
+            {
+                CalibrationSummary c = r.Calibration!;
+                h.Append("<tr data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(E(r.Name)).Append("</th>").Append(Td("scored_lanes", c.ScoredLanes))
+                 .Append(TdCi("ece", c.Ece, null)).Append(TdCi("best_threshold", c.BestThreshold, null)).Append(TdCi("best_f1", c.BestF1, null)).Append("</tr>\n");
+            }
+
+            h.Append("</tbody>\n</table></div>\n");
+        }
+
         h.Append("<details><summary>Sweep table (one row per system and cutoff)</summary>\n<div class=\"scroll\"><table id=\"confidence-table\">\n<thead><tr><th>System</th><th>Min confidence</th><th>TP</th><th>FP</th><th>FN</th><th>Precision</th><th>Recall</th><th>F1</th></tr></thead>\n<tbody>\n");
         foreach (SystemResult r in with)
         {
@@ -182,7 +312,67 @@ public static class HtmlReportWriter
         h.Append("</tbody>\n</table></div>\n</details>\n</section>\n");
     }
 
-    private static void WriteTags(StringBuilder h, IReadOnlyList<SystemResult> systems)
+    /// <summary>
+    /// The kind of a truth tag, for grouping: road layout (curve, straight, lanes-N, two-way, lane-change), road
+    /// surface (asphalt, concrete), markings (markings-*, worn-paint) and condition (every other tag: light, weather,
+    /// image effects, traffic). The order of the kinds is the order of this list.
+    /// </summary>
+    public static readonly IReadOnlyList<string> TagKinds = ["condition", "road layout", "road surface", "markings"];
+
+    /// <summary>The kind of one tag (see <see cref="TagKinds"/>).</summary>
+    public static string TagKind(string tag)
+    {
+        ArgumentNullException.ThrowIfNull(tag);
+        if (tag is "curve" or "straight" or "two-way" or "lane-change" || tag.StartsWith("lanes-", StringComparison.Ordinal))
+        {
+            return "road layout";
+        }
+
+        if (tag is "asphalt" or "concrete")
+        {
+            return "road surface";
+        }
+
+        return tag.StartsWith("markings-", StringComparison.Ordinal) || tag == "worn-paint" ? "markings" : "condition";
+    }
+
+    /// <summary>
+    /// The network and the baseline the page compares (indices into the systems): the regression gallery's when there
+    /// is one, else the system named <c>baseline</c> (or <c>base</c>, else the first) and the first other system.
+    /// Null with one system.
+    /// </summary>
+    public static (int Network, int Baseline)? Roles(ScoreDocument doc, RegressionGallery? regressions)
+    {
+        ArgumentNullException.ThrowIfNull(doc);
+        IReadOnlyList<SystemResult> systems = doc.Systems;
+        if (systems.Count < 2)
+        {
+            return null;
+        }
+
+        int Index(string name)
+        {
+            for (int i = 0; i < systems.Count; i++)
+            {
+                if (systems[i].Name == name)
+                {
+                    return i;
+                }
+            }
+
+            return -1;
+        }
+
+        if (regressions is not null && Index(regressions.Network) is int n && n >= 0 && Index(regressions.Baseline) is int b0 && b0 >= 0)
+        {
+            return (n, b0);
+        }
+
+        int b = Index("baseline") is int i1 && i1 >= 0 ? i1 : Index("base") is int i2 && i2 >= 0 ? i2 : 0;
+        return (b == 0 ? 1 : 0, b);
+    }
+
+    private static void WriteTags(StringBuilder h, IReadOnlyList<SystemResult> systems, (int Network, int Baseline)? roles)
     {
         h.Append("<section id=\"tags\">\n<h2>By tag</h2>\n");
         var tags = systems.SelectMany(s => s.ByTag.Select(kv => kv.Key)).Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal).ToList();
@@ -202,6 +392,8 @@ public static class HtmlReportWriter
             WriteSeverity(h, systems, levels);
         }
 
+        WriteTagComparison(h, systems, tags, roles);
+        h.Append("<details><summary>Per tag and system (frames, truth lanes, mF1)</summary>\n");
         h.Append("<div class=\"scroll\"><table id=\"tag-table\">\n<thead><tr><th>Tag</th><th>System</th><th>Frames</th><th>Truth lanes</th><th>F1@0.50</th><th>mF1</th><th>Point accuracy</th></tr></thead>\n<tbody>\n");
         foreach (string tag in tags)
         {
@@ -220,8 +412,62 @@ public static class HtmlReportWriter
             }
         }
 
-        h.Append("</tbody>\n</table></div>\n</section>\n");
+        h.Append("</tbody>\n</table></div>\n</details>\n</section>\n");
     }
+
+    /// <summary>Tags grouped by kind (stable order), systems side by side, and network − baseline with its sign.</summary>
+    private static void WriteTagComparison(StringBuilder h, IReadOnlyList<SystemResult> systems, IReadOnlyList<string> tags, (int Network, int Baseline)? roles)
+    {
+        h.Append("<p class=\"note\">F1 at IoU 0.50 / point accuracy per tag, tags grouped by kind (")
+         .Append(E(string.Join(", ", TagKinds))).Append(") and in ordinal order within a kind.");
+        if (roles is (int net, int bas))
+        {
+            h.Append(" Δ is ").Append(E(systems[net].Name)).Append(" − ").Append(E(systems[bas].Name))
+             .Append(" on the same frames; the score file holds intervals for all frames only (Headline, Paired), so none are shown per tag.");
+        }
+
+        h.Append("</p>\n<div class=\"scroll\"><table id=\"tag-compare-table\">\n<thead><tr><th>Kind</th><th>Tag</th><th>Frames</th>");
+        foreach (SystemResult r in systems)
+        {
+            h.Append("<th>").Append(E(r.Name)).Append(" F1@0.50</th><th>").Append(E(r.Name)).Append(" point acc.</th>");
+        }
+
+        if (roles is not null)
+        {
+            h.Append("<th>Δ F1@0.50</th><th>Δ point acc.</th>");
+        }
+
+        h.Append("</tr></thead>\n<tbody>\n");
+        foreach (string kind in TagKinds)
+        {
+            foreach (string tag in tags.Where(t => TagKind(t) == kind))
+            {
+                Tally?[] row = [.. systems.Select(r => r.ByTag.FirstOrDefault(kv => kv.Key == tag).Value)];
+                long frames = row.Where(t => t is not null).Select(t => t!.Frames).DefaultIfEmpty(0).Max();
+                h.Append("<tr data-tag=\"").Append(E(tag)).Append("\" data-kind=\"").Append(E(kind)).Append("\"><td class=\"t\">").Append(E(kind)).Append("</td><th scope=\"row\">")
+                 .Append(E(tag)).Append("</th>").Append(Td("frames", frames));
+                for (int s = 0; s < systems.Count; s++)
+                {
+                    h.Append(TdCi("f1@0.50", row[s]?.At("0.50")?.F1 ?? double.NaN, null)).Append(TdCi("accuracy", row[s]?.Point.Accuracy ?? double.NaN, null));
+                }
+
+                if (roles is (int n, int b))
+                {
+                    double df = (row[n]?.At("0.50")?.F1 ?? double.NaN) - (row[b]?.At("0.50")?.F1 ?? double.NaN);
+                    double da = (row[n]?.Point.Accuracy ?? double.NaN) - (row[b]?.Point.Accuracy ?? double.NaN);
+                    h.Append(TdDelta("delta_f1@0.50", df)).Append(TdDelta("delta_accuracy", da));
+                }
+
+                h.Append("</tr>\n");
+            }
+        }
+
+        h.Append("</tbody>\n</table></div>\n");
+    }
+
+    private static string TdDelta(string key, double value) =>
+        "<td data-key=\"" + E(key) + "\" data-value=\"" + R(value) + "\" class=\"" + (value < 0 ? "worse" : value > 0 ? "better" : "same") + "\">"
+        + F(value, "+0.000;−0.000;0.000") + "</td>";
 
     private static void WritePaired(StringBuilder h, ScoreDocument doc)
     {
@@ -512,7 +758,8 @@ public static class HtmlReportWriter
         th:first-child, thead th { text-align:left; } thead th { background:var(--band); white-space:normal; vertical-align:bottom; }
         #headline-table thead th { max-width:7.5em; }
         #settings-table td, #versions-table td { text-align:left; white-space:normal; word-break:break-all; }
-        td.t { text-align:left; } td.msg { white-space:normal; min-width:16em; }
+        #tag-compare-table th { text-align:left; }
+        td.t { text-align:left; } td.worse { color:var(--miss); font-weight:600; } td.better { color:var(--truth); } td.msg { white-space:normal; min-width:16em; }
         .ci { display:block; color:var(--muted); font-size:0.82em; }
         .swatch { display:inline-block; width:0.8em; height:0.8em; border-radius:2px; margin-right:6px; vertical-align:baseline; }
         figure { margin:8px 0; }
@@ -523,6 +770,9 @@ public static class HtmlReportWriter
         .legend .line { display:inline-block; width:28px; vertical-align:middle; margin-right:6px; border-top-style:solid; }
         .legend .truth { border-top-width:5px; border-top-color:var(--truth); }
         .legend .pred { border-top-width:2px; border-top-color:var(--pred); }
+        .legend .miss { border-top-width:5px; border-top-color:var(--miss); }
+        .legend .fp { border-top-width:2px; border-top-style:dashed; border-top-color:var(--fp); }
+        .verdict { font-size:1.05em; font-weight:600; border-left:5px solid var(--accent); padding:6px 12px; background:var(--band); }
         .gallery { display:grid; grid-template-columns:repeat(auto-fill, minmax(260px, 1fr)); gap:12px; }
         .thumb { margin:0; border:1px solid var(--rule); padding:6px; background:var(--band); }
         .thumb img { display:block; width:100%; height:auto; }

@@ -75,5 +75,5 @@ public static class Palette
     /// <summary>The page's CSS custom properties for this palette.</summary>
     public static string CssVariables =>
         ":root { --ink:" + Ink + "; --muted:" + Muted + "; --rule:" + Rule + "; --band:" + Band + "; --accent:" + Systems[0]
-        + "; --caution-bg:" + CautionBackground + "; --caution-edge:" + CautionEdge + "; --truth:" + Truth + "; --pred:" + Prediction + "; }\n";
+        + "; --caution-bg:" + CautionBackground + "; --caution-edge:" + CautionEdge + "; --truth:" + Truth + "; --pred:" + Prediction + "; --miss:" + Error + "; --fp:" + Warning + "; }\n";
 }

@@ -37,7 +37,30 @@ public sealed record Gallery(IReadOnlyList<GalleryFrame> Frames, string Selectio
 {
     /// <summary>The per-condition gallery (worst frames of the first system per truth tag), or null when not built.</summary>
     public ConditionGallery? ByTag { get; init; }
+
+    /// <summary>Frames where the network does worst against the baseline, or null (one system, or not built).</summary>
+    public RegressionGallery? Regressions { get; init; }
 }
+
+/// <summary>One frame of the regression gallery.</summary>
+/// <param name="Thumb">The network's thumbnail (true positives, false positives and misses drawn apart) and its counts.</param>
+/// <param name="BaselineF1">The baseline's frame F1 at IoU 0.50.</param>
+/// <param name="FullSizeHref">Relative link to the full-size overlay written beside the page, or null.</param>
+public sealed record RegressionFrame(GalleryFrame Thumb, double BaselineF1, string? FullSizeHref)
+{
+    /// <summary>Network frame F1 − baseline frame F1 (negative: the network is worse).</summary>
+    public double Delta => Thumb.F1 - BaselineF1;
+}
+
+/// <summary>The "largest regressions" gallery: frames ranked by (network − baseline) frame F1, worst first.</summary>
+/// <param name="Network">The system checked.</param>
+/// <param name="Baseline">The system it is checked against.</param>
+/// <param name="Frames">The shown frames, worst first.</param>
+/// <param name="Worse">Frames where the network's frame F1 is below the baseline's.</param>
+/// <param name="Better">Frames where it is above.</param>
+/// <param name="Total">Frames compared.</param>
+/// <param name="Selection">One sentence: how the frames were chosen, the caps.</param>
+public sealed record RegressionGallery(string Network, string Baseline, IReadOnlyList<RegressionFrame> Frames, int Worse, int Better, int Total, string Selection);
 
 /// <summary>Worst frames per truth tag (condition) for one system: the same thumbnails as the gallery, grouped by tag.</summary>
 /// <param name="System">The system whose frames are shown (the first one scored).</param>
@@ -85,6 +108,12 @@ public static class OverlayColors
 
     /// <summary>Prediction: a thinner magenta line with dots at its points.</summary>
     public const string PredictionHex = Palette.Prediction;
+
+    /// <summary>Regression gallery: a truth lane nobody found (a miss), a broad brick-red band with ticks across it.</summary>
+    public const string MissHex = Palette.Error;
+
+    /// <summary>Regression gallery: a prediction matching no truth lane (a false positive), an ochre dashed line.</summary>
+    public const string FalsePositiveHex = Palette.Warning;
 
     /// <summary>Parses <c>#RRGGBB</c> into its components.</summary>
     public static (byte R, byte G, byte B) Rgb(string hex)

@@ -196,7 +196,8 @@ public sealed class ReportCommandTests : IDisposable
     [Fact]
     public void Report_GalleryOptionsIncomplete_UsageError()
     {
-        (int exit, _, string err) = CliRunner.Run("report", "--score", ScoreTwo(), "-o", dir.File("r.html"), "--frames", scene.Frames);
+        // --frames alone takes the paths recorded in the score file; --frames with only --truth is incomplete
+        (int exit, _, string err) = CliRunner.Run("report", "--score", ScoreTwo(), "-o", dir.File("r.html"), "--frames", scene.Frames, "--truth", scene.Truth);
         Assert.Equal(2, exit);
         Assert.Contains("--frames, --truth and --pred together", err, StringComparison.Ordinal);
         Assert.Equal(2, CliRunner.Run("report", "--score", ScoreTwo("x.json"), "-o", dir.File("r.html"), "--generated-at", "yesterday").Exit);

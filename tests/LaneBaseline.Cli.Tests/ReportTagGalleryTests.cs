@@ -111,7 +111,9 @@ public sealed class ReportTagGalleryTests : IDisposable
             Assert.True(code == 0, error);
         }
 
-        string page = dir.File(name + ".html");
+        // one file name in a folder per run: the page links its full-size overlays as PAGE.frames/, so the name is part of the bytes
+        Directory.CreateDirectory(dir.File(name));
+        string page = Path.Combine(dir.File(name), "page.html");
         (int exit, _, string err) = CliRunner.Run("report", "--score", json, "-o", page, "--generated-at", FixedTime, "--threads", threads.ToString(System.Globalization.CultureInfo.InvariantCulture),
             "--frames", s.Frames, "--truth", s.Truth, "--pred", "first=" + s.First, "--pred", "second=" + s.Second);
         Assert.True(exit == 0, err);
@@ -208,7 +210,7 @@ public sealed class ReportTagGalleryTests : IDisposable
         var s = Scene(Conditions);
         string one = Page(s, "one", threads: 1), two = Page(s, "two", threads: 2);
         Assert.Contains("data-tag=\"rain\" data-frame=", one, StringComparison.Ordinal);
-        Assert.Equal(File.ReadAllBytes(dir.File("one.html")), File.ReadAllBytes(dir.File("two.html")));
+        Assert.Equal(File.ReadAllBytes(dir.File("one/page.html")), File.ReadAllBytes(dir.File("two/page.html")));
         Assert.Equal(one, two);
     }
 }

@@ -135,6 +135,7 @@ public sealed class ScoreCommandTests : IDisposable
     };
 
     // Source: CLI contract: bad input exits 3 with a message naming file, line and key, and no partial --json/--csv.
+    // (--extra error: a frame the truth lacks is bad input only when asked; docs/score.md.)
     [Theory]
     [MemberData(nameof(BadPredictions))]
     public void Score_BadPrediction_Exits3_NamesFileLineKey_WritesNothing(string name, string content, string expected)
@@ -142,7 +143,7 @@ public sealed class ScoreCommandTests : IDisposable
         (string truth, _) = WriteHandSet();
         string pred = dir.File("p.lanes.jsonl"), json = dir.File(name + ".json"), csv = dir.File(name + ".csv");
         File.WriteAllText(pred, content);
-        (int exit, _, string stderr) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", json, "--csv", csv);
+        (int exit, _, string stderr) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", pred, "--json", json, "--csv", csv, "--extra", "error");
         Assert.Equal(3, exit);
         Assert.Contains(expected, stderr, StringComparison.Ordinal);
         Assert.DoesNotContain("   at ", stderr, StringComparison.Ordinal);

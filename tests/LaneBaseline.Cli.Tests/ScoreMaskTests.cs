@@ -144,7 +144,7 @@ public sealed class ScoreMaskTests : IDisposable
         string other = dir.File("o.lanes.jsonl");
         Lanes.WriteFile(other, [Lanes.Truth("zzz.jpg", 1920, 1080, Lanes.Of((400, 589), (700, 250)))]);
         Assert.Equal(0, CliRunner.Run("convert", other, "-o", masks).Exit);
-        (int exit, _, string err) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", masks);
+        (int exit, _, string err) = CliRunner.Run("score", "--lane-width-px", "30", "--truth", truth, "--pred", masks, "--extra", "error");
         Assert.Equal(3, exit);
         Assert.Contains("frame 'zzz.png' is not in the truth file", err, StringComparison.Ordinal);
     }

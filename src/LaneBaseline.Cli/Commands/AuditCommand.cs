@@ -29,7 +29,9 @@ internal static class AuditCommand
         Option<string> frames = SharedOptions.Frames("Frames root: overlays are drawn on FRAMES/<frame key> when it exists.");
         Option<string?> size = new("--size") { Description = "Frame size WxH for records without one." };
         Option<double?> horizon = new("--horizon-row") { Description = "Horizon row in pixels (default: estimated per frame from the lanes' vanishing point)." };
-        Option<double> fps = new("--fps") { Description = "Frame rate of numbered sequences (temporal rules).", DefaultValueFactory = _ => 30.0 };
+        Option<double> fps = new("--fps") { Description = "Frame rate of numbered sequences (temporal rules).", DefaultValueFactory = _ => 10.0 };
+        Option<bool> stills = new("--stills") { Description = "The frames are independent stills (not sequences): the temporal rules (LBA-T) are off, and the summary says so." };
+        Option<string?> summaryJson = new("--summary-json") { Description = "Also write the per-rule summary (findings, frames, limit, whether the rule ran) as JSON to this file." };
         Option<int> overlays = new("--overlays") { Description = "Draw the N worst frames to OUT.overlays/.", DefaultValueFactory = _ => 0 };
         Option<int> mine = new("--mine") { Description = "Write the N frames most worth labelling to OUT.mine.txt (by disagreement with --baseline, else by findings).", DefaultValueFactory = _ => 0 };
         Option<string> failOn = new("--fail-on") { Description = "Quality gate: exit 4 when a finding of this severity or worse exists (none, warning, error).", DefaultValueFactory = _ => "none" };
@@ -44,7 +46,7 @@ internal static class AuditCommand
 
         Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.")
         {
-            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads, shard, partial,
+            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads, shard, partial, stills, summaryJson,
             SettingsFile.Option(),
         };
         SharedOptions.AddOutput(command, output, legacyOut, required: false);
@@ -80,7 +82,7 @@ internal static class AuditCommand
             ShardSpec? shardSpec = LaneInputs.ParseShard(parseResult.GetValue(shard));
             if (partialPath is not null)
             {
-                if (outPath is not null || n > 0 || m > 0 || gateSeverity is not null || reportPath is not null)
+                if (outPath is not null || n > 0 || m > 0 || gateSeverity is not null || reportPath is not null || parseResult.GetValue(summaryJson) is not null)
                 {
                     throw new UsageException("--partial writes a state for 'merge': give -o, --overlays, --mine, --fail-on and --report to merge instead");
                 }
@@ -106,6 +108,7 @@ internal static class AuditCommand
                 Size = LaneInputs.ParseSize(sizeText, "--size"),
                 HorizonRow = parseResult.GetValue(horizon),
                 FramesPerSecond = rate,
+                Stills = parseResult.GetValue(stills),
             };
             string predPath = RunContext.Input(parseResult.GetRequiredValue(pred));
             string? baselinePath = parseResult.GetValue(baseline) is string b ? RunContext.Input(b) : null;
@@ -135,7 +138,11 @@ internal static class AuditCommand
             }
             else
             {
-                var outputs = new AuditOutputs(outPath!, parseResult.GetValue(frames), n, m, gateSeverity, reportPath is null ? null : (reportPath, at));
+                var outputs = new AuditOutputs(outPath!, parseResult.GetValue(frames), n, m, gateSeverity, reportPath is null ? null : (reportPath, at))
+                {
+                    SummaryJson = parseResult.GetValue(summaryJson),
+                    Baseline = baselinePath is not null,
+                };
                 exit = AuditOutputWriter.Finish(stdout, stderr, result, outputs, predPath, baselinePath, settings, opener, settings.Camera is not null, cancellationToken);
             }
 
@@ -158,6 +165,7 @@ internal static class AuditCommand
         new("horizon_row", settings.HorizonRow?.ToString("R", CultureInfo.InvariantCulture) ?? string.Empty),
         new("fps", settings.FramesPerSecond.ToString("R", CultureInfo.InvariantCulture)),
         new("min_mask_rows", minMaskRows.ToString(CultureInfo.InvariantCulture)),
+        .. settings.Stills ? new[] { new KeyValuePair<string, string>("stills", "true") } : [],
     ];
 
     private static AuditResult Run(

@@ -116,7 +116,10 @@ internal static class MergeCommand
                     });
                 maskCsvFile?.Commit();
                 stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"merge: {results[0].Overall.Frames} frames from {paths.Length} shard state(s)"));
-                var request = new ScoreRequest(header.Truth, header.Systems, header.Settings, header.Resamples, header.Seed, threadCount, outPath, csvFile is null ? null : "csv", parseResult.GetValue(minF1));
+                var request = new ScoreRequest(header.Truth, header.Systems, header.Settings, header.Resamples, header.Seed, threadCount, outPath, csvFile is null ? null : "csv", parseResult.GetValue(minF1))
+                {
+                    BootstrapUnit = header.Unit,
+                };
                 return ScoreOutputWriter.Finish(stdout, stderr, request, results, csvFile, maskIou);
             }
 
@@ -185,11 +188,11 @@ internal static class MergeCommand
         (AuditStateHeader header, AuditResult result) = AuditStateMerge.Merge(paths);
         stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"merge: {result.Frames} audited frames from {paths.Length} shard state(s)"));
         string sizeText = header.JobValue("size") ?? string.Empty;
-        var settings = new AuditSettings { Size = LaneInputs.ParseSize(sizeText.Length == 0 ? null : sizeText, "size (from the state)") };
+        var settings = new AuditSettings { Size = LaneInputs.ParseSize(sizeText.Length == 0 ? null : sizeText, "size (from the state)"), Stills = header.JobValue("stills") == "true" };
         int minMaskRows = int.TryParse(header.JobValue("min_mask_rows"), NumberStyles.None, CultureInfo.InvariantCulture, out int rows) ? rows : 10;
         LaneSourceOpener opener = LaneInputs.Opener(settings.Size, minMaskRows, stderr);
         string baseline = header.JobValue("baseline") ?? string.Empty;
-        var outputs = new AuditOutputs(outPath, framesRoot, overlays, mine, gate, reportPath is null ? null : (reportPath, at));
+        var outputs = new AuditOutputs(outPath, framesRoot, overlays, mine, gate, reportPath is null ? null : (reportPath, at)) { Baseline = baseline.Length > 0 };
         return AuditOutputWriter.Finish(
             stdout,
             stderr,

@@ -1,4 +1,5 @@
 using System.CommandLine;
+using LaneBaseline.Core;
 using LaneBaseline.Cli.Reports;
 using LaneBaseline.Reporting.Audit;
 using LaneBaseline.Reporting.Bench;
@@ -20,11 +21,12 @@ internal static class ReportCommand
         Option<string?> truth = new("--truth") { Description = "Ground-truth lane file, for the worst-frame gallery." };
         Option<string[]> pred = new("--pred") { Description = "Prediction lane file for the gallery; repeat as NAME=FILE for several systems.", AllowMultipleArgumentsPerToken = false };
         Option<string?> generatedAt = new("--generated-at") { Description = "Time printed as 'generated' (ISO 8601), for reproducible pages; default now." };
+        Option<string?> focus = new("--focus") { Description = "The network of the Largest regressions gallery (default: the first system not named 'baseline' or 'base')." };
         Option<int> threads = SharedOptions.Threads("Worker threads for scoring the gallery's frames (the page does not depend on it).");
 
         Command command = new("report", "Write one self-contained HTML page (tables, charts, worst frames, audit findings, settings) from score results and/or audit findings.")
         {
-            score, audit, bench, output, frames, truth, pred, generatedAt, threads,
+            score, audit, bench, output, frames, truth, pred, generatedAt, threads, focus,
         };
 
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
@@ -46,10 +48,19 @@ internal static class ReportCommand
             DateTimeOffset at = ReportPage.ParseGeneratedAt(parseResult.GetValue(generatedAt));
             int threadCount = SharedOptions.CheckThreads(parseResult.GetValue(threads));
 
+            ScoreDocument? doc = scorePath is null ? null : ScoreDocumentReader.Read(scorePath);
+            if (framesDir is not null && truthPath is null && preds.Length == 0 && doc is not null)
+            {
+                // report --score S.json --frames DIR: the truth and prediction paths recorded in the score file
+                truthPath = doc.Setting("truth") ?? throw BadInputException.At(scorePath!, 0, "settings.truth", "the score file records no truth path; give --truth and --pred");
+                preds = [.. doc.Systems.Select(s => s.Name + "=" + (doc.Setting("predictions." + s.Name)
+                    ?? throw BadInputException.At(scorePath!, 0, "settings.predictions", $"the score file records no path for system '{s.Name}'; give --truth and --pred")))];
+            }
+
             int given = (framesDir is null ? 0 : 1) + (truthPath is null ? 0 : 1) + (preds.Length == 0 ? 0 : 1);
             if (given is 1 or 2)
             {
-                throw new UsageException("the worst-frame gallery needs --frames, --truth and --pred together");
+                throw new UsageException("the worst-frame gallery needs --frames with --score (paths from the score file), or --frames, --truth and --pred together");
             }
 
             if (given == 3 && scorePath is null)
@@ -57,8 +68,12 @@ internal static class ReportCommand
                 throw new UsageException("the worst-frame gallery ranks frames by score: it needs --score");
             }
 
-            GalleryRequest? gallery = given == 3 ? new GalleryRequest(framesDir!, truthPath!, CommandArguments.ParseSystems(preds), threadCount) : null;
-            ScoreDocument? doc = scorePath is null ? null : ScoreDocumentReader.Read(scorePath);
+            string? focusName = parseResult.GetValue(focus);
+            GalleryRequest? gallery = given == 3 ? new GalleryRequest(framesDir!, truthPath!, CommandArguments.ParseSystems(preds), threadCount) { Focus = focusName } : null;
+            if (focusName is not null && (gallery is null || gallery.Systems.All(s => s.Name != focusName)))
+            {
+                throw new UsageException($"--focus {focusName}: needs the gallery and a system of that name");
+            }
             AuditSummary? findings = auditPath is null ? null : AuditFindingsReader.Read(auditPath);
             string? benchPath = parseResult.GetValue(bench);
             if (benchPath is not null && scorePath is null)

@@ -43,10 +43,23 @@ internal static class ScoreCommand
         Option<int> minMaskRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };
         Option<string?> maskCsv = new("--mask-iou-csv") { Description = "With truth and predictions both mask folders: write per-lane mask IoU rows to this file." };
         Option<string?> partial = new("--partial") { Description = "Write this shard's sufficient statistics to a state file for 'merge' (instead of final results)." };
+        Option<string> missing = new("--missing") { Description = "Truth frames without a prediction record: 'empty' scores them as predicting no lanes (with a warning), 'error' exits 3.", DefaultValueFactory = _ => "empty" };
+        missing.AcceptOnlyFromAmong("empty", "error");
+        Option<string> extra = new("--extra") { Description = "Prediction records of frames the truth lacks: 'ignore' leaves them out (with a warning), 'error' exits 3.", DefaultValueFactory = _ => "ignore" };
+        extra.AcceptOnlyFromAmong("ignore", "error");
+        Option<string?> bootstrapUnit = new("--bootstrap-unit") { Description = "What the bootstrap resamples: 'sequence' (whole sequences, the key without its trailing frame number; the default when the keys have sequences) or 'frame'." };
+        bootstrapUnit.AcceptOnlyFromAmong("sequence", "frame");
+        Option<string[]> gates = new("--gate")
+        {
+            Description = "Quality gate, repeatable: SYSTEM:METRIC>=VALUE, SYSTEM:TAG:METRIC>=VALUE or diff(SYSTEM,BASE):METRIC>=VALUE (lower bound of the paired 95 % interval); METRIC f1@T, mf1, precision@T, recall@T or accuracy. Exit 4 when any fails.",
+            AllowMultipleArgumentsPerToken = false,
+        };
+        Option<string?> focus = new("--focus") { Description = "With --report --frames: tag galleries for this system only (default: every system)." };
 
         Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.")
         {
             truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, report, frames, threads, shard, partial, camera, size, minMaskRows, maskCsv,
+            missing, extra, bootstrapUnit, gates, focus,
             SettingsFile.Option(),
         };
 
@@ -94,10 +107,24 @@ internal static class ScoreCommand
             }
 
             ShardSpec? shardSpec = LaneInputs.ParseShard(parseResult.GetValue(shard));
+            IReadOnlyList<ScoredSystem> systems = CommandArguments.ParseSystems(parseResult.GetRequiredValue(pred), stdin: true);
+            IReadOnlyList<ScoreGate> gateList = ParseGates(parseResult.GetValue(gates) ?? [], systems, resamples);
+            IouThreshold[] gateThresholds = [.. gateList.Where(g => g.UsesThreshold).Select(g => g.Threshold).Where(t => !settings.Thresholds.Contains(t))];
+            if (gateThresholds.Length > 0)
+            {
+                // a gate on f1@0.40 needs that threshold scored: it is added like an --iou extra
+                settings = settings with { ExtraThresholds = [.. settings.ExtraThresholds, .. gateThresholds.Distinct()] };
+            }
+
+            string? focusName = parseResult.GetValue(focus);
+            if (focusName is not null && systems.All(s => s.Name != focusName))
+            {
+                throw new UsageException($"--focus {focusName}: no system of that name (systems: {string.Join(", ", systems.Select(s => s.Name))})");
+            }
 
             var request = new ScoreRequest(
                 RunContext.Input(parseResult.GetRequiredValue(truth)),
-                CommandArguments.ParseSystems(parseResult.GetRequiredValue(pred), stdin: true),
+                systems,
                 settings,
                 resamples,
                 parseResult.GetValue(seed),
@@ -107,6 +134,16 @@ internal static class ScoreCommand
                 gate)
             {
                 Report = reportPath is null ? null : (reportPath, framesDir),
+                BootstrapUnit = parseResult.GetValue(bootstrapUnit) switch
+                {
+                    "sequence" => Core.Metrics.BootstrapUnit.Sequence,
+                    "frame" => Core.Metrics.BootstrapUnit.Frame,
+                    _ => null,
+                },
+                Gates = gateList,
+                Focus = focusName,
+                Missing = parseResult.GetValue(missing) == "error" ? MissingFramePolicy.Error : MissingFramePolicy.Empty,
+                Extra = parseResult.GetValue(extra) == "error" ? ExtraFramePolicy.Error : ExtraFramePolicy.Ignore,
             };
             int maskRows = parseResult.GetValue(minMaskRows);
             if (maskRows < 2)
@@ -154,6 +191,9 @@ internal static class ScoreCommand
         var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
         {
             OnNote = message => stderr.WriteLine("note: " + message),
+            OnWarning = message => stderr.WriteLine("warning: " + message),
+            Missing = request.Missing,
+            Extra = request.Extra,
             Threads = request.Threads,
             Shard = shard,
             Opener = LaneInputs.Opener(masks.Size, masks.MinRows, stderr),
@@ -181,7 +221,7 @@ internal static class ScoreCommand
 
     private static int WritePartial(TextWriter stderr, ScoreRequest request, ShardSpec shard, string partialPath, MaskInputs masks, CancellationToken cancellationToken)
     {
-        if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null || request.Report is not null)
+        if (request.JsonPath is not null || request.CsvPath is not null || request.MinF1 is not null || request.Report is not null || request.Gates.Count > 0)
         {
             throw new UsageException("--partial writes a state for 'merge'; give --json, --csv and --min-f1 to merge instead");
         }
@@ -194,9 +234,14 @@ internal static class ScoreCommand
         int truthFrames = 0;
         try
         {
+            ScoreRun? self = null;
+            IReadOnlyList<FrameCoverage>? coverageOf() => self?.Coverage;
             var run = new ScoreRun(request.TruthPath, request.Systems, request.Settings)
             {
                 OnNote = message => stderr.WriteLine("note: " + message),
+                OnWarning = message => stderr.WriteLine("warning: " + message),
+                Missing = request.Missing,
+                Extra = request.Extra,
                 Threads = request.Threads,
                 Shard = shard,
                 Opener = LaneInputs.Opener(masks.Size, masks.MinRows, stderr),
@@ -215,11 +260,14 @@ internal static class ScoreCommand
                         Seed = request.Seed,
                         MaskIou = maskIou,
                         InputHashes = [ContentHash.Of(request.TruthPath), .. request.Systems.Select(s => ContentHash.Of(s.Path))],
+                        Coverage = coverageOf(),
+                        Unit = request.BootstrapUnit,
                     });
 #pragma warning restore IDISP004, IDISP003
                 },
                 OnFrame = row => writer!.Write(row),
             };
+            self = run;
             frames = run.Execute(CreateRasterizer, cancellationToken)[0].Overall.Frames;
             if (maskIou)
             {
@@ -265,6 +313,46 @@ internal static class ScoreCommand
 
         csvFile?.Commit();
         return result;
+    }
+
+    /// <summary>Parses every --gate; a malformed gate or an unknown system is a usage error (exit 2).</summary>
+    internal static IReadOnlyList<ScoreGate> ParseGates(string[] texts, IReadOnlyList<ScoredSystem> systems, int resamples)
+    {
+        var list = new List<ScoreGate>();
+        foreach (string text in texts)
+        {
+            ScoreGate g;
+            try
+            {
+                g = ScoreGate.Parse(text);
+            }
+            catch (FormatException ex)
+            {
+                throw new UsageException("--gate " + ex.Message);
+            }
+
+            foreach (string name in g.Base is null ? [g.System] : new[] { g.System, g.Base })
+            {
+                if (systems.All(s => s.Name != name))
+                {
+                    throw new UsageException($"--gate '{text}': no system named '{name}' (systems: {string.Join(", ", systems.Select(s => s.Name))})");
+                }
+            }
+
+            if (g.IsPaired && g.System == g.Base)
+            {
+                throw new UsageException($"--gate '{text}': diff( ) compares two different systems");
+            }
+
+            if (g.IsPaired && resamples == 0)
+            {
+                throw new UsageException($"--gate '{text}': a paired gate reads the bootstrap interval; --bootstrap 0 turns it off");
+            }
+
+            list.Add(g);
+        }
+
+        return list;
     }
 
 #pragma warning disable IDISP005 // ScoreRun owns and disposes the rasterizers it creates

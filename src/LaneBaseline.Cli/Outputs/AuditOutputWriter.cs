@@ -66,7 +66,14 @@ internal static class AuditOutputWriter
             stderr.WriteLine("audit: wrote " + reportPath);
         }
 
-        WriteSummary(stdout, result, outPath, groundRules);
+        if (outputs.SummaryJson is string summaryPath)
+        {
+            using var summaryFile = new AtomicFile(summaryPath);
+            WriteSummaryJson(summaryFile.Stream, result, outPath, groundRules, settings.Stills, outputs.Baseline, settings.FramesPerSecond);
+            summaryFile.Commit();
+        }
+
+        WriteSummary(stdout, result, outPath, groundRules, settings.Stills);
         if (outputs.Gate is AuditSeverity g && result.Findings.Any(f => f.Severity >= g))
         {
             stderr.WriteLine("quality gate failed: findings of severity " + AuditJsonWriter.SeverityName(g) + " or worse (--fail-on)");
@@ -76,7 +83,51 @@ internal static class AuditOutputWriter
         return ExitCodes.Success;
     }
 
-    private static void WriteSummary(TextWriter o, AuditResult result, string outPath, bool groundRules)
+    /// <summary>Whether a rule ran in this audit (temporal rules are off for stills, ground rules need a camera, the baseline rule a baseline).</summary>
+    private static bool Ran(AuditRuleInfo rule, bool groundRules, bool stills, bool baseline) =>
+        rule.Id.StartsWith("LBA-T", StringComparison.Ordinal) ? !stills
+        : rule.Id.StartsWith("LBA-G", StringComparison.Ordinal) ? groundRules
+        : !rule.Id.StartsWith("LBA-B", StringComparison.Ordinal) || baseline;
+
+    private static void WriteSummaryJson(Stream stream, AuditResult result, string outPath, bool groundRules, bool stills, bool baseline, double fps)
+    {
+        using var w = new System.Text.Json.Utf8JsonWriter(stream, new System.Text.Json.JsonWriterOptions { Indented = true, Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping });
+        w.WriteStartObject();
+        w.WriteString("findings_file", outPath);
+        w.WriteNumber("frames", result.Frames);
+        w.WriteNumber("flagged_frames", result.Findings.Select(f => f.Ordinal).Distinct().LongCount());
+        w.WriteNumber("findings", result.Findings.Count);
+        w.WriteNumber("compared_frames", result.ComparedFrames);
+        w.WriteBoolean("stills", stills);
+        w.WriteBoolean("temporal_rules", !stills);
+        w.WriteBoolean("ground_rules", groundRules);
+        w.WriteBoolean("baseline_rule", baseline);
+        w.WritePropertyName("fps");
+        w.WriteRawValue(ScoreJsonWriter.FormatFloat(fps), skipInputValidation: true);
+        foreach (string sev in new[] { "error", "warning", "info" })
+        {
+            w.WriteNumber(sev + "s", result.Findings.Count(f => AuditJsonWriter.SeverityName(f.Severity) == sev));
+        }
+
+        w.WriteStartArray("rules");
+        foreach (AuditRuleInfo rule in AuditRules.All)
+        {
+            w.WriteStartObject();
+            w.WriteString("id", rule.Id);
+            w.WriteString("name", rule.Name);
+            w.WriteString("severity", AuditJsonWriter.SeverityName(rule.Severity));
+            w.WriteBoolean("ran", Ran(rule, groundRules, stills, baseline));
+            w.WriteNumber("findings", result.Findings.Count(f => f.Rule == rule.Id));
+            w.WriteNumber("frames", result.Findings.Where(f => f.Rule == rule.Id).Select(f => f.Ordinal).Distinct().Count());
+            w.WriteString("limit", rule.Limit);
+            w.WriteEndObject();
+        }
+
+        w.WriteEndArray();
+        w.WriteEndObject();
+    }
+
+    private static void WriteSummary(TextWriter o, AuditResult result, string outPath, bool groundRules, bool stills)
     {
         long flagged = result.Findings.Select(f => f.Ordinal).Distinct().LongCount();
         o.WriteLine(F($"Audited {result.Frames} frames: {flagged} with findings ({(result.Frames == 0 ? 0 : 100.0 * flagged / result.Frames):0.0} %), {result.Findings.Count} findings -> {outPath}"));
@@ -99,6 +150,12 @@ internal static class AuditOutputWriter
         {
             o.WriteLine();
             o.WriteLine("Ground-geometry rules (LBA-G01..G03) did not run: they need --camera camera.json.");
+        }
+
+        if (stills)
+        {
+            o.WriteLine();
+            o.WriteLine("Temporal rules (LBA-T01..T03) did not run: --stills says the frames are independent stills.");
         }
     }
 

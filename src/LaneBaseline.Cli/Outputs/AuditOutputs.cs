@@ -9,4 +9,11 @@ namespace LaneBaseline.Cli.Outputs;
 /// <param name="Mine">Frames to list for labelling.</param>
 /// <param name="Gate">Severity that fails the run, or null.</param>
 /// <param name="Report">HTML page and its printed time, or null.</param>
-internal sealed record AuditOutputs(string OutPath, string? FramesRoot, int Overlays, int Mine, AuditSeverity? Gate, (string Path, DateTimeOffset At)? Report);
+internal sealed record AuditOutputs(string OutPath, string? FramesRoot, int Overlays, int Mine, AuditSeverity? Gate, (string Path, DateTimeOffset At)? Report)
+{
+    /// <summary>Per-rule summary JSON (<c>--summary-json</c>), or null.</summary>
+    public string? SummaryJson { get; init; }
+
+    /// <summary>Whether a baseline was given (the baseline rule ran).</summary>
+    public bool Baseline { get; init; }
+}

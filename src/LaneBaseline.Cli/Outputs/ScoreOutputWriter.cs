@@ -24,10 +24,33 @@ internal static class ScoreOutputWriter
         BootstrapResult? boot = null;
         if (request.Resamples > 0)
         {
-            double[][][] samples = Bootstrap.Resample([.. results.Select(r => r.Series)], request.Resamples, request.Seed, request.Threads);
+            BootstrapSeries first = results[0].Series;
+            BootstrapUnit unit = request.BootstrapUnit ?? Bootstrap.DefaultUnit(first);
+            int clusters = first.ClusterCount;
+            if (unit == BootstrapUnit.Sequence && clusters < 2)
+            {
+                stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"warning: --bootstrap-unit sequence: the {first.Clusters.Count} frames form {clusters} sequence(s); the intervals collapse to a point (use --bootstrap-unit frame)"));
+            }
+            else if (unit == BootstrapUnit.Sequence && request.BootstrapUnit is null)
+            {
+                stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"note: intervals resample whole sequences ({clusters} sequences of {first.Clusters.Count} frames); --bootstrap-unit frame resamples single frames"));
+            }
+
+            double[][][] samples = Bootstrap.Resample([.. results.Select(r => r.Series)], request.Resamples, request.Seed, request.Threads, unit);
             var intervals = samples.Select(sys => sys.Select(stat => Bootstrap.Percentiles(stat, 0.95)).ToArray()).ToArray();
-            boot = new BootstrapResult { Resamples = request.Resamples, Seed = request.Seed, Intervals = intervals, Samples = samples };
+            boot = new BootstrapResult
+            {
+                Resamples = request.Resamples,
+                Seed = request.Seed,
+                Intervals = intervals,
+                Samples = samples,
+                Unit = unit,
+                Units = unit == BootstrapUnit.Sequence ? clusters : first.Clusters.Count,
+                Clusters = clusters,
+            };
         }
+
+        GateOutcome[] gates = [.. request.Gates.Select(g => g.Evaluate(results, boot))];
 
         if (results.Any(r => r.Overall.AllEmpty))
         {
@@ -55,12 +78,12 @@ internal static class ScoreOutputWriter
             {
                 // The settings name the inputs: standard input is named '-', not its private temporary copy.
                 using var buffer = new MemoryStream();
-                ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]));
+                ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]), gates.Length == 0 ? null : w => WriteGates(w, gates));
                 jsonFile.Writer.Write(RunContext.Display(Encoding.UTF8.GetString(buffer.ToArray())));
             }
             else
             {
-                ScoreJsonWriter.Write(jsonFile.Stream, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]));
+                ScoreJsonWriter.Write(jsonFile.Stream, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]), gates.Length == 0 ? null : w => WriteGates(w, gates));
             }
         }
 
@@ -69,7 +92,7 @@ internal static class ScoreOutputWriter
             using var buffer = new MemoryStream();
             ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
             ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
-            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads) { Candidates = galleryFrames };
+            GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads) { Candidates = galleryFrames, Settings = request.Settings, Focus = request.Focus };
             ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", null, gallery, DateTimeOffset.UtcNow, CancellationToken.None);
             stderr.WriteLine("score: wrote report " + reportPath);
         }
@@ -77,6 +100,8 @@ internal static class ScoreOutputWriter
         csvFile?.Commit();
         jsonFile?.Commit();
 
+        // Every failed gate gets its own line; the exit code says whether any failed.
+        bool failed = false;
         if (request.MinF1 is double gate)
         {
             foreach (SystemScore r in results)
@@ -85,12 +110,66 @@ internal static class ScoreOutputWriter
                 if (f1 < gate)
                 {
                     stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"quality gate failed: {r.System.Name} F1@0.50 = {f1:0.####} < --min-f1 {gate}"));
-                    return ExitCodes.GateFailed;
+                    failed = true;
                 }
             }
         }
 
-        return ExitCodes.Success;
+        foreach (GateOutcome g in gates)
+        {
+            if (!g.Passed)
+            {
+                stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"quality gate failed: {g.Gate.Text}: {g.Explanation}"));
+                failed = true;
+            }
+        }
+
+        if (gates.Length > 0 && !failed)
+        {
+            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"score: {gates.Length} gate(s) passed"));
+        }
+
+        return failed ? ExitCodes.GateFailed : ExitCodes.Success;
+    }
+
+    private static void WriteGates(System.Text.Json.Utf8JsonWriter w, GateOutcome[] gates)
+    {
+        w.WriteStartArray("gates");
+        foreach (GateOutcome g in gates)
+        {
+            w.WriteStartObject();
+            w.WriteString("gate", g.Gate.Text);
+            w.WriteString("system", g.Gate.System);
+            if (g.Gate.Base is not null)
+            {
+                w.WriteString("base", g.Gate.Base);
+            }
+
+            if (g.Gate.Tag is not null)
+            {
+                w.WriteString("tag", g.Gate.Tag);
+            }
+
+            w.WriteString("metric", g.Gate.MetricName);
+            w.WriteString("operator", g.Gate.Operator);
+            w.WritePropertyName("limit");
+            w.WriteRawValue(ScoreJsonWriter.FormatFloat(g.Gate.Limit), skipInputValidation: true);
+            w.WritePropertyName("value");
+            if (double.IsFinite(g.Value))
+            {
+                w.WriteRawValue(ScoreJsonWriter.FormatFloat(g.Value), skipInputValidation: true);
+            }
+            else
+            {
+                w.WriteNullValue();
+            }
+
+            w.WriteBoolean("passed", g.Passed);
+            w.WriteString("detail", g.Explanation);
+            w.WriteEndObject();
+        }
+
+        w.WriteEndArray();
     }
 
     /// <summary>Header of the per-lane mask IoU CSV (<c>--mask-iou-csv</c>).</summary>

@@ -11,4 +11,10 @@ internal sealed record GalleryRequest(string FramesDir, string TruthPath, IReadO
 {
     /// <summary>Frame scores captured by the score run that produced the results, or null to score the frames here.</summary>
     public WorstFrameGallery.FrameCandidates? Candidates { get; init; }
+
+    /// <summary>The score run's settings when known in memory (else read from the score file).</summary>
+    public ScoreSettings? Settings { get; init; }
+
+    /// <summary>The network of the regression gallery (<c>--focus</c>), or null for the first system that is not the baseline.</summary>
+    public string? Focus { get; init; }
 }

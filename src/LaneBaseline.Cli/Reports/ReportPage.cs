@@ -46,9 +46,14 @@ internal static class ReportPage
             SystemResult first = score.Systems.FirstOrDefault(s => s.Name == gallery.Systems[0].Name) ?? score.Systems[0];
             IReadOnlyList<string>? tagOrder = first.ByTag.Count == 0 ? null
                 : [.. first.ByTag.OrderBy(kv => kv.Value.At("0.50")?.F1 ?? double.PositiveInfinity).ThenBy(kv => kv.Key, StringComparer.Ordinal).Select(kv => kv.Key)];
+            // Full-size overlays of the regression gallery go beside the page: PAGE.frames/NNN_<frame>.png.
+            string full = Path.GetFullPath(outputPath);
+            string stem = Path.GetFileNameWithoutExtension(full);
+            var regressions = new WorstFrameGallery.RegressionOptions(
+                gallery.Settings ?? settings, gallery.Focus, Path.Combine(Path.GetDirectoryName(full) ?? ".", stem + ".frames"), Uri.EscapeDataString(stem + ".frames") + "/");
             built = gallery.Candidates is { } captured
-                ? WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, captured, tagOrder, cancellationToken)
-                : WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, gallery.Threads, cancellationToken, tagOrder);
+                ? WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, captured, tagOrder, cancellationToken, regressions)
+                : WorstFrameGallery.Build(gallery.FramesDir, gallery.TruthPath, gallery.Systems, settings, gallery.Threads, cancellationToken, tagOrder, regressions);
             reportSettings.Add(new("report.frames", gallery.FramesDir));
             reportSettings.Add(new("report.truth", gallery.TruthPath));
             foreach (ScoredSystem s in gallery.Systems)

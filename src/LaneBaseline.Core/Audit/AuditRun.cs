@@ -169,12 +169,16 @@ public sealed class AuditRun
 
                 for (int i = 0; i < n; i++)
                 {
-                    if (batch[i].BreakBefore)
+                    if (!settings.Stills)
                     {
-                        temporal.Break();
+                        if (batch[i].BreakBefore)
+                        {
+                            temporal.Break();
+                        }
+
+                        temporal.Push(batch[i].Pred, batch[i].Ordinal, perFrame[i]);
                     }
 
-                    temporal.Push(batch[i].Pred, batch[i].Ordinal, perFrame[i]);
                     findings.AddRange(perFrame[i]);
                     if (agreement[i] is not null)
                     {

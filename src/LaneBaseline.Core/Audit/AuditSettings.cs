@@ -9,8 +9,11 @@ public sealed record AuditSettings
     /// <summary>Frame size for records that carry none (and no baseline record gives one), or null.</summary>
     public (int Width, int Height)? Size { get; init; }
 
-    /// <summary>Frame rate of numbered sequences, frames per second (default 30).</summary>
-    public double FramesPerSecond { get; init; } = 30;
+    /// <summary>Frame rate of numbered sequences, frames per second (default 10, as <c>detect</c> and <c>render</c>).</summary>
+    public double FramesPerSecond { get; init; } = 10;
+
+    /// <summary>The frames are independent stills (<c>--stills</c>): the temporal rules (LBA-T) do not run.</summary>
+    public bool Stills { get; init; }
 
     /// <summary>Largest lateral speed of the vehicle relative to the markings, m/s (default 3; an assumption).</summary>
     public double MaxLateralSpeedMps { get; init; } = 3.0;

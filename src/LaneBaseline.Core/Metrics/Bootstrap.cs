@@ -17,10 +17,26 @@ public sealed class BootstrapSeries
     /// <summary>Sum of assigned pair accuracies per frame.</summary>
     public List<double> PointAccuracySums { get; } = [];
 
+    /// <summary>Sequence (cluster) index per frame: clusters are numbered in order of first appearance.</summary>
+    public List<int> Clusters { get; } = [];
+
+    /// <summary>Number of distinct sequences (<see cref="Sharding.SequenceKey"/>) among the frames.</summary>
+    public int ClusterCount => clusterIds.Count;
+
+    private readonly Dictionary<string, int> clusterIds = new(StringComparer.Ordinal);
+
     /// <summary>Adds one frame's statistics.</summary>
     public void Add(FrameScore frame, int halfIndex)
     {
         ArgumentNullException.ThrowIfNull(frame);
+        string sequence = Sharding.SequenceKey.Of(frame.Frame);
+        if (!clusterIds.TryGetValue(sequence, out int cluster))
+        {
+            cluster = clusterIds.Count;
+            clusterIds.Add(sequence, cluster);
+        }
+
+        Clusters.Add(cluster);
         TruePositives.Add(frame.TruePositives[halfIndex]);
         TruthLanes.Add(frame.TruthLanes);
         PredLanes.Add(frame.PredLanes);
@@ -44,6 +60,16 @@ public enum BootstrapStatistic
     Accuracy,
 }
 
+/// <summary>What one bootstrap draw resamples.</summary>
+public enum BootstrapUnit
+{
+    /// <summary>Single frames (Efron 1979).</summary>
+    Frame,
+
+    /// <summary>Whole sequences, the key without its trailing frame number (cluster bootstrap; Davison &amp; Hinkley 1997, Sec. 3.8).</summary>
+    Sequence,
+}
+
 /// <summary>An interval [Low, High].</summary>
 /// <param name="Low">Lower bound.</param>
 /// <param name="High">Upper bound.</param>
@@ -62,8 +88,29 @@ public readonly record struct Interval(double Low, double High);
 /// </remarks>
 public static class Bootstrap
 {
-    /// <summary>Statistic values per resample: result[system][statistic][b].</summary>
-    public static double[][][] Resample(IReadOnlyList<BootstrapSeries> systems, int resamples, ulong seed, int threads)
+    /// <summary>
+    /// The unit <c>--bootstrap-unit</c> leaves to the data: whole sequences when the frames form at least two
+    /// sequences and some sequence holds more than one frame, else single frames.
+    /// </summary>
+    public static BootstrapUnit DefaultUnit(BootstrapSeries series)
+    {
+        ArgumentNullException.ThrowIfNull(series);
+        int n = series.Clusters.Count, k = series.ClusterCount;
+        return k >= 2 && k < n ? BootstrapUnit.Sequence : BootstrapUnit.Frame;
+    }
+
+    /// <summary>Statistic values per resample, resampling single frames: result[system][statistic][b].</summary>
+    public static double[][][] Resample(IReadOnlyList<BootstrapSeries> systems, int resamples, ulong seed, int threads) =>
+        Resample(systems, resamples, seed, threads, BootstrapUnit.Frame);
+
+    /// <summary>
+    /// Statistic values per resample: result[system][statistic][b]. With <see cref="BootstrapUnit.Sequence"/>, each
+    /// resample draws K of the K sequences with replacement and sums every frame of each drawn sequence (cluster
+    /// bootstrap, Davison &amp; Hinkley 1997, Sec. 3.8, resampling stage one only); the systems share the draws, so
+    /// paired differences use the same resampling. With one frame per sequence the draws, and so the results, equal
+    /// the frame bootstrap's for the same seed.
+    /// </summary>
+    public static double[][][] Resample(IReadOnlyList<BootstrapSeries> systems, int resamples, ulong seed, int threads, BootstrapUnit unit)
     {
         ArgumentNullException.ThrowIfNull(systems);
         int n = systems.Count == 0 ? 0 : systems[0].TruthLanes.Count;
@@ -83,6 +130,29 @@ public static class Bootstrap
             return result;
         }
 
+        // Units: per-unit sums of every statistic, in order of first appearance (frames: one unit per frame).
+        int units = unit == BootstrapUnit.Sequence ? systems[0].ClusterCount : n;
+        var tpU = new long[systems.Count][];
+        var truthU = new long[systems.Count][];
+        var predU = new long[systems.Count][];
+        var accU = new double[systems.Count][];
+        for (int s = 0; s < systems.Count; s++)
+        {
+            BootstrapSeries series = systems[s];
+            tpU[s] = new long[units];
+            truthU[s] = new long[units];
+            predU[s] = new long[units];
+            accU[s] = new double[units];
+            for (int f = 0; f < n; f++)
+            {
+                int u = unit == BootstrapUnit.Sequence ? series.Clusters[f] : f;
+                tpU[s][u] += series.TruePositives[f];
+                truthU[s][u] += series.TruthLanes[f];
+                predU[s][u] += series.PredLanes[f];
+                accU[s][u] += series.PointAccuracySums[f];
+            }
+        }
+
         Parallel.For(0, resamples, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads) }, b =>
         {
             SplitMix64 rng = SplitMix64.ForStream(seed, (ulong)b);
@@ -90,16 +160,15 @@ public static class Bootstrap
             var truth = new long[systems.Count];
             var pred = new long[systems.Count];
             var acc = new double[systems.Count];
-            for (int i = 0; i < n; i++)
+            for (int i = 0; i < units; i++)
             {
-                int f = rng.NextInt(n);
+                int u = rng.NextInt(units);
                 for (int s = 0; s < systems.Count; s++)
                 {
-                    BootstrapSeries series = systems[s];
-                    tp[s] += series.TruePositives[f];
-                    truth[s] += series.TruthLanes[f];
-                    pred[s] += series.PredLanes[f];
-                    acc[s] += series.PointAccuracySums[f];
+                    tp[s] += tpU[s][u];
+                    truth[s] += truthU[s][u];
+                    pred[s] += predU[s][u];
+                    acc[s] += accU[s][u];
                 }
             }
 

@@ -36,6 +36,51 @@ public sealed class FrameScorer
     /// <summary>The thresholds, in the order of <see cref="FrameScore.TruePositives"/>.</summary>
     public IReadOnlyList<IouThreshold> Thresholds => thresholds;
 
+    /// <summary>
+    /// Which lanes count at IoU 0.50 in one frame (the same rasterisation and Hungarian assignment as
+    /// <see cref="Score"/>): per truth lane whether it was found, per predicted lane whether it is a true positive.
+    /// For drawing a few frames (galleries), not for scoring.
+    /// </summary>
+    public (bool[] TruthFound, bool[] PredHit) MatchAtHalf(LaneRecord truth, LaneRecord? prediction)
+    {
+        ArgumentNullException.ThrowIfNull(truth);
+        int width = truth.Width ?? throw new ArgumentException("truth record without width", nameof(truth));
+        int height = truth.Height ?? throw new ArgumentException("truth record without height", nameof(truth));
+        IReadOnlyList<Lane> t = truth.Lanes;
+        IReadOnlyList<Lane> p = prediction?.Lanes ?? [];
+        int nt = t.Count, np = p.Count;
+        var found = new bool[nt];
+        var hit = new bool[np];
+        if (nt == 0 || np == 0)
+        {
+            return (found, hit);
+        }
+
+        var inter = new long[nt * np];
+        var areaT = new long[nt];
+        var areaP = new long[np];
+        rasterizer.Measure(width, height, settings.LaneWidthFor(width), t, p, inter, areaT, areaP);
+        var iou = new double[nt * np];
+        for (int k = 0; k < iou.Length; k++)
+        {
+            long union = areaT[k / np] + areaP[k % np] - inter[k];
+            iou[k] = union > 0 ? (double)inter[k] / union : 0.0;
+        }
+
+        int[] assign = Hungarian.Maximize(iou, nt, np);
+        for (int i = 0; i < nt; i++)
+        {
+            int j = assign[i];
+            if (j >= 0 && IouThreshold.Half.IsMetBy(inter[(i * np) + j], areaT[i] + areaP[j] - inter[(i * np) + j]))
+            {
+                found[i] = true;
+                hit[j] = true;
+            }
+        }
+
+        return (found, hit);
+    }
+
     /// <summary>Scores a frame. <paramref name="prediction"/> null means the frame predicts no lanes.</summary>
     /// <param name="truth">Truth record with width and height.</param>
     /// <param name="prediction">Prediction record, or null.</param>

@@ -21,6 +21,18 @@ public sealed class BootstrapResult
 
     /// <summary>Resampled statistic values: [system][statistic][b].</summary>
     public required double[][][] Samples { get; init; }
+
+    /// <summary>What one draw resamples.</summary>
+    public BootstrapUnit Unit { get; init; } = BootstrapUnit.Frame;
+
+    /// <summary>Number of units resampled (frames, or sequences for the cluster bootstrap).</summary>
+    public int Units { get; init; }
+
+    /// <summary>Number of sequences among the frames (whatever the unit).</summary>
+    public int Clusters { get; init; }
+
+    /// <summary>The unit as written in the JSON.</summary>
+    public string UnitName => Unit == BootstrapUnit.Sequence ? "sequence" : "frame";
 }
 
 /// <summary>Writes <c>score --json</c> output: stable keys of the score-json specification, plus documented extras.</summary>
@@ -57,7 +69,8 @@ public static class ScoreJsonWriter
         ScoreSettings settings,
         BootstrapResult? bootstrap,
         string truthPath,
-        Action<Utf8JsonWriter, int>? systemExtra = null)
+        Action<Utf8JsonWriter, int>? systemExtra = null,
+        Action<Utf8JsonWriter>? documentExtra = null)
     {
         ArgumentNullException.ThrowIfNull(systems);
         ArgumentNullException.ThrowIfNull(settings);
@@ -78,6 +91,7 @@ public static class ScoreJsonWriter
             json.WriteEndObject();
             json.WriteEndObject();
             WriteSettings(json, systems, settings, bootstrap, truthPath);
+            documentExtra?.Invoke(json);
             json.WriteEndObject();
             return;
         }
@@ -121,6 +135,7 @@ public static class ScoreJsonWriter
 
         json.WriteEndObject();
         WriteSettings(json, systems, settings, bootstrap, truthPath);
+        documentExtra?.Invoke(json);
         json.WriteEndObject();
     }
 
@@ -190,14 +205,41 @@ public static class ScoreJsonWriter
     private static void WriteSystemBody(Utf8JsonWriter json, SystemScore system, int index, ScoreSettings settings, BootstrapResult? bootstrap)
     {
         WriteTally(json, system.Overall, settings, includeFrames: true);
+        if (system.Coverage is { } cov)
+        {
+            json.WriteStartObject("coverage");
+            json.WriteNumber("truth_frames", cov.TruthFrames);
+            json.WriteNumber("pred_frames", cov.PredFrames);
+            json.WriteNumber("missing", cov.Missing);
+            json.WriteNumber("extra", cov.Extra);
+            json.WriteStartArray("first_missing");
+            foreach (string k in cov.FirstMissing)
+            {
+                json.WriteStringValue(k);
+            }
+
+            json.WriteEndArray();
+            json.WriteStartArray("first_extra");
+            foreach (string k in cov.FirstExtra)
+            {
+                json.WriteStringValue(k);
+            }
+
+            json.WriteEndArray();
+            json.WriteEndObject();
+        }
+
         if (bootstrap is not null && bootstrap.Resamples > 0)
         {
             json.WriteStartObject("intervals");
-            json.WriteString("method", "percentile bootstrap over frames");
+            json.WriteString("method", bootstrap.Unit == BootstrapUnit.Sequence ? "percentile bootstrap over sequences (cluster bootstrap)" : "percentile bootstrap over frames");
             json.WritePropertyName("level");
             WriteFloat(json, bootstrap.Level);
             json.WriteNumber("resamples", bootstrap.Resamples);
             json.WriteNumber("seed", bootstrap.Seed);
+            json.WriteString("unit", bootstrap.UnitName);
+            json.WriteNumber("units", bootstrap.Units);
+            json.WriteNumber("clusters", bootstrap.Clusters);
             foreach (BootstrapStatistic stat in Enum.GetValues<BootstrapStatistic>())
             {
                 json.WritePropertyName(StatisticKey(stat));
@@ -401,6 +443,11 @@ public static class ScoreJsonWriter
 
         json.WriteNumber("bootstrap_resamples", bootstrap?.Resamples ?? 0);
         json.WriteNumber("seed", bootstrap?.Seed ?? 0);
+        if (bootstrap is not null && bootstrap.Resamples > 0)
+        {
+            json.WriteString("bootstrap_unit", bootstrap.UnitName);
+            json.WriteNumber("bootstrap_clusters", bootstrap.Clusters);
+        }
         json.WriteEndObject();
     }
 }

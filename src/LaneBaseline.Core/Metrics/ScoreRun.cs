@@ -28,6 +28,9 @@ public sealed class SystemScore
 
     /// <summary>Per-frame statistics in truth order.</summary>
     public BootstrapSeries Series { get; } = new();
+
+    /// <summary>How the prediction file covers the truth (whole files), or null when unknown (a merge of old states).</summary>
+    public FrameCoverage? Coverage { get; set; }
 }
 
 /// <summary>
@@ -73,6 +76,18 @@ public sealed class ScoreRun
 
     /// <summary>Receives one-line notes about the inputs that are not errors (e.g. a prediction file with no records).</summary>
     public Action<string>? OnNote { get; init; }
+
+    /// <summary>Truth frames without a prediction record: scored as no lanes (default) or bad input.</summary>
+    public MissingFramePolicy Missing { get; init; } = MissingFramePolicy.Empty;
+
+    /// <summary>Prediction records of frames the truth lacks: left out (default) or bad input.</summary>
+    public ExtraFramePolicy Extra { get; init; } = ExtraFramePolicy.Ignore;
+
+    /// <summary>Receives one-line warnings about coverage (missing or extra frames) under the lenient policies.</summary>
+    public Action<string>? OnWarning { get; init; }
+
+    /// <summary>Coverage of each system's prediction file (known after validation).</summary>
+    public IReadOnlyList<FrameCoverage> Coverage { get; private set; } = [];
 
     /// <summary>Called with a progress line now and then.</summary>
     public Action<long, long>? OnProgress { get; init; }
@@ -129,10 +144,18 @@ public sealed class ScoreRun
 
         var predRequest = new LaneSourceRequest { SizeRequired = false, Reference = reference };
         var predicted = new HashSet<int>[systems.Count];
+        var coverage = new FrameCoverage[systems.Count];
         for (int s = 0; s < systems.Count; s++)
         {
-            predicted[s] = ValidatePredictions(Opener, predRequest, systems[s].Path, truthIndex, sizes, OnNote);
+            (predicted[s], coverage[s]) = ValidatePredictions(Opener, predRequest, systems[s].Path, truthIndex, sizes, OnNote);
         }
+
+        for (int s = 0; s < systems.Count; s++)
+        {
+            coverage[s] = CheckCoverage(systems[s].Path, coverage[s], predicted[s], truthIndex);
+        }
+
+        Coverage = coverage;
 
         OnValidated?.Invoke(truthIndex.Count);
 
@@ -140,6 +163,11 @@ public sealed class ScoreRun
         IouThreshold[] thresholds = [.. settings.Thresholds];
         int halfIndex = Array.IndexOf(thresholds, IouThreshold.Half);
         var results = systems.Select(s => new SystemScore(s, thresholds)).ToArray();
+        for (int s = 0; s < results.Length; s++)
+        {
+            results[s].Coverage = coverage[s];
+        }
+
         int workers = Math.Max(1, Threads);
         var rasterizers = new ILaneRasterizer[workers];
         var scorers = new FrameScorer[workers];
@@ -282,16 +310,31 @@ public sealed class ScoreRun
         }
     }
 
-    private static HashSet<int> ValidatePredictions(
+    private (HashSet<int> Present, FrameCoverage Coverage) ValidatePredictions(
         LaneSourceOpener opener, LaneSourceRequest request, string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes, Action<string>? note)
     {
         var present = new HashSet<int>();
+        var firstExtra = new List<string>(FrameCoverage.Examples);
+        int extra = 0;
         using ILaneRecordSource reader = opener(path, request);
         while (reader.TryRead(out LaneRecord r))
         {
             if (!truthIndex.TryGetValue(r.Frame, out int ordinal))
             {
-                throw BadInputException.At(path, r.LineNumber, "frame", $"frame '{r.Frame}' is not in the truth file");
+                if (Extra == ExtraFramePolicy.Error)
+                {
+                    throw BadInputException.At(path, r.LineNumber, "frame", $"frame '{r.Frame}' is not in the truth file");
+                }
+
+                // --extra ignore: networks are often run on more frames than were labelled; the record was parsed and
+                // validated by the reader, it is only left out of the scores.
+                extra++;
+                if (firstExtra.Count < FrameCoverage.Examples)
+                {
+                    firstExtra.Add(r.Frame);
+                }
+
+                continue;
             }
 
             (int w, int h) = sizes[ordinal];
@@ -320,7 +363,52 @@ public sealed class ScoreRun
             note?.Invoke(path + ": the prediction file holds no records: every frame is scored as predicting no lanes");
         }
 
-        return present;
+        int missing = truthIndex.Count - present.Count;
+        return (present, new FrameCoverage(truthIndex.Count, present.Count + extra, missing, extra, [], firstExtra));
+    }
+
+    /// <summary>Applies <see cref="Missing"/> and <see cref="Extra"/>: an error, or one warning line each.</summary>
+    private FrameCoverage CheckCoverage(string path, FrameCoverage coverage, HashSet<int> present, Dictionary<string, int> truthIndex)
+    {
+        if (coverage.Missing > 0)
+        {
+            var first = new List<string>(FrameCoverage.Examples);
+            foreach (KeyValuePair<string, int> kv in truthIndex.OrderBy(kv => kv.Value))
+            {
+                if (!present.Contains(kv.Value))
+                {
+                    first.Add(kv.Key);
+                    if (first.Count == FrameCoverage.Examples)
+                    {
+                        break;
+                    }
+                }
+            }
+
+            string text = string.Create(
+                CultureInfo.InvariantCulture,
+                $"{coverage.Missing} of {coverage.TruthFrames} truth frames have no prediction record: {FrameCoverage.List(first, coverage.Missing)}");
+            if (Missing == MissingFramePolicy.Error)
+            {
+                throw BadInputException.At(path, 0, "frame", text + " (--missing error)");
+            }
+
+            if (coverage.PredFrames > 0)
+            {
+                OnWarning?.Invoke(path + ": " + text + "; they are scored as predicting no lanes (--missing error makes this an error)");
+            }
+
+            coverage = coverage with { FirstMissing = first };
+        }
+
+        if (coverage.Extra > 0)
+        {
+            OnWarning?.Invoke(path + string.Create(
+                CultureInfo.InvariantCulture,
+                $": {coverage.Extra} prediction record(s) of frames the truth lacks are not scored: {FrameCoverage.List(coverage.FirstExtra, coverage.Extra)} (--extra error makes this an error)"));
+        }
+
+        return coverage;
     }
 
     /// <summary>Joins a prediction file to truth order, buffering only out-of-order records.</summary>
@@ -342,7 +430,11 @@ public sealed class ScoreRun
 
             while (reader.TryRead(out LaneRecord r))
             {
-                int o = truthIndex[r.Frame];
+                if (!truthIndex.TryGetValue(r.Frame, out int o))
+                {
+                    continue; // a frame the truth lacks (--extra ignore)
+                }
+
                 if (o == ordinal)
                 {
                     return r;

@@ -44,6 +44,12 @@ public sealed record ScoreStateHeader
     /// </summary>
     public IReadOnlyList<string> InputHashes { get; init; } = [];
 
+    /// <summary>The bootstrap unit asked for (<c>--bootstrap-unit</c>), or null for the default.</summary>
+    public BootstrapUnit? Unit { get; init; }
+
+    /// <summary>Coverage of each system's prediction file (whole files, so equal in every shard), or null (older states).</summary>
+    public IReadOnlyList<FrameCoverage>? Coverage { get; init; }
+
     /// <summary>Canonical JSON of everything but the shard index (equal for every shard of one job).</summary>
     public string JobKey()
     {
@@ -59,6 +65,11 @@ public sealed record ScoreStateHeader
             .Append(string.Join(',', Settings.ExtraThresholds.Select(t => t.Key))).Append('\n')
             .Append(Resamples).Append('\n').Append(Seed).Append('\n')
             .Append(Settings.Camera?.ToJson()).Append('\n').Append(MaskIou);
+        if (Unit is { } unit)
+        {
+            b.Append('\n').Append(unit == BootstrapUnit.Sequence ? "sequence" : "frame");
+        }
+
         return b.ToString();
     }
 }
@@ -135,6 +146,41 @@ public sealed class ScoreStateWriter : IDisposable
                 foreach (string h in header.InputHashes)
                 {
                     json.WriteStringValue(h);
+                }
+
+                json.WriteEndArray();
+            }
+
+            if (header.Unit is { } unit)
+            {
+                json.WriteString("bootstrap_unit", unit == BootstrapUnit.Sequence ? "sequence" : "frame");
+            }
+
+            if (header.Coverage is { } coverage)
+            {
+                json.WriteStartArray("coverage");
+                foreach (FrameCoverage c in coverage)
+                {
+                    json.WriteStartObject();
+                    json.WriteNumber("truth_frames", c.TruthFrames);
+                    json.WriteNumber("pred_frames", c.PredFrames);
+                    json.WriteNumber("missing", c.Missing);
+                    json.WriteNumber("extra", c.Extra);
+                    json.WriteStartArray("first_missing");
+                    foreach (string k in c.FirstMissing)
+                    {
+                        json.WriteStringValue(k);
+                    }
+
+                    json.WriteEndArray();
+                    json.WriteStartArray("first_extra");
+                    foreach (string k in c.FirstExtra)
+                    {
+                        json.WriteStringValue(k);
+                    }
+
+                    json.WriteEndArray();
+                    json.WriteEndObject();
                 }
 
                 json.WriteEndArray();
@@ -626,6 +672,23 @@ public sealed class ScoreStateReader : IDisposable
                 InputHashes = r.TryGetProperty("input_sha256", out JsonElement ih) ? [.. ih.EnumerateArray().Select(v => v.GetString()!)] : [],
                 Resamples = r.GetProperty("bootstrap").GetInt32(),
                 Seed = r.GetProperty("seed").GetUInt64(),
+                Unit = r.TryGetProperty("bootstrap_unit", out JsonElement bu)
+                    ? bu.GetString() switch
+                    {
+                        "sequence" => BootstrapUnit.Sequence,
+                        "frame" => BootstrapUnit.Frame,
+                        _ => throw new FormatException("bootstrap_unit must be 'sequence' or 'frame'"),
+                    }
+                    : null,
+                Coverage = r.TryGetProperty("coverage", out JsonElement cov)
+                    ? [.. cov.EnumerateArray().Select(c => new FrameCoverage(
+                        c.GetProperty("truth_frames").GetInt32(),
+                        c.GetProperty("pred_frames").GetInt32(),
+                        c.GetProperty("missing").GetInt32(),
+                        c.GetProperty("extra").GetInt32(),
+                        [.. c.GetProperty("first_missing").EnumerateArray().Select(k => k.GetString()!)],
+                        [.. c.GetProperty("first_extra").EnumerateArray().Select(k => k.GetString()!)]))]
+                    : null,
             };
         }
         catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException or ArgumentException or OverflowException)
@@ -698,6 +761,14 @@ public static class ScoreStateMerge
 
             onHeader?.Invoke(h0);
             SystemScore[] results = ScoreRun.CreateResults(h0.Systems, h0.Settings);
+            if (h0.Coverage is { } coverage && coverage.Count == results.Length)
+            {
+                for (int s = 0; s < results.Length; s++)
+                {
+                    results[s].Coverage = coverage[s];
+                }
+            }
+
             int halfIndex = h0.Settings.HalfIndex;
             var heads = new FrameScore[]?[readers.Count];
             for (int i = 0; i < readers.Count; i++)

@@ -77,7 +77,27 @@ public sealed record SystemResult(
     Tally Overall,
     IntervalSet? Intervals,
     IReadOnlyList<SweepPoint> ConfidenceSweep,
-    IReadOnlyList<KeyValuePair<string, Tally>> ByTag);
+    IReadOnlyList<KeyValuePair<string, Tally>> ByTag)
+{
+    /// <summary>Confidence calibration of the system's scored lanes, or null when its lanes carry no score.</summary>
+    public CalibrationSummary? Calibration { get; init; }
+}
+
+/// <summary>One bin of the reliability table.</summary>
+/// <param name="Low">Lower score edge.</param>
+/// <param name="High">Upper score edge.</param>
+/// <param name="Lanes">Scored lanes in the bin.</param>
+/// <param name="MeanScore">Their mean score (NaN when empty).</param>
+/// <param name="Precision">Share of them that are true positives at IoU 0.50 (NaN when empty).</param>
+public sealed record ReliabilityBin(double Low, double High, long Lanes, double MeanScore, double Precision);
+
+/// <summary>The <c>calibration</c> block of a system: ECE (Naeini et al. 2015), reliability bins, best-F1 threshold.</summary>
+/// <param name="ScoredLanes">Lanes that carry a score.</param>
+/// <param name="Ece">Expected calibration error.</param>
+/// <param name="Bins">Reliability bins in score order.</param>
+/// <param name="BestThreshold">Score threshold with the best F1 (NaN when absent).</param>
+/// <param name="BestF1">That F1 (NaN when absent).</param>
+public sealed record CalibrationSummary(long ScoredLanes, double Ece, IReadOnlyList<ReliabilityBin> Bins, double BestThreshold, double BestF1);
 
 /// <summary>A paired difference statistic(a) − statistic(b).</summary>
 /// <param name="Key">Statistic key.</param>

@@ -168,7 +168,48 @@ public static class ScoreDocumentReader
         }
 
         byTag.Sort((a, b) => string.CompareOrdinal(a.Key, b.Key));
-        return new SystemResult(name, overall, intervals, sweep, byTag);
+        return new SystemResult(name, overall, intervals, sweep, byTag) { Calibration = ReadCalibration(ctx, e, path) };
+    }
+
+    private static CalibrationSummary? ReadCalibration(Context ctx, JsonElement e, string path)
+    {
+        if (!e.TryGetProperty("calibration", out JsonElement c))
+        {
+            return null;
+        }
+
+        string cp = path + ".calibration";
+        ctx.Object(c, cp);
+        var bins = new List<ReliabilityBin>();
+        if (c.TryGetProperty("reliability", out JsonElement rel) && rel.ValueKind == JsonValueKind.Array)
+        {
+            int i = 0;
+            foreach (JsonElement b in rel.EnumerateArray())
+            {
+                string bp = cp + ".reliability[" + i.ToString(CultureInfo.InvariantCulture) + "]";
+                ctx.Object(b, bp);
+                bins.Add(new ReliabilityBin(ctx.Float(b, bp, "low"), ctx.Float(b, bp, "high"), ctx.Int(b, bp, "lanes"), ctx.Float(b, bp, "mean_score"), ctx.Float(b, bp, "precision")));
+                i++;
+            }
+        }
+
+        double bestT = double.NaN, bestF1 = double.NaN;
+        if (c.TryGetProperty("best_f1", out JsonElement best) && best.ValueKind == JsonValueKind.Object)
+        {
+            foreach (JsonProperty p in best.EnumerateObject())
+            {
+                if (p.Value.ValueKind == JsonValueKind.Number && p.Name is "threshold" or "min_score")
+                {
+                    bestT = p.Value.GetDouble();
+                }
+                else if (p.Value.ValueKind == JsonValueKind.Number && p.Name == "f1")
+                {
+                    bestF1 = p.Value.GetDouble();
+                }
+            }
+        }
+
+        return new CalibrationSummary(ctx.Int(c, cp, "scored_lanes"), ctx.Float(c, cp, "ece"), bins, bestT, bestF1);
     }
 
     private static Tally ReadTally(Context ctx, JsonElement e, string path)
