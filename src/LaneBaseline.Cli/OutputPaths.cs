@@ -66,7 +66,7 @@ internal static class OutputPaths
             {
                 full = OutputTarget.Resolve(path).Path;
             }
-            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or ArgumentException)
+            catch (Exception ex) when (ex is IOException or UnauthorizedAccessException or ArgumentException or Core.BadInputException)
             {
                 full = System.IO.Path.GetFullPath(path);
             }
