@@ -44,6 +44,7 @@ public sealed class AtomicFile : IDisposable
         }
 
         OutputTarget target = OutputTarget.Resolve(path);
+        OutputTarget.RefuseFolder(path, target.Path);
         finalPath = target.Path;
         if (target.InPlace)
         {

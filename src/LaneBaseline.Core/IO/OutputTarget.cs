@@ -16,7 +16,6 @@ public readonly record struct OutputTarget(string Path, bool InPlace)
     private const int TypeMask = 0xF000, Regular = 0x8000, Directory = 0x4000;
 
     /// <summary>Resolves <paramref name="path"/> (relative to the current folder) to the file that will be written.</summary>
-    /// <exception cref="BadInputException">The path is an existing folder.</exception>
     public static OutputTarget Resolve(string path)
     {
         ArgumentNullException.ThrowIfNull(path);
@@ -27,12 +26,17 @@ public readonly record struct OutputTarget(string Path, bool InPlace)
         }
 
         int? type = FileType(full);
-        if (type == Directory || (type is null && System.IO.Directory.Exists(full)))
+        return new OutputTarget(full, type is int t && t != Regular && t != Directory);
+    }
+
+    /// <summary>Throws when the resolved target is an existing folder (an output needs a file name).</summary>
+    /// <exception cref="BadInputException">The path is an existing folder.</exception>
+    public static void RefuseFolder(string path, string resolved)
+    {
+        if (System.IO.Directory.Exists(resolved))
         {
             throw BadInputException.At(path, 0, null, "the output path is a folder; give a file name");
         }
-
-        return new OutputTarget(full, type is int t && t != Regular && t != Directory);
     }
 
     /// <summary>The S_IFMT bits of an existing path on Linux (following links), or null (missing, or not Linux).</summary>
