@@ -73,7 +73,7 @@ internal static class CommandArguments
                 }
 
                 name = name == StandardStreams.Dash ? "stdin" : name;
-                path = RunContext.Input(path);
+                path = InputSpool.Input(path);
             }
 
             systems.Add(new ScoredSystem(name, path));

@@ -15,7 +15,6 @@ internal static class CommandRunner
     {
         TextWriter stdout = parseResult.InvocationConfiguration.Output;
         TextWriter stderr = parseResult.InvocationConfiguration.Error;
-        using RunContext run = RunContext.Begin();
         using var spool = Core.IO.InputSpool.Begin();
         try
         {
@@ -34,17 +33,17 @@ internal static class CommandRunner
         }
         catch (BadInputException ex)
         {
-            stderr.WriteLine("error: " + OneLine(run.Clean(ex.Message)));
+            stderr.WriteLine("error: " + OneLine(spool.Clean(ex.Message)));
             return ExitCodes.InputError;
         }
         catch (UsageException ex)
         {
-            stderr.WriteLine("usage error: " + OneLine(run.Clean(ex.Message)));
+            stderr.WriteLine("usage error: " + OneLine(spool.Clean(ex.Message)));
             return ExitCodes.UsageError;
         }
         catch (IOException ex) when (IsDiskFull(ex))
         {
-            stderr.WriteLine("error: no space left on the device while writing (" + OneLine(run.Clean(ex.Message)) + "); no output was committed");
+            stderr.WriteLine("error: no space left on the device while writing (" + OneLine(spool.Clean(ex.Message)) + "); no output was committed");
             return ExitCodes.InputError;
         }
         catch (OpenCvSharp.OpenCVException ex)

@@ -110,8 +110,8 @@ internal static class AuditCommand
                 FramesPerSecond = rate,
                 Stills = parseResult.GetValue(stills),
             };
-            string predPath = RunContext.Input(parseResult.GetRequiredValue(pred));
-            string? baselinePath = parseResult.GetValue(baseline) is string b ? RunContext.Input(b) : null;
+            string predPath = InputSpool.Input(parseResult.GetRequiredValue(pred));
+            string? baselinePath = parseResult.GetValue(baseline) is string b ? InputSpool.Input(b) : null;
             DateTimeOffset at = ReportPage.ParseGeneratedAt(parseResult.GetValue(generatedAt));
             var clock = Stopwatch.StartNew();
             LaneSourceOpener opener = LaneInputs.Opener(settings.Size, rows, stderr);

@@ -30,7 +30,7 @@ internal static class ConvertCommand
         SharedOptions.AddOutput(command, output, legacyOut, required: true);
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
-            string inPath = RunContext.Input(parseResult.GetRequiredValue(input));
+            string inPath = InputSpool.Input(parseResult.GetRequiredValue(input));
             string outPath = SharedOptions.GetOutput(parseResult, output, legacyOut, stderr)!;
             string format = (parseResult.GetValue(to) ?? InferFormat(outPath)).ToLowerInvariant();
             if (format is not ("lanes" or "masks" or "openlabel"))

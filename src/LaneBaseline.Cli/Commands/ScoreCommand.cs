@@ -123,7 +123,7 @@ internal static class ScoreCommand
             }
 
             var request = new ScoreRequest(
-                RunContext.Input(parseResult.GetRequiredValue(truth)),
+                InputSpool.Input(parseResult.GetRequiredValue(truth)),
                 systems,
                 settings,
                 resamples,

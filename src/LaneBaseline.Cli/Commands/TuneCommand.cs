@@ -78,7 +78,7 @@ internal static class TuneCommand
             var request = new TuneRequest
             {
                 Frames = parse.GetValue(frames)!,
-                Truth = RunContext.Input(parse.GetValue(truth)!),
+                Truth = InputSpool.Input(parse.GetValue(truth)!),
                 SpacePath = parse.GetValue(space),
                 ConfigSource = parse.GetValue(config)!,
                 Budget = b,

@@ -57,7 +57,7 @@ internal static class ScoreOutputWriter
             stderr.WriteLine("note: no truth and no predicted lanes at all in some system's frames; by definition it scores 1.0");
         }
 
-        ScoreTableWriter.Write(stdout, RunContext.Display(request.TruthPath), results, request.Settings, boot);
+        ScoreTableWriter.Write(stdout, InputSpool.Display(request.TruthPath), results, request.Settings, boot);
         if (maskIou is not null)
         {
             stdout.WriteLine();
@@ -74,12 +74,12 @@ internal static class ScoreOutputWriter
         using AtomicFile? jsonFile = request.JsonPath is null ? null : new AtomicFile(request.JsonPath);
         if (jsonFile is not null)
         {
-            if (RunContext.ReadStdin)
+            if (InputSpool.ReadStdin)
             {
                 // The settings name the inputs: standard input is named '-', not its private temporary copy.
                 using var buffer = new MemoryStream();
                 ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath, maskIou is null ? null : (w, s) => WriteMaskIou(w, maskIou[s]), gates.Length == 0 ? null : w => WriteGates(w, gates));
-                jsonFile.Writer.Write(RunContext.Display(Encoding.UTF8.GetString(buffer.ToArray())));
+                jsonFile.Writer.Write(InputSpool.Display(Encoding.UTF8.GetString(buffer.ToArray())));
             }
             else
             {

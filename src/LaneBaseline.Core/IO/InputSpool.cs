@@ -3,11 +3,13 @@ using System.Globalization;
 namespace LaneBaseline.Core.IO;
 
 /// <summary>
-/// Makes inputs that can be read only once (a pipe such as <c>&lt;(cat t.lanes.jsonl)</c>, a FIFO, <c>/dev/stdin</c>)
-/// readable as often as a command needs: the first open copies the stream to a private temporary file, and every
-/// later open of the same path reads that copy. A command opens a scope with <see cref="Begin"/>; readers ask
-/// <see cref="ReadablePath"/> for the path to open (the path as given stays the name in messages). Disposing the scope
-/// deletes the copies. Without a scope, or for regular files, the path is returned unchanged.
+/// The one mechanism that makes inputs that can be read only once readable as often as a command needs: standard
+/// input given as <c>-</c> (<see cref="Input"/>), and pipes such as <c>&lt;(cat t.lanes.jsonl)</c>, FIFOs and
+/// <c>/dev/stdin</c> given by path (<see cref="ReadablePath"/>). The first use copies the stream to a private
+/// temporary file (mode 0600, tracked by <see cref="TemporaryFiles"/> so Ctrl-C removes it), and every later use reads
+/// that copy. A command opens a scope with <see cref="Begin"/>; disposing it deletes the copies. Messages name the
+/// input as given: a path as is, standard input as <c>-</c> (<see cref="Display"/> replaces the copy's name).
+/// Without a scope, or for regular files, paths are returned unchanged.
 /// </summary>
 public sealed class InputSpool : IDisposable
 {
@@ -16,6 +18,7 @@ public sealed class InputSpool : IDisposable
     private readonly Lock gate = new();
     private readonly InputSpool? previous;
     private bool disposed;
+    private string? stdinCopy;
 
     private InputSpool(InputSpool? previous) => this.previous = previous;
 
@@ -52,6 +55,99 @@ public sealed class InputSpool : IDisposable
         return spool.CopyOf(path);
     }
 
+    /// <summary>
+    /// Returns <paramref name="path"/>, or for <c>-</c> the copy of all of standard input (made on first use; an
+    /// OpenLABEL document is named <c>*.json</c> and anything else <c>*.lanes.jsonl</c>, as the readers choose the
+    /// format by name).
+    /// </summary>
+    /// <exception cref="InvalidOperationException"><c>-</c> outside a scope.</exception>
+    public static string Input(string path) =>
+        StandardStreams.IsDash(path) ? (Current.Value ?? throw new InvalidOperationException("standard input is read inside a command's scope only")).CopyStdin() : path;
+
+    /// <summary>Whether the current scope read standard input.</summary>
+    public static bool ReadStdin => Current.Value?.stdinCopy is not null;
+
+    /// <summary><paramref name="text"/> with the current scope's temporary copies named as given (<c>-</c> for standard input).</summary>
+    public static string Display(string text) => Current.Value is { } spool ? spool.Clean(text) : text;
+
+    /// <summary><paramref name="text"/> with this scope's temporary copies named as given (<c>-</c> for standard input).</summary>
+    public string Clean(string text)
+    {
+        ArgumentNullException.ThrowIfNull(text);
+        lock (gate)
+        {
+            if (stdinCopy is not null)
+            {
+                text = text.Replace(stdinCopy, StandardStreams.Dash, StringComparison.Ordinal);
+            }
+
+            foreach (KeyValuePair<string, string> kv in copies)
+            {
+                text = text.Replace(kv.Value, kv.Key, StringComparison.Ordinal);
+            }
+
+            return text;
+        }
+    }
+
+    private string CopyStdin()
+    {
+        lock (gate)
+        {
+            ObjectDisposedException.ThrowIf(disposed, this);
+            if (stdinCopy is not null)
+            {
+                return stdinCopy;
+            }
+
+            string spool = NewTemporary(".tmp");
+            copies[StandardStreams.Dash] = spool;
+            Copy(StandardStreams.Input, spool, StandardStreams.Dash);
+
+            // The readers choose the format by name: an OpenLABEL document says so near its start, a lane file does not.
+            byte[] head = new byte[512];
+            int n;
+            using (FileStream read = File.OpenRead(spool))
+            {
+                n = read.ReadAtLeast(head, head.Length, throwOnEndOfStream: false);
+            }
+
+            string named = Path.ChangeExtension(spool, head.AsSpan(0, n).IndexOf("\"openlabel\""u8) >= 0 ? ".json" : ".lanes.jsonl");
+            TemporaryFiles.Track(named);
+            File.Move(spool, named);
+            TemporaryFiles.Forget(spool);
+            copies[StandardStreams.Dash] = named;
+            stdinCopy = named;
+            return named;
+        }
+    }
+
+    private static string NewTemporary(string extension)
+    {
+        string path = Path.Combine(Path.GetTempPath(), "lanebaseline-input-" + Environment.ProcessId.ToString(CultureInfo.InvariantCulture) + "-" + Guid.NewGuid().ToString("N")[..12] + extension);
+        TemporaryFiles.Track(path);
+        return path;
+    }
+
+    private static void Copy(Stream source, string copy, string name)
+    {
+        try
+        {
+            var create = new FileStreamOptions { Mode = FileMode.CreateNew, Access = FileAccess.Write, Share = FileShare.None, BufferSize = 1 << 16 };
+            if (!OperatingSystem.IsWindows())
+            {
+                create.UnixCreateMode = UnixFileMode.UserRead | UnixFileMode.UserWrite;
+            }
+
+            using var target = new FileStream(copy, create);
+            source.CopyTo(target);
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            throw BadInputException.At(name, 0, null, "cannot be read: " + ex.Message);
+        }
+    }
+
     private string CopyOf(string path)
     {
         lock (gate)
@@ -62,24 +158,21 @@ public sealed class InputSpool : IDisposable
                 return copy;
             }
 
-            copy = Path.Combine(Path.GetTempPath(), "lanebaseline-input-" + Environment.ProcessId.ToString(CultureInfo.InvariantCulture) + "-" + Guid.NewGuid().ToString("N")[..12] + ".tmp");
+            copy = NewTemporary(".tmp");
             copies.Add(path, copy);
-            TemporaryFiles.Track(copy);
+            FileStream source;
             try
             {
-                var create = new FileStreamOptions { Mode = FileMode.CreateNew, Access = FileAccess.Write, Share = FileShare.None, BufferSize = 1 << 16 };
-                if (!OperatingSystem.IsWindows())
-                {
-                    create.UnixCreateMode = UnixFileMode.UserRead | UnixFileMode.UserWrite;
-                }
-
-                using var source = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.ReadWrite, 1 << 16);
-                using var target = new FileStream(copy, create);
-                source.CopyTo(target);
+                source = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.ReadWrite, 1 << 16);
             }
             catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
             {
                 throw BadInputException.At(path, 0, null, "cannot be read: " + ex.Message);
+            }
+
+            using (source)
+            {
+                Copy(source, copy, path);
             }
 
             return copy;

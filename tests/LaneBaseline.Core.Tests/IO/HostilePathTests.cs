@@ -126,4 +126,33 @@ public sealed class HostilePathTests
         Assert.False(File.Exists(copy));
         Assert.Equal(fifo, InputSpool.ReadablePath(fifo)); // no scope: unchanged
     }
+
+    // Issue 13 (one spool): standard input given as '-' goes through the same scope as pipes and FIFOs: read once,
+    // named by its format for the readers, shown as '-' in messages, deleted with the scope. Before, a second
+    // mechanism in the command line (RunContext) did this and its copy was unknown to the Ctrl-C cleanup.
+    [Theory]
+    [InlineData("{\"frame\":\"a.png\",\"lanes\":[]}\n", ".lanes.jsonl")]
+    [InlineData("{\"openlabel\":{\"metadata\":{\"schema_version\":\"1.0.0\"}}}", ".json")]
+    public void StandardInput_IsSpooledOnceByTheOneInputSpool(string text, string extension)
+    {
+        using var stdin = new MemoryStream(System.Text.Encoding.UTF8.GetBytes(text));
+        using IDisposable streams = StandardStreams.Use(null, stdin);
+        string copy;
+        using (InputSpool spool = InputSpool.Begin())
+        {
+            Assert.False(InputSpool.ReadStdin);
+            copy = InputSpool.Input("-");
+            Assert.EndsWith(extension, copy, StringComparison.Ordinal);
+            Assert.Equal(text, File.ReadAllText(copy));
+            Assert.Equal(copy, InputSpool.Input("-")); // the stream is read once; later uses read the copy
+            Assert.Equal(copy, InputSpool.ReadablePath(copy));
+            Assert.True(InputSpool.ReadStdin);
+            Assert.Contains(copy, spool.Copies);
+            Assert.Equal("error: -:3: lanes: bad", InputSpool.Display("error: " + copy + ":3: lanes: bad"));
+            Assert.Equal("t.lanes.jsonl", InputSpool.Input("t.lanes.jsonl"));
+        }
+
+        Assert.False(File.Exists(copy));
+        Assert.Throws<InvalidOperationException>(() => InputSpool.Input("-")); // outside a command's scope
+    }
 }
