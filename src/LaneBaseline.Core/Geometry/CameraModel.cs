@@ -19,8 +19,11 @@ namespace LaneBaseline.Core.Geometry;
 /// </remarks>
 public sealed record CameraModel
 {
-    /// <summary>File format version written to and expected in <c>camera.json</c>.</summary>
-    public const int FormatVersion = 1;
+    /// <summary>
+    /// File format version written to <c>camera.json</c> (<c>schema_version</c>, snake_case keys). Version 1 files
+    /// (<c>version</c> 1 or absent, camelCase keys) are still read.
+    /// </summary>
+    public const int FormatVersion = 2;
 
     /// <summary>Image width in pixels.</summary>
     public required int ImageWidth { get; init; }
@@ -218,32 +221,33 @@ public sealed record CameraModel
         using (var w = new Utf8JsonWriter(ms, new JsonWriterOptions { Indented = true }))
         {
             w.WriteStartObject();
-            w.WriteNumber("version", FormatVersion);
-            w.WriteString("groundFrame", "X forward, Y left, Z up, metres; origin on the road below the camera");
-            w.WriteString("imageFrame", "u right, v down, pixels; centre of the top-left pixel is (0, 0)");
-            w.WriteNumber("imageWidth", ImageWidth);
-            w.WriteNumber("imageHeight", ImageHeight);
+            w.WriteString("tool", "lanebaseline");
+            w.WriteNumber("schema_version", FormatVersion);
+            w.WriteString("ground_frame", "X forward, Y left, Z up, metres; origin on the road below the camera");
+            w.WriteString("image_frame", "u right, v down, pixels; centre of the top-left pixel is (0, 0)");
+            w.WriteNumber("image_width", ImageWidth);
+            w.WriteNumber("image_height", ImageHeight);
             w.WriteNumber("fx", Fx);
             w.WriteNumber("fy", Fy);
             w.WriteNumber("cx", Cx);
             w.WriteNumber("cy", Cy);
-            w.WriteNumber("mountHeightM", MountHeightM);
-            w.WriteNumber("pitchDeg", PitchDeg);
-            w.WriteNumber("yawDeg", YawDeg);
-            w.WriteNumber("rollDeg", RollDeg);
+            w.WriteNumber("mount_height_m", MountHeightM);
+            w.WriteNumber("pitch_deg", PitchDeg);
+            w.WriteNumber("yaw_deg", YawDeg);
+            w.WriteNumber("roll_deg", RollDeg);
             w.WriteNumber("k1", K1);
             w.WriteNumber("k2", K2);
-            WriteMatrix(w, "groundToImage", p.GroundToImage);
-            WriteMatrix(w, "imageToGround", p.ImageToGround);
-            w.WriteStartArray("controlPoints");
+            WriteMatrix(w, "ground_to_image", p.GroundToImage);
+            WriteMatrix(w, "image_to_ground", p.ImageToGround);
+            w.WriteStartArray("control_points");
             foreach (CameraControlPoint c in ControlPoints())
             {
                 ProjectGroundToImageDistorted(p, c, out double ud, out double vd);
                 w.WriteStartObject();
                 w.WriteNumber("u", Math.Round(ud, 4));
                 w.WriteNumber("v", Math.Round(vd, 4));
-                w.WriteNumber("groundXM", Math.Round(c.GroundXM, 6));
-                w.WriteNumber("groundYM", Math.Round(c.GroundYM, 6));
+                w.WriteNumber("ground_x_m", Math.Round(c.GroundXM, 6));
+                w.WriteNumber("ground_y_m", Math.Round(c.GroundYM, 6));
                 w.WriteEndObject();
             }
 
@@ -304,24 +308,33 @@ public sealed record CameraModel
                 throw BadInputException.At(fileName, 0, null, "the camera file must hold one JSON object");
             }
 
-            if (root.TryGetProperty("version", out JsonElement ver) &&
-                (ver.ValueKind != JsonValueKind.Number || !ver.TryGetInt32(out int version) || version != FormatVersion))
+            // Version 2 (written since 2026-12-05) names itself with schema_version and uses snake_case keys;
+            // version 1 (version 1 or no version key, camelCase) is what earlier builds wrote and users keep.
+            bool v2 = root.TryGetProperty("schema_version", out JsonElement schema);
+            if (v2 && (schema.ValueKind != JsonValueKind.Number || !schema.TryGetInt32(out int sv) || sv != FormatVersion))
             {
-                throw BadInputException.At(fileName, 0, "version", "unsupported version (this build reads version 1)");
+                throw BadInputException.At(fileName, 0, "schema_version", "unsupported version (this build reads versions 1 and 2)");
             }
 
+            if (!v2 && root.TryGetProperty("version", out JsonElement ver) &&
+                (ver.ValueKind != JsonValueKind.Number || !ver.TryGetInt32(out int version) || version != 1))
+            {
+                throw BadInputException.At(fileName, 0, "version", "unsupported version (this build reads versions 1 and 2)");
+            }
+
+            Func<string, string> key = v2 ? SnakeCase : k => k;
             var camera = new CameraModel
             {
-                ImageWidth = ReadInt(root, "imageWidth", fileName),
-                ImageHeight = ReadInt(root, "imageHeight", fileName),
+                ImageWidth = ReadInt(root, key("imageWidth"), fileName),
+                ImageHeight = ReadInt(root, key("imageHeight"), fileName),
                 Fx = ReadNumber(root, "fx", fileName, null),
                 Fy = ReadNumber(root, "fy", fileName, null),
                 Cx = ReadNumber(root, "cx", fileName, null),
                 Cy = ReadNumber(root, "cy", fileName, null),
-                MountHeightM = ReadNumber(root, "mountHeightM", fileName, null),
-                PitchDeg = ReadNumber(root, "pitchDeg", fileName, 0),
-                YawDeg = ReadNumber(root, "yawDeg", fileName, 0),
-                RollDeg = ReadNumber(root, "rollDeg", fileName, 0),
+                MountHeightM = ReadNumber(root, key("mountHeightM"), fileName, null),
+                PitchDeg = ReadNumber(root, key("pitchDeg"), fileName, 0),
+                YawDeg = ReadNumber(root, key("yawDeg"), fileName, 0),
+                RollDeg = ReadNumber(root, key("rollDeg"), fileName, 0),
                 K1 = ReadNumber(root, "k1", fileName, 0),
                 K2 = ReadNumber(root, "k2", fileName, 0),
             };
@@ -329,14 +342,33 @@ public sealed record CameraModel
             if (problem is not null)
             {
                 int colon = problem.IndexOf(':', StringComparison.Ordinal);
-                throw BadInputException.At(fileName, 0, problem[..colon], problem[(colon + 2)..]);
+                throw BadInputException.At(fileName, 0, key(problem[..colon]), problem[(colon + 2)..]);
             }
 
             GroundProjection p = camera.ToProjection();
-            CheckMatrix(root, "groundToImage", p.GroundToImage, fileName);
-            CheckMatrix(root, "imageToGround", p.ImageToGround, fileName);
+            CheckMatrix(root, key("groundToImage"), p.GroundToImage, fileName);
+            CheckMatrix(root, key("imageToGround"), p.ImageToGround, fileName);
             return camera;
         }
+    }
+
+    /// <summary>The version 2 key of a version 1 key: <c>mountHeightM</c> → <c>mount_height_m</c>.</summary>
+    private static string SnakeCase(string camel)
+    {
+        var b = new StringBuilder(camel.Length + 4);
+        foreach (char c in camel)
+        {
+            if (char.IsAsciiLetterUpper(c))
+            {
+                b.Append('_').Append(char.ToLowerInvariant(c));
+            }
+            else
+            {
+                b.Append(c);
+            }
+        }
+
+        return b.ToString();
     }
 
     private static JsonDocument ParseDocument(string text, string fileName)

@@ -15,6 +15,7 @@ public sealed class OutputSchemaTests : IDisposable
     // One instance per process: the validator keeps a global registry of schemas by their $id.
     private static readonly JsonSchema Score = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "score.schema.json")));
     private static readonly JsonSchema Bench = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "bench.schema.json")));
+    private static readonly JsonSchema Camera = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "camera.schema.json")));
     private readonly TempDir dir = new();
 
     public void Dispose() => dir.Dispose();
@@ -53,6 +54,22 @@ public sealed class OutputSchemaTests : IDisposable
         Assert.Equal(0, CliRunner.Run("bench", "--render", "2", "--size", "128x96", "-j", "1", "--warmup", "0", "--passes", "1", "--json", json).Exit);
         using JsonDocument doc = Valid(Bench, json);
         Assert.False(Evaluate(Bench, doc.RootElement.GetRawText().Replace("\"frame_ms\"", "\"frameMs\"", StringComparison.Ordinal)));
+    }
+
+    // Issue 16: render's camera.json (version 2) follows docs/schema/camera.schema.json, keys in snake_case, and the
+    // schema can fail (a version 1 key instead of its version 2 key).
+    [Fact]
+    public void CameraJson_FromRender_FollowsTheSchema()
+    {
+        string o = dir.File("r");
+        Assert.Equal(0, CliRunner.Run("render", "-o", o, "--count", "1", "--sequence-length", "1", "--seed", "3").Exit);
+        string cam = Path.Combine(o, "camera.json");
+        using JsonDocument doc = Valid(Camera, cam);
+        Assert.Equal("lanebaseline", doc.RootElement.GetProperty("tool").GetString());
+        Assert.Equal(2, doc.RootElement.GetProperty("schema_version").GetInt32());
+        Assert.False(Evaluate(Camera, doc.RootElement.GetRawText().Replace("\"mount_height_m\"", "\"mountHeightM\"", StringComparison.Ordinal)));
+        Assert.False(Evaluate(Camera, doc.RootElement.GetRawText().Replace("\"ground_x_m\"", "\"groundXM\"", StringComparison.Ordinal)));
+        Assert.Equal(Core.Geometry.CameraModel.Load(cam), Core.Geometry.CameraModel.Parse(File.ReadAllText(cam), "camera.json"));
     }
 
     private static JsonDocument Valid(JsonSchema schema, string path)

@@ -138,6 +138,35 @@ public sealed class CameraModelTests
         Assert.Contains(expected, ex.Message, StringComparison.Ordinal);
     }
 
+    [Theory]
+    [InlineData("{\"schema_version\":2,\"image_width\":1280,\"image_height\":720,\"fx\":1000,\"fy\":1000,\"cx\":640,\"cy\":360,\"mount_height_m\":-1}", "mount_height_m: must be in")]
+    [InlineData("{\"schema_version\":2,\"image_width\":1280,\"image_height\":720,\"fx\":1000,\"fy\":1000,\"cx\":640,\"cy\":360}", "mount_height_m: required key is missing")]
+    [InlineData("{\"schema_version\":2,\"imageWidth\":1280,\"imageHeight\":720,\"fx\":1000,\"fy\":1000,\"cx\":640,\"cy\":360,\"mountHeightM\":1.5}", "image_width: required key is missing")]
+    [InlineData("{\"schema_version\":2,\"image_width\":1280,\"image_height\":720,\"fx\":1000,\"fy\":1000,\"cx\":640,\"cy\":360,\"mount_height_m\":1.5,\"ground_to_image\":[1,0,0,0,1,0,0,0,1]}", "ground_to_image[0]: ")]
+    [InlineData("{\"schema_version\":3,\"image_width\":1280}", "schema_version: unsupported version (this build reads versions 1 and 2)")]
+    [InlineData("{\"version\":2,\"imageWidth\":1280}", "version: unsupported version")]
+    public void Parse_Version2_BadInput_NamesTheSnakeCaseKey(string json, string expected)
+    {
+        BadInputException ex = Assert.Throws<BadInputException>(() => CameraModel.Parse(json, "cam.json"));
+        Assert.Contains(expected, ex.Message, StringComparison.Ordinal);
+    }
+
+    // Issue 16 (one key style): render writes version 2 (snake_case); the version 1 file users already have (the
+    // committed sample before 2026-12-05, camelCase) still reads to the same camera, and so does its version 2 text.
+    [Fact]
+    public void Version1File_AndVersion2File_ReadToTheSameCamera()
+    {
+        string v1 = File.ReadAllText(Testing.RepoPaths.Combine("tests", "corpus", "camera", "camera-v1.json"));
+        Assert.Contains("\"mountHeightM\"", v1, StringComparison.Ordinal);
+        CameraModel old = CameraModel.Parse(v1, "camera-v1.json");
+        string v2 = old.ToJson();
+        Assert.Contains("\"schema_version\": 2", v2, StringComparison.Ordinal);
+        Assert.Contains("\"mount_height_m\": 1.5", v2, StringComparison.Ordinal);
+        Assert.DoesNotContain("mountHeightM", v2, StringComparison.Ordinal);
+        Assert.Equal(old, CameraModel.Parse(v2, "camera.json"));
+        Assert.Equal(old, CameraModel.Load(Testing.RepoPaths.Combine("sample-frames", "camera.json")));
+    }
+
     [Fact]
     public void Load_MissingFile_IsBadInput()
     {
