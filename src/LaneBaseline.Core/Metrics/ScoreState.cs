@@ -15,6 +15,7 @@ public sealed record ScoreStateHeader
     public const string FormatName = "lanebaseline-score-state";
 
     /// <summary>The shard that wrote the state.</summary>
+    [NotInJobKey("the index differs between shards; JobKey adds the count")]
     public required ShardSpec Shard { get; init; }
 
     /// <summary>Truth path as given to score.</summary>
@@ -42,36 +43,22 @@ public sealed record ScoreStateHeader
     /// Content hashes (<see cref="IO.ContentHash"/>) of the truth and each system's predictions, in that order; empty in
     /// states written before they were recorded. <c>merge</c> refuses states whose inputs had different contents.
     /// </summary>
+    [NotInJobKey("compared on its own, naming the input whose contents differ")]
     public IReadOnlyList<string> InputHashes { get; init; } = [];
 
     /// <summary>The bootstrap unit asked for (<c>--bootstrap-unit</c>), or null for the default.</summary>
     public BootstrapUnit? Unit { get; init; }
 
     /// <summary>Coverage of each system's prediction file (whole files, so equal in every shard), or null (older states).</summary>
+    [NotInJobKey("derived from the inputs, which the input hashes already compare")]
     public IReadOnlyList<FrameCoverage>? Coverage { get; init; }
 
-    /// <summary>Canonical JSON of everything but the shard index (equal for every shard of one job).</summary>
-    public string JobKey()
-    {
-        var b = new StringBuilder();
-        b.Append(Truth).Append('\n').Append(TruthFrames).Append('\n').Append(Shard.Count).Append('\n');
-        foreach (ScoredSystem s in Systems)
-        {
-            b.Append(s.Name).Append('=').Append(s.Path).Append('\n');
-        }
-
-        b.Append(Settings.LaneWidthPx?.ToString(CultureInfo.InvariantCulture)).Append('\n')
-            .Append(Settings.TolerancePx?.ToString("R", CultureInfo.InvariantCulture)).Append('\n')
-            .Append(string.Join(',', Settings.ExtraThresholds.Select(t => t.Key))).Append('\n')
-            .Append(Resamples).Append('\n').Append(Seed).Append('\n')
-            .Append(Settings.Camera?.ToJson()).Append('\n').Append(MaskIou);
-        if (Unit is { } unit)
-        {
-            b.Append('\n').Append(unit == BootstrapUnit.Sequence ? "sequence" : "frame");
-        }
-
-        return b.ToString();
-    }
+    /// <summary>
+    /// Everything but the shard index, the input hashes and the coverage (equal for every shard of one job): the shard
+    /// count and every other property of the header and of its <see cref="ScoreSettings"/>, walked by
+    /// <see cref="ShardJobKey"/>, so a new setting cannot be left out.
+    /// </summary>
+    public string JobKey() => "shard_count=" + Shard.Count.ToString(CultureInfo.InvariantCulture) + "\n" + ShardJobKey.Of(this);
 }
 
 /// <summary>
