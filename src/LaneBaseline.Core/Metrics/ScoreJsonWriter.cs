@@ -205,29 +205,7 @@ public static class ScoreJsonWriter
     private static void WriteSystemBody(Utf8JsonWriter json, SystemScore system, int index, ScoreSettings settings, BootstrapResult? bootstrap)
     {
         WriteTally(json, system.Overall, settings, includeFrames: true);
-        if (system.Coverage is { } cov)
-        {
-            json.WriteStartObject("coverage");
-            json.WriteNumber("truth_frames", cov.TruthFrames);
-            json.WriteNumber("pred_frames", cov.PredFrames);
-            json.WriteNumber("missing", cov.Missing);
-            json.WriteNumber("extra", cov.Extra);
-            json.WriteStartArray("first_missing");
-            foreach (string k in cov.FirstMissing)
-            {
-                json.WriteStringValue(k);
-            }
-
-            json.WriteEndArray();
-            json.WriteStartArray("first_extra");
-            foreach (string k in cov.FirstExtra)
-            {
-                json.WriteStringValue(k);
-            }
-
-            json.WriteEndArray();
-            json.WriteEndObject();
-        }
+        system.Coverage?.WriteJson(json, "coverage");
 
         if (bootstrap is not null && bootstrap.Resamples > 0)
         {

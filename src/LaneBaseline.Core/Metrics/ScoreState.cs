@@ -148,26 +148,7 @@ public sealed class ScoreStateWriter : IDisposable
                 json.WriteStartArray("coverage");
                 foreach (FrameCoverage c in coverage)
                 {
-                    json.WriteStartObject();
-                    json.WriteNumber("truth_frames", c.TruthFrames);
-                    json.WriteNumber("pred_frames", c.PredFrames);
-                    json.WriteNumber("missing", c.Missing);
-                    json.WriteNumber("extra", c.Extra);
-                    json.WriteStartArray("first_missing");
-                    foreach (string k in c.FirstMissing)
-                    {
-                        json.WriteStringValue(k);
-                    }
-
-                    json.WriteEndArray();
-                    json.WriteStartArray("first_extra");
-                    foreach (string k in c.FirstExtra)
-                    {
-                        json.WriteStringValue(k);
-                    }
-
-                    json.WriteEndArray();
-                    json.WriteEndObject();
+                    c.WriteJson(json);
                 }
 
                 json.WriteEndArray();
@@ -668,13 +649,7 @@ public sealed class ScoreStateReader : IDisposable
                     }
                     : null,
                 Coverage = r.TryGetProperty("coverage", out JsonElement cov)
-                    ? [.. cov.EnumerateArray().Select(c => new FrameCoverage(
-                        c.GetProperty("truth_frames").GetInt32(),
-                        c.GetProperty("pred_frames").GetInt32(),
-                        c.GetProperty("missing").GetInt32(),
-                        c.GetProperty("extra").GetInt32(),
-                        [.. c.GetProperty("first_missing").EnumerateArray().Select(k => k.GetString()!)],
-                        [.. c.GetProperty("first_extra").EnumerateArray().Select(k => k.GetString()!)]))]
+                    ? [.. cov.EnumerateArray().Select(FrameCoverage.ReadJson)]
                     : null,
             };
         }
