@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Text;
 using System.Text.Json;
+using LaneBaseline.Core.Metrics.Ground;
 using LaneBaseline.Core.Sharding;
 
 namespace LaneBaseline.Core.Metrics;
@@ -127,8 +128,7 @@ public sealed class ScoreStateReader : IDisposable
                 double acc = s.GetProperty("acc").GetDouble();
                 int matched = s.GetProperty("m").GetInt32();
                 CheckConsistent(frame, nt, np, ious, acc, matched, ctp, cp);
-                double[] laneScores = s.TryGetProperty("ps", out JsonElement ps) ? [.. ps.EnumerateArray().Select(v => v.GetDouble())] : [];
-                bool[] laneHits = s.TryGetProperty("ph", out JsonElement ph) ? [.. ph.EnumerateArray().Select(v => v.GetInt32() != 0)] : [];
+                (double[] laneScores, bool[] laneHits) = Calibration.ReliabilityTally.ReadFrameState(s);
                 if (laneScores.Length != laneHits.Length || laneScores.Length > np)
                 {
                     throw BadInputException.At(path, line, "s.ps", "scored lanes and their outcomes differ in count or exceed the predicted lanes");
@@ -278,16 +278,7 @@ public sealed class ScoreStateReader : IDisposable
             return null;
         }
 
-        double[] sums = [.. g.GetProperty("ls").EnumerateArray().Select(v => v.GetDouble())];
-        int[] counts = Ints(g.GetProperty("lc"));
-        if (sums.Length != GroundErrors.DefaultLookAheadM.Count || counts.Length != sums.Length || counts.Any(c => c < 0))
-        {
-            throw BadInputException.At(path, line, "s.g", "look-ahead distances do not match this build");
-        }
-
-        JsonElement w = g.GetProperty("w");
-        int curvatureCount = g.GetProperty("cc").GetInt32();
-        return new FrameGroundErrors(sums, counts, w.ValueKind == JsonValueKind.Null ? double.NaN : w.GetDouble(), g.GetProperty("cs").GetDouble(), curvatureCount < 0 ? throw new FormatException("negative count") : curvatureCount);
+        return FrameGroundErrors.ReadState(g) ?? throw BadInputException.At(path, line, "s.g", "look-ahead distances do not match this build");
     }
 
     private static ScoreStateHeader ParseHeader(string path, string text)

@@ -143,49 +143,8 @@ public sealed class ScoreStateWriter : IDisposable
                 Ints(json, "ctp", f.ConfidenceTruePositives);
                 Ints(json, "cp", f.ConfidencePredLanes);
                 json.WriteBoolean("conf", f.HasConfidence);
-                if (f.LaneScores.Length > 0)
-                {
-                    json.WriteStartArray("ps"); // scored lanes: score and outcome (calibration metric)
-                    foreach (double v in f.LaneScores)
-                    {
-                        json.WriteRawValue(v.ToString("R", CultureInfo.InvariantCulture));
-                    }
-
-                    json.WriteEndArray();
-                    json.WriteStartArray("ph");
-                    foreach (bool v in f.LaneHits)
-                    {
-                        json.WriteNumberValue(v ? 1 : 0);
-                    }
-
-                    json.WriteEndArray();
-                }
-                if (f.Ground is { } g)
-                {
-                    json.WriteStartObject("g");
-                    json.WriteStartArray("ls");
-                    foreach (double v in g.LateralAbsSumM)
-                    {
-                        json.WriteRawValue(v.ToString("R", CultureInfo.InvariantCulture));
-                    }
-
-                    json.WriteEndArray();
-                    Ints(json, "lc", g.LateralCount);
-                    json.WritePropertyName("w");
-                    if (double.IsFinite(g.EgoWidthAbsErrorM))
-                    {
-                        json.WriteRawValue(g.EgoWidthAbsErrorM.ToString("R", CultureInfo.InvariantCulture));
-                    }
-                    else
-                    {
-                        json.WriteNullValue(); // not measured in this frame
-                    }
-
-                    json.WritePropertyName("cs");
-                    json.WriteRawValue(g.CurvatureAbsSum.ToString("R", CultureInfo.InvariantCulture));
-                    json.WriteNumber("cc", g.CurvatureCount);
-                    json.WriteEndObject();
-                }
+                Calibration.ReliabilityTally.WriteFrameState(json, f);
+                f.Ground?.WriteState(json);
 
                 json.WriteEndObject();
             }
