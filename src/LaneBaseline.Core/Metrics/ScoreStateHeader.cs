@@ -1,4 +1,5 @@
 using System.Globalization;
+using LaneBaseline.Core.Metrics.Coverage;
 using LaneBaseline.Core.Sharding;
 
 namespace LaneBaseline.Core.Metrics;

@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Text;
 using System.Text.Json;
+using LaneBaseline.Core.Metrics.Coverage;
 using LaneBaseline.Core.Metrics.Ground;
 using LaneBaseline.Core.Sharding;
 

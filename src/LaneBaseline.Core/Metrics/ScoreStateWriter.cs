@@ -2,6 +2,7 @@ using System.Buffers;
 using System.Globalization;
 using System.Text.Encodings.Web;
 using System.Text.Json;
+using LaneBaseline.Core.Metrics.Coverage;
 
 namespace LaneBaseline.Core.Metrics;
 

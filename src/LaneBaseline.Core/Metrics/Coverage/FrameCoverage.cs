@@ -1,4 +1,4 @@
-namespace LaneBaseline.Core.Metrics;
+namespace LaneBaseline.Core.Metrics.Coverage;
 
 /// <summary>What <c>score</c> does with truth frames that have no prediction record (<c>--missing</c>).</summary>
 public enum MissingFramePolicy
