@@ -5,12 +5,18 @@ namespace LaneBaseline.Cli;
 /// <c>merge s0 s1 -o s0</c>) and one file named by two outputs (<c>--json x --csv x</c>): usage errors, exit 2. Paths
 /// are compared by their full resolved path (symbolic links followed) and, when both exist, by device and inode
 /// (hard links). <c>-</c> (standard input or output) and FIFOs or devices such as <c>/dev/stdout</c> are exempt: they
-/// are streams, not files that could be overwritten.
+/// are streams, not files that could be overwritten. A file output that names an existing folder is bad input (exit 3)
+/// here too, before anything is read or printed (before, <c>score --json DIR</c> printed the table and then failed).
 /// </summary>
 internal static class OutputPaths
 {
     /// <summary>Checks <paramref name="outputs"/> against <paramref name="inputs"/> and each other; nulls are skipped.</summary>
-    public static void Check(IEnumerable<(string Option, string? Path)> inputs, IEnumerable<(string Option, string? Path)> outputs)
+    /// <param name="inputs">Input options and paths.</param>
+    /// <param name="outputs">Output options and paths.</param>
+    /// <param name="outputsAreFiles">False for outputs that are folders (overlays, mask folders): an existing folder is then fine.</param>
+    /// <exception cref="UsageException">An output is an input, or two outputs are one file.</exception>
+    /// <exception cref="Core.BadInputException">A file output is an existing folder.</exception>
+    public static void Check(IEnumerable<(string Option, string? Path)> inputs, IEnumerable<(string Option, string? Path)> outputs, bool outputsAreFiles = true)
     {
         var seenInputs = Resolve(inputs);
         var seenOutputs = new List<(string Option, string Path, FileIdentity? Id)>();
@@ -35,6 +41,11 @@ internal static class OutputPaths
                 {
                     throw new UsageException($"{outOption} and {option} both write {path}; give each output its own path");
                 }
+            }
+
+            if (outputsAreFiles)
+            {
+                Core.IO.OutputTarget.RefuseFolder(path, path);
             }
 
             seenOutputs.Add((option, path, id));

@@ -1,5 +1,6 @@
 using System.Globalization;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Metrics.Ground;
 
 namespace LaneBaseline.Cli;
 

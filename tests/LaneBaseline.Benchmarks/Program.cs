@@ -7,6 +7,13 @@ internal static class Program
 {
     private static void Main(string[] args)
     {
+        if (args is ["soak-data", string n, string d, string size])
+        {
+            string[] wh = size.Split('x');
+            SoakData.Write(int.Parse(n, System.Globalization.CultureInfo.InvariantCulture), d, int.Parse(wh[0], System.Globalization.CultureInfo.InvariantCulture), int.Parse(wh[1], System.Globalization.CultureInfo.InvariantCulture)); // data for score timings (docs/scaling.md)
+            return;
+        }
+
         if (args is ["soak-data", string frames, string dir])
         {
             SoakData.Write(int.Parse(frames, System.Globalization.CultureInfo.InvariantCulture), dir); // data for scripts/soak.sh

@@ -12,8 +12,12 @@ namespace LaneBaseline.Benchmarks;
 /// </summary>
 internal static class SoakData
 {
-    public static void Write(int frames, string dir)
+    public static void Write(int frames, string dir) => Write(frames, dir, 1920, 1080);
+
+    /// <summary>The same lanes in frames of another size (the points are scaled from the 1920x1080 layout).</summary>
+    public static void Write(int frames, string dir, int width, int height)
     {
+        double sx = width / 1920.0, sy = height / 1080.0;
         Directory.CreateDirectory(dir);
         var rng = new SplitMix64(20261202);
         using LaneFileWriter truth = LaneFileWriter.Create(Path.Combine(dir, "truth.lanes.jsonl"));
@@ -30,11 +34,12 @@ internal static class SoakData
                 Points = [.. Enumerable.Range(0, 11).Select(s =>
                 {
                     double x0 = xs[k] + drift + dx, xt = 820 + ((x0 - 820) * 0.1);
-                    return new LanePoint(Math.Round(x0 + ((xt - x0) * s / 10), 2), 589 - ((589 - 280) * s / 10.0));
+                    double x = Math.Round(x0 + ((xt - x0) * s / 10), 2), y = 589 - ((589 - 280) * s / 10.0);
+                    return width == 1920 && height == 1080 ? new LanePoint(x, y) : new LanePoint(Math.Round(x * sx, 2), Math.Round(y * sy, 2));
                 })],
             };
-            truth.Write(Lanes.Truth(key, 1920, 1080, [.. Enumerable.Range(0, 4).Select(k => Make(k, 0))]));
-            pred.Write(Lanes.Truth(key, 1920, 1080, [.. Enumerable.Range(0, 4).Select(k => Make(k, rng.NextDouble(-12, 12)))]));
+            truth.Write(Lanes.Truth(key, width, height, [.. Enumerable.Range(0, 4).Select(k => Make(k, 0))]));
+            pred.Write(Lanes.Truth(key, width, height, [.. Enumerable.Range(0, 4).Select(k => Make(k, rng.NextDouble(-12, 12)))]));
         }
     }
 }

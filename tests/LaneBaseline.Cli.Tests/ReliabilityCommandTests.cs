@@ -75,6 +75,104 @@ public sealed class ReliabilityCommandTests : IDisposable
         AssertOneLine(err, "error: " + folder + ": the output path is a folder; give a file name");
     }
 
+    // Item 13 (error after partial output). A file output that is an existing folder is refused before any work, so
+    // nothing reaches stdout and no work is wasted. Before: score printed its table and then failed, tune ran every
+    // trial and then failed, and merge and detect wrote nothing but read every input first.
+    [Theory]
+    [InlineData("score", "--json")]
+    [InlineData("score", "--csv")]
+    [InlineData("audit", "-o")]
+    [InlineData("merge", "-o")]
+    [InlineData("convert", "-o")]
+    [InlineData("detect", "-o")]
+    [InlineData("report", "-o")]
+    [InlineData("tune", "-o")]
+    [InlineData("bench", "--json")]
+    public void OutputPathIsAFolder_EveryCommand_Exit3BeforeAnyOutput(string command, string option)
+    {
+        string truth = Truth();
+        string frames = dir.File("frames");
+        Directory.CreateDirectory(frames);
+        using (var black = new Mat(360, 640, MatType.CV_8UC3, Scalar.All(0)))
+        {
+            Cv2.ImWrite(Path.Combine(frames, "a.png"), black);
+        }
+
+        string scoreJson = dir.File("score.json");
+        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", truth, "--json", scoreJson, "--bootstrap", "0").Exit);
+        string folder = dir.File("out");
+        Directory.CreateDirectory(folder);
+        string[] args = command switch
+        {
+            "score" => ["score", "--truth", truth, "--pred", truth, option, folder],
+            "audit" => ["audit", "--pred", truth, option, folder],
+            "merge" => ["merge", truth, option, folder],
+            "convert" => ["convert", truth, "--to", "openlabel", option, folder],
+            "detect" => ["detect", frames, option, folder],
+            "report" => ["report", "--score", scoreJson, option, folder],
+            "tune" => ["tune", "--frames", frames, "--truth", truth, "--budget", "2", "--holdout", "0", "--allow-overlap", option, folder],
+            _ => ["bench", "--render", "1", "--size", "128x64", "--warmup", "0", "--passes", "1", option, folder],
+        };
+        (int exit, string stdout, string err) = CliRunner.Run(args);
+        Assert.Equal(3, exit);
+        Assert.Equal(string.Empty, stdout);
+        AssertOneLine(err, "error: " + folder + ": the output path is a folder; give a file name");
+        Assert.Empty(Directory.GetFileSystemEntries(folder));
+    }
+
+    // Issue 17 item 5 for tune and bench: an output that is an input, or one file named by two outputs (the preset
+    // and its trial log), is a usage error before any work, and the input is left as it was. Before: tune
+    // overwrote its truth, its search space or its own trial log, and bench overwrote its frame list or preset.
+    [Theory]
+    [InlineData("tune-truth", "--truth")]
+    [InlineData("tune-space", "--space")]
+    [InlineData("tune-log", "-o")]
+    [InlineData("bench-frames", "--frames")]
+    [InlineData("bench-config", "--config")]
+    public void TuneAndBench_OutputIsAnInput_Exit2BeforeAnyWork(string when, string inputOption)
+    {
+        string truth = Truth();
+        string frames = dir.File("frames");
+        Directory.CreateDirectory(frames);
+        using (var black = new Mat(360, 640, MatType.CV_8UC3, Scalar.All(0)))
+        {
+            Cv2.ImWrite(Path.Combine(frames, "a.png"), black);
+        }
+
+        string list = dir.File("frames.txt");
+        File.WriteAllText(list, Path.Combine(frames, "a.png") + "\n");
+        string space = dir.File("space.yaml");
+        File.WriteAllText(space, "parameters:\n  - key: color.minSaturation\n    min: 10\n    max: 60\n");
+        string preset = dir.File("preset.yaml");
+        File.WriteAllText(preset, "tracking:\n  enabled: false\n");
+        // the trial log of -o P is P.trials.jsonl: for "tune-log" the truth is that file
+        string logTruth = dir.File("p.trials.jsonl");
+        File.Copy(truth, logTruth);
+        string[] tune = ["tune", "--frames", frames, "--truth", when == "tune-log" ? logTruth : truth, "--budget", "2", "--holdout", "0", "--allow-overlap"];
+        string[] args = when switch
+        {
+            "tune-truth" => [.. tune, "-o", truth],
+            "tune-space" => [.. tune, "--space", space, "-o", space],
+            "tune-log" => [.. tune, "-o", dir.File("p")],
+            "bench-frames" => ["bench", "--frames", list, "--json", list],
+            _ => ["bench", "--config", preset, "--json", preset],
+        };
+        string victim = when switch
+        {
+            "tune-truth" => truth,
+            "tune-space" => space,
+            "tune-log" => logTruth,
+            "bench-frames" => list,
+            _ => preset,
+        };
+        byte[] before = File.ReadAllBytes(victim);
+        (int exit, string stdout, string err) = CliRunner.Run(args);
+        Assert.Equal(2, exit);
+        Assert.Equal(string.Empty, stdout);
+        Assert.Contains(when == "tune-log" ? "would overwrite the input given as --truth" : "would overwrite the input given as " + inputOption, err, StringComparison.Ordinal);
+        Assert.Equal(before, File.ReadAllBytes(victim));
+    }
+
     // Item 13. Before: a full disk surfaced as "internal error: IOException" (exit 1). /dev/full answers every
     // write with ENOSPC (Linux man page full(4)).
     [Fact]

@@ -70,6 +70,8 @@ internal static class BenchCommand
                 throw new UsageException("--max-frames must be at least 1");
             }
 
+            string configText = parse.GetValue(config)!;
+            OutputPaths.Check([("--frames", framesPath), ("--config", File.Exists(configText) ? configText : null)], [("--json", parse.GetValue(json))]);
             var request = new BenchRequest
             {
                 FramesPath = framesPath,

@@ -32,12 +32,13 @@ internal static class ConvertCommand
         {
             string inPath = RunContext.Input(parseResult.GetRequiredValue(input));
             string outPath = SharedOptions.GetOutput(parseResult, output, legacyOut, stderr)!;
-            OutputPaths.Check([("INPUT", inPath), ("--reference", parseResult.GetValue(reference))], [("--output", outPath)]);
             string format = (parseResult.GetValue(to) ?? InferFormat(outPath)).ToLowerInvariant();
             if (format is not ("lanes" or "masks" or "openlabel"))
             {
                 throw new UsageException("--to must be lanes, masks or openlabel");
             }
+
+            OutputPaths.Check([("INPUT", inPath), ("--reference", parseResult.GetValue(reference))], [("--output", outPath)], outputsAreFiles: format != "masks");
 
             if (format == "masks" && StandardStreams.IsDash(outPath))
             {

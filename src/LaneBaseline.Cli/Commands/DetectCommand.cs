@@ -88,8 +88,8 @@ internal static class DetectCommand
             string configText = parse.GetValue(config)!;
             (string, string?)[] inputs = [("--frames", input), ("--camera", parse.GetValue(camera)), ("--config", File.Exists(configText) ? configText : null)];
             OutputPaths.Check(inputs, [("-o", outputPath), ("-o (its configuration)", StandardStreams.IsDash(outputPath) ? null : DetectRunner.ConfigPathFor(outputPath))]);
-            OutputPaths.Check(inputs, [("--overlays", parse.GetValue(overlays))]);
-            OutputPaths.Check(inputs, [("--stages", parse.GetValue(stagesDir))]);
+            OutputPaths.Check(inputs, [("--overlays", parse.GetValue(overlays))], outputsAreFiles: false);
+            OutputPaths.Check(inputs, [("--stages", parse.GetValue(stagesDir))], outputsAreFiles: false);
             (int k, int total) = ParseShard(parse.GetValue(shard));
             var request = new DetectRequest
             {

@@ -105,7 +105,7 @@ internal sealed partial class DetectRunner
                     Width = frame.Cols,
                     Height = frame.Rows,
                     Lanes = result.Lanes,
-                    ExtraJson = [new KeyValuePair<string, string>("config", configJson)],
+                    ExtraJson = extraJson,
                 };
                 WriteImages(runner.Pipeline.Workspace!, w.Item);
             });

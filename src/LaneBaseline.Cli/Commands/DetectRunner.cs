@@ -27,6 +27,9 @@ internal sealed partial class DetectRunner
     private readonly string configHash;
     private readonly string configJson;
 
+    /// <summary>The keys detect adds to every record: the configuration hash and, for <c>--shard K/N</c>, the shard (read by merge).</summary>
+    private readonly KeyValuePair<string, string>[] extraJson;
+
     public DetectRunner(DetectRequest request, TextWriter stderr)
     {
         this.request = request;
@@ -36,6 +39,9 @@ internal sealed partial class DetectRunner
             : "sha256:" + Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(
                 Encoding.UTF8.GetBytes(PresetLoader.ToYaml(request.Options) + "\n" + request.Camera.ToJson())).AsSpan(0, 8));
         configJson = "\"" + configHash + "\"";
+        extraJson = request.ShardCount > 1
+            ? [new("config", configJson), new("shard", "\"" + new ShardSpec(request.ShardIndex, request.ShardCount).ToString() + "\"")]
+            : [new("config", configJson)];
     }
 
     /// <summary>Path of the effective-configuration file written beside a lane file: <c>X.lanes.jsonl</c> → <c>X.config.yaml</c>.</summary>

@@ -6,6 +6,7 @@ using LaneBaseline.Cli.Reports;
 using LaneBaseline.Core;
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Metrics.Coverage;
 using LaneBaseline.Core.Sharding;
 using LaneBaseline.Reporting.Score;
 using LaneBaseline.Vision.Masks;

@@ -1,4 +1,5 @@
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Metrics.Coverage;
 
 namespace LaneBaseline.Cli.Commands;
 

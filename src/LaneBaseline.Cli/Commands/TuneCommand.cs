@@ -67,6 +67,14 @@ internal static class TuneCommand
                 throw new UsageException("--holdout must be a fraction in [0, 1)");
             }
 
+            string outPath = parse.GetValue(output)!;
+            string configText = parse.GetValue(config)!;
+            // --calibrate may write the calibration into the preset it read (-o P --config P): the preset is read
+            // whole before the output is committed atomically, and updating a preset in place is its purpose.
+            bool inPlace = parse.GetValue(calibrate);
+            OutputPaths.Check(
+                [("--frames", parse.GetValue(frames)), ("--truth", parse.GetValue(truth)), ("--space", parse.GetValue(space)), ("--config", File.Exists(configText) && !inPlace ? configText : null), ("--holdout-truth", second)],
+                [("-o", outPath), ("-o (its trial log)", parse.GetValue(calibrate) ? null : TuneRunner.LogPathFor(outPath))]);
             var request = new TuneRequest
             {
                 Frames = parse.GetValue(frames)!,

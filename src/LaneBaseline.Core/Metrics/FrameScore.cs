@@ -1,3 +1,5 @@
+using LaneBaseline.Core.Metrics.Ground;
+
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>The scores of one frame: the counts every aggregate and bootstrap resample is built from.</summary>

@@ -1,4 +1,5 @@
 using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Core.Metrics.Ground;
 
 namespace LaneBaseline.Core.Metrics;
 

@@ -2,6 +2,8 @@ using System.Globalization;
 using System.Text.Encodings.Web;
 using System.Text.Json;
 
+using LaneBaseline.Core.Metrics.Ground;
+
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>Bootstrap results for a run: per-system intervals and paired differences.</summary>
@@ -182,7 +184,8 @@ public static class ScoreJsonWriter
         return s.Contains('.', StringComparison.Ordinal) || s.Contains('E', StringComparison.Ordinal) ? s : s + ".0";
     }
 
-    private static void WriteFloat(Utf8JsonWriter json, double value)
+    /// <summary>Writes a metric at full precision (<see cref="FormatFloat"/>), or null when it is not finite.</summary>
+    internal static void WriteFloat(Utf8JsonWriter json, double value)
     {
         if (double.IsFinite(value))
         {
@@ -205,29 +208,7 @@ public static class ScoreJsonWriter
     private static void WriteSystemBody(Utf8JsonWriter json, SystemScore system, int index, ScoreSettings settings, BootstrapResult? bootstrap)
     {
         WriteTally(json, system.Overall, settings, includeFrames: true);
-        if (system.Coverage is { } cov)
-        {
-            json.WriteStartObject("coverage");
-            json.WriteNumber("truth_frames", cov.TruthFrames);
-            json.WriteNumber("pred_frames", cov.PredFrames);
-            json.WriteNumber("missing", cov.Missing);
-            json.WriteNumber("extra", cov.Extra);
-            json.WriteStartArray("first_missing");
-            foreach (string k in cov.FirstMissing)
-            {
-                json.WriteStringValue(k);
-            }
-
-            json.WriteEndArray();
-            json.WriteStartArray("first_extra");
-            foreach (string k in cov.FirstExtra)
-            {
-                json.WriteStringValue(k);
-            }
-
-            json.WriteEndArray();
-            json.WriteEndObject();
-        }
+        system.Coverage?.WriteJson(json, "coverage");
 
         if (bootstrap is not null && bootstrap.Resamples > 0)
         {
@@ -336,47 +317,7 @@ public static class ScoreJsonWriter
         json.WriteEndObject();
         if (tally.Ground is { } g)
         {
-            WriteGround(json, g);
-        }
-    }
-
-    private static void WriteGround(Utf8JsonWriter json, GroundTally g)
-    {
-        json.WriteStartObject("ground");
-        json.WriteString("pairs", "true positives at IoU 0.50");
-        json.WriteStartObject("lateral_abs_error_m");
-        for (int k = 0; k < g.LateralCount.Length; k++)
-        {
-            json.WriteStartObject(GroundErrors.DefaultLookAheadM[k].ToString("0.##", CultureInfo.InvariantCulture));
-            json.WriteNumber("pairs", g.LateralCount[k]);
-            json.WritePropertyName("mean");
-            WriteMean(json, g.LateralAbsSumM[k], g.LateralCount[k]);
-            json.WriteEndObject();
-        }
-
-        json.WriteEndObject();
-        json.WriteStartObject("ego_width_abs_error_m");
-        json.WriteNumber("frames", g.EgoWidthFrames);
-        json.WritePropertyName("mean");
-        WriteMean(json, g.EgoWidthAbsSumM, g.EgoWidthFrames);
-        json.WriteEndObject();
-        json.WriteStartObject("curvature_abs_error_per_m");
-        json.WriteNumber("pairs", g.CurvatureCount);
-        json.WritePropertyName("mean");
-        WriteMean(json, g.CurvatureAbsSum, g.CurvatureCount);
-        json.WriteEndObject();
-        json.WriteEndObject();
-    }
-
-    private static void WriteMean(Utf8JsonWriter json, double sum, long count)
-    {
-        if (count == 0)
-        {
-            json.WriteNullValue();
-        }
-        else
-        {
-            WriteFloat(json, sum / count);
+            g.WriteJson(json);
         }
     }
 

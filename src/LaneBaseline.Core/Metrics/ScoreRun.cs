@@ -1,5 +1,6 @@
 using System.Globalization;
 using LaneBaseline.Core.LaneFiles;
+using LaneBaseline.Core.Metrics.Coverage;
 
 namespace LaneBaseline.Core.Metrics;
 
@@ -104,10 +105,12 @@ public sealed class ScoreRun
         var sizes = new List<(int W, int H)>();
         var truthRequest = new LaneSourceRequest { SizeRequired = true };
         var tagNames = new HashSet<string>(StringComparer.Ordinal);
+        var cache = new RecordCache(systems.Count, KeepPoints);
         using (ILaneRecordSource truth = Opener(truthPath, truthRequest))
         {
             while (truth.TryRead(out LaneRecord r))
             {
+                cache.KeepTruth(r);
                 if (settings.Camera is { } cam && (cam.ImageWidth != r.Width || cam.ImageHeight != r.Height))
                 {
                     throw BadInputException.At(truthPath, r.LineNumber, "width", string.Create(
@@ -147,7 +150,7 @@ public sealed class ScoreRun
         var coverage = new FrameCoverage[systems.Count];
         for (int s = 0; s < systems.Count; s++)
         {
-            (predicted[s], coverage[s]) = ValidatePredictions(Opener, predRequest, systems[s].Path, truthIndex, sizes, OnNote);
+            (predicted[s], coverage[s]) = ValidatePredictions(Opener, predRequest, systems[s].Path, truthIndex, sizes, OnNote, cache, s);
         }
 
         for (int s = 0; s < systems.Count; s++)
@@ -172,6 +175,7 @@ public sealed class ScoreRun
         var rasterizers = new ILaneRasterizer[workers];
         var scorers = new FrameScorer[workers];
         var readers = new List<ILaneRecordSource>();
+        LaneRecord? t0 = null;
         try
         {
             for (int w = 0; w < workers; w++)
@@ -180,9 +184,15 @@ public sealed class ScoreRun
                 scorers[w] = new FrameScorer(rasterizers[w], settings);
             }
 
-            using ILaneRecordSource truth = Opener(truthPath, truthRequest);
-            var joiners = new PredictionJoiner[systems.Count];
-            for (int s = 0; s < systems.Count; s++)
+            // Inputs kept by pass 1 are not read again; the others are streamed a second time.
+            ILaneRecordSource? truth = cache.Kept ? null : Opener(truthPath, truthRequest);
+            if (truth is not null)
+            {
+                readers.Add(truth);
+            }
+
+            var joiners = new PredictionJoiner?[systems.Count];
+            for (int s = 0; s < systems.Count && !cache.Kept; s++)
             {
                 ILaneRecordSource r = Opener(systems[s].Path, predRequest);
                 readers.Add(r);
@@ -193,12 +203,13 @@ public sealed class ScoreRun
             var scored = new FrameScore[BatchSize][];
             long done = 0;
             int ordinal = 0;
-            while (truth.TryRead(out LaneRecord t))
+            while (truth is null ? ordinal < cache.Truth.Count : truth.TryRead(out t0))
             {
+                LaneRecord t = truth is null ? cache.Truth[ordinal] : t0!;
                 var preds = new LaneRecord?[systems.Count];
                 for (int s = 0; s < systems.Count; s++)
                 {
-                    preds[s] = joiners[s].Take(ordinal);
+                    preds[s] = joiners[s] is { } joiner ? joiner.Take(ordinal) : cache.Predictions[s]?[ordinal];
                 }
 
                 if (Shard is not { } shard || shard.ContainsFrame(t.Frame))
@@ -311,7 +322,7 @@ public sealed class ScoreRun
     }
 
     private (HashSet<int> Present, FrameCoverage Coverage) ValidatePredictions(
-        LaneSourceOpener opener, LaneSourceRequest request, string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes, Action<string>? note)
+        LaneSourceOpener opener, LaneSourceRequest request, string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes, Action<string>? note, RecordCache cache, int system)
     {
         var present = new HashSet<int>();
         var firstExtra = new List<string>(FrameCoverage.Examples);
@@ -354,6 +365,7 @@ public sealed class ScoreRun
             }
 
             present.Add(ordinal);
+            cache.KeepPrediction(system, ordinal, r, truthIndex.Count);
         }
 
         if (reader.RecordCount == 0)
@@ -409,6 +421,74 @@ public sealed class ScoreRun
         }
 
         return coverage;
+    }
+
+    /// <summary>
+    /// Most lane points (truth and every prediction file together) that pass 1 keeps in memory for pass 2, so inputs
+    /// of up to about this size are parsed once (16 bytes a point plus the records: roughly 100 MB at the limit); larger
+    /// inputs are streamed a second time, so memory stays bounded whatever the number of frames.
+    /// </summary>
+    public const long KeepBudgetPoints = 4_000_000;
+
+    /// <summary>Point budget of the records kept by pass 1 (<see cref="KeepBudgetPoints"/>; 0 streams every input twice).</summary>
+    public long KeepPoints { get; init; } = KeepBudgetPoints;
+
+    /// <summary>
+    /// The records pass 1 has validated, kept so pass 2 need not parse the inputs again, while they fit the point
+    /// budget; once they do not, everything kept is dropped and pass 2 streams the files again.
+    /// </summary>
+    private sealed class RecordCache(int systems, long budgetPoints)
+    {
+        private long points;
+
+        public List<LaneRecord> Truth { get; } = [];
+
+        public LaneRecord?[][] Predictions { get; } = new LaneRecord?[systems][];
+
+        /// <summary>Whether every input was kept whole (false once the budget was exceeded).</summary>
+        public bool Kept { get; private set; } = budgetPoints > 0;
+
+        public void KeepTruth(LaneRecord r)
+        {
+            if (Charge(r))
+            {
+                Truth.Add(r);
+            }
+        }
+
+        public void KeepPrediction(int system, int ordinal, LaneRecord r, int truthFrames)
+        {
+            if (Charge(r))
+            {
+                (Predictions[system] ??= new LaneRecord?[truthFrames])[ordinal] = r;
+            }
+        }
+
+        /// <summary>Adds a record's points to the total; false (and everything dropped) when over budget.</summary>
+        private bool Charge(LaneRecord r)
+        {
+            if (!Kept)
+            {
+                return false;
+            }
+
+            points += 1;
+            foreach (Lane lane in r.Lanes)
+            {
+                points += lane.Points.Count;
+            }
+
+            if (points <= budgetPoints)
+            {
+                return true;
+            }
+
+            Kept = false;
+            Truth.Clear();
+            Truth.TrimExcess();
+            Array.Clear(Predictions);
+            return false;
+        }
     }
 
     /// <summary>Joins a prediction file to truth order, buffering only out-of-order records.</summary>

@@ -1,3 +1,5 @@
+using LaneBaseline.Core.Metrics.Ground;
+
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>Sums of per-frame counts over a set of frames (all frames, or the frames of one tag).</summary>
@@ -126,52 +128,6 @@ public sealed class ScoreTally
 
     /// <summary>Unmatched truth lanes / truth lanes.</summary>
     public double PointFnRate => Metrics.Ratio(TruthLanes - PointMatched, TruthLanes);
-}
-
-/// <summary>Sums of metric-space errors over frames.</summary>
-public sealed class GroundTally
-{
-    internal GroundTally(int distances)
-    {
-        LateralAbsSumM = new double[distances];
-        LateralCount = new long[distances];
-    }
-
-    /// <summary>Σ |ΔY| per look-ahead distance, metres.</summary>
-    public double[] LateralAbsSumM { get; }
-
-    /// <summary>Pairs per look-ahead distance.</summary>
-    public long[] LateralCount { get; }
-
-    /// <summary>Σ |ΔW| of the ego lane, metres.</summary>
-    public double EgoWidthAbsSumM { get; private set; }
-
-    /// <summary>Frames with an ego width on both sides.</summary>
-    public long EgoWidthFrames { get; private set; }
-
-    /// <summary>Σ |Δκ|, 1/m.</summary>
-    public double CurvatureAbsSum { get; private set; }
-
-    /// <summary>Pairs with curvature on both sides.</summary>
-    public long CurvatureCount { get; private set; }
-
-    internal void Add(FrameGroundErrors g)
-    {
-        for (int k = 0; k < LateralCount.Length; k++)
-        {
-            LateralAbsSumM[k] += g.LateralAbsSumM[k];
-            LateralCount[k] += g.LateralCount[k];
-        }
-
-        if (!double.IsNaN(g.EgoWidthAbsErrorM))
-        {
-            EgoWidthAbsSumM += g.EgoWidthAbsErrorM;
-            EgoWidthFrames++;
-        }
-
-        CurvatureAbsSum += g.CurvatureAbsSum;
-        CurvatureCount += g.CurvatureCount;
-    }
 }
 
 /// <summary>TP/FP/FN and the rates derived from them.</summary>

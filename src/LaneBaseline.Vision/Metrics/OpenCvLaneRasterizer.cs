@@ -167,24 +167,30 @@ public sealed class OpenCvLaneRasterizer : ILaneRasterizer, IDisposable
             Point p = points[k], q = points[k + 1];
             int ya = Math.Min(p.Y, q.Y), yb = Math.Max(p.Y, q.Y);
             int from = Math.Max(top, ya - reach), to = Math.Min(bottom, yb + reach);
-            for (int y = from; y <= to; y++)
+            int segLo = Math.Min(p.X, q.X), segHi = Math.Max(p.X, q.X);
+            if (p.Y == q.Y || segHi - segLo <= 2 * reach)
             {
-                double lo, hi;
-                if (p.Y == q.Y)
+                // A horizontal or short segment: its whole x-range (a window at most 2·reach wider than the exact one,
+                // which costs less to scan than it costs to compute).
+                int lo = segLo - reach, hi = segHi + reach + 1;
+                for (int r = from - top; r <= to - top; r++)
                 {
-                    (lo, hi) = (Math.Min(p.X, q.X), Math.Max(p.X, q.X));
-                }
-                else
-                {
-                    double a = Math.Max(ya, y - reach), b = Math.Min(yb, y + reach);
-                    double xa = p.X + ((q.X - p.X) * (a - p.Y) / (q.Y - p.Y));
-                    double xb = p.X + ((q.X - p.X) * (b - p.Y) / (q.Y - p.Y));
-                    (lo, hi) = (Math.Min(xa, xb), Math.Max(xa, xb));
+                    rowLo[r] = Math.Min(rowLo[r], lo);
+                    rowHi[r] = Math.Max(rowHi[r], hi);
                 }
 
+                continue;
+            }
+
+            double slope = (double)(q.X - p.X) / (q.Y - p.Y); // x per row
+            for (int y = from; y <= to; y++)
+            {
+                double a = Math.Max(ya, y - reach), b = Math.Min(yb, y + reach);
+                double xa = p.X + (slope * (a - p.Y));
+                double xb = p.X + (slope * (b - p.Y));
                 int r = y - top;
-                rowLo[r] = Math.Min(rowLo[r], (int)Math.Floor(lo) - reach);
-                rowHi[r] = Math.Max(rowHi[r], (int)Math.Ceiling(hi) + reach + 1);
+                rowLo[r] = Math.Min(rowLo[r], (int)Math.Floor(Math.Min(xa, xb)) - reach - 1);
+                rowHi[r] = Math.Max(rowHi[r], (int)Math.Ceiling(Math.Max(xa, xb)) + reach + 2);
             }
         }
 

@@ -122,6 +122,50 @@ public sealed class DetectCommandTests : IDisposable
         Assert.Equal(2, Run("detect", frames, "-o", Path.Combine(dir, "x.jsonl"), "--shard", "2/2").Code);
     }
 
+    // Issue 17 item 3: the lane files of detect --shard name their shard ("shard":"K/N" on every record, an extra
+    // key the lane-file format permits), so merge refuses a missing shard, a shard given twice and shards of two
+    // presets (exit 3, nothing written), and a spec-following reader still reads every shard. Before, merge of
+    // shards 0 and 2 of 3 wrote a lane file silently missing a third of the frames.
+    [Fact]
+    public void Detect_ShardLaneFiles_MergeRefusesMissingDuplicatedAndMixedShards()
+    {
+        string frames = Path.Combine(dir, "drives");
+        for (int s = 0; s < 8; s++)
+        {
+            Directory.CreateDirectory(Path.Combine(frames, "drive" + s));
+            using Mat m = new SyntheticRoad { Width = 320, Height = 180, Seed = (ulong)(s + 1) }.Render();
+            Cv2.ImWrite(Path.Combine(frames, "drive" + s, "000000.png"), m);
+        }
+
+        string[] parts = [.. Enumerable.Range(0, 3).Select(k => Path.Combine(dir, $"m-s{k}.lanes.jsonl"))];
+        for (int k = 0; k < 3; k++)
+        {
+            Assert.Equal(0, Run("detect", frames, "-o", parts[k], "--shard", $"{k}/3").Code);
+            foreach (LaneRecord r in LaneFileReader.ReadTruth(parts[k]))
+            {
+                Assert.Contains(r.ExtraJson, kv => kv.Key == "shard" && kv.Value == $"\"{k}/3\"");
+            }
+        }
+
+        Assert.All(parts, p => Assert.True(new FileInfo(p).Length > 0, "each of the 3 shards holds frames"));
+        string merged = Path.Combine(dir, "m.lanes.jsonl");
+        (int code, _, string err) = Run("merge", parts[0], parts[2], "-o", merged);
+        Assert.Equal(3, code);
+        Assert.Contains("shards 1 of 3 are missing", err, StringComparison.Ordinal);
+        (code, _, err) = Run("merge", parts[0], parts[1], parts[1], parts[2], "-o", merged);
+        Assert.Equal(3, code);
+        Assert.Contains("shard 1/3 is given twice", err, StringComparison.Ordinal);
+        Assert.False(File.Exists(merged));
+
+        string other = Path.Combine(dir, "m-s1-low.lanes.jsonl");
+        Assert.Equal(0, Run("detect", frames, "-o", other, "--config", "low-light", "--shard", "1/3").Code);
+        (code, _, err) = Run("merge", parts[0], other, parts[2], "-o", merged);
+        Assert.Equal(3, code);
+        Assert.Contains("one preset", err, StringComparison.Ordinal);
+        Assert.False(File.Exists(merged));
+        Assert.DoesNotContain("   at ", err, StringComparison.Ordinal);
+    }
+
     // Issue requirement: detect shards must not split tracked sequences. With tracking on, every frame depends on the
     // frames before it in its sequence, so merged shards equal the unsharded run only when each shard holds whole
     // sequences (with the former frame-key hash, the 2- and 3-shard merges differed from the unsharded file).

@@ -69,6 +69,43 @@ public sealed class ReliabilityTally
         return ([.. s], [.. h]);
     }
 
+    /// <summary>
+    /// Writes a frame's scored lanes to its entry in a shard state's frame line: <c>ps</c> the scores, <c>ph</c> 1 for a
+    /// true positive (both absent when no lane carries a score).
+    /// </summary>
+    public static void WriteFrameState(Utf8JsonWriter json, FrameScore frame)
+    {
+        ArgumentNullException.ThrowIfNull(json);
+        ArgumentNullException.ThrowIfNull(frame);
+        if (frame.LaneScores.Length > 0)
+        {
+            json.WriteStartArray("ps"); // scored lanes: score and outcome (calibration metric)
+            foreach (double v in frame.LaneScores)
+            {
+                json.WriteRawValue(v.ToString("R", CultureInfo.InvariantCulture));
+            }
+
+            json.WriteEndArray();
+            json.WriteStartArray("ph");
+            foreach (bool v in frame.LaneHits)
+            {
+                json.WriteNumberValue(v ? 1 : 0);
+            }
+
+            json.WriteEndArray();
+        }
+    }
+
+    /// <summary>Reads what <see cref="WriteFrameState"/> wrote (empty arrays when absent); the caller checks the counts.</summary>
+#pragma warning disable IDISP004 // JsonElement array enumerators own no resources
+    public static (double[] Scores, bool[] Hits) ReadFrameState(JsonElement s)
+    {
+        double[] laneScores = s.TryGetProperty("ps", out JsonElement ps) ? [.. ps.EnumerateArray().Select(v => v.GetDouble())] : [];
+        bool[] laneHits = s.TryGetProperty("ph", out JsonElement ph) ? [.. ph.EnumerateArray().Select(v => v.GetInt32() != 0)] : [];
+        return (laneScores, laneHits);
+    }
+#pragma warning restore IDISP004
+
     /// <summary>Adds one frame.</summary>
     public void Add(FrameScore frame)
     {

@@ -1,4 +1,4 @@
-namespace LaneBaseline.Core.Metrics;
+namespace LaneBaseline.Core.Metrics.Coverage;
 
 /// <summary>What <c>score</c> does with truth frames that have no prediction record (<c>--missing</c>).</summary>
 public enum MissingFramePolicy
@@ -33,6 +33,54 @@ public sealed record FrameCoverage(int TruthFrames, int PredFrames, int Missing,
 {
     /// <summary>How many example keys a coverage keeps and a warning prints.</summary>
     public const int Examples = 5;
+
+    /// <summary>
+    /// Writes the coverage as one JSON object (named <paramref name="name"/>, or as an array element when null): the
+    /// same keys in the score JSON's <c>coverage</c> and in each entry of a shard state's <c>coverage</c> array.
+    /// </summary>
+    public void WriteJson(System.Text.Json.Utf8JsonWriter json, string? name = null)
+    {
+        ArgumentNullException.ThrowIfNull(json);
+        if (name is null)
+        {
+            json.WriteStartObject();
+        }
+        else
+        {
+            json.WriteStartObject(name);
+        }
+
+        json.WriteNumber("truth_frames", TruthFrames);
+        json.WriteNumber("pred_frames", PredFrames);
+        json.WriteNumber("missing", Missing);
+        json.WriteNumber("extra", Extra);
+        json.WriteStartArray("first_missing");
+        foreach (string k in FirstMissing)
+        {
+            json.WriteStringValue(k);
+        }
+
+        json.WriteEndArray();
+        json.WriteStartArray("first_extra");
+        foreach (string k in FirstExtra)
+        {
+            json.WriteStringValue(k);
+        }
+
+        json.WriteEndArray();
+        json.WriteEndObject();
+    }
+
+    /// <summary>Reads what <see cref="WriteJson"/> wrote.</summary>
+#pragma warning disable IDISP004 // JsonElement array enumerators own no resources
+    public static FrameCoverage ReadJson(System.Text.Json.JsonElement c) => new(
+        c.GetProperty("truth_frames").GetInt32(),
+        c.GetProperty("pred_frames").GetInt32(),
+        c.GetProperty("missing").GetInt32(),
+        c.GetProperty("extra").GetInt32(),
+        [.. c.GetProperty("first_missing").EnumerateArray().Select(k => k.GetString()!)],
+        [.. c.GetProperty("first_extra").EnumerateArray().Select(k => k.GetString()!)]);
+#pragma warning restore IDISP004
 
     /// <summary>The keys as one short list: <c>'a', 'b', … (+N more)</c>.</summary>
     public static string List(IReadOnlyList<string> keys, int total)

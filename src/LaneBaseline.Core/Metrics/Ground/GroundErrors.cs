@@ -1,7 +1,7 @@
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 
-namespace LaneBaseline.Core.Metrics;
+namespace LaneBaseline.Core.Metrics.Ground;
 
 /// <summary>
 /// Metric-space errors with a camera file: lanes are projected to the road plane (X forward, Y left, metres) and
