@@ -38,7 +38,6 @@ public sealed class ColorThresholdStage : IFrameStage
 {
     private readonly ColorOptions color;
     private readonly GradientOptions gradient;
-    private readonly Mat equalised = new();
     private readonly Mat equalisedBlur = new();
     private CLAHE? clahe;
 
@@ -519,11 +518,12 @@ public sealed class ColorThresholdStage : IFrameStage
     }
 
     /// <summary>
-    /// Contrast-limited adaptive histogram equalisation (Zuiderveld 1994) of the grey band, then the same Gaussian
-    /// blur as <see cref="GradientStage"/>, into the stage's own buffers: each tile's lightness histogram, clipped at
+    /// Contrast-limited adaptive histogram equalisation (Zuiderveld 1994) of the blurred grey band of
+    /// <see cref="GradientStage"/>, into the stage's own buffer: each tile's lightness histogram, clipped at
     /// <see cref="ColorOptions.ClaheClipLimit"/> times its mean bin count, is equalised and the mappings of the four
     /// nearest tiles are interpolated bilinearly, which stretches the faint local contrast of paint in a dark scene
-    /// without the noise blow-up of plain equalisation.
+    /// without the noise blow-up of plain equalisation. It maps the already blurred band (a smooth, locally monotone
+    /// mapping nearly commutes with the blur), so the band is neither copied nor blurred a second time.
     /// </summary>
     private void Equalise(FrameWorkspace workspace)
     {
@@ -531,27 +531,13 @@ public sealed class ColorThresholdStage : IFrameStage
         int tilesAcross = color.ClaheTilesAcross;
         int tilesDown = Math.Max(1, (int)Math.Round(tilesAcross * (double)bandHeight / workspace.Width));
         clahe ??= Cv2.CreateCLAHE(color.ClaheClipLimit, new Size(tilesAcross, tilesDown));
-        using (Mat band = workspace.Gray.RowRange(workspace.BandTop, workspace.Height))
-        {
-            clahe.Apply(band, equalised);
-        }
-
-        int k = gradient.BlurKernelPx;
-        if (k > 1)
-        {
-            Cv2.GaussianBlur(equalised, equalisedBlur, new Size(k, k), 0);
-        }
-        else
-        {
-            equalised.CopyTo(equalisedBlur);
-        }
+        clahe.Apply(workspace.Blurred, equalisedBlur);
     }
 
     /// <inheritdoc />
     public void Dispose()
     {
         clahe?.Dispose();
-        equalised.Dispose();
         equalisedBlur.Dispose();
     }
 }
