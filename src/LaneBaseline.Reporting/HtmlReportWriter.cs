@@ -774,9 +774,17 @@ public static class HtmlReportWriter
         return sb.Append("</td>").ToString();
     }
 
-    /// <summary>Fixed-precision invariant text; "–" for a missing (NaN) value.</summary>
-    internal static string F(double value, string format) =>
-        double.IsFinite(value) ? value.ToString(format, CultureInfo.InvariantCulture) : "–";
+    /// <summary>Fixed-precision invariant text; "–" for a missing (NaN) value; no minus sign on a value that rounds to zero ("-0.000").</summary>
+    internal static string F(double value, string format)
+    {
+        if (!double.IsFinite(value))
+        {
+            return "–";
+        }
+
+        string s = value.ToString(format, CultureInfo.InvariantCulture);
+        return s.Length > 1 && s[0] == '-' && s.AsSpan(1).IndexOfAnyExcept("0.") < 0 ? s[1..] : s;
+    }
 
     /// <summary>Round-trip invariant text for data attributes; empty for NaN.</summary>
     internal static string R(double value) =>

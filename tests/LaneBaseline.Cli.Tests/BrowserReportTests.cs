@@ -16,7 +16,7 @@ public sealed class BrowserReportTests : IDisposable
 
     public void Dispose() => dir.Dispose();
 
-    [Fact]
+    [ChromiumFact]
     public void Chromium_LoadsReport_DomHasEveryChartAndTable_AndScreenshotIsAPicture()
     {
         var scene = new ReportScene(dir);

@@ -18,13 +18,13 @@ public sealed partial class ScorePageScenarioTests : IDisposable
 
     public void Dispose() => dir.Dispose();
 
-    private static string Samples => Path.Combine(RepoPaths.Root, "sample-frames");
+    internal static string Samples => Path.Combine(RepoPaths.Root, "sample-frames");
 
     // The "baseline" is the truth shifted 2 px right (every lane found at IoU 0.50). The "network" is the truth except:
     // lap-0003 drops its last lane (a miss per frame), lap-0005 shifts every lane 60 px (a miss and a false positive
     // each), the file stops before lap-0010 (4 frames missing: an inference run that crashed) and ends with two frames
     // of a lap nobody labelled (lap-0099). Source: issue "network against baseline", scenario of its "done when".
-    private (string Baseline, string Net, int TruthFrames) WriteSystems()
+    internal static (string Baseline, string Net, int TruthFrames) WriteSystems(TempDir dir)
     {
         var truth = new List<(string Frame, List<List<(double X, double Y)>> Lanes)>();
         foreach (string line in File.ReadLines(Path.Combine(Samples, "truth.lanes.jsonl")))
@@ -66,7 +66,7 @@ public sealed partial class ScorePageScenarioTests : IDisposable
     [Fact]
     public void TruncatedNetwork_ExtraFrames_Gallery_FailingGates_AndPageFromMemoryEqualsPageFromJson()
     {
-        (string baseline, string net, int truthFrames) = WriteSystems();
+        (string baseline, string net, int truthFrames) = WriteSystems(dir);
         Assert.Equal(44, truthFrames);
         string json = dir.File("score.json");
         string memoryPage = Path.Combine(dir.Path, "a", "page.html"), filePage = Path.Combine(dir.Path, "b", "page.html");

@@ -12,6 +12,16 @@ public sealed class VerdictAndTagKindTests
 
     private static ScoreDocument Parse(string json) => ScoreDocumentReader.Parse(Encoding.UTF8.GetBytes(json), "s.json");
 
+    // common practice (printed tables show no sign on zero): an interval bound that rounds to zero at the shown
+    // precision is printed "0.000", not "-0.000" (seen in a verdict's "[-0.383, -0.000]" before this check).
+    [Theory]
+    [InlineData(-0.0, "0.000")]
+    [InlineData(-0.0004, "0.000")]
+    [InlineData(-0.0006, "-0.001")]
+    [InlineData(0.0004, "0.000")]
+    [InlineData(-1.5, "-1.500")]
+    public void Numbers_RoundingToZero_HaveNoMinusSign(double value, string shown) => Assert.Equal(shown, HtmlReportWriter.F(value, "0.000"));
+
     private static string Render(ScoreDocument doc) => HtmlReportWriter.Render(new ReportInput { Score = doc, ScoreSource = "s.json", GeneratedAt = Noon });
 
     // HtmlReportWriterTests.TwoSystemsJson: F1@0.50 alpha 2/3, beta 0.9; paired alpha - beta: F1 diff -0.2333 with
