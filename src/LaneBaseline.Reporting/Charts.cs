@@ -204,6 +204,7 @@ internal static partial class Charts
         plot.Add.Bars(bars);
         bool crowded = CategoryTicks(plot, [.. Enumerable.Range(0, tags.Count).Select(t => (t * (n + 1)) + ((n - 1) / 2.0))], tags);
         AddSystemLegend(plot, systems);
+        plot.ShowLegend(Edge.Right); // beside the plot: inside it the legend covered the last tags' bars at F1 1.0
         plot.YLabel("F1 at IoU 0.50");
         plot.Axes.SetLimits(-0.8, (tags.Count * (n + 1)) - 1.2, 0, 1.0); // F1 ends at 1.0
         return ToSvg(plot, 900, crowded ? 480 : 400, idPrefix, "F1 at IoU 0.50 per tag");
@@ -251,6 +252,13 @@ internal static partial class Charts
         }
 
         plot.XLabel("Condition severity (render --sweep)");
+        var ticks = new ScottPlot.TickGenerators.NumericManual(); // one tick per rendered level, not one per 0.05
+        foreach ((double sev, _) in levels)
+        {
+            ticks.AddMajor(sev, sev.ToString("0.##", CultureInfo.InvariantCulture));
+        }
+
+        plot.Axes.Bottom.TickGenerator = ticks;
         plot.YLabel("F1 at IoU 0.50");
         double lo = Math.Min(0, levels.Min(l => l.Severity)), hi = Math.Max(1, levels.Max(l => l.Severity));
         plot.Axes.SetLimits(lo - 0.03, hi + 0.03, 0, 1.0); // F1 ends at 1.0
