@@ -189,11 +189,7 @@ public sealed class ColorThresholdStage : IFrameStage
 
             // Prefix sums of the blurred grey over the row span widened by the ridge reach.
             int a0 = Math.Max(0, x0 - (2 * d)), a1 = Math.Min(w - 1, x1 + (2 * d));
-            pre[a0] = 0;
-            for (int x = a0; x <= a1; x++)
-            {
-                pre[x + 1] = pre[x] + ridgeRow[x];
-            }
+            PrefixSums(ridgeRow, pre, a0, a1);
 
             // Ridge in integers: centreMean - sideMean >= thr  <=>  centreSum*ns - sideSum*nc >= thr*nc*ns.
             int nc = (2 * c) + 1, ns = d + 1;
@@ -215,13 +211,8 @@ public sealed class ColorThresholdStage : IFrameStage
 
             if (gradient.OrientationToleranceDeg < 90 || mirror)
             {
-                int before = 0;
-                for (int x = xs; x <= xe; x++)
-                {
-                    before += ev[x] != 0 ? 1 : 0;
-                }
-
-                evidenceBefore += before;
+                int span = xe - xs + 1;
+                evidenceBefore += span > 0 ? span - new ReadOnlySpan<byte>(ev + xs, span).Count((byte)0) : 0;
                 if (mirror)
                 {
                     evidenceCleared += SuppressUnderLights(workspace.LightRow, ev, y, x0, x1, d, w);
@@ -586,6 +577,37 @@ public sealed class ColorThresholdStage : IFrameStage
             bool white = l >= whiteThr;
             bool yellow = yellowish && l >= yellowL;
             ev[x] = ridge ? (white || yellow ? (byte)255 : (byte)160) : (yellow ? (byte)100 : (byte)0);
+        }
+    }
+
+    /// <summary>
+    /// pre[a0] = 0 and pre[x + 1] = pre[x] + row[x] for x in [a0, a1]: the running sum of the row, four pixels at a time
+    /// with an in-register scan where SSE4.1 is available (integer sums, so the same values either way).
+    /// </summary>
+    private static unsafe void PrefixSums(byte* row, int[] pre, int a0, int a1)
+    {
+        pre[a0] = 0;
+        int x = a0;
+        fixed (int* p = pre)
+        {
+            if (Sse41.IsSupported)
+            {
+                Vector128<int> carry = Vector128<int>.Zero;
+                for (; x + 3 <= a1; x += 4)
+                {
+                    Vector128<int> v = Sse41.ConvertToVector128Int32(Vector128.CreateScalarUnsafe(*(uint*)(row + x)).AsByte());
+                    v = Sse2.Add(v, Sse2.ShiftLeftLogical128BitLane(v, 4));
+                    v = Sse2.Add(v, Sse2.ShiftLeftLogical128BitLane(v, 8));
+                    v = Sse2.Add(v, carry);
+                    Sse2.Store(p + x + 1, v);
+                    carry = Sse2.Shuffle(v, 0xFF);
+                }
+            }
+
+            for (; x <= a1; x++)
+            {
+                p[x + 1] = p[x] + row[x];
+            }
         }
     }
 
