@@ -25,6 +25,7 @@ public sealed class FrameWorkspace : IDisposable
     private readonly Mat small = new Mat();
     private readonly Mat evidence = new Mat();
     private readonly Mat birdsEye = new Mat();
+    private bool grayAboveBand;
     private readonly Mat homographyMat = new Mat(3, 3, MatType.CV_64FC1, Scalar.All(0));
 
     internal FrameWorkspace(int width, int height, int birdsEyeWidth, int birdsEyeHeight, int bandTop, int maxSegments, double edgeScale)
@@ -114,8 +115,29 @@ public sealed class FrameWorkspace : IDisposable
     /// <summary>Timestamp of the current frame, in seconds.</summary>
     public double TimestampSeconds { get; internal set; }
 
-    /// <summary>Grey image of the frame (0.299 R + 0.587 G + 0.114 B).</summary>
-    public Mat Gray => gray;
+    /// <summary>Grey image of the frame (0.299 R + 0.587 G + 0.114 B). The gradient stage converts only the band
+    /// (rows <see cref="BandTop"/> and below); the rows above are converted on first use in the frame.</summary>
+    public Mat Gray
+    {
+        get
+        {
+            if (!grayAboveBand && BandTop > 0)
+            {
+                using Mat source = Frame.RowRange(0, BandTop);
+                using Mat rows = gray.RowRange(0, BandTop);
+                Cv2.CvtColor(source, rows, ColorConversionCodes.BGR2GRAY);
+            }
+
+            grayAboveBand = true;
+            return gray;
+        }
+    }
+
+    /// <summary>The grey buffer as the gradient stage fills it (band rows only, until <see cref="Gray"/> completes it).</summary>
+    internal Mat GrayBand => gray;
+
+    /// <summary>Whether the grey rows above the band belong to the current frame.</summary>
+    internal bool GrayAboveBandCurrent { set => grayAboveBand = value; }
 
     /// <summary>Blurred grey band (rows <see cref="BandTop"/> and below).</summary>
     public Mat Blurred => blurred;

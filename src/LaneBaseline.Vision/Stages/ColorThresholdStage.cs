@@ -56,6 +56,7 @@ public sealed class ColorThresholdStage : IFrameStage
     public string Name => "color";
 
     /// <inheritdoc />
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public unsafe void Process(FrameWorkspace workspace)
     {
         ArgumentNullException.ThrowIfNull(workspace);
@@ -399,6 +400,7 @@ public sealed class ColorThresholdStage : IFrameStage
     /// away from the vanishing point's column.
     /// </summary>
     /// <returns>The number of evidence pixels cleared.</returns>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private unsafe int SuppressOffAxisRuns(FrameWorkspace workspace, byte* ev, int y, int x0, int x1, int d)
     {
         int cleared = 0;
@@ -437,10 +439,10 @@ public sealed class ColorThresholdStage : IFrameStage
                 continue;
             }
             // The window spans the run and both its edges (where the gradients are), sampling at most ~13 columns.
-            int xa = Math.Max(1, start - 2), xb = Math.Min(w - 2, end + 2), colStep = Math.Max(1, (xb - xa) / 12);
+            int xa = Math.Max(1, start - 2), xb = Math.Min(w - 2, end + 2), colStep = Math.Max(1, (xb - xa) / 12), rowStep = Math.Max(1, (yb - ya) / 6);
             // Integer sums (exact, so the same as summing in doubles), converted once.
             long ixx = 0, iyy = 0, ixy = 0;
-            for (int yy = ya; yy <= yb; yy++)
+            for (int yy = ya; yy <= yb; yy += rowStep)
             {
                 byte* s = blurBase + ((yy - bandTop) * blurStep);
                 byte* up = s - blurStep, down = s + blurStep;
@@ -496,10 +498,11 @@ public sealed class ColorThresholdStage : IFrameStage
     /// (AVX2: the prefix-sum differences as 32-bit integers, the B, G, R bytes gathered by byte shuffles) and leaves
     /// the pixels that pass either test to the same per-pixel code as <see cref="Scalar"/>, so both give identical evidence.
     /// </summary>
-    private readonly unsafe ref struct RowKernel(byte* row, byte* ev, int[] pre, int c, int d, int nc, int ns, long thrScaled,
+    internal readonly unsafe ref struct RowKernel(byte* row, byte* ev, int[] pre, int c, int d, int nc, int ns, long thrScaled,
         int gainB, int gainG, int gainR, int yellowMin, double whiteThr, double yellowL)
     {
         /// <summary>Per-pixel tests over [from, to].</summary>
+        [MethodImpl(MethodImplOptions.AggressiveOptimization)]
         public void Scalar(int from, int to)
         {
             for (int x = from; x <= to; x++)
@@ -513,6 +516,7 @@ public sealed class ColorThresholdStage : IFrameStage
         }
 
         /// <summary>Eight pixels at a time while they fit in [from, to]; returns the first pixel left for <see cref="Scalar"/>.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveOptimization)]
         public int Vector(int from, int to)
         {
             Vector128<byte> b0 = Vector128.Create((byte)0, 3, 6, 9, 12, 15, 0x80, 0x80, 0x80, 0x80, 0x80, 0x80, 0x80, 0x80, 0x80, 0x80);
@@ -584,7 +588,8 @@ public sealed class ColorThresholdStage : IFrameStage
     /// pre[a0] = 0 and pre[x + 1] = pre[x] + row[x] for x in [a0, a1]: the running sum of the row, four pixels at a time
     /// with an in-register scan where SSE4.1 is available (integer sums, so the same values either way).
     /// </summary>
-    private static unsafe void PrefixSums(byte* row, int[] pre, int a0, int a1)
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    internal static unsafe void PrefixSums(byte* row, int[] pre, int a0, int a1)
     {
         pre[a0] = 0;
         int x = a0;
