@@ -212,17 +212,9 @@ public sealed class ColorThresholdStage : IFrameStage
 
             if (gradient.OrientationToleranceDeg < 90 || mirror)
             {
-                int span = xe - xs + 1;
-                evidenceBefore += span > 0 ? span - new ReadOnlySpan<byte>(ev + xs, span).Count((byte)0) : 0;
-                if (mirror)
-                {
-                    evidenceCleared += SuppressUnderLights(workspace.LightRow, ev, y, x0, x1, d, w);
-                }
-
-                if (gradient.OrientationToleranceDeg < 90)
-                {
-                    evidenceCleared += SuppressOffAxisRuns(workspace, ev, y, x0, x1, d);
-                }
+                // One pass over the row's evidence runs: counted, then cleared below a light source or off the axis.
+                evidenceCleared += ClearRuns(workspace, ev, y, x0, x1, d, mirror ? workspace.LightRow : null, out int seen);
+                evidenceBefore += seen;
             }
         }
 
@@ -270,51 +262,24 @@ public sealed class ColorThresholdStage : IFrameStage
     }
 
     /// <summary>
-    /// Clears the evidence runs of row <paramref name="y"/> that lie below a light source: a run is cleared when a column
-    /// within max(2, d / 2) pixels of it has a light source (see <see cref="FindLightColumns"/>) above row y. A flat wet
-    /// road is a horizontal mirror: the reflection of a light lies on the vertical through the light in a camera without
-    /// roll (law of reflection), stretched into a streak by the road's roughness; a lane line crosses such a column in
-    /// a few rows only, so it loses little.
+    /// Whether an evidence run [start, end] of row <paramref name="y"/> lies below a light source: a column within
+    /// max(2, d / 2) pixels of it has a light source (see <see cref="FindLightColumns"/>) above row y. A flat wet road is
+    /// a horizontal mirror: the reflection of a light lies on the vertical through the light in a camera without roll
+    /// (law of reflection), stretched into a streak by the road's roughness; a lane line crosses such a column in a few
+    /// rows only, so it loses little.
     /// </summary>
-    /// <returns>The number of evidence pixels cleared.</returns>
-    private static unsafe int SuppressUnderLights(int[] lightRow, byte* ev, int y, int x0, int x1, int d, int w)
+    private static bool UnderLight(int[] lightRow, int y, int start, int end, int d, int w)
     {
-        int cleared = 0;
         int margin = Math.Max(2, d / 2);
-        int x = x0;
-        while (x <= x1)
+        for (int k = Math.Max(0, start - margin), kEnd = Math.Min(w - 1, end + margin); k <= kEnd; k++)
         {
-            if (ev[x] == 0)
+            if (lightRow[k] < y)
             {
-                x++;
-                continue;
-            }
-
-            int start = x;
-            while (x <= x1 && ev[x] != 0)
-            {
-                x++;
-            }
-
-            int end = x - 1;
-            bool lit = false;
-            for (int k = Math.Max(0, start - margin), kEnd = Math.Min(w - 1, end + margin); k <= kEnd && !lit; k++)
-            {
-                lit = lightRow[k] < y;
-            }
-
-            if (lit)
-            {
-                for (int k = start; k <= end; k++)
-                {
-                    ev[k] = 0;
-                }
-
-                cleared += end - start + 1;
+                return true;
             }
         }
 
-        return cleared;
+        return false;
     }
 
     /// <summary>
@@ -387,9 +352,12 @@ public sealed class ColorThresholdStage : IFrameStage
     }
 
     /// <summary>
-    /// Clears the evidence runs of row <paramref name="y"/> whose local orientation does not point at the vanishing
-    /// point: the structure tensor J = Σ ∇I ∇Iᵀ of the blurred grey image over a square window of half size
-    /// clamp(d / 2, 2, 6) rows around the row, over the run and two pixels beyond each end, gives the dominant gradient direction 0.5·atan2(2Jxy, Jxx − Jyy);
+    /// One pass over the evidence runs of row <paramref name="y"/> (shared by both tests; <paramref name="seen"/> counts
+    /// their pixels): a run below a light source is cleared (<see cref="UnderLight"/>, when <paramref name="lightRow"/> is
+    /// given); otherwise a run whose local orientation does not point at the vanishing
+    /// point is cleared: the structure tensor J = Σ ∇I ∇Iᵀ of the blurred grey image over a window of half size
+    /// clamp(d / 2, 2, 6) rows around the row (at most 7 of its rows and 13 of its columns sampled), over the run and two
+    /// pixels beyond each end, gives the dominant gradient direction 0.5·atan2(2Jxy, Jxx − Jyy);
     /// the marking runs perpendicular to it. When the coherence (λ1 − λ2) / (λ1 + λ2) is at least
     /// <see cref="GradientOptions.OrientationMinCoherence"/> and the angle to the line through the vanishing point
     /// exceeds <see cref="GradientOptions.OrientationToleranceDeg"/> + <see cref="GradientOptions.OrientationToleranceGrowthDeg"/>
@@ -401,9 +369,11 @@ public sealed class ColorThresholdStage : IFrameStage
     /// </summary>
     /// <returns>The number of evidence pixels cleared.</returns>
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private unsafe int SuppressOffAxisRuns(FrameWorkspace workspace, byte* ev, int y, int x0, int x1, int d)
+    private unsafe int ClearRuns(FrameWorkspace workspace, byte* ev, int y, int x0, int x1, int d, int[]? lightRow, out int seen)
     {
         int cleared = 0;
+        seen = 0;
+        bool orient = gradient.OrientationToleranceDeg < 90;
         int w = workspace.Width, h = workspace.Height, bandTop = workspace.BandTop;
         byte* blurBase = (byte*)workspace.Blurred.DataPointer;
         long blurStep = workspace.Blurred.Step();
@@ -428,6 +398,22 @@ public sealed class ColorThresholdStage : IFrameStage
             }
 
             int end = x - 1, xm = (start + end) / 2;
+            seen += end - start + 1;
+            if (lightRow is not null && UnderLight(lightRow, y, start, end, d, w))
+            {
+                for (int k = start; k <= end; k++)
+                {
+                    ev[k] = 0;
+                }
+
+                cleared += end - start + 1;
+                continue;
+            }
+
+            if (!orient)
+            {
+                continue;
+            }
 
             // A run can only be cleared when it is turned towards the vertical by more than the tolerance, so its angle
             // to the vanishing-point direction is below twice that direction's angle from the vertical: skip the
