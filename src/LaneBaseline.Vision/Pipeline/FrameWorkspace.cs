@@ -28,7 +28,7 @@ public sealed class FrameWorkspace : IDisposable
         Width = width;
         Height = height;
         BandTop = bandTop;
-        Gradient = new GradientSection(width, height, bandTop, edgeScale);
+        Gradient = new GradientSection(this, width, height, bandTop, edgeScale);
         Hough = new HoughSection(maxSegments);
         Region = new RegionSection();
         Color = new ColorSection(width, height);
