@@ -93,8 +93,8 @@ public sealed class LanePipeline : IDisposable
             }
         }
 
-        (double vx, double vy) = scaling.ToFrame(ws.VanishingX, ws.VanishingY);
-        return new FrameResult(ws.LaneCount, vx, vy, ws.VanishingSource) { Lanes = FinishedLanes(ws) };
+        (double vx, double vy) = scaling.ToFrame(ws.Region.VanishingX, ws.Region.VanishingY);
+        return new FrameResult(ws.LaneCount, vx, vy, ws.Region.VanishingSource) { Lanes = FinishedLanes(ws) };
     }
 
     /// <summary>
@@ -126,8 +126,8 @@ public sealed class LanePipeline : IDisposable
     {
         if (workspace is not null)
         {
-            workspace.HasPreviousVanishing = false;
-            workspace.PriorSeedCount = 0;
+            workspace.Region.HasPreviousVanishing = false;
+            workspace.Track.PriorSeedCount = 0;
         }
 
         foreach (IFrameStage s in stages)

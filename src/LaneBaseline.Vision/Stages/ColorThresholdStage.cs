@@ -15,7 +15,7 @@ namespace LaneBaseline.Vision.Stages;
 /// Step (0), when <see cref="ColorOptions.GreyWorld"/> is on: grey-world colour constancy (Buchsbaum 1980), the
 /// mean B, G, R of the road wedge below give per-channel gains that make the road grey, applied to every pixel's colour
 /// before the lightness and yellowness tests, so a sodium or dusk cast neither pushes white paint out of the white
-/// band nor makes the whole road yellow. Then steps, one pass per image row below <see cref="FrameWorkspace.RoiTop"/> (and below the Hough search band's top)
+/// band nor makes the whole road yellow. Then steps, one pass per image row below <see cref="Pipeline.Workspace.RegionSection.RoiTop"/> (and below the Hough search band's top)
 /// inside the region trapezoid:
 /// (1) road statistics: median and robust spread (interquartile range / 1.349) of the HLS lightness
 /// L = (max(R,G,B) + min(R,G,B)) / 2 sampled every <see cref="ColorOptions.StatisticsStridePx"/> pixels inside a wedge
@@ -61,10 +61,10 @@ public sealed class ColorThresholdStage : IFrameStage
     {
         ArgumentNullException.ThrowIfNull(workspace);
         Mat frame = workspace.Frame;
-        Mat evidence = workspace.Evidence;
+        Mat evidence = workspace.Color.Evidence;
         int w = workspace.Width, h = workspace.Height;
-        double vy = workspace.VanishingY;
-        int top = Math.Clamp((int)Math.Floor(workspace.RoiTop) - 1, workspace.BandTop, h - 1);
+        double vy = workspace.Region.VanishingY;
+        int top = Math.Clamp((int)Math.Floor(workspace.Region.RoiTop) - 1, workspace.BandTop, h - 1);
 
         // Only rows this stage wrote before can hold evidence: clear those (the rows above stay zero).
         using (Mat written = evidence.RowRange(Math.Min(writtenTop, h - 1), h))
@@ -73,23 +73,23 @@ public sealed class ColorThresholdStage : IFrameStage
         }
 
         writtenTop = top;
-        double[] q = workspace.Trapezoid;
+        double[] q = workspace.Region.Trapezoid;
         byte* frameBase = (byte*)frame.DataPointer;
         long frameStep = frame.Step();
         byte* evBase = (byte*)evidence.DataPointer;
-        byte* blurBase = (byte*)workspace.Blurred.DataPointer;
-        long blurStep = workspace.Blurred.Step();
+        byte* blurBase = (byte*)workspace.Gradient.Blurred.DataPointer;
+        long blurStep = workspace.Gradient.Blurred.Step();
         long evStep = evidence.Step();
 
         // (1) Road statistics inside the road sample: a narrow wedge from the bottom centre towards the vanishing point.
-        int[] hist = workspace.Histogram;
-        int[] diffHist = workspace.DiffHistogram;
+        int[] hist = workspace.Color.Histogram;
+        int[] diffHist = workspace.Color.DiffHistogram;
         Array.Clear(hist);
         Array.Clear(diffHist);
         long diffs = 0;
         int stride = color.StatisticsStridePx;
         long total = 0;
-        double vx = workspace.VanishingX, halfBottom = color.StatisticsHalfWidthFraction * w;
+        double vx = workspace.Region.VanishingX, halfBottom = color.StatisticsHalfWidthFraction * w;
         // (0) Grey-world colour constancy on the same wedge (Buchsbaum 1980): per-channel gains that make the road's
         // mean colour grey, in 1/256 fixed point, clamped to [1/4, 4]; 256 (no change) when switched off.
         int gainB = 256, gainG = 256, gainR = 256;
@@ -98,7 +98,7 @@ public sealed class ColorThresholdStage : IFrameStage
             GreyWorldGains(frameBase, frameStep, top, w, h, vx, vy, halfBottom, stride, out gainB, out gainG, out gainR);
         }
 
-        workspace.GreyWorldGains = (gainB / 256.0, gainG / 256.0, gainR / 256.0);
+        workspace.Color.GreyWorldGains = (gainB / 256.0, gainG / 256.0, gainR / 256.0);
         for (int y = top; y < h; y += stride)
         {
             double t = (y - vy) / (h - 1 - vy);
@@ -117,14 +117,14 @@ public sealed class ColorThresholdStage : IFrameStage
 
         double median = Percentile(hist, total, 0.5);
         double spread = Math.Max(1.0, (Percentile(hist, total, 0.75) - Percentile(hist, total, 0.25)) / 1.349);
-        workspace.RoadMedian = median;
-        workspace.RoadSpread = spread;
+        workspace.Color.RoadMedian = median;
+        workspace.Color.RoadSpread = spread;
 
         // (1b) Low light: the ridge runs on a CLAHE copy of the grey band (Zuiderveld 1994) when the road is dark.
         byte* ridgeBase = blurBase;
         long ridgeStep = blurStep;
-        workspace.Equalised = median < color.ClaheMaxRoadLightness || (color.ClaheMinVeilLightness < 255 && median >= color.ClaheMinVeilLightness);
-        if (workspace.Equalised)
+        workspace.Color.Equalised = median < color.ClaheMaxRoadLightness || (color.ClaheMinVeilLightness < 255 && median >= color.ClaheMinVeilLightness);
+        if (workspace.Color.Equalised)
         {
             Equalise(workspace);
             ridgeBase = (byte*)equalisedBlur.DataPointer;
@@ -152,7 +152,7 @@ public sealed class ColorThresholdStage : IFrameStage
         double texture = Math.Max(1.0, Percentile(diffHist, diffs, 0.5) * 1.4826 / Math.Sqrt(2));
         double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * texture);
         double widthBottom = gradient.MarkingWidthFraction * w;
-        int[] pre = workspace.Prefix;
+        int[] pre = workspace.Color.Prefix;
 
         // (1c) Mirror columns (dark scenes only): where a light source is, its reflection on a wet road lies below it.
         bool mirror = color.LightSourceLightness < 255 && median < color.MirrorMaxRoadLightness;
@@ -165,7 +165,7 @@ public sealed class ColorThresholdStage : IFrameStage
         bool blobs = color.SaturatedBlobLightness < 255;
         if (blobs)
         {
-            using Mat rows = workspace.Blurred.RowRange(top - workspace.BandTop, h - workspace.BandTop);
+            using Mat rows = workspace.Gradient.Blurred.RowRange(top - workspace.BandTop, h - workspace.BandTop);
             Cv2.MinMaxLoc(rows, out double _, out double brightest);
             blobs = brightest >= (int)color.SaturatedBlobLightness;
         }
@@ -213,12 +213,12 @@ public sealed class ColorThresholdStage : IFrameStage
             if (gradient.OrientationToleranceDeg < 90 || mirror)
             {
                 // One pass over the row's evidence runs: counted, then cleared below a light source or off the axis.
-                evidenceCleared += ClearRuns(workspace, ev, y, x0, x1, d, mirror ? workspace.LightRow : null, out int seen);
+                evidenceCleared += ClearRuns(workspace, ev, y, x0, x1, d, mirror ? workspace.Color.LightRow : null, out int seen);
                 evidenceBefore += seen;
             }
         }
 
-        workspace.EvidenceKeptShare = evidenceBefore > 0 ? 1 - ((double)evidenceCleared / evidenceBefore) : 1;
+        workspace.Color.EvidenceKeptShare = evidenceBefore > 0 ? 1 - ((double)evidenceCleared / evidenceBefore) : 1;
     }
 
     /// <summary>
@@ -233,11 +233,11 @@ public sealed class ColorThresholdStage : IFrameStage
     private unsafe bool FindLightColumns(FrameWorkspace workspace)
     {
         int w = workspace.Width, h = workspace.Height;
-        int[] lightRow = workspace.LightRow;
+        int[] lightRow = workspace.Color.LightRow;
         Array.Fill(lightRow, int.MaxValue);
-        int last = Math.Min(h - 1, (int)(workspace.VanishingY + (color.LightSourceBelowHorizonFraction * h)));
+        int last = Math.Min(h - 1, (int)(workspace.Region.VanishingY + (color.LightSourceBelowHorizonFraction * h)));
         byte limit = (byte)Math.Clamp(color.LightSourceLightness, 0, 255);
-        Mat gray = workspace.Gray;
+        Mat gray = workspace.Gradient.Gray;
         byte* grayBase = (byte*)gray.DataPointer;
         long grayStep = gray.Step();
         for (int y = 0; y <= last; y++)
@@ -375,9 +375,9 @@ public sealed class ColorThresholdStage : IFrameStage
         seen = 0;
         bool orient = gradient.OrientationToleranceDeg < 90;
         int w = workspace.Width, h = workspace.Height, bandTop = workspace.BandTop;
-        byte* blurBase = (byte*)workspace.Blurred.DataPointer;
-        long blurStep = workspace.Blurred.Step();
-        double vx = workspace.VanishingX, vy = workspace.VanishingY;
+        byte* blurBase = (byte*)workspace.Gradient.Blurred.DataPointer;
+        long blurStep = workspace.Gradient.Blurred.Step();
+        double vx = workspace.Region.VanishingX, vy = workspace.Region.VanishingY;
         int r = Math.Clamp(d / 2, 2, 6);
         int ya = Math.Max(bandTop + 1, y - r), yb = Math.Min(h - 2, y + r);
         double tolBase = gradient.OrientationToleranceDeg * Math.PI / 180, tolGrowth = gradient.OrientationToleranceGrowthDeg * Math.PI / 180;
@@ -647,7 +647,7 @@ public sealed class ColorThresholdStage : IFrameStage
         int tilesAcross = color.ClaheTilesAcross;
         int tilesDown = Math.Max(1, (int)Math.Round(tilesAcross * (double)bandHeight / workspace.Width));
         clahe ??= Cv2.CreateCLAHE(color.ClaheClipLimit, new Size(tilesAcross, tilesDown));
-        clahe.Apply(workspace.Blurred, equalisedBlur);
+        clahe.Apply(workspace.Gradient.Blurred, equalisedBlur);
     }
 
     /// <inheritdoc />

@@ -10,7 +10,7 @@ namespace LaneBaseline.Vision.Stages;
 /// <see cref="GradientOptions.BlurKernelPx"/> kernel; (3) Canny with lower threshold
 /// <see cref="GradientOptions.CannyLowThreshold"/> and upper threshold lower × <see cref="GradientOptions.CannyHysteresisRatio"/>,
 /// 3×3 Sobel, L1 gradient norm, on the band resized by hough.imageScale (area averaging). Output:
-/// <see cref="FrameWorkspace.Edges"/> (band rows only, at that scale) and the full-resolution blurred band used by the
+/// <see cref="Pipeline.Workspace.GradientSection.Edges"/> (band rows only, at that scale) and the full-resolution blurred band used by the
 /// ridge gate. Pixel (x, y), y down.
 /// <para>References: [1] J. Canny, "A Computational Approach to Edge Detection", IEEE Trans. PAMI 8(6):679–698, 1986,
 /// DOI 10.1109/TPAMI.1986.4767851.</para>
@@ -33,34 +33,34 @@ public sealed class GradientStage : IFrameStage
     {
         ArgumentNullException.ThrowIfNull(workspace);
         // Grey of the band and the blur kernel's reach above it (a filter on a row range reads the rows beyond it); the
-        // rows above are converted when something asks for them (FrameWorkspace.Gray).
+        // rows above are converted when something asks for them (GradientSection.Gray).
         int k = options.BlurKernelPx;
         int first = Math.Max(0, workspace.BandTop - (k / 2));
         using (Mat colourRows = workspace.Frame.RowRange(first, workspace.Height))
-        using (Mat greyRows = workspace.GrayBand.RowRange(first, workspace.Height))
+        using (Mat greyRows = workspace.Gradient.GrayBand.RowRange(first, workspace.Height))
         {
             Cv2.CvtColor(colourRows, greyRows, ColorConversionCodes.BGR2GRAY);
         }
 
-        workspace.GrayAboveBandCurrent = false;
-        using Mat band = workspace.GrayBand.RowRange(workspace.BandTop, workspace.Height);
+        workspace.Gradient.GrayAboveBandCurrent = false;
+        using Mat band = workspace.Gradient.GrayBand.RowRange(workspace.BandTop, workspace.Height);
         if (k > 1)
         {
-            Cv2.GaussianBlur(band, workspace.Blurred, new Size(k, k), 0);
+            Cv2.GaussianBlur(band, workspace.Gradient.Blurred, new Size(k, k), 0);
         }
         else
         {
-            band.CopyTo(workspace.Blurred);
+            band.CopyTo(workspace.Gradient.Blurred);
         }
 
-        Mat source = workspace.Blurred;
-        if (workspace.EdgeScale < 1)
+        Mat source = workspace.Gradient.Blurred;
+        if (workspace.Gradient.EdgeScale < 1)
         {
-            Cv2.Resize(workspace.Blurred, workspace.SmallBand, workspace.EdgeSize, 0, 0, InterpolationFlags.Area);
-            source = workspace.SmallBand;
+            Cv2.Resize(workspace.Gradient.Blurred, workspace.Gradient.SmallBand, workspace.Gradient.EdgeSize, 0, 0, InterpolationFlags.Area);
+            source = workspace.Gradient.SmallBand;
         }
 
-        Cv2.Canny(source, workspace.Edges, options.CannyLowThreshold, options.CannyLowThreshold * options.CannyHysteresisRatio);
+        Cv2.Canny(source, workspace.Gradient.Edges, options.CannyLowThreshold, options.CannyLowThreshold * options.CannyHysteresisRatio);
     }
 
     /// <inheritdoc />

@@ -67,14 +67,14 @@ public sealed class MarkingProfileStage : IFrameStage
             return lane;
         }
 
-        double vy = ws.VanishingY;
-        int top = Math.Max(bandTop, (int)Math.Ceiling(ws.RoiTop));
+        double vy = ws.Region.VanishingY;
+        int top = Math.Max(bandTop, (int)Math.Ceiling(ws.Region.RoiTop));
         int mid = (top + h - 1) / 2;
         double widthBottom = gradient.MarkingWidthFraction * w;
-        byte* evBase = (byte*)ws.Evidence.DataPointer;
-        long evStep = ws.Evidence.Step();
-        byte* blurBase = (byte*)ws.Blurred.DataPointer;
-        long blurStep = ws.Blurred.Step();
+        byte* evBase = (byte*)ws.Color.Evidence.DataPointer;
+        long evStep = ws.Color.Evidence.Step();
+        byte* blurBase = (byte*)ws.Gradient.Blurred.DataPointer;
+        long blurStep = ws.Gradient.Blurred.Step();
         int rows = 0, supported = 0, nearRows = 0, nearSupported = 0;
         long evidencePx = 0, paintPx = 0;
         int seg = 0;

@@ -25,19 +25,19 @@ public sealed class MarkingProfileStageTests
     {
         var o = new PipelineOptions();
         using var ws = new FrameWorkspace(W, H, o.Warp.WidthPx, o.Warp.HeightPx, BandTop, o.Hough.MaxSegments, o.Hough.ImageScale);
-        ws.VanishingX = VanishingX;
-        ws.VanishingY = VanishingY;
-        ws.RoiTop = 70;
-        ws.Blurred.SetTo(Scalar.All(roadGrey));
-        ws.Evidence.SetTo(Scalar.All(0));
+        ws.Region.VanishingX = VanishingX;
+        ws.Region.VanishingY = VanishingY;
+        ws.Region.RoiTop = 70;
+        ws.Gradient.Blurred.SetTo(Scalar.All(roadGrey));
+        ws.Color.Evidence.SetTo(Scalar.All(0));
         for (int y = 70; y < H; y++)
         {
             int wpx = width(y);
             int x0 = (int)Math.Round(centreX(y)) - (wpx / 2);
             for (int x = x0; x < x0 + wpx; x++)
             {
-                ws.Blurred.Set(y - BandTop, x, paintGrey);
-                ws.Evidence.Set(y, x, evidenceValue);
+                ws.Gradient.Blurred.Set(y - BandTop, x, paintGrey);
+                ws.Color.Evidence.Set(y, x, evidenceValue);
             }
         }
 
