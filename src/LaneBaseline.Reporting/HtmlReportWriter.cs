@@ -241,12 +241,47 @@ public static class HtmlReportWriter
         }
 
         h.Append("</tbody>\n</table></div>\n");
+        WriteCoverage(h, systems);
         IntervalSet? iv = systems.Select(s => s.Intervals).FirstOrDefault(i => i is not null);
         h.Append("<p class=\"note\">").Append(iv is null
             ? "No intervals: the score run had bootstrap resampling switched off."
             : string.Create(CultureInfo.InvariantCulture, $"Intervals: {iv.Method}, {iv.Resamples} resamples, seed {iv.Seed}, level {F(iv.Level, "0.##")}."))
          .Append("</p>\n</section>\n");
     }
+
+    /// <summary>One warning line per system whose prediction file missed truth frames or held frames the truth lacks.</summary>
+    private static void WriteCoverage(StringBuilder h, IReadOnlyList<SystemResult> systems)
+    {
+        SystemResult[] gaps = [.. systems.Where(s => s.Coverage is { } c && (c.Missing > 0 || c.Extra > 0))];
+        if (gaps.Length == 0)
+        {
+            return;
+        }
+
+        h.Append("<div id=\"coverage\" class=\"coverage\">\n");
+        foreach (SystemResult r in gaps)
+        {
+            var c = r.Coverage!;
+            h.Append("<p class=\"warn\" data-system=\"").Append(E(r.Name)).Append("\"><strong>").Append(E(r.Name)).Append("</strong>: ");
+            if (c.Missing > 0)
+            {
+                h.Append(I(c.Missing)).Append(" of ").Append(I(c.TruthFrames)).Append(" truth frames have no prediction record (")
+                 .Append(E(FrameCoverageList(c.FirstMissing, c.Missing))).Append("); they are scored as predicting no lanes, so a run that stopped early looks like a worse model");
+            }
+
+            if (c.Extra > 0)
+            {
+                h.Append(c.Missing > 0 ? "; " : string.Empty).Append(I(c.Extra)).Append(" record(s) of frames the truth lacks (")
+                 .Append(E(FrameCoverageList(c.FirstExtra, c.Extra))).Append(") are left out of every score");
+            }
+
+            h.Append(".</p>\n");
+        }
+
+        h.Append("</div>\n");
+    }
+
+    private static string FrameCoverageList(IReadOnlyList<string> keys, int total) => LaneBaseline.Core.Metrics.Coverage.FrameCoverage.List(keys, total);
 
     private static bool HasGround(IReadOnlyList<SystemResult> systems) => systems.Any(s => s.Overall.Ground is not null);
 
@@ -830,6 +865,7 @@ public static class HtmlReportWriter
         .legend .pred { border-top-width:2px; border-top-color:var(--pred); }
         .legend .miss { border-top-width:5px; border-top-color:var(--miss); }
         .legend .fp { border-top-width:2px; border-top-style:dashed; border-top-color:var(--fp); }
+        .coverage p.warn { border-left:5px solid var(--fp); padding:4px 12px; background:var(--caution-bg); margin:0.4em 0; }
         .verdict { font-size:1.05em; font-weight:600; border-left:5px solid var(--accent); padding:6px 12px; background:var(--band); }
         .gallery { display:grid; grid-template-columns:repeat(auto-fill, minmax(260px, 1fr)); gap:12px; }
         .thumb { margin:0; border:1px solid var(--rule); padding:6px; background:var(--band); }

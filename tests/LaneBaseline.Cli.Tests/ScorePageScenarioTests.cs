@@ -101,6 +101,11 @@ public sealed partial class ScorePageScenarioTests : IDisposable
         Assert.All(order[4..], f => Assert.Matches("^lap-000[35]/", f));
         Assert.Equal(8, Directory.GetFiles(Path.Combine(dir.Path, "a", "page.frames"), "*.png").Length);
 
+        // Coverage is on the page under the headline table, so a crashed run is not read as a worse model.
+        Assert.Contains("<strong>net</strong>: 4 of 44 truth frames have no prediction record ('lap-0010/t0000.jpg', 'lap-0010/t0001.jpg', 'lap-0010/t0002.jpg', 'lap-0010/t0003.jpg'); they are scored as predicting no lanes", System.Net.WebUtility.HtmlDecode(Section(html, "headline")), StringComparison.Ordinal);
+        Assert.Contains("2 record(s) of frames the truth lacks ('lap-0099/t0000.jpg', 'lap-0099/t0001.jpg') are left out of every score.", System.Net.WebUtility.HtmlDecode(html), StringComparison.Ordinal);
+        Assert.DoesNotContain("data-system=\"baseline\"><strong>baseline</strong>", html, StringComparison.Ordinal);
+
         // Road-plane errors are on the page (a camera was given): one column per look-ahead distance.
         string ground = Section(html, "ground");
         foreach (string d in new[] { "5", "10", "20", "30" })

@@ -84,6 +84,9 @@ public sealed record SystemResult(
 {
     /// <summary>Confidence calibration of the system's scored lanes, or null when its lanes carry no score.</summary>
     public CalibrationSummary? Calibration { get; init; }
+
+    /// <summary>Which truth frames the prediction file covered (missing and extra records), or null when not recorded.</summary>
+    public LaneBaseline.Core.Metrics.Coverage.FrameCoverage? Coverage { get; init; }
 }
 
 /// <summary>One bin of the reliability table.</summary>

@@ -96,7 +96,7 @@ public static class ScoreDocumentBuilder
         }
 
         byTag.Sort((a, b) => string.CompareOrdinal(a.Key, b.Key));
-        return new SystemResult(system.System.Name, Tally(overall, settings), intervals, sweep, byTag) { Calibration = Calibration(overall.Reliability) };
+        return new SystemResult(system.System.Name, Tally(overall, settings), intervals, sweep, byTag) { Calibration = Calibration(overall.Reliability), Coverage = system.Coverage };
     }
 
     private static CalibrationSummary? Calibration(ReliabilityTally r)

@@ -1,6 +1,7 @@
 using System.Globalization;
 using System.Text.Json;
 using LaneBaseline.Core;
+using LaneBaseline.Core.Metrics.Coverage;
 
 // IDISP004 misreads foreach over JsonElement.EnumerateObject()/EnumerateArray(): foreach disposes the enumerator.
 #pragma warning disable IDISP004
@@ -168,7 +169,25 @@ public static class ScoreDocumentReader
         }
 
         byTag.Sort((a, b) => string.CompareOrdinal(a.Key, b.Key));
-        return new SystemResult(name, overall, intervals, sweep, byTag) { Calibration = ReadCalibration(ctx, e, path) };
+        return new SystemResult(name, overall, intervals, sweep, byTag) { Calibration = ReadCalibration(ctx, e, path), Coverage = ReadCoverage(ctx, e, path) };
+    }
+
+    private static FrameCoverage? ReadCoverage(Context ctx, JsonElement e, string path)
+    {
+        if (!e.TryGetProperty("coverage", out JsonElement c))
+        {
+            return null;
+        }
+
+        ctx.Object(c, path + ".coverage");
+        try
+        {
+            return FrameCoverage.ReadJson(c);
+        }
+        catch (Exception ex) when (ex is KeyNotFoundException or InvalidOperationException or FormatException)
+        {
+            throw ctx.Error(path + ".coverage", "expected whole numbers truth_frames, pred_frames, missing, extra and string arrays first_missing, first_extra");
+        }
     }
 
     private static CalibrationSummary? ReadCalibration(Context ctx, JsonElement e, string path)
