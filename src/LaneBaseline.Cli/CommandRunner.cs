@@ -33,7 +33,11 @@ internal static class CommandRunner
         }
         catch (BadInputException ex)
         {
-            stderr.WriteLine("error: " + OneLine(spool.Clean(ex.Message)));
+            foreach (string problem in ex.Problems)
+            {
+                stderr.WriteLine("error: " + OneLine(spool.Clean(problem))); // one line each: a line break inside one is escaped
+            }
+
             return ExitCodes.InputError;
         }
         catch (UsageException ex)

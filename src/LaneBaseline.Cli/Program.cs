@@ -83,7 +83,12 @@ internal static class Program
         }
         catch (Core.BadInputException ex)
         {
-            error.WriteLine("error: " + ex.Message);
+            // A settings file with several errors lists each on its own line (as a preset does).
+            foreach (string problem in ex.Problems)
+            {
+                error.WriteLine("error: " + CommandRunner.OneLine(problem));
+            }
+
             return ExitCodes.InputError;
         }
 

@@ -93,7 +93,7 @@ internal static class SettingsFile
 
         if (errors.Count > 0)
         {
-            throw new BadInputException(string.Join('\n', errors));
+            throw BadInputException.Several(errors);
         }
 
         return [.. args, .. added];

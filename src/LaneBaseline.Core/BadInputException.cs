@@ -23,6 +23,21 @@ public class BadInputException : Exception
     {
     }
 
+    /// <summary>
+    /// Each problem when the exception reports several (a preset with several errors lists all of them): printed one
+    /// per line; the message joins them with line breaks. A single problem has one entry, the message.
+    /// </summary>
+    public IReadOnlyList<string> Problems => problems ?? [Message];
+
+    private IReadOnlyList<string>? problems;
+
+    /// <summary>One exception reporting every one of <paramref name="messages"/> (each a complete <c>FILE:LINE: key: problem</c>).</summary>
+    public static BadInputException Several(IEnumerable<string> messages)
+    {
+        string[] all = [.. messages];
+        return new BadInputException(string.Join('\n', all)) { problems = all };
+    }
+
     /// <summary>Names a list of inputs in a message: all of up to three, else the first three and how many more.</summary>
     public static string Files(IReadOnlyList<string> paths)
     {

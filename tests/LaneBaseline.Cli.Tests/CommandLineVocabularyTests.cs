@@ -213,6 +213,69 @@ public sealed class CommandLineVocabularyTests : IDisposable
         Assert.True(File.Exists(json));
     }
 
+    // Source: issue "outputs that never clobber" (missing output folders are created in every command). Before, detect
+    // exited 3 and tune exited 2 when the output's folder did not exist.
+    [Theory]
+    [InlineData("detect")]
+    [InlineData("audit")]
+    [InlineData("tune")]
+    [InlineData("convert")]
+    [InlineData("render")]
+    [InlineData("report")]
+    [InlineData("merge")]
+    [InlineData("bench")]
+    public void MissingOutputFolder_IsCreated_InEveryCommand(string command)
+    {
+        string render = dir.File("r");
+        Assert.Equal(0, CliRunner.Run("render", "-o", render, "--count", "2", "--size", "160x96", "--seed", "4", "-j", "1").Exit);
+        string truth = Path.Combine(render, "truth.lanes.jsonl"), scoreJson = dir.File("s.json");
+        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", truth, "--json", scoreJson, "--bootstrap", "0").Exit);
+        string output = dir.File(Path.Combine("new", "deeper", command switch
+        {
+            "detect" or "merge" => "x.lanes.jsonl",
+            "audit" => "findings.jsonl",
+            "tune" => "best.yaml",
+            "convert" => "x.openlabel.json",
+            "render" => "frames",
+            "report" => "report.html",
+            _ => "bench.json",
+        }));
+        string[] args = command switch
+        {
+            "detect" => ["detect", "--frames", render, "-o", output, "-j", "1"],
+            "audit" => ["audit", "--pred", truth, "-o", output],
+            "tune" => ["tune", "--frames", render, "--truth", truth, "--budget", "2", "--holdout", "0", "--allow-overlap", "-j", "1", "-o", output],
+            "convert" => ["convert", truth, "--to", "openlabel", "-o", output],
+            "render" => ["render", "-o", output, "--count", "1", "--size", "160x96", "-j", "1"],
+            "report" => ["report", "--score", scoreJson, "-o", output],
+            "merge" => ["merge", truth, "-o", output],
+            _ => ["bench", "--render", "1", "--size", "128x64", "--warmup", "0", "--passes", "1", "-j", "1", "--json", output],
+        };
+        (int exit, _, string err) = CliRunner.Run(args);
+        Assert.True(exit == 0, command + ": " + err);
+        Assert.True(command == "render" ? Directory.Exists(output) : File.Exists(output), command + ": " + output);
+    }
+
+    // Source: issue 16 ("lanebaseline --version prints the version and the commit"); the commit is one of this
+    // repository's commits when the build ran in a git checkout (Source Link), else "unknown".
+    [Fact]
+    public void Version_PrintsTheVersionAndTheCommit()
+    {
+        (int exit, string stdout, string err) = CliRunner.Run("--version");
+        Assert.True(exit == 0, err);
+        System.Text.RegularExpressions.Match m = System.Text.RegularExpressions.Regex.Match(
+            stdout.Trim(), "^lanebaseline ([0-9]+\\.[0-9]+\\.[0-9]+[-.0-9A-Za-z]*) \\(commit ([0-9a-f]{40}|unknown)\\)$");
+        Assert.True(m.Success, stdout);
+        string commit = m.Groups[2].Value;
+        if (commit != "unknown")
+        {
+            var start = new System.Diagnostics.ProcessStartInfo("git", ["-C", RepoPaths.Combine("."), "cat-file", "-e", commit + "^{commit}"]) { RedirectStandardError = true };
+            using var git = System.Diagnostics.Process.Start(start)!;
+            git.WaitForExit();
+            Assert.True(git.ExitCode == 0, "not a commit of this repository: " + commit);
+        }
+    }
+
     // Source: issue "outputs that never clobber": an existing output that is a FIFO is written in place, never renamed over.
     [Fact]
     public async Task Fifo_Output_IsWrittenInPlace()

@@ -173,6 +173,35 @@ public sealed class ReliabilityCommandTests : IDisposable
         Assert.Equal(before, File.ReadAllBytes(victim));
     }
 
+    // Source: docs/detect.md ("a preset with several errors lists all of them"), end to end: detect prints every
+    // error of the preset, one "error:" line each, in file order, exit 3, no output. Before, the command line printed
+    // them as one line joined by "\u000A" escapes.
+    [Fact]
+    public void Detect_PresetWithSeveralErrors_ListsEachOnItsOwnLine()
+    {
+        string frames = dir.File("frames");
+        Directory.CreateDirectory(frames);
+        using (var black = new Mat(360, 640, MatType.CV_8UC3, Scalar.All(0)))
+        {
+            Cv2.ImWrite(Path.Combine(frames, "a.png"), black);
+        }
+
+        string preset = dir.File("q.yaml");
+        File.WriteAllText(preset, "gradient:\n  cannyLowThreshhold: 40\nsearch:\n  windowCount: many\nhough:\n  votes: 0\nbogus: 1\n");
+        string output = dir.File("x.lanes.jsonl");
+        (int exit, string stdout, string err) = CliRunner.Run("detect", "--frames", frames, "-o", output, "--config", preset);
+        Assert.Equal(3, exit);
+        Assert.Equal(string.Empty, stdout);
+        string[] lines = err.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal(4, lines.Length);
+        Assert.StartsWith("error: " + preset + ":2: gradient.cannyLowThreshhold: unknown key", lines[0], StringComparison.Ordinal);
+        Assert.StartsWith("error: " + preset + ":4: search.windowCount:", lines[1], StringComparison.Ordinal);
+        Assert.StartsWith("error: " + preset + ":6: hough.votes:", lines[2], StringComparison.Ordinal);
+        Assert.StartsWith("error: " + preset + ":7: bogus: unknown key", lines[3], StringComparison.Ordinal);
+        Assert.DoesNotContain("\\u000A", err, StringComparison.Ordinal);
+        Assert.False(File.Exists(output));
+    }
+
     // Item 13. Before: a full disk surfaced as "internal error: IOException" (exit 1). /dev/full answers every
     // write with ENOSPC (Linux man page full(4)).
     [Fact]

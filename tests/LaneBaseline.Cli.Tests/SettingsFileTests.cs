@@ -53,9 +53,9 @@ public sealed class SettingsFileTests : IDisposable
         string[] lines = err.Trim().Split('\n');
         Assert.Equal(4, lines.Length);
         Assert.StartsWith("error: " + yaml + ":1: bogus: unknown setting", lines[0], StringComparison.Ordinal);
-        Assert.StartsWith(yaml + ":2: bootstrap:", lines[1], StringComparison.Ordinal);
-        Assert.StartsWith(yaml + ":3: truth: an input or output", lines[2], StringComparison.Ordinal);
-        Assert.StartsWith(yaml + ":4: iou: expected a value", lines[3], StringComparison.Ordinal);
+        Assert.StartsWith("error: " + yaml + ":2: bootstrap:", lines[1], StringComparison.Ordinal);
+        Assert.StartsWith("error: " + yaml + ":3: truth: an input or output", lines[2], StringComparison.Ordinal);
+        Assert.StartsWith("error: " + yaml + ":4: iou: expected a value", lines[3], StringComparison.Ordinal);
     }
 
     [Fact]

@@ -84,7 +84,7 @@ public sealed partial class TuneCommandTests : IClassFixture<DimFrames>, IDispos
         // One log line per trial plus the header line, each with the documented fields.
         string[] log = File.ReadAllLines(best + ".trials.jsonl");
         Assert.Equal(13, log.Length);
-        Assert.StartsWith("{\"run\":", log[0], StringComparison.Ordinal);
+        Assert.StartsWith("{\"tool\":\"lanebaseline\",\"schema_version\":1,\"run\":", log[0], StringComparison.Ordinal);
         Assert.All(log.Skip(1), l => Assert.Matches("^\\{\"index\":\\d+,\"phase\":\"(start|explore|refine)\",\"values\":\\{\"color\\.whiteMinContrast\":", l));
     }
 

@@ -23,8 +23,16 @@ namespace LaneBaseline.Cli.Commands;
 /// <summary>Tune, part 4: the trial log (header, one JSON line per trial, resume from a partial log).</summary>
 internal sealed partial class TuneRunner
 {
-    /// <summary>First log line: what the trials depend on; <c>--resume</c> refuses a log with another header.</summary>
-    private string LogHeader(List<Sample> tuning, PipelineOptions baseOptions)
+    /// <summary>The <c>schema_version</c> of the trial log's first line (docs/schema/tune-log.schema.json).</summary>
+    internal const int LogSchemaVersion = 1;
+
+    /// <summary>
+    /// First log line: the tool, the log's schema version and what the trials depend on; <c>--resume</c> refuses a log
+    /// with another header. Logs written before 2026-12-05 start with the <c>run</c> object alone and are still resumed.
+    /// </summary>
+    private string LogHeader(List<Sample> tuning, PipelineOptions baseOptions) => LogHeader(tuning, baseOptions, legacy: false);
+
+    private string LogHeader(List<Sample> tuning, PipelineOptions baseOptions, bool legacy)
     {
         string spaceText = string.Join("\n", space.Parameters.Select(p => string.Create(CultureInfo.InvariantCulture, $"{p.Key} {p.Min:R} {p.Max:R} {p.WholeNumbers} {p.Log}")));
         string frames = string.Join("\n", tuning.Select(s => s.Item.Key));
@@ -32,6 +40,12 @@ internal sealed partial class TuneRunner
         using (var json = new Utf8JsonWriter(buffer))
         {
             json.WriteStartObject();
+            if (!legacy)
+            {
+                json.WriteString("tool", "lanebaseline");
+                json.WriteNumber("schema_version", LogSchemaVersion);
+            }
+
             json.WriteStartObject("run");
             json.WriteString("objective", request.Objective);
             json.WriteNumber("seed", request.Seed);
@@ -84,7 +98,7 @@ internal sealed partial class TuneRunner
     }
 
     /// <summary>Reads a trial log for <c>--resume</c>: drops an unterminated last line, checks the header, returns the trials.</summary>
-    private List<Trial> ReadLog(string path, string header)
+    private List<Trial> ReadLog(string path, string header, string legacyHeader)
     {
         var trials = new List<Trial>();
         if (!File.Exists(path))
@@ -105,7 +119,7 @@ internal sealed partial class TuneRunner
             return trials;
         }
 
-        if (lines[0] != header)
+        if (lines[0] != header && lines[0] != legacyHeader)
         {
             throw BadInputException.At(path, 1, "run", "--resume: this log was written for another search (objective, seed, budget, space, base preset or tuning frames differ); delete it or drop --resume");
         }

@@ -96,7 +96,7 @@ internal sealed partial class TuneRunner
         }
         catch (BadInputException ex)
         {
-            invalid = ex.Message.Replace('\n', ' ');
+            invalid = string.Join("; ", ex.Problems);
             return null;
         }
     }

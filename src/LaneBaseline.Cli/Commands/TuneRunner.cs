@@ -103,7 +103,7 @@ internal sealed partial class TuneRunner
     {
         string logPath = LogPathFor(request.Output);
         string header = LogHeader(tuning, baseOptions);
-        List<Trial> previous = request.Resume ? ReadLog(logPath, header) : [];
+        List<Trial> previous = request.Resume ? ReadLog(logPath, header, LogHeader(tuning, baseOptions, legacy: true)) : [];
         YamlMappingNode baseRoot = LoadYaml(baseYaml);
         var tuner = new Tuner(space, request.Budget, request.Seed, request.Threads)
         {

@@ -74,7 +74,7 @@ public static class PresetLoader
         if (errors.Count > 0)
         {
             // In file order (a stable sort on the line number each message starts with).
-            throw new BadInputException(string.Join('\n', errors.OrderBy(m => LineOf(m, file))));
+            throw BadInputException.Several(errors.OrderBy(m => LineOf(m, file)));
         }
 
         return options;

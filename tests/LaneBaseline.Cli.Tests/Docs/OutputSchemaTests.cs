@@ -16,6 +16,7 @@ public sealed class OutputSchemaTests : IDisposable
     private static readonly JsonSchema Score = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "score.schema.json")));
     private static readonly JsonSchema Bench = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "bench.schema.json")));
     private static readonly JsonSchema Camera = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "camera.schema.json")));
+    private static readonly JsonSchema TuneLog = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "tune-log.schema.json")));
     private readonly TempDir dir = new();
 
     public void Dispose() => dir.Dispose();
@@ -72,6 +73,65 @@ public sealed class OutputSchemaTests : IDisposable
         Assert.Equal(Core.Geometry.CameraModel.Load(cam), Core.Geometry.CameraModel.Parse(File.ReadAllText(cam), "camera.json"));
     }
 
+    // Issue 16: every line of tune's trial log follows docs/schema/tune-log.schema.json (the first names the tool and
+    // the schema version), keys in snake_case except the preset keys under "values", and the schema can fail.
+    [Fact]
+    public void TuneTrialLog_EveryLineFollowsTheSchema()
+    {
+        string render = dir.File("r"), best = dir.File("best.yaml");
+        Assert.Equal(0, CliRunner.Run("render", "-o", render, "--count", "3", "--size", "160x96", "--seed", "5", "-j", "1").Exit);
+        (int exit, _, string err) = CliRunner.Run(
+            "tune", "--frames", render, "--truth", Path.Combine(render, "truth.lanes.jsonl"), "--budget", "3", "--holdout", "0",
+            "--allow-overlap", "--date", "2026-01-01", "-j", "1", "-o", best);
+        Assert.True(exit == 0, err);
+        string[] lines = File.ReadAllLines(best + ".trials.jsonl");
+        Assert.Equal(4, lines.Length);
+        using (JsonDocument header = ValidText(TuneLog, lines[0], best + ".trials.jsonl:1"))
+        {
+            Assert.Equal("lanebaseline", header.RootElement.GetProperty("tool").GetString());
+            Assert.Equal(1, header.RootElement.GetProperty("schema_version").GetInt32());
+        }
+
+        for (int i = 1; i < lines.Length; i++)
+        {
+            ValidText(TuneLog, lines[i], best + ".trials.jsonl:" + (i + 1)).Dispose();
+        }
+
+        Assert.False(Evaluate(TuneLog, lines[0].Replace("\"tuning_frames\"", "\"tuningFrames\"", StringComparison.Ordinal)));
+        Assert.False(Evaluate(TuneLog, lines[1].Replace("\"phase\":\"start\"", "\"phase\":\"begin\"", StringComparison.Ordinal)));
+    }
+
+    // Issue 16: a trial log written before the header carried tool and schema_version (the run object alone) is still
+    // resumed: the resumed run reuses its trials and writes the same preset as an uninterrupted run.
+    [Fact]
+    public void TuneResume_ReadsALogWithTheOldHeader()
+    {
+        string render = dir.File("r"), one = dir.File("one.yaml"), two = dir.File("two.yaml");
+        Assert.Equal(0, CliRunner.Run("render", "-o", render, "--count", "3", "--size", "160x96", "--seed", "5", "-j", "1").Exit);
+        string[] tune = ["tune", "--frames", render, "--truth", Path.Combine(render, "truth.lanes.jsonl"), "--budget", "3", "--holdout", "0", "--allow-overlap", "--date", "2026-01-01", "-j", "1"];
+        Assert.Equal(0, CliRunner.Run([.. tune, "-o", one]).Exit);
+        string[] log = File.ReadAllLines(one + ".trials.jsonl");
+        using (JsonDocument header = JsonDocument.Parse(log[0]))
+        {
+            string old = "{\"run\":" + header.RootElement.GetProperty("run").GetRawText() + "}";
+            File.WriteAllLines(two + ".trials.jsonl", [old, log[1], log[2]]);
+        }
+
+        (int exit, _, string err) = CliRunner.Run([.. tune, "-o", two, "--resume"]);
+        Assert.True(exit == 0, err);
+        Assert.Equal(File.ReadAllText(one), File.ReadAllText(two));
+        Assert.Equal(4, File.ReadAllLines(two + ".trials.jsonl").Length);
+    }
+
+    private static JsonDocument ValidText(JsonSchema schema, string text, string where)
+    {
+        EvaluationResults result = schema.Evaluate(JsonDocument.Parse(text).RootElement, new EvaluationOptions { OutputFormat = OutputFormat.List });
+        Assert.True(result.IsValid, where + ": " + text);
+        var doc = JsonDocument.Parse(text);
+        AssertSnakeCase(doc.RootElement, "$");
+        return doc;
+    }
+
     private static JsonDocument Valid(JsonSchema schema, string path)
     {
         string text = File.ReadAllText(path);
@@ -101,7 +161,7 @@ public sealed class OutputSchemaTests : IDisposable
         {
             bool userKeys = where.EndsWith(".systems", StringComparison.Ordinal) || where.EndsWith(".by_tag", StringComparison.Ordinal)
                 || where.EndsWith(".paired", StringComparison.Ordinal) || where.EndsWith(".predictions", StringComparison.Ordinal)
-                || where.EndsWith(".thresholds", StringComparison.Ordinal) || where.EndsWith("lateral_abs_error_m", StringComparison.Ordinal);
+                || where.EndsWith(".thresholds", StringComparison.Ordinal) || where == "$.values" || where.EndsWith("lateral_abs_error_m", StringComparison.Ordinal);
             foreach (JsonProperty p in e.EnumerateObject())
             {
                 if (!userKeys)
