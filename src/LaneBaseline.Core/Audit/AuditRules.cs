@@ -35,6 +35,9 @@ public static class AuditRules
     /// <summary>Neighbouring lanes' widths at the same image row differ more than published lane widths allow.</summary>
     public const string WidthRatio = "LBA-I07";
 
+    /// <summary>A lane turns on the road faster than the sharpest curve of the design speed (a corner).</summary>
+    public const string Kink = "LBA-I08";
+
     /// <summary>A lane moves sideways between consecutive frames faster than a vehicle can.</summary>
     public const string LateralJump = "LBA-T01";
 
@@ -73,6 +76,8 @@ public static class AuditRules
             "lane-file spec: slot -1 left ego boundary, +1 right, ±2 next out"),
         new(WidthRatio, "width-ratio", AuditSeverity.Warning, "ratio of neighbouring lane widths at the same row above 3.75/2.7 x 1.05 = 1.458",
             "docs/checks.md lane widths: plausible band 2.7-3.75 m (AASHTO / FHWA, DMRB TD 27/96); image widths at one row scale with ground widths on a flat road (pinhole projection); 5 % label allowance: common practice"),
+        new(Kink, "kink", AuditSeverity.Error, "a lane's heading on the road turns between two pieces of >= 4 m (within 60 m ahead) by more than (piece length) / R_min + 3 deg, R_min = V^2 / (127 (e + f)) of --design-speed-kmh; road plane from the camera, else from the horizon with f = frame width and a 1.5 m camera height",
+            "AASHTO Green Book Sec. 3.3 (docs/checks.md worked example: 393.7 m at 100 km/h); a curve of radius R turns by s / R over a length s (geometry); 3 deg label-noise allowance: common practice; 1.5 m camera height and 53 deg field of view: from memory"),
         new(LateralJump, "lateral-jump", AuditSeverity.Error, "near-end lateral move above 3 m/s x dt + 0.15 m, metres from an assumed 3.5 m lane width at that row",
             "matched by position, not slot (slots renumber in a lane change); assumption: a vehicle moves sideways at most 3 m/s (well above a lane change; from memory); 3.5 m lane: docs/checks.md band 3.50-3.75 m (DMRB TD 27/96); 0.15 m label noise: common practice"),
         new(Flicker, "flicker", AuditSeverity.Warning, "a lane missing in one frame but present in the frames before and after (or the reverse), matched within half a lane width",

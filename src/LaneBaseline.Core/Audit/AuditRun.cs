@@ -143,6 +143,7 @@ public sealed class AuditRun
                         (LaneRecord p, LaneRecord? b, long o, int width, int height, _) = batch[i];
                         var list = new List<AuditFinding>();
                         ImageRules.Check(p, o, width, height, imageSettings, list);
+                        KinkRule.Check(p, o, width, height, imageSettings, list);
                         if (projection is Geometry.GroundProjection gp)
                         {
                             GroundRules.Check(p, o, gp, settings, list);

@@ -74,4 +74,16 @@ public sealed record AuditSettings
 
     /// <summary>Largest ratio of neighbouring lane widths at one row (default 3.75 / 2.7 x 1.05).</summary>
     public double MaxWidthRatio { get; init; } = Geometry.RoadGeometry.MaxLaneWidthM / Geometry.RoadGeometry.MinLaneWidthM * 1.05;
+
+    /// <summary>Camera height assumed by the kink rule without a camera file, m (default 1.5; from memory).</summary>
+    public double AssumedCameraHeightM { get; init; } = 1.5;
+
+    /// <summary>Shortest road-plane piece between which the kink rule measures a turn, m (default 4).</summary>
+    public double KinkPieceM { get; init; } = 4;
+
+    /// <summary>How far ahead the kink rule looks, m (default 60, as the curve-radius rule's fit).</summary>
+    public double KinkLookAheadM { get; init; } = 60;
+
+    /// <summary>Turn allowed beyond the sharpest curve for label noise, degrees (default 3; common practice).</summary>
+    public double KinkAllowanceDeg { get; init; } = 3;
 }
