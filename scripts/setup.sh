@@ -29,8 +29,10 @@ if [ "${LANEBASELINE_NO_TOOL:-0}" != 1 ] && [ -f "$root/src/LaneBaseline.Cli/Lan
   dotnet pack "$root/src/LaneBaseline.Cli" -c Release -o "$feed" -nologo -v q >/dev/null
   # The same version number on every pack: drop the installed copy and the cached package so this build is installed.
   dotnet tool uninstall --global lanebaseline >/dev/null 2>&1 || true
-  rm -rf "${NUGET_PACKAGES:-$HOME/.nuget/packages}/lanebaseline"
-  nupkg=$(ls "$feed"/lanebaseline.*.nupkg | head -n 1)
+  # The pack is two packages: lanebaseline.VERSION (a pointer) and lanebaseline.linux-x64.VERSION (the precompiled
+  # tool); drop both from the cache.
+  rm -rf "${NUGET_PACKAGES:-$HOME/.nuget/packages}/lanebaseline" "${NUGET_PACKAGES:-$HOME/.nuget/packages}/lanebaseline.linux-x64"
+  nupkg=$(ls "$feed"/lanebaseline.[0-9]*.nupkg | head -n 1)
   version=$(basename "$nupkg" .nupkg); version=${version#lanebaseline.}
   dotnet tool install --global lanebaseline --version "$version" --add-source "$feed" --ignore-failed-sources >/dev/null
   tools="$HOME/.dotnet/tools"

@@ -48,6 +48,50 @@ internal static partial class Charts
         return ToSvg(plot, 900, 420, idPrefix, "F1 against IoU threshold");
     }
 
+    /// <summary>Mean absolute lateral error on the road plane (metres) against the distance ahead, one curve per system with a camera.</summary>
+    public static string GroundLateral(IReadOnlyList<SystemResult> systems, string idPrefix)
+    {
+        using var plot = NewPlot();
+        double top = 0, far = 0;
+        for (int s = 0; s < systems.Count; s++)
+        {
+            if (systems[s].Overall.Ground is not { } g)
+            {
+                continue;
+            }
+
+            GroundLateral[] pts = [.. g.Lateral.Where(l => double.IsFinite(l.MeanM) && l.Pairs > 0)];
+            far = Math.Max(far, g.Lateral.Count == 0 ? 0 : g.Lateral.Max(l => l.DistanceM));
+            if (pts.Length == 0)
+            {
+                continue;
+            }
+
+            var line = plot.Add.Scatter(pts.Select(p => p.DistanceM).ToArray(), pts.Select(p => p.MeanM).ToArray());
+            line.LegendText = systems[s].Name;
+            line.Color = Color.FromHex(SystemColor(s));
+            line.LineWidth = 2;
+            line.MarkerSize = 7;
+            top = Math.Max(top, pts.Max(p => p.MeanM));
+        }
+
+        plot.XLabel("Distance ahead (m)");
+        plot.YLabel("Mean |lateral error| (m)");
+        // one tick per look-ahead distance measured (5, 10, 20, 30 m), not one per metre
+        double[] distances = [.. systems.Where(x => x.Overall.Ground is not null).SelectMany(x => x.Overall.Ground!.Lateral).Select(l => l.DistanceM).Distinct().Order()];
+        var ticks = new ScottPlot.TickGenerators.NumericManual();
+        foreach (double d in distances.Prepend(0))
+        {
+            ticks.AddMajor(d, d.ToString("0.##", CultureInfo.InvariantCulture));
+        }
+
+        plot.Axes.Bottom.TickGenerator = ticks;
+        // metres start at 0 (an error has no sign here); a tenth of headroom above the largest mean
+        plot.Axes.SetLimits(0, Math.Max(1, far) * 1.05, 0, top > 0 ? top * 1.1 : 1);
+        plot.ShowLegend(Alignment.UpperLeft);
+        return ToSvg(plot, 900, 360, idPrefix, "Lateral error on the road plane against distance ahead");
+    }
+
     /// <summary>Precision against recall as the minimum lane confidence rises (IoU 0.50).</summary>
     public static string PrecisionRecall(IReadOnlyList<SystemResult> systems, string idPrefix)
     {

@@ -71,8 +71,10 @@ public static class HtmlReportWriter
         h.Append("<nav>");
         if (doc is not null)
         {
-            h.Append("<a href=\"#headline\">Headline</a><a href=\"#iou-curve\">F1 vs IoU</a><a href=\"#confidence\">Confidence</a>")
-             .Append("<a href=\"#tags\">Tags</a><a href=\"#paired\">Paired</a><a href=\"#regressions\">Regressions</a><a href=\"#gallery\">Worst frames</a><a href=\"#tag-gallery\">Worst by tag</a>");
+            h.Append("<a href=\"#headline\">Headline</a>").Append(HasGround(systems) ? "<a href=\"#ground\">Road plane</a>" : string.Empty)
+             .Append("<a href=\"#iou-curve\">F1 vs IoU</a><a href=\"#confidence\">Confidence</a>")
+             .Append("<a href=\"#tags\">Tags</a>").Append(Charts.SeverityTags(systems.SelectMany(s => s.ByTag.Select(kv => kv.Key)).Distinct(StringComparer.Ordinal)).Count > 0 ? "<a href=\"#severity\">Severity</a>" : string.Empty)
+             .Append("<a href=\"#paired\">Paired</a><a href=\"#regressions\">Regressions</a><a href=\"#gallery\">Worst frames</a><a href=\"#tag-gallery\">Worst by tag</a>");
         }
 
         h.Append("<a href=\"#audit\">Audit</a>").Append(input.Bench is null ? string.Empty : "<a href=\"#bench\">Cost</a>").Append("<a href=\"#configuration\">Configuration</a><a href=\"#caution\">Caution</a></nav>\n<main>\n");
@@ -80,6 +82,11 @@ public static class HtmlReportWriter
         if (doc is not null)
         {
             WriteHeadline(h, systems);
+            if (HasGround(systems))
+            {
+                WriteGround(h, systems);
+            }
+
             WriteIouCurve(h, systems);
             WriteConfidence(h, systems);
             WriteTags(h, systems, Roles(doc, input.Gallery?.Regressions));
@@ -240,6 +247,49 @@ public static class HtmlReportWriter
             : string.Create(CultureInfo.InvariantCulture, $"Intervals: {iv.Method}, {iv.Resamples} resamples, seed {iv.Seed}, level {F(iv.Level, "0.##")}."))
          .Append("</p>\n</section>\n");
     }
+
+    private static bool HasGround(IReadOnlyList<SystemResult> systems) => systems.Any(s => s.Overall.Ground is not null);
+
+    /// <summary>Road-plane errors of a score run with <c>--camera</c>: metres at each look-ahead distance, ego width, curvature.</summary>
+    private static void WriteGround(StringBuilder h, IReadOnlyList<SystemResult> systems)
+    {
+        h.Append("<section id=\"ground\">\n<h2>Errors on the road plane</h2>\n");
+        h.Append("<p>The score run had a camera (<code>--camera</code>): every pair of lanes matched at IoU 0.50 is projected onto the road, and the table gives the mean absolute lateral distance between truth and prediction at each distance ahead (metres), the mean absolute error of the ego lane's width and of the curvature at the camera. Smaller is better; counts are the pairs (frames for the width) that reach the distance.</p>\n");
+        var keys = systems.Where(s => s.Overall.Ground is not null).SelectMany(s => s.Overall.Ground!.Lateral).GroupBy(l => l.Key).Select(g => g.First()).OrderBy(l => l.DistanceM).ToList();
+        h.Append("<figure class=\"chart\" id=\"chart-ground\">").Append(Charts.GroundLateral(systems, "c8")).Append("<figcaption>Mean absolute lateral error (m) against the distance ahead, one curve per system.</figcaption></figure>\n");
+        h.Append("<div class=\"scroll\"><table id=\"ground-table\">\n<thead><tr><th>System</th>");
+        foreach (GroundLateral k in keys)
+        {
+            h.Append("<th>Lateral at ").Append(E(k.Key)).Append(" m</th>");
+        }
+
+        h.Append("<th>Ego width</th><th>Curvature (1/m)</th></tr></thead>\n<tbody>\n");
+        for (int s = 0; s < systems.Count; s++)
+        {
+            SystemResult r = systems[s];
+            if (r.Overall.Ground is not { } g)
+            {
+                continue;
+            }
+
+            h.Append("<tr data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(Swatch(s)).Append(E(r.Name)).Append("</th>");
+            foreach (GroundLateral k in keys)
+            {
+                GroundLateral? l = g.Lateral.FirstOrDefault(x => x.Key == k.Key);
+                h.Append(Metres("lateral@" + k.Key, l?.MeanM ?? double.NaN, l?.Pairs ?? 0, "pairs", "0.000 m"));
+            }
+
+            h.Append(Metres("ego_width", g.EgoWidthMeanM, g.EgoWidthFrames, "frames", "0.000 m"))
+             .Append(Metres("curvature", g.CurvatureMeanPerM, g.CurvaturePairs, "pairs", "0.00000"))
+             .Append("</tr>\n");
+        }
+
+        h.Append("</tbody>\n</table></div>\n<p class=\"note\">An empty cell: no pair reaches that distance (or no frame has both ego lines).</p>\n</section>\n");
+    }
+
+    private static string Metres(string key, double value, long count, string noun, string format) =>
+        "<td data-key=\"" + E(key) + "\">" + (double.IsNaN(value) ? "–" : E(value.ToString(format, CultureInfo.InvariantCulture))
+            + " <span class=\"n\">(" + I(count) + " " + noun + ")</span>") + "</td>";
 
     private static void WriteIouCurve(StringBuilder h, IReadOnlyList<SystemResult> systems)
     {

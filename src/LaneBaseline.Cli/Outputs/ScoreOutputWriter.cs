@@ -89,9 +89,9 @@ internal static class ScoreOutputWriter
 
         if (request.Report is (string reportPath, var framesDir))
         {
-            using var buffer = new MemoryStream();
-            ScoreJsonWriter.Write(buffer, results, request.Settings, boot, request.TruthPath);
-            ScoreDocument doc = ScoreDocumentReader.Parse(buffer.ToArray(), request.JsonPath ?? "score results");
+            // The page model comes from the results in memory (no JSON written and parsed back); the gallery uses the
+            // frame scores captured by the scoring pass.
+            ScoreDocument doc = ScoreDocumentBuilder.Build(results, request.Settings, boot, InputSpool.Display(request.TruthPath), InputSpool.Display);
             GalleryRequest? gallery = framesDir is null ? null : new GalleryRequest(framesDir, request.TruthPath, request.Systems, request.Threads) { Candidates = galleryFrames, Settings = request.Settings, Focus = request.Focus };
             ReportPage.Write(reportPath, doc, request.JsonPath ?? "score run (in memory)", null, gallery, DateTimeOffset.UtcNow, CancellationToken.None);
             stderr.WriteLine("score: wrote report " + reportPath);

@@ -27,6 +27,10 @@ public static class LaneFeatures
         ("jointShare", l => double.IsFinite(l.JointShare) ? l.JointShare : 0.5, +1), // agreement with the joint model; a lone lane is unconfirmed
         ("fanOut", l => double.IsFinite(l.FanOut) ? l.FanOut : 0, -1), // fans out like an image-vertical streak
         ("unusedCandidates", l => Math.Log(1 + (double.IsFinite(l.UnusedCandidates) ? l.UnusedCandidates : 0)), -1), // a cluttered frame: other boundary-like evidence was refused
+        ("markingContrast", l => double.IsFinite(l.MarkingContrast) ? Math.Clamp(l.MarkingContrast, 0, 4) : 0, +1), // paint is brighter than the road beside it
+        ("widthMismatch", l => double.IsFinite(l.WidthMismatch) ? Math.Min(l.WidthMismatch, 3) : 3, -1), // a streak or speck, not a marking of the perspective width
+        ("paintShare", l => double.IsFinite(l.PaintShare) ? l.PaintShare : 0, +1), // evidence that passed a paint-colour test
+        ("nearSupport", l => double.IsFinite(l.NearSupport) ? l.NearSupport : 0, +1), // near half seen, not extrapolated
         ("outerSlot", l => Math.Max(0, Math.Abs(l.Slot) - 1), -1), // 0 for the ego boundaries, 1 for +-2, 2 for +-3: farther out, fewer and fainter pixels
     ];
 

@@ -27,6 +27,14 @@ namespace LaneBaseline.Core.Results;
 /// nearly coincide (near the camera's column) and nothing can be told.</param>
 /// <param name="UnusedCandidates">Ambiguity of the frame: fitted, distinct candidate boundaries the slot assignment did
 /// not report (streaks, tar seams, far lines the width and parallel checks refused); NaN when not measured.</param>
+/// <param name="MarkingContrast">Median Weber contrast of the lane's evidence runs against the road beside them (blurred
+/// grey; 0 when no row has evidence); NaN when not measured.</param>
+/// <param name="WidthMismatch">Median |log2(evidence run width / perspective marking width)| over the lane's rows with
+/// evidence: 0 for paint of the expected width; NaN when not measured.</param>
+/// <param name="PaintShare">Share (0–1) of the lane's evidence pixels that passed a white or yellow colour test (the rest
+/// passed the ridge test alone); NaN when not measured.</param>
+/// <param name="NearSupport">Share (0–1) of the lane's image rows in the near half of the region that have evidence
+/// within a marking width of it; NaN when not measured.</param>
 public readonly record struct LaneEstimate(
     int Slot,
     double Score,
@@ -41,4 +49,8 @@ public readonly record struct LaneEstimate(
     double ParallelDeviationPx = double.NaN,
     double JointShare = double.NaN,
     double FanOut = double.NaN,
-    double UnusedCandidates = double.NaN);
+    double UnusedCandidates = double.NaN,
+    double MarkingContrast = double.NaN,
+    double WidthMismatch = double.NaN,
+    double PaintShare = double.NaN,
+    double NearSupport = double.NaN);

@@ -40,6 +40,9 @@ public sealed record Tally(
     double MeanF1,
     PointSummary Point)
 {
+    /// <summary>Road-plane errors (metres), or null when the run had no camera.</summary>
+    public GroundSummary? Ground { get; init; }
+
     /// <summary>The counts at a threshold key, or null when the file does not hold it.</summary>
     public DetectionSummary? At(string key) => Thresholds.FirstOrDefault(t => t.Key == key)?.Counts;
 }
@@ -124,3 +127,18 @@ public sealed record ScoreDocument(
     /// <summary>A setting's value text, or null.</summary>
     public string? Setting(string key) => Settings.FirstOrDefault(kv => kv.Key == key).Value;
 }
+
+/// <summary>Mean lateral error at one look-ahead distance, over the true-positive pairs that reach it.</summary>
+/// <param name="Key">Distance key as written in the score file (<c>"20"</c>).</param>
+/// <param name="DistanceM">Distance ahead, metres.</param>
+/// <param name="Pairs">Pairs measured at the distance.</param>
+/// <param name="MeanM">Mean |ΔY|, metres (NaN without pairs).</param>
+public sealed record GroundLateral(string Key, double DistanceM, long Pairs, double MeanM);
+
+/// <summary>Road-plane errors of a tally (score run with <c>--camera</c>), from the score file's <c>ground</c> object.</summary>
+/// <param name="Lateral">Lateral error per look-ahead distance, nearest first.</param>
+/// <param name="EgoWidthFrames">Frames with an ego-lane width on both sides.</param>
+/// <param name="EgoWidthMeanM">Mean |ΔW| of the ego lane, metres (NaN without frames).</param>
+/// <param name="CurvaturePairs">Pairs with a curvature on both sides.</param>
+/// <param name="CurvatureMeanPerM">Mean |Δκ|, 1/m (NaN without pairs).</param>
+public sealed record GroundSummary(IReadOnlyList<GroundLateral> Lateral, long EgoWidthFrames, double EgoWidthMeanM, long CurvaturePairs, double CurvatureMeanPerM);

@@ -252,7 +252,40 @@ public static class ScoreDocumentReader
             width,
             rows,
             ctx.Float(iou, ip, "mf1"),
-            point);
+            point)
+        {
+            Ground = ReadGround(ctx, e, path),
+        };
+    }
+
+    private static GroundSummary? ReadGround(Context ctx, JsonElement e, string path)
+    {
+        if (!e.TryGetProperty("ground", out JsonElement g))
+        {
+            return null;
+        }
+
+        string gp = path + ".ground";
+        ctx.Object(g, gp);
+        var lateral = new List<GroundLateral>();
+        string lp = gp + ".lateral_abs_error_m";
+        foreach (JsonProperty p in ctx.Object(ctx.Required(g, gp, "lateral_abs_error_m"), lp).EnumerateObject())
+        {
+            if (!double.TryParse(p.Name, NumberStyles.Float, CultureInfo.InvariantCulture, out double d) || !double.IsFinite(d))
+            {
+                throw ctx.Error(lp + "." + p.Name, "a look-ahead key must be a distance in metres");
+            }
+
+            string dp = lp + "." + p.Name;
+            ctx.Object(p.Value, dp);
+            lateral.Add(new GroundLateral(p.Name, d, ctx.Int(p.Value, dp, "pairs"), ctx.Float(p.Value, dp, "mean")));
+        }
+
+        lateral.Sort((a, b) => a.DistanceM.CompareTo(b.DistanceM));
+        string wp = gp + ".ego_width_abs_error_m", cp = gp + ".curvature_abs_error_per_m";
+        JsonElement w = ctx.Object(ctx.Required(g, gp, "ego_width_abs_error_m"), wp);
+        JsonElement c = ctx.Object(ctx.Required(g, gp, "curvature_abs_error_per_m"), cp);
+        return new GroundSummary(lateral, ctx.Int(w, wp, "frames"), ctx.Float(w, wp, "mean"), ctx.Int(c, cp, "pairs"), ctx.Float(c, cp, "mean"));
     }
 
     private static DetectionSummary ReadCounts(Context ctx, JsonElement e, string path) => new(

@@ -11,7 +11,7 @@ namespace LaneBaseline.Vision.Pipeline;
 /// The classical lane pipeline for one stream of frames: owns its stages and its <see cref="FrameWorkspace"/>,
 /// builds them for the first frame's size (and again only if the size changes), and runs them in the fixed order
 /// (resize, for frames narrower than <c>limits.workingWidthPx</c>) → gradient → hough → region → color → warp →
-/// search (→ track, when tracking is on). Not thread-safe: use one
+/// search → marking (→ calibrate, with a calibration; → track, when tracking is on). Not thread-safe: use one
 /// pipeline per worker.
 /// </summary>
 public sealed class LanePipeline : IDisposable
@@ -93,8 +93,8 @@ public sealed class LanePipeline : IDisposable
             }
         }
 
-        (double vx, double vy) = scaling.ToFrame(ws.VanishingX, ws.VanishingY);
-        return new FrameResult(ws.LaneCount, vx, vy, ws.VanishingSource) { Lanes = FinishedLanes(ws) };
+        (double vx, double vy) = scaling.ToFrame(ws.Region.VanishingX, ws.Region.VanishingY);
+        return new FrameResult(ws.LaneCount, vx, vy, ws.Region.VanishingSource) { Lanes = FinishedLanes(ws) };
     }
 
     /// <summary>
@@ -126,8 +126,8 @@ public sealed class LanePipeline : IDisposable
     {
         if (workspace is not null)
         {
-            workspace.HasPreviousVanishing = false;
-            workspace.PriorSeedCount = 0;
+            workspace.Region.HasPreviousVanishing = false;
+            workspace.Track.PriorSeedCount = 0;
         }
 
         foreach (IFrameStage s in stages)
@@ -168,6 +168,7 @@ public sealed class LanePipeline : IDisposable
         stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
         stages.Add(new BirdsEyeWarpStage());
         stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));
+        stages.Add(new MarkingProfileStage(options.Gradient));
         if (options.Calibration is not null)
         {
             stages.Add(new CalibrationStep(options.Calibration, options.Confidence.MinScore));

@@ -9,9 +9,9 @@ internal static class LaneSampler
     /// <summary>Samples the curve at image rows from the bottom up to the bird's-eye row <paramref name="topY"/>; keeps the longest run inside the frame.</summary>
     public static int Sample(FrameWorkspace ws, FitOptions fit, Quadratic q, double topY, double[] dst)
     {
-        PlaneHomography toBird = ws.ImageToBirdsEye, toImage = ws.BirdsEyeToImage;
+        PlaneHomography toBird = ws.Region.ImageToBirdsEye, toImage = ws.Region.BirdsEyeToImage;
         int w = ws.Width, h = ws.Height;
-        double cx = (ws.BirdsEyeWidth - 1) / 2.0;
+        double cx = (ws.Warp.BirdsEyeWidth - 1) / 2.0;
         if (!toImage.TryMap(cx, topY, out _, out double yTopImage))
         {
             return 0;
@@ -76,7 +76,7 @@ internal static class LaneSampler
         double x1 = dst[2 * (count - 1)], y1 = dst[(2 * count) - 1];
         double x0 = dst[2 * (count - 2)], y0 = dst[(2 * count) - 3];
         double slope = (x1 - x0) / (y1 - y0);
-        double stop = ws.VanishingY + ((1 - fit.HorizonExtensionFraction) * (y1 - ws.VanishingY));
+        double stop = ws.Region.VanishingY + ((1 - fit.HorizonExtensionFraction) * (y1 - ws.Region.VanishingY));
         if (stop >= y1 - 1)
         {
             return count;

@@ -29,15 +29,15 @@ public static class OverlayRenderer
         ArgumentNullException.ThrowIfNull(ws);
         ArgumentNullException.ThrowIfNull(canvas);
         int thickness = Math.Max(1, (int)Math.Round(ws.Width / 640.0));
-        double[] q = ws.Trapezoid;
+        double[] q = ws.Region.Trapezoid;
         var grey = new Scalar(150, 150, 150);
         Cv2.Line(canvas, P(q[0], q[1]), P(q[2], q[3]), grey, 1, LineTypes.AntiAlias);
         Cv2.Line(canvas, P(q[0], q[1]), P(q[6], q[7]), grey, 1, LineTypes.AntiAlias);
         Cv2.Line(canvas, P(q[2], q[3]), P(q[4], q[5]), grey, 1, LineTypes.AntiAlias);
         int c = Math.Max(4, ws.Width / 160);
-        var vpColor = ws.VanishingSource == VanishingSource.Preset ? new Scalar(0, 0, 255) : new Scalar(255, 255, 255);
-        Cv2.Line(canvas, P(ws.VanishingX - c, ws.VanishingY), P(ws.VanishingX + c, ws.VanishingY), vpColor, 1, LineTypes.AntiAlias);
-        Cv2.Line(canvas, P(ws.VanishingX, ws.VanishingY - c), P(ws.VanishingX, ws.VanishingY + c), vpColor, 1, LineTypes.AntiAlias);
+        var vpColor = ws.Region.VanishingSource == VanishingSource.Preset ? new Scalar(0, 0, 255) : new Scalar(255, 255, 255);
+        Cv2.Line(canvas, P(ws.Region.VanishingX - c, ws.Region.VanishingY), P(ws.Region.VanishingX + c, ws.Region.VanishingY), vpColor, 1, LineTypes.AntiAlias);
+        Cv2.Line(canvas, P(ws.Region.VanishingX, ws.Region.VanishingY - c), P(ws.Region.VanishingX, ws.Region.VanishingY + c), vpColor, 1, LineTypes.AntiAlias);
 
         for (int i = 0; i < ws.LaneCount; i++)
         {
@@ -100,23 +100,23 @@ public static class OverlayRenderer
             using (var band = new Mat(edges, new Rect(0, ws.BandTop, ws.Width, ws.Height - ws.BandTop)))
             using (var big = new Mat())
             {
-                Cv2.Resize(ws.Edges, big, band.Size(), 0, 0, InterpolationFlags.Nearest);
+                Cv2.Resize(ws.Gradient.Edges, big, band.Size(), 0, 0, InterpolationFlags.Nearest);
                 Cv2.CvtColor(big, band, ColorConversionCodes.GRAY2BGR);
             }
 
-            for (int i = 0; i < ws.SegmentCount; i++)
+            for (int i = 0; i < ws.Hough.SegmentCount; i++)
             {
-                HoughSegment s = ws.Segments[i];
+                HoughSegment s = ws.Hough.Segments[i];
                 Cv2.Line(edges, P(s.X1, s.Y1), P(s.X2, s.Y2), new Scalar(0, 200, 255), 2, LineTypes.AntiAlias);
             }
 
             using var evidence = new Mat();
-            Cv2.CvtColor(ws.Evidence, evidence, ColorConversionCodes.GRAY2BGR);
+            Cv2.CvtColor(ws.Color.Evidence, evidence, ColorConversionCodes.GRAY2BGR);
             using var warped = new Mat();
-            Cv2.CvtColor(ws.BirdsEye, warped, ColorConversionCodes.GRAY2BGR);
+            Cv2.CvtColor(ws.Warp.BirdsEye, warped, ColorConversionCodes.GRAY2BGR);
             DrawSearch(ws, warped);
             using var gray = new Mat();
-            Cv2.CvtColor(ws.Gray, gray, ColorConversionCodes.GRAY2BGR);
+            Cv2.CvtColor(ws.Gradient.Gray, gray, ColorConversionCodes.GRAY2BGR);
 
             Tile(sheet, ws.Frame, 0, 0, tileW, tileH, "input");
             Tile(sheet, gray, 1, 0, tileW, tileH, "grey");
@@ -139,8 +139,8 @@ public static class OverlayRenderer
         {
             int cand = ws.LaneCandidate[i];
             Scalar color = SlotColor(ws.Lanes[i].Slot);
-            SearchWindow[] windows = ws.CandidateWindows[Math.Max(0, cand)];
-            for (int k = 0; k < ws.WindowCount && cand >= 0; k++)
+            SearchWindow[] windows = ws.Search.CandidateWindows[Math.Max(0, cand)];
+            for (int k = 0; k < ws.Search.WindowCount && cand >= 0; k++)
             {
                 SearchWindow win = windows[k];
                 if (win.Right <= win.Left)
@@ -152,9 +152,9 @@ public static class OverlayRenderer
             }
 
             Quadratic f = ws.Lanes[i].Fit;
-            for (int y = 1; y < ws.BirdsEyeHeight; y += 4)
+            for (int y = 1; y < ws.Warp.BirdsEyeHeight; y += 4)
             {
-                Cv2.Line(warped, P(f.At(y - 1), y - 1), P(f.At(Math.Min(ws.BirdsEyeHeight - 1, y + 3)), Math.Min(ws.BirdsEyeHeight - 1, y + 3)), color, 1, LineTypes.AntiAlias);
+                Cv2.Line(warped, P(f.At(y - 1), y - 1), P(f.At(Math.Min(ws.Warp.BirdsEyeHeight - 1, y + 3)), Math.Min(ws.Warp.BirdsEyeHeight - 1, y + 3)), color, 1, LineTypes.AntiAlias);
             }
         }
     }

@@ -6,7 +6,7 @@ namespace LaneBaseline.Vision.Stages;
 
 /// <summary>Line segments of the Canny edges by the progressive probabilistic Hough transform, filtered by angle.</summary>
 /// <remarks>
-/// Steps: (1) <c>HoughLinesP</c> on <see cref="FrameWorkspace.Edges"/> with ρ step <see cref="HoughOptions.RhoPx"/>,
+/// Steps: (1) <c>HoughLinesP</c> on <see cref="Pipeline.Workspace.GradientSection.Edges"/> with ρ step <see cref="HoughOptions.RhoPx"/>,
 /// θ step <see cref="HoughOptions.ThetaStepDeg"/>, <see cref="HoughOptions.Votes"/>, minimum length and maximum gap;
 /// (2) keep segments whose angle from the horizontal lies in [<see cref="HoughOptions.MinAngleDeg"/>,
 /// <see cref="HoughOptions.MaxAngleDeg"/>] (lane boundaries recede towards the horizon; horizontal clutter does not);
@@ -39,15 +39,15 @@ public sealed class HoughStage : IFrameStage
     public void Process(FrameWorkspace workspace)
     {
         ArgumentNullException.ThrowIfNull(workspace);
-        double k = workspace.EdgeScale;
+        double k = workspace.Gradient.EdgeScale;
         LineSegmentPoint[] lines = Cv2.HoughLinesP(
-            workspace.Edges,
+            workspace.Gradient.Edges,
             options.RhoPx,
             options.ThetaStepDeg * Math.PI / 180,
             Math.Max(1, (int)Math.Round(options.Votes * k)),
             options.MinLineLengthPx * k,
             options.MaxLineGapPx * k);
-        HoughSegment[] kept = workspace.Segments;
+        HoughSegment[] kept = workspace.Hough.Segments;
         int count = 0;
         int top = workspace.BandTop;
         foreach (LineSegmentPoint l in lines)
@@ -84,7 +84,7 @@ public sealed class HoughStage : IFrameStage
             }
         }
 
-        workspace.SegmentCount = count;
+        workspace.Hough.SegmentCount = count;
     }
 
     /// <inheritdoc />

@@ -56,9 +56,9 @@ public sealed class RegionStage : IFrameStage
         ArgumentNullException.ThrowIfNull(workspace);
         if (fixedPoint is (double cxFixed, double cyFixed))
         {
-            workspace.VanishingX = cxFixed;
-            workspace.VanishingY = cyFixed;
-            workspace.VanishingSource = VanishingSource.Camera;
+            workspace.Region.VanishingX = cxFixed;
+            workspace.Region.VanishingY = cyFixed;
+            workspace.Region.VanishingSource = VanishingSource.Camera;
             SetGeometry(workspace, cxFixed, cyFixed);
             return;
         }
@@ -74,27 +74,27 @@ public sealed class RegionStage : IFrameStage
             source = VanishingSource.Estimated;
         }
 
-        if (smooth && workspace.HasPreviousVanishing)
+        if (smooth && workspace.Region.HasPreviousVanishing)
         {
             double a = region.Smoothing;
             if (source == VanishingSource.Estimated)
             {
-                vx = (a * workspace.VanishingX) + ((1 - a) * vx);
-                vy = (a * workspace.VanishingY) + ((1 - a) * vy);
+                vx = (a * workspace.Region.VanishingX) + ((1 - a) * vx);
+                vy = (a * workspace.Region.VanishingY) + ((1 - a) * vy);
                 source = VanishingSource.Smoothed;
             }
             else
             {
-                vx = workspace.VanishingX;
-                vy = workspace.VanishingY;
-                source = workspace.VanishingSource;
+                vx = workspace.Region.VanishingX;
+                vy = workspace.Region.VanishingY;
+                source = workspace.Region.VanishingSource;
             }
         }
 
-        workspace.VanishingX = vx;
-        workspace.VanishingY = vy;
-        workspace.VanishingSource = source;
-        workspace.HasPreviousVanishing = source != VanishingSource.Preset || workspace.HasPreviousVanishing;
+        workspace.Region.VanishingX = vx;
+        workspace.Region.VanishingY = vy;
+        workspace.Region.VanishingSource = source;
+        workspace.Region.HasPreviousVanishing = source != VanishingSource.Preset || workspace.Region.HasPreviousVanishing;
         SetGeometry(workspace, vx, vy);
     }
 
@@ -108,19 +108,19 @@ public sealed class RegionStage : IFrameStage
         double t = (yt - vy) / (yb - vy);
         double xlb = cx - half, xrb = cx + half;
         double xlt = vx + ((xlb - vx) * t), xrt = vx + ((xrb - vx) * t);
-        double[] q = ws.Trapezoid;
+        double[] q = ws.Region.Trapezoid;
         q[0] = xlt; q[1] = yt; q[2] = xrt; q[3] = yt; q[4] = xrb; q[5] = yb; q[6] = xlb; q[7] = yb;
-        double bw = ws.BirdsEyeWidth - 1, bh = ws.BirdsEyeHeight - 1;
+        double bw = ws.Warp.BirdsEyeWidth - 1, bh = ws.Warp.BirdsEyeHeight - 1;
         Span<double> dst = [0, 0, bw, 0, bw, bh, 0, bh];
         if (!PlaneHomography.TryFromPoints(q, dst, out PlaneHomography hm))
         {
             throw new InvalidOperationException("degenerate region trapezoid");
         }
 
-        ws.RoiTop = yt;
-        ws.ImageToBirdsEye = hm;
-        ws.BirdsEyeToImage = hm.Inverse();
-        var m = ws.HomographyMat;
+        ws.Region.RoiTop = yt;
+        ws.Region.ImageToBirdsEye = hm;
+        ws.Region.BirdsEyeToImage = hm.Inverse();
+        var m = ws.Region.HomographyMat;
         m.Set(0, 0, hm.M00); m.Set(0, 1, hm.M01); m.Set(0, 2, hm.M02);
         m.Set(1, 0, hm.M10); m.Set(1, 1, hm.M11); m.Set(1, 2, hm.M12);
         m.Set(2, 0, hm.M20); m.Set(2, 1, hm.M21); m.Set(2, 2, hm.M22);
@@ -128,8 +128,8 @@ public sealed class RegionStage : IFrameStage
 
     private bool TryEstimate(FrameWorkspace ws, out double bestX, out double bestY)
     {
-        int n = ws.SegmentCount;
-        HoughSegment[] s = ws.Segments;
+        int n = ws.Hough.SegmentCount;
+        HoughSegment[] s = ws.Hough.Segments;
         int w = ws.Width, h = ws.Height;
         double tol = region.VanishingToleranceFraction * w;
         double minY = region.MinHorizonFraction * h, maxY = region.MaxHorizonFraction * h;

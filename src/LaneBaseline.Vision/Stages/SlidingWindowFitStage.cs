@@ -72,7 +72,7 @@ public sealed class SlidingWindowFitStage : IFrameStage
     {
         ArgumentNullException.ThrowIfNull(workspace);
         seeds.Find(workspace);
-        int n = workspace.CandidateCount;
+        int n = workspace.Search.CandidateCount;
         for (int i = 0; i < n; i++)
         {
             slider.Slide(workspace, i);

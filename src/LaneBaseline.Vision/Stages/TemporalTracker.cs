@@ -54,7 +54,7 @@ public sealed class TemporalTracker : IFrameStage
     {
         ArgumentNullException.ThrowIfNull(workspace);
         FrameWorkspace ws = workspace;
-        double h = ws.BirdsEyeHeight, yb = h - 1;
+        double h = ws.Warp.BirdsEyeHeight, yb = h - 1;
         double dt = double.IsNaN(lastTime) ? 0 : ws.TimestampSeconds - lastTime;
         if (dt < 0 || dt > 1)
         {
@@ -63,7 +63,7 @@ public sealed class TemporalTracker : IFrameStage
         }
 
         lastTime = ws.TimestampSeconds;
-        ws.PriorSeedCount = 0;
+        ws.Track.PriorSeedCount = 0;
         if (LaneChanged(ws, yb))
         {
             Reset();
@@ -154,11 +154,11 @@ public sealed class TemporalTracker : IFrameStage
         {
             if (active[t])
             {
-                ws.PriorSeedX[seeds++] = new Quadratic(state[3 * t], state[(3 * t) + 1], state[(3 * t) + 2]).At(yb);
+                ws.Track.PriorSeedX[seeds++] = new Quadratic(state[3 * t], state[(3 * t) + 1], state[(3 * t) + 2]).At(yb);
             }
         }
 
-        ws.PriorSeedCount = seeds;
+        ws.Track.PriorSeedCount = seeds;
     }
 
     private bool LaneChanged(FrameWorkspace ws, double yb)

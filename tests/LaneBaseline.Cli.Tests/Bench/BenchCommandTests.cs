@@ -59,7 +59,7 @@ public sealed class BenchCommandTests : IDisposable
             JsonElement pipeline = run.GetProperty("pipeline");
             AssertStats(pipeline.GetProperty("frame_ms"), 4);
             string[] stageNames = [.. pipeline.GetProperty("stages").EnumerateArray().Select(s => s.GetProperty("name").GetString()!)];
-            Assert.Equal(["resize", "gradient", "hough", "region", "color", "warp", "search", "calibrate"], stageNames); // 128-wide frames are enlarged first (limits.workingWidthPx); the default preset is calibrated
+            Assert.Equal(["resize", "gradient", "hough", "region", "color", "warp", "search", "marking", "calibrate"], stageNames); // 128-wide frames are enlarged first (limits.workingWidthPx); the default preset is calibrated
             foreach (JsonElement s in pipeline.GetProperty("stages").EnumerateArray())
             {
                 AssertPositive(s, "median_ms", "p95_ms", "mean_ms");

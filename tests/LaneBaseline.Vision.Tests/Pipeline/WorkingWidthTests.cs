@@ -22,7 +22,7 @@ public sealed class WorkingWidthTests
         Assert.True(ws.Enlarged);
         Assert.Equal((1280, 719), (ws.Width, ws.Height));
         Assert.Equal((500, 281), (ws.FrameWidth, ws.FrameHeight));
-        Assert.Equal(["resize", "gradient", "hough", "region", "color", "warp", "search"], pipeline.StageNames);
+        Assert.Equal(["resize", "gradient", "hough", "region", "color", "warp", "search", "marking"], pipeline.StageNames);
 
         // The brightest pixel of OpenCV's enlargement (the workspace's frame) maps back to the bright frame pixel.
         using Mat grey = new();

@@ -18,22 +18,27 @@ public sealed class JointBoundaryModelTests
 
     private static double Road(double y, double c) => (A * y * y) + (B * y) + c;
 
-    private static FrameWorkspace Workspace() => new(640, 360, 480, 480, 100, 64, 0.5) { WindowCount = 16 };
+    private static FrameWorkspace Workspace()
+    {
+        FrameWorkspace ws = new(640, 360, 480, 480, 100, 64, 0.5);
+        ws.Search.WindowCount = 16;
+        return ws;
+    }
 
     private static void SetCandidate(FrameWorkspace ws, int candidate, Func<double, double> x)
     {
         for (int k = 0; k < 16; k++)
         {
             double y = 480 - (30 * k) - 15;
-            ws.CandidateWindows[candidate][k] = new SearchWindow(x(y), y, 20, 0, (int)(y - 15), 1, (int)(y + 15), true);
+            ws.Search.CandidateWindows[candidate][k] = new SearchWindow(x(y), y, 20, 0, (int)(y - 15), 1, (int)(y + 15), true);
         }
 
         // Its own fit: the weighted least-squares quadratic of its windows (what the candidate fitter reports).
-        double[] xs = [.. ws.CandidateWindows[candidate].Take(16).Select(w => w.X)];
-        double[] ys = [.. ws.CandidateWindows[candidate].Take(16).Select(w => w.Y)];
+        double[] xs = [.. ws.Search.CandidateWindows[candidate].Take(16).Select(w => w.X)];
+        double[] ys = [.. ws.Search.CandidateWindows[candidate].Take(16).Select(w => w.Y)];
         double[] wts = [.. Enumerable.Repeat(20.0, 16)];
         Assert.True(Core.Geometry.QuadraticFit.TryFit(xs, ys, wts, default, 480, out Quadratic own));
-        ws.CandidateFits[candidate] = new LaneEstimate(0, 0.9, own, 320, 1, 1, 0);
+        ws.Search.CandidateFits[candidate] = new LaneEstimate(0, 0.9, own, 320, 1, 1, 0);
     }
 
     [Fact]
@@ -46,11 +51,11 @@ public sealed class JointBoundaryModelTests
         int[] chosen = [-1, -1, 0, 1, 2, -1];
         new JointBoundaryModel(new SearchOptions(), new FitOptions { JointRefit = true }, new ConfidenceOptions()).Refine(ws, chosen);
         Assert.Equal(new[] { -1, -1, 0, 1, -1, -1 }, chosen);
-        Assert.Equal(A, ws.CandidateFits[0].Fit.A, 9);
-        Assert.Equal(B, ws.CandidateFits[1].Fit.B, 6);
-        Assert.Equal(200, ws.CandidateFits[0].Fit.C, 4);
-        Assert.Equal(320, ws.CandidateFits[1].Fit.C, 4);
-        Assert.Equal(1, ws.CandidateFits[1].JointShare, 9);
+        Assert.Equal(A, ws.Search.CandidateFits[0].Fit.A, 9);
+        Assert.Equal(B, ws.Search.CandidateFits[1].Fit.B, 6);
+        Assert.Equal(200, ws.Search.CandidateFits[0].Fit.C, 4);
+        Assert.Equal(320, ws.Search.CandidateFits[1].Fit.C, 4);
+        Assert.Equal(1, ws.Search.CandidateFits[1].JointShare, 9);
     }
 
     [Fact]
@@ -62,13 +67,13 @@ public sealed class JointBoundaryModelTests
         SetCandidate(ws, 0, y => Road(y, 200));
         SetCandidate(ws, 1, y => Road(y, 320) + (y < 120 ? 25 : 0));
         SetCandidate(ws, 2, y => Road(y, 440));
-        double bentBefore = Math.Abs(ws.CandidateFits[1].Fit.At(15) - Road(15, 320));
+        double bentBefore = Math.Abs(ws.Search.CandidateFits[1].Fit.At(15) - Road(15, 320));
         Assert.True(bentBefore > 5, $"the constructed own fit should be bent ({bentBefore:0.0} px)");
         int[] chosen = [-1, -1, 0, 1, 2, -1];
         new JointBoundaryModel(new SearchOptions(), new FitOptions { JointRefit = true }, new ConfidenceOptions()).Refine(ws, chosen);
         Assert.Equal(new[] { -1, -1, 0, 1, 2, -1 }, chosen);
-        Assert.Equal(Road(15, 320), ws.CandidateFits[1].Fit.At(15), 6);
-        Assert.Equal(0.75, ws.CandidateFits[1].JointShare, 9); // 12 of its 16 windows
+        Assert.Equal(Road(15, 320), ws.Search.CandidateFits[1].Fit.At(15), 6);
+        Assert.Equal(0.75, ws.Search.CandidateFits[1].JointShare, 9); // 12 of its 16 windows
     }
 
     [Fact]
@@ -77,11 +82,11 @@ public sealed class JointBoundaryModelTests
         // Source: common practice (a shared model needs at least two members).
         using FrameWorkspace ws = Workspace();
         SetCandidate(ws, 0, y => 420 + (0.4 * (479 - y)));
-        LaneEstimate before = ws.CandidateFits[0];
+        LaneEstimate before = ws.Search.CandidateFits[0];
         int[] chosen = [-1, -1, 0, -1, -1, -1];
         new JointBoundaryModel(new SearchOptions(), new FitOptions { JointRefit = true }, new ConfidenceOptions()).Refine(ws, chosen);
         Assert.Equal(0, chosen[2]);
-        Assert.Equal(before, ws.CandidateFits[0]);
+        Assert.Equal(before, ws.Search.CandidateFits[0]);
     }
 
     [Fact]
@@ -91,16 +96,16 @@ public sealed class JointBoundaryModelTests
         // the model-guided search follows the shared shape at the predicted offset and finds it; on the left, where
         // the road has no further paint, nothing is added. Source: constructed case of the shared-shape model.
         using FrameWorkspace ws = Workspace();
-        ws.BirdsEye.SetTo(Scalar.All(0));
+        ws.Warp.BirdsEye.SetTo(Scalar.All(0));
         SetCandidate(ws, 0, y => Road(y, 200));
         SetCandidate(ws, 1, y => Road(y, 320));
-        ws.CandidateCount = 2;
+        ws.Search.CandidateCount = 2;
         foreach ((int y0, int y1) in new[] { (400, 470), (250, 300) })
         {
             for (int y = y0; y < y1; y++)
             {
                 double x = Road(y, 443);
-                Cv2.Line(ws.BirdsEye, new Point((int)Math.Round(x) - 2, y), new Point((int)Math.Round(x) + 2, y), Scalar.All(255));
+                Cv2.Line(ws.Warp.BirdsEye, new Point((int)Math.Round(x) - 2, y), new Point((int)Math.Round(x) + 2, y), Scalar.All(255));
             }
         }
 
@@ -109,8 +114,8 @@ public sealed class JointBoundaryModelTests
         model.Refine(ws, chosen);
         model.Recover(ws, chosen, 4);
         Assert.Equal(new[] { -1, -1, 0, 1, 2, -1 }, chosen);
-        Assert.Equal(3, ws.CandidateCount);
-        Assert.Equal(443, ws.CandidateFits[2].Fit.C, 0);
-        Assert.Equal(A, ws.CandidateFits[2].Fit.A, 9);
+        Assert.Equal(3, ws.Search.CandidateCount);
+        Assert.Equal(443, ws.Search.CandidateFits[2].Fit.C, 0);
+        Assert.Equal(A, ws.Search.CandidateFits[2].Fit.A, 9);
     }
 }

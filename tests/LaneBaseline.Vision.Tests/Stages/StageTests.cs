@@ -42,7 +42,7 @@ public sealed class StageTests
         using FrameWorkspace ws = Workspace(o, 60);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         RunUpTo(ws, o, frame, 2);
-        Assert.Equal(0, ws.SegmentCount);
+        Assert.Equal(0, ws.Hough.SegmentCount);
     }
 
     [Fact]
@@ -57,11 +57,11 @@ public sealed class StageTests
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         Cv2.Line(frame, new Point(60, 179), new Point(150, 70), Scalar.All(230), 3);
         RunUpTo(ws, o, frame, 2);
-        Assert.True(ws.SegmentCount >= 1);
+        Assert.True(ws.Hough.SegmentCount >= 1);
         double dx = 90, dy = -109, len = Math.Sqrt((dx * dx) + (dy * dy));
-        for (int i = 0; i < ws.SegmentCount; i++)
+        for (int i = 0; i < ws.Hough.SegmentCount; i++)
         {
-            HoughSegment s = ws.Segments[i];
+            HoughSegment s = ws.Hough.Segments[i];
             double mx = (s.X1 + s.X2) / 2, my = (s.Y1 + s.Y2) / 2;
             double dist = Math.Abs((dy * (mx - 60)) - (dx * (my - 179))) / len;
             Assert.True(dist <= 6, $"segment midpoint ({mx}, {my}) is {dist:0.0} px off the line");
@@ -79,7 +79,7 @@ public sealed class StageTests
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         Cv2.Line(frame, new Point(20, 120), new Point(300, 125), Scalar.All(230), 3);
         RunUpTo(ws, o, frame, 2);
-        Assert.Equal(0, ws.SegmentCount);
+        Assert.Equal(0, ws.Hough.SegmentCount);
     }
 
     [Fact]
@@ -89,9 +89,9 @@ public sealed class StageTests
         using FrameWorkspace ws = Workspace(o, 60);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         RunUpTo(ws, o, frame, 3);
-        Assert.Equal(VanishingSource.Preset, ws.VanishingSource);
-        Assert.Equal(o.Region.DefaultHorizonFraction * H, ws.VanishingY);
-        Assert.Equal(o.Region.DefaultVanishingXFraction * W, ws.VanishingX);
+        Assert.Equal(VanishingSource.Preset, ws.Region.VanishingSource);
+        Assert.Equal(o.Region.DefaultHorizonFraction * H, ws.Region.VanishingY);
+        Assert.Equal(o.Region.DefaultVanishingXFraction * W, ws.Region.VanishingX);
     }
 
     [Fact]
@@ -104,8 +104,8 @@ public sealed class StageTests
         Cv2.Line(frame, new Point(100, 10), new Point(110, 60), Scalar.All(230), 4);    // above the preset horizon (90)
         Cv2.Line(frame, new Point(100, 179), new Point(140, 120), Scalar.All(230), 5);  // on the road
         RunUpTo(ws, o, frame, 4);
-        using Mat top = ws.Evidence.RowRange(0, 90);
-        using Mat bottom = ws.Evidence.RowRange(120, 180);
+        using Mat top = ws.Color.Evidence.RowRange(0, 90);
+        using Mat bottom = ws.Color.Evidence.RowRange(120, 180);
         Assert.Equal(0, Cv2.CountNonZero(top));
         Assert.True(Cv2.CountNonZero(bottom) > 50);
     }
@@ -120,7 +120,7 @@ public sealed class StageTests
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         Cv2.Rectangle(frame, new Rect(100, 130, 120, 50), Scalar.All(230), -1);
         RunUpTo(ws, o, frame, 4);
-        using Mat inner = new Mat(ws.Evidence, new Rect(130, 140, 60, 40));
+        using Mat inner = new Mat(ws.Color.Evidence, new Rect(130, 140, 60, 40));
         Assert.Equal(0, Cv2.CountNonZero(inner));
     }
 
@@ -138,23 +138,23 @@ public sealed class StageTests
         Cv2.Line(frame, new Point(60, 179), new Point(160, 90), Scalar.All(230), 4);  // through the preset point (160, 90)
         Cv2.Line(frame, new Point(250, 115), new Point(250, 179), Scalar.All(230), 4); // vertical streak
         RunUpTo(ws, o, frame, 4);
-        Assert.Equal(160, ws.VanishingX, 6);
-        using (Mat streak = new Mat(ws.Evidence, new Rect(240, 125, 21, 50)))
-        using (Mat line = new Mat(ws.Evidence, new Rect(60, 125, 100, 50)))
+        Assert.Equal(160, ws.Region.VanishingX, 6);
+        using (Mat streak = new Mat(ws.Color.Evidence, new Rect(240, 125, 21, 50)))
+        using (Mat line = new Mat(ws.Color.Evidence, new Rect(60, 125, 100, 50)))
         {
             Assert.Equal(0, Cv2.CountNonZero(streak));
             Assert.True(Cv2.CountNonZero(line) > 50);
         }
 
-        Assert.True(ws.EvidenceKeptShare < 0.9);
+        Assert.True(ws.Color.EvidenceKeptShare < 0.9);
 
         // With the test switched off the same streak is evidence: the check above is the orientation test's doing.
         var off = o with { Gradient = o.Gradient with { OrientationToleranceDeg = 90 } };
         using FrameWorkspace ws2 = Workspace(off, 60);
         RunUpTo(ws2, off, frame, 4);
-        using Mat streak2 = new Mat(ws2.Evidence, new Rect(240, 125, 21, 50));
+        using Mat streak2 = new Mat(ws2.Color.Evidence, new Rect(240, 125, 21, 50));
         Assert.True(Cv2.CountNonZero(streak2) > 50);
-        Assert.Equal(1, ws2.EvidenceKeptShare);
+        Assert.Equal(1, ws2.Color.EvidenceKeptShare);
     }
 
     [Fact]
@@ -172,21 +172,21 @@ public sealed class StageTests
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(20, 56, 88));
         Cv2.Rectangle(frame, new Rect(60, 168, 200, 12), new Scalar(28, 77, 121), -1);
         RunUpTo(ws, o, frame, 4);
-        using (Mat inner = new Mat(ws.Evidence, new Rect(100, 170, 120, 8)))
+        using (Mat inner = new Mat(ws.Color.Evidence, new Rect(100, 170, 120, 8)))
         {
             Assert.Equal(0, Cv2.CountNonZero(inner));
         }
 
-        Assert.True(ws.GreyWorldGains.B > 2.0 && ws.GreyWorldGains.B < 3.2, $"blue gain {ws.GreyWorldGains.B}");
-        Assert.True(ws.GreyWorldGains.R > 0.5 && ws.GreyWorldGains.R < 0.75, $"red gain {ws.GreyWorldGains.R}");
+        Assert.True(ws.Color.GreyWorldGains.B > 2.0 && ws.Color.GreyWorldGains.B < 3.2, $"blue gain {ws.Color.GreyWorldGains.B}");
+        Assert.True(ws.Color.GreyWorldGains.R > 0.5 && ws.Color.GreyWorldGains.R < 0.75, $"red gain {ws.Color.GreyWorldGains.R}");
 
         // Without the gains the cast patch is "yellow paint": the check above is the grey world's doing.
         var off = o with { Color = o.Color with { GreyWorld = false } };
         using FrameWorkspace ws2 = Workspace(off, 60);
         RunUpTo(ws2, off, frame, 4);
-        using Mat inner2 = new Mat(ws2.Evidence, new Rect(100, 170, 120, 8));
+        using Mat inner2 = new Mat(ws2.Color.Evidence, new Rect(100, 170, 120, 8));
         Assert.True(Cv2.CountNonZero(inner2) > 400);
-        Assert.Equal((1.0, 1.0, 1.0), ws2.GreyWorldGains);
+        Assert.Equal((1.0, 1.0, 1.0), ws2.Color.GreyWorldGains);
     }
 
     [Fact]
@@ -214,10 +214,10 @@ public sealed class StageTests
         RunUpTo(plain, off, frame, 4);
         using FrameWorkspace equalised = Workspace(o, 60);
         RunUpTo(equalised, o, frame, 4);
-        Assert.False(plain.Equalised);
-        Assert.True(equalised.Equalised);
-        using Mat linePlain = new Mat(plain.Evidence, new Rect(60, 130, 70, 50));
-        using Mat lineEq = new Mat(equalised.Evidence, new Rect(60, 130, 70, 50));
+        Assert.False(plain.Color.Equalised);
+        Assert.True(equalised.Color.Equalised);
+        using Mat linePlain = new Mat(plain.Color.Evidence, new Rect(60, 130, 70, 50));
+        using Mat lineEq = new Mat(equalised.Color.Evidence, new Rect(60, 130, 70, 50));
         Assert.True(Cv2.CountNonZero(linePlain) < 20, $"plain ridge found {Cv2.CountNonZero(linePlain)} pixels");
         Assert.True(Cv2.CountNonZero(lineEq) > 100, $"equalised ridge found {Cv2.CountNonZero(lineEq)} pixels");
 
@@ -225,7 +225,7 @@ public sealed class StageTests
         using var day = new Mat(H, W, MatType.CV_8UC3, Scalar.All(104));
         using FrameWorkspace dayWs = Workspace(o, 60);
         RunUpTo(dayWs, o, day, 4);
-        Assert.False(dayWs.Equalised);
+        Assert.False(dayWs.Color.Equalised);
     }
 
     [Fact]
@@ -244,9 +244,9 @@ public sealed class StageTests
         Cv2.Line(frame, new Point(60, 179), new Point(160, 90), Scalar.All(200), 4);     // a lane line
         using FrameWorkspace ws = Workspace(o, 60);
         RunUpTo(ws, o, frame, 4);
-        Assert.Equal(160, ws.VanishingX, 6);
-        using (Mat streak = new Mat(ws.Evidence, new Rect(240, 125, 21, 50)))
-        using (Mat line = new Mat(ws.Evidence, new Rect(60, 125, 100, 50)))
+        Assert.Equal(160, ws.Region.VanishingX, 6);
+        using (Mat streak = new Mat(ws.Color.Evidence, new Rect(240, 125, 21, 50)))
+        using (Mat line = new Mat(ws.Color.Evidence, new Rect(60, 125, 100, 50)))
         {
             Assert.Equal(0, Cv2.CountNonZero(streak));
             Assert.True(Cv2.CountNonZero(line) > 50);
@@ -256,7 +256,7 @@ public sealed class StageTests
         var off = o with { Color = o.Color with { LightSourceLightness = 255 } };
         using FrameWorkspace ws2 = Workspace(off, 60);
         RunUpTo(ws2, off, frame, 4);
-        using Mat streak2 = new Mat(ws2.Evidence, new Rect(240, 125, 21, 50));
+        using Mat streak2 = new Mat(ws2.Color.Evidence, new Rect(240, 125, 21, 50));
         Assert.True(Cv2.CountNonZero(streak2) > 50);
     }
 
@@ -269,13 +269,13 @@ public sealed class StageTests
         using FrameWorkspace ws = Workspace(o, 60);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         RunUpTo(ws, o, frame, 3);
-        double vx = ws.VanishingX, vy = ws.VanishingY;
+        double vx = ws.Region.VanishingX, vy = ws.Region.VanishingY;
         foreach (double bottomX in new[] { -100.0, 40, 160, 300, 500 })
         {
             double x1 = bottomX, y1 = H - 1;
             double x2 = vx + ((x1 - vx) * 0.3), y2 = vy + ((y1 - vy) * 0.3);
-            Assert.True(ws.ImageToBirdsEye.TryMap(x1, y1, out double u1, out _));
-            Assert.True(ws.ImageToBirdsEye.TryMap(x2, y2, out double u2, out _));
+            Assert.True(ws.Region.ImageToBirdsEye.TryMap(x1, y1, out double u1, out _));
+            Assert.True(ws.Region.ImageToBirdsEye.TryMap(x2, y2, out double u2, out _));
             Assert.Equal(u1, u2, 6);
         }
     }

@@ -16,7 +16,7 @@ public sealed class TemporalTrackerTests
         using var pipeline = new LanePipeline(Tracking);
         using Mat frame = new SyntheticRoad { Width = 640, Height = 360 }.Render();
         pipeline.Process(frame, 0);
-        Assert.Equal(["resize", "gradient", "hough", "region", "color", "warp", "search", "track"], pipeline.StageNames); // 640-wide frames are enlarged first
+        Assert.Equal(["resize", "gradient", "hough", "region", "color", "warp", "search", "marking", "track"], pipeline.StageNames); // 640-wide frames are enlarged first
     }
 
     [Fact]

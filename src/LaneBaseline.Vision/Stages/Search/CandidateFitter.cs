@@ -29,10 +29,10 @@ internal sealed class CandidateFitter
     /// <summary>Fits one candidate's window centroids and scores it (an empty estimate when too few windows agree).</summary>
     public void Fit(FrameWorkspace ws, int candidate)
     {
-        SearchWindow[] windows = ws.CandidateWindows[candidate];
-        int n = ws.WindowCount;
-        double[] xs = ws.FitX, ys = ws.FitY, wts = ws.FitW;
-        bool[] use = ws.FitUse, best = ws.FitBest;
+        SearchWindow[] windows = ws.Search.CandidateWindows[candidate];
+        int n = ws.Search.WindowCount;
+        double[] xs = ws.Search.FitX, ys = ws.Search.FitY, wts = ws.Search.FitW;
+        bool[] use = ws.Search.FitUse, best = ws.Search.FitBest;
         int m = 0;
         for (int k = 0; k < n; k++)
         {
@@ -45,13 +45,13 @@ internal sealed class CandidateFitter
             }
         }
 
-        ws.CandidateFits[candidate] = default;
+        ws.Search.CandidateFits[candidate] = default;
         if (m < fit.MinInlierWindows)
         {
             return;
         }
 
-        double scale = ws.BirdsEyeHeight;
+        double scale = ws.Warp.BirdsEyeHeight;
         double tol = fit.InlierTolerancePx;
         double bestMass = -1;
         Quadratic bestFit = default;
@@ -179,8 +179,8 @@ internal sealed class CandidateFitter
             score *= 1 - (fit.FanOutPenalty * fanOut);
         }
 
-        ws.CandidateFits[candidate] = new LaneEstimate(0, score, current, inlierMass, coverage, rms, 0, FanOut: fanOut);
-        ws.CandidateTopY[candidate] = Math.Max(0, topY);
+        ws.Search.CandidateFits[candidate] = new LaneEstimate(0, score, current, inlierMass, coverage, rms, 0, FanOut: fanOut);
+        ws.Search.CandidateTopY[candidate] = Math.Max(0, topY);
     }
 
     /// <summary>
@@ -193,9 +193,9 @@ internal sealed class CandidateFitter
     /// </summary>
     internal static double FanOut(FrameWorkspace ws, Quadratic curve, double topY)
     {
-        PlaneHomography h = ws.ImageToBirdsEye;
-        double yb = ws.BirdsEyeHeight - 1;
-        if (Math.Abs(h.M21) < 1e-12 || yb - topY < 0.2 * ws.BirdsEyeHeight)
+        PlaneHomography h = ws.Region.ImageToBirdsEye;
+        double yb = ws.Warp.BirdsEyeHeight - 1;
+        if (Math.Abs(h.M21) < 1e-12 || yb - topY < 0.2 * ws.Warp.BirdsEyeHeight)
         {
             return double.NaN;
         }

@@ -64,8 +64,8 @@ internal sealed class JointBoundaryModel
             }
 
             start[lanes] = points;
-            SearchWindow[] windows = frame.CandidateWindows[chosen[s]];
-            for (int k = 0; k < frame.WindowCount; k++)
+            SearchWindow[] windows = frame.Search.CandidateWindows[chosen[s]];
+            for (int k = 0; k < frame.Search.WindowCount; k++)
             {
                 if (windows[k].Mass >= search.MinWindowMass)
                 {
@@ -86,7 +86,7 @@ internal sealed class JointBoundaryModel
             return;
         }
 
-        double tol = fit.InlierTolerancePx, scale = frame.BirdsEyeHeight;
+        double tol = fit.InlierTolerancePx, scale = frame.Warp.BirdsEyeHeight;
 
         // Hypotheses for the shared (A, B): each boundary's own curve and its line, then seeded random triples of one
         // boundary's windows; each boundary's offset C_i is the weighted median offset of its windows.
@@ -99,7 +99,7 @@ internal sealed class JointBoundaryModel
                 continue;
             }
 
-            Quadratic own = frame.CandidateFits[chosen[s]].Fit;
+            Quadratic own = frame.Search.CandidateFits[chosen[s]].Fit;
             Consider(own.A, own.B, lanes, tol, ref bestMass, ref bestA, ref bestB);
         }
 
@@ -172,7 +172,7 @@ internal sealed class JointBoundaryModel
             }
 
             int c = chosen[s];
-            LaneEstimate own = frame.CandidateFits[c];
+            LaneEstimate own = frame.Search.CandidateFits[c];
             double kept = 0;
             int count = 0;
             for (int p = start[lane]; p < start[lane + 1]; p++)
@@ -191,7 +191,7 @@ internal sealed class JointBoundaryModel
             }
             else
             {
-                frame.CandidateFits[c] = own with { Fit = fit.JointRefit ? fits[lane] : own.Fit, JointShare = share };
+                frame.Search.CandidateFits[c] = own with { Fit = fit.JointRefit ? fits[lane] : own.Fit, JointShare = share };
                 offsets[s] = fits[lane].C;
             }
 
@@ -235,7 +235,7 @@ internal sealed class JointBoundaryModel
         }
 
         double width = ((n * sic) - (si * sc)) / den, c0 = (sc - (width * si)) / n;
-        int bw = frame.BirdsEyeWidth;
+        int bw = frame.Warp.BirdsEyeWidth;
         if (width < search.MinLaneWidthFraction * bw || width > search.MaxLaneWidthFraction * bw)
         {
             return;
@@ -245,18 +245,18 @@ internal sealed class JointBoundaryModel
         {
             bool allowed = s switch { 0 => maxLanes >= 5, 1 => maxLanes >= 3, 2 => true, 3 => maxLanes >= 2, 4 => maxLanes >= 4, _ => maxLanes >= 6 };
             bool nextToKept = (s > 0 && chosen[s - 1] >= 0) || (s < 5 && chosen[s + 1] >= 0);
-            if (chosen[s] >= 0 || !allowed || !nextToKept || frame.CandidateCount >= FrameWorkspace.MaxCandidates)
+            if (chosen[s] >= 0 || !allowed || !nextToKept || frame.Search.CandidateCount >= FrameWorkspace.MaxCandidates)
             {
                 continue;
             }
 
             double predicted = c0 + (width * BoundaryIndex[s]);
-            int candidate = frame.CandidateCount;
+            int candidate = frame.Search.CandidateCount;
             if (Follow(frame, candidate, predicted, width))
             {
-                frame.CandidateCount++;
+                frame.Search.CandidateCount++;
                 chosen[s] = candidate;
-                offsets[s] = frame.CandidateFits[candidate].Fit.C;
+                offsets[s] = frame.Search.CandidateFits[candidate].Fit.C;
             }
         }
     }
@@ -267,12 +267,12 @@ internal sealed class JointBoundaryModel
     /// </summary>
     private unsafe bool Follow(FrameWorkspace frame, int candidate, double predicted, double width)
     {
-        int bw = frame.BirdsEyeWidth, bh = frame.BirdsEyeHeight;
-        int n = frame.WindowCount;
+        int bw = frame.Warp.BirdsEyeWidth, bh = frame.Warp.BirdsEyeHeight;
+        int n = frame.Search.WindowCount;
         double wh = (double)bh / n;
-        byte* b = (byte*)frame.BirdsEye.DataPointer;
-        long step = frame.BirdsEye.Step();
-        SearchWindow[] windows = frame.CandidateWindows[candidate];
+        byte* b = (byte*)frame.Warp.BirdsEye.DataPointer;
+        long step = frame.Warp.BirdsEye.Step();
+        SearchWindow[] windows = frame.Search.CandidateWindows[candidate];
         double offset = predicted;
         for (int pass = 0; pass < 2; pass++)
         {
@@ -357,8 +357,8 @@ internal sealed class JointBoundaryModel
         double score = Math.Min(1, inlierMass / confidence.FullSupportMass)
             * Math.Min(1, coverage / confidence.FullCoverage)
             * Math.Exp(-rms / confidence.ResidualScalePx);
-        frame.CandidateFits[candidate] = new LaneEstimate(0, score, curve, inlierMass, coverage, rms, 0);
-        frame.CandidateTopY[candidate] = Math.Max(0, topY);
+        frame.Search.CandidateFits[candidate] = new LaneEstimate(0, score, curve, inlierMass, coverage, rms, 0);
+        frame.Search.CandidateTopY[candidate] = Math.Max(0, topY);
         return score >= confidence.MinScore;
     }
 

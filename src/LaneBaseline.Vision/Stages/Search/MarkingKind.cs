@@ -11,14 +11,14 @@ internal static class MarkingKind
     /// </summary>
     public static string? Estimate(FrameWorkspace ws, int candidate, Core.Results.Quadratic curve)
     {
-        SearchWindow[] windows = ws.CandidateWindows[candidate];
+        SearchWindow[] windows = ws.Search.CandidateWindows[candidate];
         int inside = 0, filled = 0, gaps = 0;
         bool previousFilled = true;
-        for (int k = 0; k < ws.WindowCount; k++)
+        for (int k = 0; k < ws.Search.WindowCount; k++)
         {
             SearchWindow win = windows[k];
             double yc = (win.Top + win.Bottom) / 2.0;
-            if (win.Bottom <= win.Top || !ws.BirdsEyeToImage.TryMap(curve.At(yc), yc, out double xi, out _) || xi < 0 || xi > ws.Width - 1)
+            if (win.Bottom <= win.Top || !ws.Region.BirdsEyeToImage.TryMap(curve.At(yc), yc, out double xi, out _) || xi < 0 || xi > ws.Width - 1)
             {
                 continue;
             }

@@ -22,18 +22,18 @@ internal sealed class SeedFinder
     public void Find(FrameWorkspace ws)
     {
         FindPeaks(ws);
-        AddSeeds(ws, ws.PriorSeedX, ws.PriorSeedCount);
+        AddSeeds(ws, ws.Track.PriorSeedX, ws.Track.PriorSeedCount);
         AddHoughSeeds(ws);
     }
 
     private unsafe void FindPeaks(FrameWorkspace ws)
     {
-        int bw = ws.BirdsEyeWidth, bh = ws.BirdsEyeHeight;
-        double[] col = ws.ColumnMass;
-        double[] sm = ws.Smoothed;
+        int bw = ws.Warp.BirdsEyeWidth, bh = ws.Warp.BirdsEyeHeight;
+        double[] col = ws.Search.ColumnMass;
+        double[] sm = ws.Search.Smoothed;
         Array.Clear(col);
-        byte* b = (byte*)ws.BirdsEye.DataPointer;
-        long step = ws.BirdsEye.Step();
+        byte* b = (byte*)ws.Warp.BirdsEye.DataPointer;
+        long step = ws.Warp.BirdsEye.Step();
         int r0 = bh - (int)Math.Round(search.HistogramRowsFraction * bh);
         for (int y = Math.Max(0, r0); y < bh; y++)
         {
@@ -87,8 +87,8 @@ internal sealed class SeedFinder
                 break;
             }
 
-            ws.CandidateX[count] = best;
-            ws.CandidateMass[count] = mass;
+            ws.Search.CandidateX[count] = best;
+            ws.Search.CandidateMass[count] = mass;
             count++;
             for (int x = Math.Max(0, best - sep); x <= Math.Min(bw - 1, best + sep); x++)
             {
@@ -96,38 +96,38 @@ internal sealed class SeedFinder
             }
         }
 
-        ws.CandidateCount = count;
+        ws.Search.CandidateCount = count;
     }
 
     /// <summary>Adds seeds predicted by the tracker (search around the previous fits) where no seed is near.</summary>
     private void AddSeeds(FrameWorkspace ws, double[] seeds, int count)
     {
-        for (int i = 0; i < count && ws.CandidateCount < FrameWorkspace.MaxCandidates; i++)
+        for (int i = 0; i < count && ws.Search.CandidateCount < FrameWorkspace.MaxCandidates; i++)
         {
             double xb = seeds[i];
             bool near = false;
-            for (int c = 0; c < ws.CandidateCount; c++)
+            for (int c = 0; c < ws.Search.CandidateCount; c++)
             {
-                near |= Math.Abs(ws.CandidateX[c] - xb) < search.MinSeparationPx / 2.0;
+                near |= Math.Abs(ws.Search.CandidateX[c] - xb) < search.MinSeparationPx / 2.0;
             }
 
-            if (!near && xb >= 0 && xb < ws.BirdsEyeWidth)
+            if (!near && xb >= 0 && xb < ws.Warp.BirdsEyeWidth)
             {
-                ws.CandidateX[ws.CandidateCount] = xb;
-                ws.CandidateMass[ws.CandidateCount] = 0;
-                ws.CandidateCount++;
+                ws.Search.CandidateX[ws.Search.CandidateCount] = xb;
+                ws.Search.CandidateMass[ws.Search.CandidateCount] = 0;
+                ws.Search.CandidateCount++;
             }
         }
     }
 
     private void AddHoughSeeds(FrameWorkspace ws)
     {
-        int bw = ws.BirdsEyeWidth, bh = ws.BirdsEyeHeight;
-        PlaneHomography hm = ws.ImageToBirdsEye;
-        for (int i = 0; i < ws.SegmentCount && ws.CandidateCount < FrameWorkspace.MaxCandidates; i++)
+        int bw = ws.Warp.BirdsEyeWidth, bh = ws.Warp.BirdsEyeHeight;
+        PlaneHomography hm = ws.Region.ImageToBirdsEye;
+        for (int i = 0; i < ws.Hough.SegmentCount && ws.Search.CandidateCount < FrameWorkspace.MaxCandidates; i++)
         {
-            HoughSegment s = ws.Segments[i];
-            if (s.Y1 < ws.RoiTop || s.Y2 < ws.RoiTop
+            HoughSegment s = ws.Hough.Segments[i];
+            if (s.Y1 < ws.Region.RoiTop || s.Y2 < ws.Region.RoiTop
                 || !hm.TryMap(s.X1, s.Y1, out double u1, out double v1) || !hm.TryMap(s.X2, s.Y2, out double u2, out double v2)
                 || Math.Abs(v2 - v1) < 1)
             {
@@ -147,9 +147,9 @@ internal sealed class SeedFinder
             }
 
             bool near = false;
-            for (int c = 0; c < ws.CandidateCount; c++)
+            for (int c = 0; c < ws.Search.CandidateCount; c++)
             {
-                if (Math.Abs(ws.CandidateX[c] - xb) < search.MinSeparationPx)
+                if (Math.Abs(ws.Search.CandidateX[c] - xb) < search.MinSeparationPx)
                 {
                     near = true;
                     break;
@@ -158,9 +158,9 @@ internal sealed class SeedFinder
 
             if (!near)
             {
-                ws.CandidateX[ws.CandidateCount] = xb;
-                ws.CandidateMass[ws.CandidateCount] = 0;
-                ws.CandidateCount++;
+                ws.Search.CandidateX[ws.Search.CandidateCount] = xb;
+                ws.Search.CandidateMass[ws.Search.CandidateCount] = 0;
+                ws.Search.CandidateCount++;
             }
         }
     }

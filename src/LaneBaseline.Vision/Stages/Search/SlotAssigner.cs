@@ -33,17 +33,17 @@ internal sealed class SlotAssigner
     /// <summary>Chooses the reported lanes among the fitted candidates and gives them slots.</summary>
     public void Assign(FrameWorkspace ws)
     {
-        int n = ws.CandidateCount, bw = ws.BirdsEyeWidth, bh = ws.BirdsEyeHeight;
+        int n = ws.Search.CandidateCount, bw = ws.Warp.BirdsEyeWidth, bh = ws.Warp.BirdsEyeHeight;
         double yb = bh - 1;
 
         // Candidates by score (descending; index breaks ties so the order is deterministic).
         int count = 0;
         for (int i = 0; i < n; i++)
         {
-            if (ws.CandidateFits[i].Score >= confidence.MinScore)
+            if (ws.Search.CandidateFits[i].Score >= confidence.MinScore)
             {
                 int pos = count++;
-                while (pos > 0 && ws.CandidateFits[order[pos - 1]].Score < ws.CandidateFits[i].Score)
+                while (pos > 0 && ws.Search.CandidateFits[order[pos - 1]].Score < ws.Search.CandidateFits[i].Score)
                 {
                     order[pos] = order[pos - 1];
                     pos--;
@@ -62,12 +62,12 @@ internal sealed class SlotAssigner
             for (int a = 0; a < kept && !duplicate; a++)
             {
                 int j = accepted[a];
-                double top = Math.Max(ws.CandidateTopY[i], ws.CandidateTopY[j]);
+                double top = Math.Max(ws.Search.CandidateTopY[i], ws.Search.CandidateTopY[j]);
                 double sum = 0;
                 for (int s = 0; s <= 4; s++)
                 {
                     double y = yb - ((yb - top) * s / 4);
-                    sum += Math.Abs(ws.CandidateFits[i].Fit.At(y) - ws.CandidateFits[j].Fit.At(y));
+                    sum += Math.Abs(ws.Search.CandidateFits[i].Fit.At(y) - ws.Search.CandidateFits[j].Fit.At(y));
                 }
 
                 duplicate = sum / 5 < search.MinSeparationPx / 2.0 || Crosses(ws, i, j);
@@ -90,7 +90,7 @@ internal sealed class SlotAssigner
             if (width < minW || width > maxW || !Parallel(ws, l1, r1))
             {
                 // Implausible ego lane (width, or boundaries not parallel on the ground): keep the stronger boundary only.
-                if (ws.CandidateFits[l1].Score >= ws.CandidateFits[r1].Score)
+                if (ws.Search.CandidateFits[l1].Score >= ws.Search.CandidateFits[r1].Score)
                 {
                     r1 = -1;
                 }
@@ -137,7 +137,7 @@ internal sealed class SlotAssigner
     /// </summary>
     private static void AddAgreementFeatures(FrameWorkspace ws, int unused)
     {
-        double yb = ws.BirdsEyeHeight - 1;
+        double yb = ws.Warp.BirdsEyeHeight - 1;
         for (int i = 0; i < ws.LaneCount; i++)
         {
             LaneEstimate e = ws.Lanes[i];
@@ -165,7 +165,7 @@ internal sealed class SlotAssigner
 
             ws.Lanes[i] = e with
             {
-                EvidenceKeptShare = ws.EvidenceKeptShare,
+                EvidenceKeptShare = ws.Color.EvidenceKeptShare,
                 HeadingDeviationDeg = Math.Atan(Math.Abs(slope)) * 180 / Math.PI,
                 ParallelDeviationPx = parallel,
                 UnusedCandidates = unused,
@@ -175,14 +175,14 @@ internal sealed class SlotAssigner
 
     private static bool Crosses(FrameWorkspace ws, int i, int j)
     {
-        double top = Math.Max(ws.CandidateTopY[i], ws.CandidateTopY[j]);
-        double yb = ws.BirdsEyeHeight - 1;
-        double d0 = ws.CandidateFits[i].Fit.At(yb) - ws.CandidateFits[j].Fit.At(yb);
-        double d1 = ws.CandidateFits[i].Fit.At(top) - ws.CandidateFits[j].Fit.At(top);
+        double top = Math.Max(ws.Search.CandidateTopY[i], ws.Search.CandidateTopY[j]);
+        double yb = ws.Warp.BirdsEyeHeight - 1;
+        double d0 = ws.Search.CandidateFits[i].Fit.At(yb) - ws.Search.CandidateFits[j].Fit.At(yb);
+        double d1 = ws.Search.CandidateFits[i].Fit.At(top) - ws.Search.CandidateFits[j].Fit.At(top);
         return d0 * d1 < 0;
     }
 
-    private static double Xb(FrameWorkspace ws, int i) => ws.CandidateFits[i].Fit.At(ws.BirdsEyeHeight - 1);
+    private static double Xb(FrameWorkspace ws, int i) => ws.Search.CandidateFits[i].Fit.At(ws.Warp.BirdsEyeHeight - 1);
 
     private int Nearest(FrameWorkspace ws, int kept, double from, int side, double limit)
     {
@@ -223,10 +223,10 @@ internal sealed class SlotAssigner
     /// </summary>
     private bool Parallel(FrameWorkspace ws, int a, int b)
     {
-        double yb = ws.BirdsEyeHeight - 1;
-        double top = Math.Max(ws.CandidateTopY[a], ws.CandidateTopY[b]);
-        double w0 = Math.Abs(ws.CandidateFits[a].Fit.At(yb) - ws.CandidateFits[b].Fit.At(yb));
-        double w1 = Math.Abs(ws.CandidateFits[a].Fit.At(top) - ws.CandidateFits[b].Fit.At(top));
+        double yb = ws.Warp.BirdsEyeHeight - 1;
+        double top = Math.Max(ws.Search.CandidateTopY[a], ws.Search.CandidateTopY[b]);
+        double w0 = Math.Abs(ws.Search.CandidateFits[a].Fit.At(yb) - ws.Search.CandidateFits[b].Fit.At(yb));
+        double w1 = Math.Abs(ws.Search.CandidateFits[a].Fit.At(top) - ws.Search.CandidateFits[b].Fit.At(top));
         return Math.Abs(w1 - w0) <= search.WidthTolerance * w0;
     }
 
@@ -237,9 +237,9 @@ internal sealed class SlotAssigner
             return;
         }
 
-        LaneEstimate e = ws.CandidateFits[candidate];
+        LaneEstimate e = ws.Search.CandidateFits[candidate];
         int lane = ws.LaneCount;
-        int points = LaneSampler.Sample(ws, fit, e.Fit, fit.ExtendToFarEdge ? 0 : ws.CandidateTopY[candidate], ws.LanePoints[lane]);
+        int points = LaneSampler.Sample(ws, fit, e.Fit, fit.ExtendToFarEdge ? 0 : ws.Search.CandidateTopY[candidate], ws.LanePoints[lane]);
         if (points < 2)
         {
             return;

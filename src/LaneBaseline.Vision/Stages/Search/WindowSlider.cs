@@ -21,14 +21,14 @@ internal sealed class WindowSlider
     /// <summary>Slides the windows of one candidate from the bottom up.</summary>
     public unsafe void Slide(FrameWorkspace ws, int candidate)
     {
-        int bw = ws.BirdsEyeWidth, bh = ws.BirdsEyeHeight;
+        int bw = ws.Warp.BirdsEyeWidth, bh = ws.Warp.BirdsEyeHeight;
         int n = Math.Min(search.WindowCount, FrameWorkspace.MaxWindows);
         int hw = search.WindowHalfWidthPx;
         double wh = (double)bh / n;
-        byte* b = (byte*)ws.BirdsEye.DataPointer;
-        long step = ws.BirdsEye.Step();
-        SearchWindow[] windows = ws.CandidateWindows[candidate];
-        double cx = ws.CandidateX[candidate];
+        byte* b = (byte*)ws.Warp.BirdsEye.DataPointer;
+        long step = ws.Warp.BirdsEye.Step();
+        SearchWindow[] windows = ws.Search.CandidateWindows[candidate];
+        double cx = ws.Search.CandidateX[candidate];
         double trend = 0;
         double lastX = double.NaN;
         int lastK = -1;
@@ -85,6 +85,6 @@ internal sealed class WindowSlider
             }
         }
 
-        ws.WindowCount = n;
+        ws.Search.WindowCount = n;
     }
 }
