@@ -87,6 +87,68 @@ public sealed class CommandLineVocabularyTests : IDisposable
         }
     }
 
+    // Source: docs/cli.md (shared vocabulary): an option name used by several commands means one thing: the same
+    // short alias, the same value type and the same default on every command that has it.
+    [Fact]
+    public void EverySharedOptionName_HasOneAliasTypeAndDefault()
+    {
+        var seen = new Dictionary<string, (string Command, string Aliases, Type Type, string? Default)>(StringComparer.Ordinal);
+        var problems = new List<string>();
+        int shared = 0;
+        foreach (Command command in Commands())
+        {
+            foreach (Option o in command.Options.Where(o => !o.Hidden && o.Name.StartsWith("--", StringComparison.Ordinal) && o.Name is not ("--help" or "--config")))
+            {
+                string aliases = string.Join(",", o.Aliases.Order(StringComparer.Ordinal));
+                Type type = o.ValueType.IsArray ? o.ValueType.GetElementType()! : o.ValueType; // one or several of the same thing
+                string? value = o.HasDefaultValue && !o.ValueType.IsArray ? Convert.ToString(o.GetDefaultValue(), System.Globalization.CultureInfo.InvariantCulture) : null;
+                if (seen.TryGetValue(o.Name, out var first))
+                {
+                    shared++;
+                    if (first.Aliases != aliases)
+                    {
+                        problems.Add($"{o.Name}: aliases '{first.Aliases}' on {first.Command}, '{aliases}' on {command.Name}");
+                    }
+
+                    if (first.Type != type)
+                    {
+                        problems.Add($"{o.Name}: {first.Type.Name} on {first.Command}, {type.Name} on {command.Name}");
+                    }
+
+                    if (first.Default != value)
+                    {
+                        problems.Add($"{o.Name}: default '{first.Default}' on {first.Command}, '{value}' on {command.Name}");
+                    }
+                }
+                else
+                {
+                    seen[o.Name] = (command.Name, aliases, type, value);
+                }
+            }
+        }
+
+        // Differences found by this test on 2026-12-05 and not settled yet (each changes a command's meaning, so each
+        // needs its own deprecation step): listed here so that no new one can appear unnoticed. Remove a line when its
+        // difference is settled; the test then holds the settled form.
+        string[] open =
+        [
+            "--overlays: String on detect, Int32 on audit", // detect: a folder; audit/merge: how many frames to draw
+            "--overlays: default '' on detect, '0' on audit",
+            "--overlays: String on detect, Int32 on merge",
+            "--overlays: default '' on detect, '0' on merge",
+            "--seed: default '0' on score, '1' on tune",
+            "--seed: default '0' on score, '1' on render",
+            "--seed: default '0' on score, '1' on bench",
+            "--size: default '' on score, '1280x720' on render", // score: gallery size; render: frame size
+            "--threads: Int32 on detect, String on bench", // bench also takes a list of counts
+            "--max-frames: Nullable`1 on detect, Int32 on bench",
+            "--max-frames: default '' on detect, '60' on bench",
+        ];
+        Assert.False(problems.Except(open).Any(), string.Join("\n", problems.Except(open)));
+        Assert.False(open.Except(problems).Any(), "settled now, remove from the list: " + string.Join("; ", open.Except(problems)));
+        Assert.True(shared >= 10, "expected the shared options (--threads, --frames, --output, --truth, ...) on several commands; found " + shared);
+    }
+
     [Fact]
     public void DeprecatedOut_StillWorks_WithANote()
     {

@@ -152,7 +152,7 @@ internal static class MergeCommand
         }
 
         using var stream = File.OpenRead(InputSpool.ReadablePath(path));
-        var head = new byte[64];
+        var head = new byte[256]; // the format key follows "tool" in the header
         int n = stream.Read(head, 0, head.Length);
         ReadOnlySpan<byte> span = head.AsSpan(0, n);
         return span.IndexOf("\"format\":\"lanebaseline-score-state\""u8) >= 0 ? InputKind.ScoreState

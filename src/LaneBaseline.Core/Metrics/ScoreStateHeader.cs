@@ -7,8 +7,14 @@ namespace LaneBaseline.Core.Metrics;
 /// <summary>The run parameters a partial score state carries, which every shard of one job must share.</summary>
 public sealed record ScoreStateHeader
 {
-    /// <summary>Format marker written as the first key.</summary>
+    /// <summary>Format marker written in the header (after <c>tool</c>).</summary>
     public const string FormatName = "lanebaseline-score-state";
+
+    /// <summary>
+    /// The header's <c>schema_version</c> (docs/schema/score-state.schema.json). States written before 2026-12-05 name
+    /// it <c>version</c> and have no <c>tool</c>; <c>merge</c> still reads them.
+    /// </summary>
+    public const int SchemaVersion = 1;
 
     /// <summary>The shard that wrote the state.</summary>
     [NotInJobKey("the index differs between shards; JobKey adds the count")]

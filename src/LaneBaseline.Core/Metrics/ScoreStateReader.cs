@@ -288,7 +288,9 @@ public sealed class ScoreStateReader : IDisposable
         {
             using JsonDocument doc = JsonDocument.Parse(text);
             JsonElement r = doc.RootElement;
-            if (r.GetProperty("format").GetString() != ScoreStateHeader.FormatName || r.GetProperty("version").GetInt32() != 1)
+            // schema_version since 2026-12-05; "version" before (still read).
+            bool versioned = r.TryGetProperty("schema_version", out JsonElement version) || r.TryGetProperty("version", out version);
+            if (r.GetProperty("format").GetString() != ScoreStateHeader.FormatName || !versioned || version.GetInt32() != ScoreStateHeader.SchemaVersion)
             {
                 throw BadInputException.At(path, 1, "format", "not a version-1 score state written by score --partial");
             }

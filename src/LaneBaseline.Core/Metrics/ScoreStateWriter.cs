@@ -26,8 +26,9 @@ public sealed class ScoreStateWriter : IDisposable
         using (var json = new Utf8JsonWriter(buffer, Options))
         {
             json.WriteStartObject();
+            json.WriteString("tool", "lanebaseline");
             json.WriteString("format", ScoreStateHeader.FormatName);
-            json.WriteNumber("version", 1);
+            json.WriteNumber("schema_version", ScoreStateHeader.SchemaVersion);
             json.WriteNumber("shard_index", header.Shard.Index);
             json.WriteNumber("shard_count", header.Shard.Count);
             json.WriteString("truth", header.Truth);

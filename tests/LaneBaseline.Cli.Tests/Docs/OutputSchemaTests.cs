@@ -17,6 +17,7 @@ public sealed class OutputSchemaTests : IDisposable
     private static readonly JsonSchema Bench = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "bench.schema.json")));
     private static readonly JsonSchema Camera = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "camera.schema.json")));
     private static readonly JsonSchema TuneLog = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "tune-log.schema.json")));
+    private static readonly JsonSchema ScoreState = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "score-state.schema.json")));
     private readonly TempDir dir = new();
 
     public void Dispose() => dir.Dispose();
@@ -121,6 +122,47 @@ public sealed class OutputSchemaTests : IDisposable
         Assert.True(exit == 0, err);
         Assert.Equal(File.ReadAllText(one), File.ReadAllText(two));
         Assert.Equal(4, File.ReadAllLines(two + ".trials.jsonl").Length);
+    }
+
+    // Issue 16: every line of a partial score state follows docs/schema/score-state.schema.json (the header names the
+    // tool and schema_version), and merge still reads a state written before, whose header says "version" and has no
+    // tool: merging old and new states gives the same score JSON.
+    [Fact]
+    public void ScoreState_EveryLineFollowsTheSchema_AndOldHeadersStillMerge()
+    {
+        string truth = RepoPaths.Combine("sample-frames", "truth.lanes.jsonl");
+        string s0 = dir.File("s0.state"), s1 = dir.File("s1.state"), old1 = dir.File("old1.state");
+        foreach ((string shard, string state) in new[] { ("0/2", s0), ("1/2", s1) })
+        {
+            (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", "base=" + truth, "--shard", shard, "--partial", state, "--bootstrap", "20", "-j", "1");
+            Assert.True(exit == 0, err);
+        }
+
+        string[] lines = File.ReadAllLines(s1);
+        Assert.True(lines.Length > 1);
+        using (JsonDocument header = ValidText(ScoreState, lines[0], s1 + ":1"))
+        {
+            Assert.Equal("lanebaseline", header.RootElement.GetProperty("tool").GetString());
+            Assert.Equal(1, header.RootElement.GetProperty("schema_version").GetInt32());
+        }
+
+        for (int i = 1; i < lines.Length; i++)
+        {
+            Assert.True(Evaluate(ScoreState, lines[i]), s1 + ":" + (i + 1));
+        }
+
+        Assert.False(Evaluate(ScoreState, lines[0].Replace("\"truth_frames\"", "\"truthFrames\"", StringComparison.Ordinal)));
+
+        string legacy = lines[0].Replace("\"tool\":\"lanebaseline\",", string.Empty, StringComparison.Ordinal)
+            .Replace("\"schema_version\":1", "\"version\":1", StringComparison.Ordinal);
+        Assert.NotEqual(lines[0], legacy);
+        File.WriteAllLines(old1, [legacy, .. lines[1..]]);
+        string a = dir.File("a.json"), b = dir.File("b.json");
+        Assert.Equal(0, CliRunner.Run("merge", s0, s1, "-o", a).Exit);
+        (int code, _, string why) = CliRunner.Run("merge", s0, old1, "-o", b);
+        Assert.True(code == 0, why);
+        Assert.Equal(File.ReadAllText(a), File.ReadAllText(b));
+        Valid(Score, a).Dispose();
     }
 
     private static JsonDocument ValidText(JsonSchema schema, string text, string where)
