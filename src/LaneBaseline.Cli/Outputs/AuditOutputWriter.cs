@@ -89,10 +89,15 @@ internal static class AuditOutputWriter
         : rule.Id.StartsWith("LBA-G", StringComparison.Ordinal) ? groundRules
         : !rule.Id.StartsWith("LBA-B", StringComparison.Ordinal) || baseline;
 
+    /// <summary>Version of the summary JSON's layout (docs/schema/audit-summary.schema.json).</summary>
+    internal const int SummarySchemaVersion = 1;
+
     private static void WriteSummaryJson(Stream stream, AuditResult result, string outPath, bool groundRules, bool stills, bool baseline, double fps)
     {
         using var w = new System.Text.Json.Utf8JsonWriter(stream, new System.Text.Json.JsonWriterOptions { Indented = true, Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping });
         w.WriteStartObject();
+        w.WriteString("tool", "lanebaseline");
+        w.WriteNumber("schema_version", SummarySchemaVersion);
         w.WriteString("findings_file", outPath);
         w.WriteNumber("frames", result.Frames);
         w.WriteNumber("flagged_frames", result.Findings.Select(f => f.Ordinal).Distinct().LongCount());

@@ -17,6 +17,7 @@ public sealed class OutputSchemaTests : IDisposable
     private static readonly JsonSchema Bench = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "bench.schema.json")));
     private static readonly JsonSchema Camera = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "camera.schema.json")));
     private static readonly JsonSchema TuneLog = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "tune-log.schema.json")));
+    private static readonly JsonSchema AuditSummary = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "audit-summary.schema.json")));
     private static readonly JsonSchema ScoreState = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "score-state.schema.json")));
     private readonly TempDir dir = new();
 
@@ -72,6 +73,27 @@ public sealed class OutputSchemaTests : IDisposable
         Assert.False(Evaluate(Camera, doc.RootElement.GetRawText().Replace("\"mount_height_m\"", "\"mountHeightM\"", StringComparison.Ordinal)));
         Assert.False(Evaluate(Camera, doc.RootElement.GetRawText().Replace("\"ground_x_m\"", "\"groundXM\"", StringComparison.Ordinal)));
         Assert.Equal(Core.Geometry.CameraModel.Load(cam), Core.Geometry.CameraModel.Parse(File.ReadAllText(cam), "camera.json"));
+    }
+
+    // Issue 16: audit --summary-json follows docs/schema/audit-summary.schema.json (tool, schema_version, snake_case),
+    // lists every rule of the catalogue, and the schema can fail (a camelCase key, an unknown severity).
+    [Fact]
+    public void AuditSummaryJson_FollowsTheSchema_AndListsEveryRule()
+    {
+        string truth = RepoPaths.Combine("sample-frames", "truth.lanes.jsonl"), findings = dir.File("f.jsonl"), summary = dir.File("s.json");
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", truth, "-o", findings, "--summary-json", summary, "--stills");
+        Assert.True(exit == 0, err);
+        using JsonDocument doc = Valid(AuditSummary, summary);
+        Assert.Equal("lanebaseline", doc.RootElement.GetProperty("tool").GetString());
+        Assert.Equal(1, doc.RootElement.GetProperty("schema_version").GetInt32());
+        Assert.True(doc.RootElement.GetProperty("stills").GetBoolean());
+        Assert.Equal(
+            Core.Audit.AuditRules.All.Select(r => r.Id),
+            doc.RootElement.GetProperty("rules").EnumerateArray().Select(r => r.GetProperty("id").GetString()));
+        string text = Compact(doc.RootElement);
+        Assert.True(Evaluate(AuditSummary, text));
+        Assert.False(Evaluate(AuditSummary, text.Replace("\"flagged_frames\"", "\"flaggedFrames\"", StringComparison.Ordinal)));
+        Assert.False(Evaluate(AuditSummary, text.Replace("\"severity\":\"error\"", "\"severity\":\"fatal\"", StringComparison.Ordinal)));
     }
 
     // Issue 16: every line of tune's trial log follows docs/schema/tune-log.schema.json (the first names the tool and
