@@ -757,20 +757,52 @@ public static class HtmlReportWriter
             return;
         }
 
-        h.Append("<h3>First ").Append(Count(audit.Top.Count, "finding")).Append(" (worst frames first)</h3>\n");
-        h.Append("<div class=\"scroll\"><table id=\"audit-top-table\">\n<thead><tr><th>Rank</th><th>Frame</th><th>Rule</th><th>Severity</th><th>Lane</th><th>Value</th><th>Limit</th><th>Unit</th><th>Message</th></tr></thead>\n<tbody>\n");
+        // Every finding (up to the reader's bound), grouped by frame in rank order (worst frames first); the first
+        // frames are open, the rest fold away so a long audit stays readable.
+        var groups = new List<(string Frame, List<AuditTopFinding> Items)>();
+        var index = new Dictionary<string, int>(StringComparer.Ordinal);
         foreach (AuditTopFinding f in audit.Top)
         {
-            h.Append("<tr data-rule=\"").Append(E(f.Rule)).Append("\" data-frame=\"").Append(E(f.Frame)).Append("\"><th scope=\"row\">").Append(I(f.Rank)).Append("</th>")
-             .Append("<td class=\"t\"><code>").Append(E(f.Frame)).Append("</code></td><td class=\"t\">").Append(E(f.Rule)).Append("</td><td class=\"t\">").Append(E(f.Severity)).Append("</td>")
-             .Append("<td>").Append(f.Lane is int lane ? I(lane) : "–").Append("</td>")
-             .Append("<td data-key=\"value\" data-value=\"").Append(R(f.Value)).Append("\">").Append(F(f.Value, "0.###")).Append("</td>")
-             .Append("<td data-key=\"limit\" data-value=\"").Append(R(f.Limit)).Append("\">").Append(F(f.Limit, "0.###")).Append("</td>")
-             .Append("<td class=\"t\">").Append(E(f.Unit)).Append("</td><td class=\"t msg\">").Append(E(f.Message)).Append("</td></tr>\n");
+            if (!index.TryGetValue(f.Frame, out int g))
+            {
+                g = groups.Count;
+                index[f.Frame] = g;
+                groups.Add((f.Frame, []));
+            }
+
+            groups[g].Items.Add(f);
         }
 
-        h.Append("</tbody>\n</table></div>\n</section>\n");
+        h.Append("<h3>Findings by frame (worst frames first)</h3>\n<p>")
+         .Append(audit.Top.Count < audit.Findings
+            ? "The first " + Count(audit.Top.Count, "finding") + " of " + Count(audit.Findings, "finding") + ", on " + Count(groups.Count, "frame") + "; the findings file holds the rest."
+            : "All " + Count(audit.Findings, "finding") + ", on " + Count(groups.Count, "frame") + ".")
+         .Append(" The first ").Append(I(Math.Min(AuditOpenFrames, groups.Count))).Append(" frames are open; click a frame to open or close it.</p>\n<div id=\"audit-frames\">\n");
+        for (int g = 0; g < groups.Count; g++)
+        {
+            (string frame, List<AuditTopFinding> items) = groups[g];
+            int errors = items.Count(f => f.Severity == "error");
+            h.Append("<details class=\"audit-frame\" data-frame=\"").Append(E(frame)).Append('"').Append(g < AuditOpenFrames ? " open" : string.Empty).Append("><summary><code>")
+             .Append(E(frame)).Append("</code>: ").Append(Count(items.Count, "finding")).Append(errors > 0 ? ", " + Count(errors, "error") : string.Empty).Append("</summary>\n");
+            h.Append("<div class=\"scroll\"><table class=\"audit-frame-table\">\n<thead><tr><th>Rank</th><th>Rule</th><th>Severity</th><th>Lane</th><th>Value</th><th>Limit</th><th>Unit</th><th>Message</th></tr></thead>\n<tbody>\n");
+            foreach (AuditTopFinding f in items)
+            {
+                h.Append("<tr data-rule=\"").Append(E(f.Rule)).Append("\" data-frame=\"").Append(E(f.Frame)).Append("\"><th scope=\"row\">").Append(I(f.Rank)).Append("</th>")
+                 .Append("<td class=\"t\">").Append(E(f.Rule)).Append("</td><td class=\"t\">").Append(E(f.Severity)).Append("</td>")
+                 .Append("<td>").Append(f.Lane is int lane ? I(lane) : "–").Append("</td>")
+                 .Append("<td data-key=\"value\" data-value=\"").Append(R(f.Value)).Append("\">").Append(F(f.Value, "0.###")).Append("</td>")
+                 .Append("<td data-key=\"limit\" data-value=\"").Append(R(f.Limit)).Append("\">").Append(F(f.Limit, "0.###")).Append("</td>")
+                 .Append("<td class=\"t\">").Append(E(f.Unit)).Append("</td><td class=\"t msg\">").Append(E(f.Message)).Append("</td></tr>\n");
+            }
+
+            h.Append("</tbody>\n</table></div>\n</details>\n");
+        }
+
+        h.Append("</div>\n</section>\n");
     }
+
+    /// <summary>How many frames of the audit's findings the page shows open.</summary>
+    private const int AuditOpenFrames = 10;
 
     private static void WriteConfiguration(StringBuilder h, ReportInput input)
     {

@@ -85,6 +85,36 @@ public sealed class AuditAndSeverityReportTests
         Assert.DoesNotContain("id=\"headline\"", html, StringComparison.Ordinal);
     }
 
+    // Issue 15: the page lists every finding grouped by frame (rank order), not only the first twenty lines; with a
+    // bound below the file's count it says how many it left out. Expected groups recomputed from the JSONL itself.
+    [Fact]
+    public void Render_AuditFindings_GroupedByFrame_AllListed_OrTheRestCounted()
+    {
+        var sb = new StringBuilder();
+        for (int k = 0; k < 30; k++)
+        {
+            string frame = "lap-" + (k / 4).ToString("0000", CultureInfo.InvariantCulture) + ".png";
+            sb.Append(CultureInfo.InvariantCulture, $$"""{"rank":{{(k / 4) + 1}},"frame":"{{frame}}","rule":"LBA-I01","name":"lanes-cross","severity":"{{(k % 2 == 0 ? "error" : "warning")}}","lane":0,"other_lane":1,"value":{{k}},"limit":2,"unit":"px","message":"m{{k}}"}""").Append('\n');
+        }
+
+        string text = sb.ToString();
+        var frames = text.Split('\n').Where(l => l.Length > 0).Select(l => JsonDocument.Parse(l).RootElement.GetProperty("frame").GetString()!).ToList();
+        string html = Render(null, Summarise(text));
+        Assert.Equal(30, Regex.Count(html, "<tr data-rule=\"LBA-I01\" data-frame="));
+        Assert.Equal(frames.Distinct().ToList(), [.. Regex.Matches(html, "<details class=\"audit-frame\" data-frame=\"([^\"]+)\"").Select(m => m.Groups[1].Value)]);
+        foreach (IGrouping<string, string> g in frames.GroupBy(f => f))
+        {
+            Assert.Contains("<code>" + g.Key + "</code>: " + g.Count() + " finding" + (g.Count() == 1 ? string.Empty : "s"), html, StringComparison.Ordinal);
+        }
+
+        Assert.Contains("All 30 findings, on 8 frames.", html, StringComparison.Ordinal);
+        Assert.Equal(8, Regex.Count(html, "<details class=\"audit-frame\"[^>]* open>"));
+
+        string bounded = Render(null, Summarise(text, top: 10));
+        Assert.Equal(10, Regex.Count(bounded, "<tr data-rule=\"LBA-I01\" data-frame="));
+        Assert.Contains("The first 10 findings of 30 findings, on 3 frames; the findings file holds the rest.", bounded, StringComparison.Ordinal);
+    }
+
     [Fact]
     public void Render_ScoreAndAudit_AuditSectionBeforeConfiguration_Deterministic()
     {

@@ -41,12 +41,21 @@ public static class ImageRules
             for (int j = i + 1; j < lanes.Count; j++)
             {
                 (double lo, double hi) = LaneSampling.Common(lanes[i], lanes[j], roadTop);
-                double pos = 0, neg = 0, atRow = double.NaN;
+                double pos = 0, neg = 0, atRow = double.NaN, previous = double.NaN;
                 for (double y = Math.Floor(hi); y >= lo; y -= 2)
                 {
                     if (LaneSampling.XAt(lanes[i], y, out double xi) && LaneSampling.XAt(lanes[j], y, out double xj))
                     {
                         double d = xi - xj;
+
+                        // The crossing row: the first sampled row within the tolerance, else the first where the
+                        // order flips between two sampled rows (steep lanes can jump past the tolerance band).
+                        if (double.IsNaN(atRow) && previous * d < 0)
+                        {
+                            atRow = y;
+                        }
+
+                        previous = d;
                         if (d > pos)
                         {
                             pos = d;

@@ -40,8 +40,9 @@ public sealed record AuditSummary(string Source, long Findings, long FlaggedFram
 /// </summary>
 public static class AuditFindingsReader
 {
-    /// <summary>How many findings the report lists by default.</summary>
-    public const int DefaultTop = 20;
+    /// <summary>How many findings the report lists by default (all of them up to this bound, grouped by frame; the
+    /// findings file keeps the rest, and the page says how many it left out).</summary>
+    public const int DefaultTop = 5000;
 
     /// <summary>Reads and summarises a findings file.</summary>
     public static AuditSummary Read(string path, int top = DefaultTop)

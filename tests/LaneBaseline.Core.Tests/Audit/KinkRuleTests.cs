@@ -104,3 +104,29 @@ public sealed class KinkRuleTests(ITestOutputHelper output)
         Assert.InRange(f.Value, 80, 100);
     }
 }
+
+/// <summary>The crossing rule's message names the row where two steep lanes swap order.</summary>
+public sealed class CrossingRowTests
+{
+    [Fact]
+    public void SteepLanesCrossing_MessageNamesTheCrossingRow()
+    {
+        // Hand-worked: x = 100 + 2 (700 - y) and x = 896 - 2 (700 - y) meet at y = 501 (x = 498); sampled at even rows
+        // their difference goes from -4 px (row 502) to +4 px (row 500), never within the 2 px tolerance, so the row
+        // comes from the sign change.
+        LaneRecord r = new()
+        {
+            Frame = "a/000001.png", Width = 1280, Height = 720,
+            Lanes =
+            [
+                new Lane { Points = [new LanePoint(100, 700), new LanePoint(900, 300)] },
+                new Lane { Points = [new LanePoint(896, 700), new LanePoint(96, 300)] },
+            ],
+        };
+        var sink = new List<AuditFinding>();
+        ImageRules.Check(r, 0, 1280, 720, new AuditSettings { HorizonRow = 200 }, sink);
+        AuditFinding f = Assert.Single(sink, x => x.Rule == AuditRules.LanesCross);
+        Assert.DoesNotContain("NaN", f.Message, StringComparison.Ordinal);
+        Assert.Matches("near row 50[0-2] ", f.Message);
+    }
+}
