@@ -757,6 +757,22 @@ public static class HtmlReportWriter
             return;
         }
 
+        if (audit.Thumbnails.Count > 0)
+        {
+            h.Append("<h3>Worst frames drawn</h3>\n<p>The overlays <code>audit --overlays</code> wrote, worst frame first: the audited lanes with their findings drawn (docs/audit.md, <code>--overlays</code>). Click a picture for the full-size file.</p>\n<div class=\"gallery\" id=\"audit-thumbs\">\n");
+            foreach (AuditThumbnail t in audit.Thumbnails)
+            {
+                string img = "<img alt=\"" + E(t.Frame) + " with its audit findings drawn\" width=\"" + I(t.Width) + "\" height=\"" + I(t.Height)
+                    + "\" src=\"data:image/jpeg;base64," + Convert.ToBase64String(t.Jpeg.Span) + "\">";
+                int n = audit.Top.Count(f => f.Frame == t.Frame);
+                h.Append("<figure class=\"thumb\" data-frame=\"").Append(E(t.Frame)).Append("\">")
+                 .Append(t.Href is null ? img : "<a href=\"" + E(t.Href) + "\">" + img + "</a>")
+                 .Append("<figcaption>").Append(I(t.Rank)).Append(". <code>").Append(E(t.Frame)).Append("</code>: ").Append(Count(n, "finding")).Append("</figcaption></figure>\n");
+            }
+
+            h.Append("</div>\n");
+        }
+
         // Every finding (up to the reader's bound), grouped by frame in rank order (worst frames first); the first
         // frames are open, the rest fold away so a long audit stays readable.
         var groups = new List<(string Frame, List<AuditTopFinding> Items)>();

@@ -59,6 +59,36 @@ public sealed class AuditCommandTests : IDisposable
         Assert.Equal(["seq00/000005.png", "seq00/000013.png"], File.ReadAllLines(dir.File("f.mine.txt")));
     }
 
+    // Issue 15: the audit page shows the overlays it wrote (worst first, each a thumbnail embedded in the page and a
+    // link to the full-size file next to the findings) and every finding grouped by frame.
+    [Fact]
+    public void Report_ShowsTheOverlaysItWrote_AndFindingsByFrame()
+    {
+        var records = SyntheticRoad.Clean(7, 1, 10).ToList();
+        var lanes = records[5].Lanes.ToList();
+        (lanes[1], lanes[2]) = (new Lane { Points = lanes[1].Points, Slot = 1 }, new Lane { Points = lanes[2].Points, Slot = -1 });
+        records[5] = new LaneRecord { Frame = records[5].Frame, Width = 1280, Height = 720, Lanes = lanes };
+        string pred = dir.File("bad.lanes.jsonl"), outFile = dir.File("out/f.jsonl"), page = dir.File("page/a.html");
+        Lanes.WriteFile(pred, records);
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--overlays", "3", "--report", page, "--generated-at", "2026-12-05T00:00:00Z");
+        Assert.True(exit == 0, err);
+        string html = File.ReadAllText(page);
+        var hrefs = System.Text.RegularExpressions.Regex.Matches(html, "<figure class=\"thumb\" data-frame=\"([^\"]+)\"><a href=\"([^\"]+)\"><img [^>]*src=\"data:image/jpeg;base64,")
+            .Select(m => (Frame: m.Groups[1].Value, Href: m.Groups[2].Value)).ToList();
+        string[] drawn = Directory.GetFiles(dir.File("out/f.overlays"), "*.png");
+        Assert.NotEmpty(drawn);
+        Assert.Equal(drawn.Length, hrefs.Count);
+        Assert.Equal("seq00/000005.png", hrefs[0].Frame); // the worst frame first
+        foreach ((_, string href) in hrefs)
+        {
+            Assert.StartsWith("../out/f.overlays/", href, StringComparison.Ordinal);
+            Assert.True(File.Exists(Path.Combine(dir.File("page"), Uri.UnescapeDataString(href))), href);
+        }
+
+        Assert.Contains("<details class=\"audit-frame\" data-frame=\"seq00/000005.png\" open>", html, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllLines(outFile).Length, System.Text.RegularExpressions.Regex.Count(html, "<tr data-rule=\"[^\"]+\" data-frame="));
+    }
+
     [Fact]
     public void Baseline_DisagreementRanksTheFramesToLabel()
     {

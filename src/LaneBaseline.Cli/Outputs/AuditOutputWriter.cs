@@ -54,15 +54,21 @@ internal static class AuditOutputWriter
         }
 
         findingsFile.Commit();
+        var drawn = new List<(int Rank, string Frame, string Path, byte[] Jpeg, int Width, int Height)>();
         if (outputs.Overlays > 0)
         {
-            WriteOverlays(stem + ".overlays", result, predPath, baselinePath, outputs.FramesRoot, settings, opener, outputs.Overlays, cancellationToken);
+            WriteOverlays(stem + ".overlays", result, predPath, baselinePath, outputs.FramesRoot, settings, opener, outputs.Overlays, drawn, cancellationToken);
         }
 
         if (outputs.Report is (string reportPath, DateTimeOffset at))
         {
             // Read back what was written: the page shows exactly the findings file, streamed like `report --audit`.
-            ReportPage.Write(reportPath, null, null, AuditFindingsReader.Read(outPath), null, at, cancellationToken);
+            string pageDir = Path.GetDirectoryName(Path.GetFullPath(reportPath))!;
+            AuditSummary summary = AuditFindingsReader.Read(outPath) with
+            {
+                Thumbnails = [.. drawn.OrderBy(d => d.Rank).Select(d => new AuditThumbnail(d.Rank, d.Frame, Href(pageDir, d.Path), d.Jpeg, d.Width, d.Height))],
+            };
+            ReportPage.Write(reportPath, null, null, summary, null, at, cancellationToken);
             stderr.WriteLine("audit: wrote " + reportPath);
         }
 
@@ -173,6 +179,7 @@ internal static class AuditOutputWriter
         AuditSettings settings,
         LaneSourceOpener opener,
         int count,
+        List<(int Rank, string Frame, string Path, byte[] Jpeg, int Width, int Height)> drawn,
         CancellationToken cancellationToken)
     {
         var worst = result.RankedFrames.Where(f => f.Score > 0).Take(count).ToList();
@@ -217,12 +224,27 @@ internal static class AuditOutputWriter
                 string? image = framesRoot is null ? null : Path.Combine(framesRoot, r.Frame);
                 using Mat overlay = AuditOverlayPainter.Paint(image, r, b, w, h, byOrdinal.GetValueOrDefault(ordinal) ?? []);
                 string name = F($"{rank:000}_") + string.Concat(r.Frame.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '_'));
-                MaskFiles.Write(Path.Combine(dir, Path.ChangeExtension(name, ".png")), overlay);
+                string file = Path.Combine(dir, Path.ChangeExtension(name, ".png"));
+                MaskFiles.Write(file, overlay);
+
+                // A 320 px wide JPEG of it for the page (common practice for a gallery: small, embedded, links to the file).
+                double k = Math.Min(1.0, ThumbnailWidth / (double)overlay.Width);
+                using Mat small = new();
+                Cv2.Resize(overlay, small, new Size(Math.Max(1, (int)Math.Round(overlay.Width * k)), Math.Max(1, (int)Math.Round(overlay.Height * k))), 0, 0, InterpolationFlags.Area);
+                Cv2.ImEncode(".jpg", small, out byte[] jpeg, new ImageEncodingParam(ImwriteFlags.JpegQuality, 80));
+                drawn.Add((rank, r.Frame, file, jpeg, small.Width, small.Height));
             }
 
             ordinal++;
         }
     }
+
+    /// <summary>Width of the overlay thumbnails on the page, px.</summary>
+    private const int ThumbnailWidth = 320;
+
+    /// <summary>A file's path relative to the page's folder, each segment URL-escaped, '/' separated.</summary>
+    private static string Href(string pageDir, string file) =>
+        string.Join('/', Path.GetRelativePath(pageDir, Path.GetFullPath(file)).Split(Path.DirectorySeparatorChar).Select(Uri.EscapeDataString));
 
     private static string F(FormattableString s) => s.ToString(CultureInfo.InvariantCulture);
 }

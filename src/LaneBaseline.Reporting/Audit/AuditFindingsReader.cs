@@ -31,7 +31,20 @@ public sealed record AuditTopFinding(long Rank, string Frame, string Rule, strin
 /// <param name="FlaggedFrames">Distinct frames with at least one finding.</param>
 /// <param name="Rules">Every catalogue rule in catalogue order, then rules unknown to this version in id order.</param>
 /// <param name="Top">The first findings of the file, in file (rank) order.</param>
-public sealed record AuditSummary(string Source, long Findings, long FlaggedFrames, IReadOnlyList<AuditRuleCount> Rules, IReadOnlyList<AuditTopFinding> Top);
+public sealed record AuditSummary(string Source, long Findings, long FlaggedFrames, IReadOnlyList<AuditRuleCount> Rules, IReadOnlyList<AuditTopFinding> Top)
+{
+    /// <summary>Thumbnails of the overlays <c>audit --overlays</c> drew, worst frame first (empty when none).</summary>
+    public IReadOnlyList<AuditThumbnail> Thumbnails { get; init; } = [];
+}
+
+/// <summary>A small JPEG of one overlay the audit drew, embedded in the page, and a link to the full-size file.</summary>
+/// <param name="Rank">1 for the worst frame.</param>
+/// <param name="Frame">Frame key.</param>
+/// <param name="Href">The full-size overlay relative to the page (URL-escaped), or null.</param>
+/// <param name="Jpeg">Encoded thumbnail.</param>
+/// <param name="Width">Thumbnail width, px.</param>
+/// <param name="Height">Thumbnail height, px.</param>
+public sealed record AuditThumbnail(int Rank, string Frame, string? Href, ReadOnlyMemory<byte> Jpeg, int Width, int Height);
 
 /// <summary>
 /// Reads an <c>audit</c> findings file (JSON Lines) one line at a time: memory holds the per-rule counters, the set of
