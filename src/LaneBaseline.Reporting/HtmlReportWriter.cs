@@ -89,7 +89,7 @@ public static class HtmlReportWriter
 
             WriteIouCurve(h, systems);
             WriteConfidence(h, systems);
-            WriteTags(h, systems, Roles(doc, input.Gallery?.Regressions));
+            WriteTags(h, systems, Roles(doc, input.Gallery?.Regressions), doc.Paired);
             WritePaired(h, doc);
             var base64 = new Dictionary<(string System, string Frame), string>();
             WriteRegressions(h, systems.Count, input.Gallery);
@@ -457,7 +457,7 @@ public static class HtmlReportWriter
         return (b == 0 ? 1 : 0, b);
     }
 
-    private static void WriteTags(StringBuilder h, IReadOnlyList<SystemResult> systems, (int Network, int Baseline)? roles)
+    private static void WriteTags(StringBuilder h, IReadOnlyList<SystemResult> systems, (int Network, int Baseline)? roles, IReadOnlyList<PairedResult> paired)
     {
         h.Append("<section id=\"tags\">\n<h2>By tag</h2>\n");
         var tags = systems.SelectMany(s => s.ByTag.Select(kv => kv.Key)).Distinct(StringComparer.Ordinal).Order(StringComparer.Ordinal).ToList();
@@ -477,7 +477,7 @@ public static class HtmlReportWriter
             WriteSeverity(h, systems, levels);
         }
 
-        WriteTagComparison(h, systems, tags, roles);
+        WriteTagComparison(h, systems, tags, roles, paired);
         h.Append("<details><summary>Per tag and system (frames, truth lanes, mF1)</summary>\n");
         h.Append("<div class=\"scroll\"><table id=\"tag-table\">\n<thead><tr><th>Tag</th><th>System</th><th>Frames</th><th>Truth lanes</th><th>F1@0.50</th><th>mF1</th><th>Point accuracy</th></tr></thead>\n<tbody>\n");
         foreach (string tag in tags)
@@ -492,7 +492,7 @@ public static class HtmlReportWriter
 
                 h.Append("<tr data-tag=\"").Append(E(tag)).Append("\" data-system=\"").Append(E(r.Name)).Append("\"><th scope=\"row\">").Append(E(tag)).Append("</th><td class=\"t\">").Append(E(r.Name)).Append("</td>")
                  .Append(Td("frames", t.Frames)).Append(Td("truth_lanes", t.TruthLanes))
-                 .Append(TdCi("f1@0.50", t.At("0.50")?.F1 ?? double.NaN, null)).Append(TdCi("mf1", t.MeanF1, null)).Append(TdCi("accuracy", t.Point.Accuracy, null))
+                 .Append(TdCi("f1@0.50", t.At("0.50")?.F1 ?? double.NaN, TagCi(r, tag, "f1@0.50"))).Append(TdCi("mf1", t.MeanF1, TagCi(r, tag, "mf1"))).Append(TdCi("accuracy", t.Point.Accuracy, TagCi(r, tag, "accuracy")))
                  .Append("</tr>\n");
             }
         }
@@ -501,14 +501,19 @@ public static class HtmlReportWriter
     }
 
     /// <summary>Tags grouped by kind (stable order), systems side by side, and network − baseline with its sign.</summary>
-    private static void WriteTagComparison(StringBuilder h, IReadOnlyList<SystemResult> systems, IReadOnlyList<string> tags, (int Network, int Baseline)? roles)
+    private static void WriteTagComparison(StringBuilder h, IReadOnlyList<SystemResult> systems, IReadOnlyList<string> tags, (int Network, int Baseline)? roles, IReadOnlyList<PairedResult> paired)
     {
         h.Append("<p class=\"note\">F1 at IoU 0.50 / point accuracy per tag, tags grouped by kind (")
          .Append(E(string.Join(", ", TagKinds))).Append(") and in ordinal order within a kind.");
         if (roles is (int net, int bas))
         {
             h.Append(" Δ is ").Append(E(systems[net].Name)).Append(" − ").Append(E(systems[bas].Name))
-             .Append(" on the same frames; the score file holds intervals for all frames only (Headline, Paired), so none are shown per tag.");
+             .Append(" on the same frames.");
+        }
+
+        if (systems.Any(r => r.TagIntervals.Count > 0))
+        {
+            h.Append(" Brackets are 95 % percentile-bootstrap intervals resampling the tag's own frames (or sequences) with the run's seed; a Δ interval is the paired one, from the same resamples.");
         }
 
         h.Append("</p>\n<div class=\"scroll\"><table id=\"tag-compare-table\">\n<thead><tr><th>Kind</th><th>Tag</th><th>Frames</th>");
@@ -533,14 +538,14 @@ public static class HtmlReportWriter
                  .Append(E(tag)).Append("</th>").Append(Td("frames", frames));
                 for (int s = 0; s < systems.Count; s++)
                 {
-                    h.Append(TdCi("f1@0.50", row[s]?.At("0.50")?.F1 ?? double.NaN, null)).Append(TdCi("accuracy", row[s]?.Point.Accuracy ?? double.NaN, null));
+                    h.Append(TdCi("f1@0.50", row[s]?.At("0.50")?.F1 ?? double.NaN, TagCi(systems[s], tag, "f1@0.50"))).Append(TdCi("accuracy", row[s]?.Point.Accuracy ?? double.NaN, TagCi(systems[s], tag, "accuracy")));
                 }
 
                 if (roles is (int n, int b))
                 {
                     double df = (row[n]?.At("0.50")?.F1 ?? double.NaN) - (row[b]?.At("0.50")?.F1 ?? double.NaN);
                     double da = (row[n]?.Point.Accuracy ?? double.NaN) - (row[b]?.Point.Accuracy ?? double.NaN);
-                    h.Append(TdDelta("delta_f1@0.50", df)).Append(TdDelta("delta_accuracy", da));
+                    h.Append(TdDelta("delta_f1@0.50", df, TagDeltaCi(paired, systems[n].Name, systems[b].Name, tag, "f1@0.50"))).Append(TdDelta("delta_accuracy", da, TagDeltaCi(paired, systems[n].Name, systems[b].Name, tag, "accuracy")));
                 }
 
                 h.Append("</tr>\n");
@@ -550,9 +555,34 @@ public static class HtmlReportWriter
         h.Append("</tbody>\n</table></div>\n");
     }
 
-    private static string TdDelta(string key, double value) =>
+    private static string TdDelta(string key, double value, Ci? ci = null) =>
         "<td data-key=\"" + E(key) + "\" data-value=\"" + R(value) + "\" class=\"" + (value < 0 ? "worse" : value > 0 ? "better" : "same") + "\">"
-        + F(value, "+0.000;−0.000;0.000") + "</td>";
+        + F(value, "+0.000;−0.000;0.000")
+        + (ci is Ci c ? " <span class=\"ci\">[" + F(c.Low, "+0.000;−0.000;0.000") + ", " + F(c.High, "+0.000;−0.000;0.000") + "]</span>" : string.Empty)
+        + "</td>";
+
+    /// <summary>The per-tag interval of a statistic of a system, or null when the run had none.</summary>
+    private static Ci? TagCi(SystemResult r, string tag, string key) =>
+        r.TagIntervals.TryGetValue(tag, out IReadOnlyDictionary<string, Ci>? byStat) && byStat.TryGetValue(key, out Ci ci) ? ci : null;
+
+    /// <summary>The paired interval of network − baseline on a tag (the stored pair's sign flipped when it is baseline − network).</summary>
+    private static Ci? TagDeltaCi(IReadOnlyList<PairedResult> paired, string network, string baseline, string tag, string key)
+    {
+        foreach (PairedResult p in paired)
+        {
+            bool direct = p.A == network && p.B == baseline, flipped = p.A == baseline && p.B == network;
+            if ((direct || flipped) && p.ByTag.TryGetValue(tag, out IReadOnlyList<PairedStatistic>? stats))
+            {
+                PairedStatistic? st = stats.FirstOrDefault(x => x.Key == key);
+                if (st?.Ci95 is Ci c)
+                {
+                    return direct ? c : new Ci(-c.High, -c.Low);
+                }
+            }
+        }
+
+        return null;
+    }
 
     private static void WritePaired(StringBuilder h, ScoreDocument doc)
     {

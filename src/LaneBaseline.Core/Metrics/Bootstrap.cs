@@ -17,6 +17,12 @@ public sealed class BootstrapSeries
     /// <summary>Sum of assigned pair accuracies per frame.</summary>
     public List<double> PointAccuracySums { get; } = [];
 
+    /// <summary>
+    /// TP at each threshold of <see cref="IouThreshold.MeanF1Set"/> per frame, frame after frame (empty unless the frames
+    /// were added with the thresholds' indices; the per-tag intervals resample mF1 from them).
+    /// </summary>
+    public List<int> MeanF1TruePositives { get; } = [];
+
     /// <summary>Sequence (cluster) index per frame: clusters are numbered in order of first appearance.</summary>
     public List<int> Clusters { get; } = [];
 
@@ -41,6 +47,17 @@ public sealed class BootstrapSeries
         TruthLanes.Add(frame.TruthLanes);
         PredLanes.Add(frame.PredLanes);
         PointAccuracySums.Add(frame.PointAccuracySum);
+    }
+
+    /// <summary>Adds one frame's statistics and its TP at the mF1 thresholds (indices into <see cref="FrameScore.TruePositives"/>).</summary>
+    public void Add(FrameScore frame, int halfIndex, IReadOnlyList<int> meanF1Indices)
+    {
+        ArgumentNullException.ThrowIfNull(meanF1Indices);
+        Add(frame, halfIndex);
+        foreach (int k in meanF1Indices)
+        {
+            MeanF1TruePositives.Add(frame.TruePositives[k]);
+        }
     }
 }
 
@@ -179,6 +196,97 @@ public static class Bootstrap
                 result[s][(int)BootstrapStatistic.Precision][b] = c.Precision;
                 result[s][(int)BootstrapStatistic.Recall][b] = c.Recall;
                 result[s][(int)BootstrapStatistic.Accuracy][b] = truth[s] == 0 && pred[s] == 0 ? 1.0 : Metrics.Ratio(acc[s], truth[s]);
+            }
+        });
+        return result;
+    }
+
+    /// <summary>Number of statistics <see cref="ResampleWithMeanF1"/> gives: the four of <see cref="BootstrapStatistic"/>, then mF1.</summary>
+    public const int StatisticsWithMeanF1 = 5;
+
+    /// <summary>Index of mF1 in the results of <see cref="ResampleWithMeanF1"/>.</summary>
+    public const int MeanF1Index = 4;
+
+    /// <summary>
+    /// Like <see cref="Resample(IReadOnlyList{BootstrapSeries}, int, ulong, int, BootstrapUnit)"/> (same draws for the
+    /// same seed, unit and number of units), with mF1 as a fifth statistic: result[system][statistic][b], statistic
+    /// indices those of <see cref="BootstrapStatistic"/> then <see cref="MeanF1Index"/>. The series must carry
+    /// <see cref="BootstrapSeries.MeanF1TruePositives"/>. Used for the per-tag intervals, each tag's frames forming
+    /// their own series.
+    /// </summary>
+    public static double[][][] ResampleWithMeanF1(IReadOnlyList<BootstrapSeries> systems, int resamples, ulong seed, int threads, BootstrapUnit unit)
+    {
+        ArgumentNullException.ThrowIfNull(systems);
+        double[][][] result = new double[systems.Count][][];
+        double[][][] basic = Resample(systems, resamples, seed, threads, unit);
+        int n = systems.Count == 0 ? 0 : systems[0].TruthLanes.Count;
+        int m = IouThreshold.MeanF1Set.Count;
+        for (int s = 0; s < systems.Count; s++)
+        {
+            result[s] = [.. basic[s], new double[resamples]];
+            if (n > 0 && systems[s].MeanF1TruePositives.Count != n * m)
+            {
+                throw new InvalidOperationException("the series carries no per-threshold TP for mF1");
+            }
+        }
+
+        if (n == 0 || resamples == 0)
+        {
+            return result;
+        }
+
+        int units = unit == BootstrapUnit.Sequence ? systems[0].ClusterCount : n;
+        var tpU = new long[systems.Count][];
+        var truthU = new long[systems.Count][];
+        var predU = new long[systems.Count][];
+        for (int s = 0; s < systems.Count; s++)
+        {
+            BootstrapSeries series = systems[s];
+            tpU[s] = new long[units * m];
+            truthU[s] = new long[units];
+            predU[s] = new long[units];
+            for (int f = 0; f < n; f++)
+            {
+                int u = unit == BootstrapUnit.Sequence ? series.Clusters[f] : f;
+                truthU[s][u] += series.TruthLanes[f];
+                predU[s][u] += series.PredLanes[f];
+                for (int k = 0; k < m; k++)
+                {
+                    tpU[s][(u * m) + k] += series.MeanF1TruePositives[(f * m) + k];
+                }
+            }
+        }
+
+        Parallel.For(0, resamples, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads) }, b =>
+        {
+            // The same stream as Resample's draw b, so the resampled units are the same.
+            SplitMix64 rng = SplitMix64.ForStream(seed, (ulong)b);
+            var tp = new long[systems.Count * m];
+            var truth = new long[systems.Count];
+            var pred = new long[systems.Count];
+            for (int i = 0; i < units; i++)
+            {
+                int u = rng.NextInt(units);
+                for (int s = 0; s < systems.Count; s++)
+                {
+                    truth[s] += truthU[s][u];
+                    pred[s] += predU[s][u];
+                    for (int k = 0; k < m; k++)
+                    {
+                        tp[(s * m) + k] += tpU[s][(u * m) + k];
+                    }
+                }
+            }
+
+            for (int s = 0; s < systems.Count; s++)
+            {
+                double sum = 0;
+                for (int k = 0; k < m; k++)
+                {
+                    sum += DetectionCounts.From(tp[(s * m) + k], pred[s], truth[s]).F1;
+                }
+
+                result[s][MeanF1Index][b] = sum / m;
             }
         });
         return result;

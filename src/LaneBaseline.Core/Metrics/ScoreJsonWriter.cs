@@ -35,6 +35,83 @@ public sealed class BootstrapResult
 
     /// <summary>The unit as written in the JSON.</summary>
     public string UnitName => Unit == BootstrapUnit.Sequence ? "sequence" : "frame";
+
+    /// <summary>Per-tag intervals (same seed, unit and resamples, each tag's frames resampled on their own), in ordinal tag order.</summary>
+    public IReadOnlyDictionary<string, TagBootstrap> ByTag { get; init; } = new SortedDictionary<string, TagBootstrap>(StringComparer.Ordinal);
+}
+
+/// <summary>The bootstrap of one tag's frames.</summary>
+public sealed class TagBootstrap
+{
+    /// <summary>Units resampled (the tag's frames, or its sequences).</summary>
+    public int Units { get; init; }
+
+    /// <summary>Resampled values: [system][statistic][b], statistics as in <see cref="Bootstrap.ResampleWithMeanF1"/>.</summary>
+    public required double[][][] Samples { get; init; }
+
+    /// <summary>Intervals: [system][statistic].</summary>
+    public required Interval[][] Intervals { get; init; }
+
+    /// <summary>Computes the per-tag bootstraps of every tag of the first system (all systems share the truth's tags).</summary>
+    public static SortedDictionary<string, TagBootstrap> Compute(IReadOnlyList<SystemScore> results, int resamples, ulong seed, int threads, BootstrapUnit unit, double level, Action<string>? warn)
+    {
+        ArgumentNullException.ThrowIfNull(results);
+        var byTag = new SortedDictionary<string, TagBootstrap>(StringComparer.Ordinal);
+        if (results.Count == 0)
+        {
+            return byTag;
+        }
+
+        var collapsed = new List<string>();
+        foreach (KeyValuePair<string, BootstrapSeries> kv in results[0].TagSeries)
+        {
+            BootstrapSeries[] series = [.. results.Select(r => r.TagSeries[kv.Key])];
+            int clusters = kv.Value.ClusterCount;
+            if (unit == BootstrapUnit.Sequence && clusters < 2)
+            {
+                collapsed.Add(kv.Key);
+            }
+
+            double[][][] samples = Bootstrap.ResampleWithMeanF1(series, resamples, seed, threads, unit);
+            byTag.Add(kv.Key, new TagBootstrap
+            {
+                Units = unit == BootstrapUnit.Sequence ? clusters : kv.Value.Clusters.Count,
+                Samples = samples,
+                Intervals = [.. samples.Select(sys => sys.Select(stat => Bootstrap.Percentiles(stat, level)).ToArray())],
+            });
+        }
+
+        if (collapsed.Count > 0)
+        {
+            // One line, as the overall warning: the tags whose frames form fewer than two sequences.
+            warn?.Invoke(string.Create(System.Globalization.CultureInfo.InvariantCulture, $"warning: --bootstrap-unit sequence: {collapsed.Count} tag(s) cover fewer than 2 sequences, so their intervals collapse to a point: {string.Join(", ", collapsed.Take(5).Select(t => "'" + t + "'"))}{(collapsed.Count > 5 ? ", …" : string.Empty)} (use --bootstrap-unit frame)"));
+        }
+
+        return byTag;
+    }
+
+    /// <summary>The interval of statistic(a) − statistic(b) over the joint resamples of the tag.</summary>
+    public Interval Paired(int a, int b, int stat, double level)
+    {
+        double[] sa = Samples[a][stat], sb = Samples[b][stat];
+        var diff = new double[sa.Length];
+        for (int i = 0; i < diff.Length; i++)
+        {
+            diff[i] = sa[i] - sb[i];
+        }
+
+        return Bootstrap.Percentiles(diff, level);
+    }
+
+    /// <summary>JSON key of statistic index <paramref name="stat"/> (the four overall keys, then <c>mf1</c>).</summary>
+    public static string Key(int stat) => stat == Bootstrap.MeanF1Index ? "mf1" : ScoreJsonWriter.StatisticKey((BootstrapStatistic)stat);
+
+    /// <summary>Full-sample value of statistic index <paramref name="stat"/> on a tally.</summary>
+    public static double Value(ScoreTally tally, int stat)
+    {
+        ArgumentNullException.ThrowIfNull(tally);
+        return stat == Bootstrap.MeanF1Index ? tally.MeanF1 : ScoreJsonWriter.Statistic(tally, (BootstrapStatistic)stat);
+    }
 }
 
 /// <summary>Writes <c>score --json</c> output: stable keys of the score-json specification, plus documented extras.</summary>
@@ -126,6 +203,28 @@ public static class ScoreJsonWriter
                         Interval ci = PairedInterval(bootstrap, a, b, stat);
                         json.WritePropertyName("ci95");
                         WriteInterval(json, ci);
+                    }
+
+                    json.WriteEndObject();
+                }
+
+                if (bootstrap is { Resamples: > 0 } && bootstrap.ByTag.Count > 0)
+                {
+                    json.WriteStartObject("by_tag");
+                    foreach (KeyValuePair<string, TagBootstrap> kv in bootstrap.ByTag)
+                    {
+                        json.WriteStartObject(kv.Key);
+                        for (int stat = 0; stat < Bootstrap.StatisticsWithMeanF1; stat++)
+                        {
+                            json.WriteStartObject(TagBootstrap.Key(stat));
+                            json.WritePropertyName("diff");
+                            WriteFloat(json, TagBootstrap.Value(systems[a].ByTag[kv.Key], stat) - TagBootstrap.Value(systems[b].ByTag[kv.Key], stat));
+                            json.WritePropertyName("ci95");
+                            WriteInterval(json, kv.Value.Paired(a, b, stat, bootstrap.Level));
+                            json.WriteEndObject();
+                        }
+
+                        json.WriteEndObject();
                     }
 
                     json.WriteEndObject();
@@ -254,6 +353,20 @@ public static class ScoreJsonWriter
             json.WriteStartObject(kv.Key);
             WriteTally(json, kv.Value, settings, includeFrames: true);
             kv.Value.Reliability.WriteJson(json);
+            if (bootstrap is { Resamples: > 0 } && bootstrap.ByTag.TryGetValue(kv.Key, out TagBootstrap? tb))
+            {
+                json.WriteStartObject("intervals");
+                json.WriteString("unit", bootstrap.UnitName);
+                json.WriteNumber("units", tb.Units);
+                for (int stat = 0; stat < Bootstrap.StatisticsWithMeanF1; stat++)
+                {
+                    json.WritePropertyName(TagBootstrap.Key(stat));
+                    WriteInterval(json, tb.Intervals[index][stat]);
+                }
+
+                json.WriteEndObject();
+            }
+
             json.WriteEndObject();
         }
 

@@ -30,6 +30,9 @@ public sealed class SystemScore
     /// <summary>Per-frame statistics in truth order.</summary>
     public BootstrapSeries Series { get; } = new();
 
+    /// <summary>Per-frame statistics of each tag's frames in truth order (with the mF1 thresholds' TP), in ordinal tag order.</summary>
+    public SortedDictionary<string, BootstrapSeries> TagSeries { get; } = new(StringComparer.Ordinal);
+
     /// <summary>How the prediction file covers the truth (whole files), or null when unknown (a merge of old states).</summary>
     public FrameCoverage? Coverage { get; set; }
 }
@@ -308,6 +311,7 @@ public sealed class ScoreRun
             FrameScore f = row[s];
             results[s].Overall.Add(f);
             results[s].Series.Add(f, halfIndex);
+            int[]? meanF1Indices = null;
             foreach (string tag in f.Tags.Distinct(StringComparer.Ordinal))
             {
                 if (!results[s].ByTag.TryGetValue(tag, out ScoreTally? tally))
@@ -317,6 +321,15 @@ public sealed class ScoreRun
                 }
 
                 tally.Add(f);
+                if (!results[s].TagSeries.TryGetValue(tag, out BootstrapSeries? series))
+                {
+                    series = new BootstrapSeries();
+                    results[s].TagSeries.Add(tag, series);
+                }
+
+                IReadOnlyList<IouThreshold> th = results[s].Overall.Thresholds;
+                meanF1Indices ??= [.. IouThreshold.MeanF1Set.Select(t => Enumerable.Range(0, th.Count).First(i => th[i] == t))];
+                series.Add(f, halfIndex, meanF1Indices);
             }
         }
     }

@@ -85,6 +85,9 @@ public sealed record SystemResult(
     /// <summary>Confidence calibration of the system's scored lanes, or null when its lanes carry no score.</summary>
     public CalibrationSummary? Calibration { get; init; }
 
+    /// <summary>Per-tag bootstrap intervals by statistic key (<c>by_tag.TAG.intervals</c>), empty when the run had no bootstrap.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyDictionary<string, Ci>> TagIntervals { get; init; } = new Dictionary<string, IReadOnlyDictionary<string, Ci>>(StringComparer.Ordinal);
+
     /// <summary>Which truth frames the prediction file covered (missing and extra records), or null when not recorded.</summary>
     public LaneBaseline.Core.Metrics.Coverage.FrameCoverage? Coverage { get; init; }
 }
@@ -116,7 +119,11 @@ public sealed record PairedStatistic(string Key, double Diff, Ci? Ci95);
 /// <param name="A">First system.</param>
 /// <param name="B">Second system.</param>
 /// <param name="Statistics">Statistics in file order.</param>
-public sealed record PairedResult(string Key, string A, string B, IReadOnlyList<PairedStatistic> Statistics);
+public sealed record PairedResult(string Key, string A, string B, IReadOnlyList<PairedStatistic> Statistics)
+{
+    /// <summary>Per-tag paired differences with their intervals (<c>paired.KEY.by_tag</c>), empty when the run had no bootstrap.</summary>
+    public IReadOnlyDictionary<string, IReadOnlyList<PairedStatistic>> ByTag { get; init; } = new Dictionary<string, IReadOnlyList<PairedStatistic>>(StringComparer.Ordinal);
+}
 
 /// <summary>A parsed <c>score --json</c> document.</summary>
 /// <param name="Systems">Systems in file order.</param>

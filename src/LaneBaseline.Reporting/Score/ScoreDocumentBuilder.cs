@@ -51,7 +51,23 @@ public static class ScoreDocumentBuilder
                         stats.Add(new PairedStatistic(ScoreJsonWriter.StatisticKey(stat), Finite(diff), ci));
                     }
 
-                    paired.Add(new PairedResult(ScoreJsonWriter.PairKey(systems[a], systems[b]), systems[a].System.Name, systems[b].System.Name, stats));
+                    var byTag = new Dictionary<string, IReadOnlyList<PairedStatistic>>(StringComparer.Ordinal);
+                    if (bootstrap is { Resamples: > 0 })
+                    {
+                        foreach (KeyValuePair<string, TagBootstrap> kv in bootstrap.ByTag)
+                        {
+                            var tagStats = new List<PairedStatistic>();
+                            for (int stat = 0; stat < Bootstrap.StatisticsWithMeanF1; stat++)
+                            {
+                                double diff = TagBootstrap.Value(systems[a].ByTag[kv.Key], stat) - TagBootstrap.Value(systems[b].ByTag[kv.Key], stat);
+                                tagStats.Add(new PairedStatistic(TagBootstrap.Key(stat), Finite(diff), Interval(kv.Value.Paired(a, b, stat, bootstrap.Level))));
+                            }
+
+                            byTag[kv.Key] = tagStats;
+                        }
+                    }
+
+                    paired.Add(new PairedResult(ScoreJsonWriter.PairKey(systems[a], systems[b]), systems[a].System.Name, systems[b].System.Name, stats) { ByTag = byTag });
                 }
             }
         }
@@ -96,7 +112,22 @@ public static class ScoreDocumentBuilder
         }
 
         byTag.Sort((a, b) => string.CompareOrdinal(a.Key, b.Key));
-        return new SystemResult(system.System.Name, Tally(overall, settings), intervals, sweep, byTag) { Calibration = Calibration(overall.Reliability), Coverage = system.Coverage };
+        var tagIntervals = new Dictionary<string, IReadOnlyDictionary<string, Ci>>(StringComparer.Ordinal);
+        if (bootstrap is { Resamples: > 0 })
+        {
+            foreach (KeyValuePair<string, TagBootstrap> kv in bootstrap.ByTag)
+            {
+                var byStat = new Dictionary<string, Ci>(StringComparer.Ordinal);
+                for (int stat = 0; stat < Bootstrap.StatisticsWithMeanF1; stat++)
+                {
+                    byStat[TagBootstrap.Key(stat)] = Interval(kv.Value.Intervals[index][stat]);
+                }
+
+                tagIntervals[kv.Key] = byStat;
+            }
+        }
+
+        return new SystemResult(system.System.Name, Tally(overall, settings), intervals, sweep, byTag) { Calibration = Calibration(overall.Reliability), Coverage = system.Coverage, TagIntervals = tagIntervals };
     }
 
     private static CalibrationSummary? Calibration(ReliabilityTally r)

@@ -155,6 +155,7 @@ public static class ScoreDocumentReader
         }
 
         var byTag = new List<KeyValuePair<string, Tally>>();
+        var tagIntervals = new Dictionary<string, IReadOnlyDictionary<string, Ci>>(StringComparer.Ordinal);
         if (e.TryGetProperty("by_tag", out JsonElement tags))
         {
             foreach (JsonProperty p in ctx.Object(tags, path + ".by_tag").EnumerateObject())
@@ -165,11 +166,25 @@ public static class ScoreDocumentReader
                 }
 
                 byTag.Add(new(p.Name, ReadTally(ctx, ctx.Object(p.Value, path + ".by_tag." + p.Name), path + ".by_tag." + p.Name)));
+                if (p.Value.TryGetProperty("intervals", out JsonElement tiv))
+                {
+                    string tp = path + ".by_tag." + p.Name + ".intervals";
+                    var byStat = new Dictionary<string, Ci>(StringComparer.Ordinal);
+                    foreach (JsonProperty q in ctx.Object(tiv, tp).EnumerateObject())
+                    {
+                        if (q.Value.ValueKind == JsonValueKind.Array)
+                        {
+                            byStat[q.Name] = ReadCi(ctx, q.Value, tp + "." + q.Name);
+                        }
+                    }
+
+                    tagIntervals[p.Name] = byStat;
+                }
             }
         }
 
         byTag.Sort((a, b) => string.CompareOrdinal(a.Key, b.Key));
-        return new SystemResult(name, overall, intervals, sweep, byTag) { Calibration = ReadCalibration(ctx, e, path), Coverage = ReadCoverage(ctx, e, path) };
+        return new SystemResult(name, overall, intervals, sweep, byTag) { Calibration = ReadCalibration(ctx, e, path), Coverage = ReadCoverage(ctx, e, path), TagIntervals = tagIntervals };
     }
 
     private static FrameCoverage? ReadCoverage(Context ctx, JsonElement e, string path)
@@ -319,10 +334,29 @@ public static class ScoreDocumentReader
     {
         ctx.Object(e, path);
         string a = ctx.String(e, path, "a"), b = ctx.String(e, path, "b");
+        var byTag = new Dictionary<string, IReadOnlyList<PairedStatistic>>(StringComparer.Ordinal);
+        if (e.TryGetProperty("by_tag", out JsonElement tags))
+        {
+            foreach (JsonProperty t in ctx.Object(tags, path + ".by_tag").EnumerateObject())
+            {
+                if (byTag.Count == InputLimits.MaxDistinctTags)
+                {
+                    throw ctx.Error(path + ".by_tag", $"more than {InputLimits.MaxDistinctTags} tags (the documented limit)");
+                }
+
+                byTag[t.Name] = ReadPairStatistics(ctx, ctx.Object(t.Value, path + ".by_tag." + t.Name), path + ".by_tag." + t.Name);
+            }
+        }
+
+        return new PairedResult(key, a, b, ReadPairStatistics(ctx, e, path)) { ByTag = byTag };
+    }
+
+    private static List<PairedStatistic> ReadPairStatistics(Context ctx, JsonElement e, string path)
+    {
         var stats = new List<PairedStatistic>();
         foreach (JsonProperty p in e.EnumerateObject())
         {
-            if (p.Value.ValueKind != JsonValueKind.Object)
+            if (p.Value.ValueKind != JsonValueKind.Object || p.Name == "by_tag")
             {
                 continue;
             }
@@ -332,7 +366,7 @@ public static class ScoreDocumentReader
             stats.Add(new PairedStatistic(p.Name, ctx.Float(p.Value, sp, "diff"), ci));
         }
 
-        return new PairedResult(key, a, b, stats);
+        return stats;
     }
 
     private static Ci ReadCi(Context ctx, JsonElement e, string path)
