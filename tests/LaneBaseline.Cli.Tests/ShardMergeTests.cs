@@ -23,6 +23,13 @@ public sealed class ShardMergeTests : IDisposable
         string[] common = ["--truth", truth, "--pred", "net=" + pred, "--pred", "same=" + truth, "--bootstrap", "50", "--seed", "9", "--iou", "0.4"];
         (int exit, string fullOut, _) = CliRunner.Run(["score", .. common, "--json", dir.File("full.json"), "--csv", dir.File("full.csv")]);
         Assert.Equal(0, exit);
+        using (var doc = System.Text.Json.JsonDocument.Parse(File.ReadAllBytes(dir.File("full.json"))))
+        {
+            // The per-tag intervals and paired differences are part of what merge must reproduce.
+            Assert.Equal(2, doc.RootElement.GetProperty("systems").GetProperty("net").GetProperty("by_tag").GetProperty("dusk").GetProperty("intervals").GetProperty("mf1").GetArrayLength());
+            Assert.True(doc.RootElement.GetProperty("paired").GetProperty("net - same").GetProperty("by_tag").GetProperty("dusk").TryGetProperty("f1@0.50", out _));
+        }
+
         var states = new List<string>();
         for (int k = 0; k < n; k++)
         {

@@ -48,6 +48,12 @@ public sealed class OutputSchemaTests : IDisposable
         // The schema can fail: a result without tp, or with a second system and no paired block.
         Assert.False(Evaluate(Score, a.RootElement.GetRawText().Replace("\"tp\"", "\"true_positives\"", StringComparison.Ordinal)));
         Assert.False(Evaluate(Score, b.RootElement.GetRawText().Replace("\"paired\"", "\"pairs_\"", StringComparison.Ordinal)));
+
+        // Per-tag intervals and paired differences are checked too: only they require "units" and "ci95".
+        Assert.Equal(2, baseOne.GetProperty("by_tag").GetProperty("night").GetProperty("intervals").GetProperty("mf1").GetArrayLength());
+        Assert.Equal(2, b.RootElement.GetProperty("paired").GetProperty("base - part").GetProperty("by_tag").GetProperty("night").GetProperty("mf1").GetProperty("ci95").GetArrayLength());
+        Assert.False(Evaluate(Score, a.RootElement.GetRawText().Replace("\"units\"", "\"unitz\"", StringComparison.Ordinal)));
+        Assert.False(Evaluate(Score, b.RootElement.GetRawText().Replace("\"ci95\"", "\"ci_95\"", StringComparison.Ordinal)));
     }
 
     [Fact]
