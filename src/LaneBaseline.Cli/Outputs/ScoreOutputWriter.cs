@@ -47,7 +47,7 @@ internal static class ScoreOutputWriter
                 Unit = unit,
                 Units = unit == BootstrapUnit.Sequence ? clusters : first.Clusters.Count,
                 Clusters = clusters,
-                ByTag = TagBootstrap.Compute(results, request.Resamples, request.Seed, request.Threads, unit, 0.95, stderr.WriteLine),
+                ByTag = TagBootstrap.Compute(results, request.Resamples, request.Seed, request.Threads, unit, 0.95, stderr.WriteLine, request.BootstrapUnit is not null),
             };
         }
 

@@ -52,8 +52,12 @@ public sealed class TagBootstrap
     /// <summary>Intervals: [system][statistic].</summary>
     public required Interval[][] Intervals { get; init; }
 
-    /// <summary>Computes the per-tag bootstraps of every tag of the first system (all systems share the truth's tags).</summary>
-    public static SortedDictionary<string, TagBootstrap> Compute(IReadOnlyList<SystemScore> results, int resamples, ulong seed, int threads, BootstrapUnit unit, double level, Action<string>? warn)
+    /// <summary>
+    /// Computes the per-tag bootstraps of every tag of the first system (all systems share the truth's tags). Tags
+    /// whose frames form fewer than two sequences under the sequence unit are named in one line: a <c>warning:</c>
+    /// when the unit was asked for (<paramref name="unitAsked"/>), as for the overall interval, else a <c>note:</c>.
+    /// </summary>
+    public static SortedDictionary<string, TagBootstrap> Compute(IReadOnlyList<SystemScore> results, int resamples, ulong seed, int threads, BootstrapUnit unit, double level, Action<string>? warn, bool unitAsked = true)
     {
         ArgumentNullException.ThrowIfNull(results);
         var byTag = new SortedDictionary<string, TagBootstrap>(StringComparer.Ordinal);
@@ -84,7 +88,7 @@ public sealed class TagBootstrap
         if (collapsed.Count > 0)
         {
             // One line, as the overall warning: the tags whose frames form fewer than two sequences.
-            warn?.Invoke(string.Create(System.Globalization.CultureInfo.InvariantCulture, $"warning: --bootstrap-unit sequence: {collapsed.Count} tag(s) cover fewer than 2 sequences, so their intervals collapse to a point: {string.Join(", ", collapsed.Take(5).Select(t => "'" + t + "'"))}{(collapsed.Count > 5 ? ", …" : string.Empty)} (use --bootstrap-unit frame)"));
+            warn?.Invoke(string.Create(System.Globalization.CultureInfo.InvariantCulture, $"{(unitAsked ? "warning" : "note")}: --bootstrap-unit sequence: {collapsed.Count} tag(s) cover fewer than 2 sequences, so their intervals collapse to a point: {string.Join(", ", collapsed.Take(5).Select(t => "'" + t + "'"))}{(collapsed.Count > 5 ? ", …" : string.Empty)} (use --bootstrap-unit frame)"));
         }
 
         return byTag;

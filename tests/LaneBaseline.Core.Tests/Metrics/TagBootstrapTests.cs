@@ -131,6 +131,10 @@ public sealed class TagBootstrapTests
         var warnings = new List<string>();
         var byTag = TagBootstrap.Compute(results, 100, 3, 1, BootstrapUnit.Sequence, 0.95, warnings.Add);
         string w = Assert.Single(warnings);
+        Assert.StartsWith("warning: ", w, StringComparison.Ordinal);
+        var notes = new List<string>();
+        _ = TagBootstrap.Compute(results, 100, 3, 1, BootstrapUnit.Sequence, 0.95, notes.Add, unitAsked: false);
+        Assert.StartsWith("note: ", Assert.Single(notes), StringComparison.Ordinal);
         Assert.Contains("'fog'", w, StringComparison.Ordinal);
         Assert.DoesNotContain("'sun'", w, StringComparison.Ordinal);
         TagBootstrap fog = byTag["fog"];
