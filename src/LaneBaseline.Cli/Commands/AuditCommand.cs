@@ -112,6 +112,7 @@ internal static class AuditCommand
             };
             string predPath = InputSpool.Input(parseResult.GetRequiredValue(pred));
             string? baselinePath = parseResult.GetValue(baseline) is string b ? InputSpool.Input(b) : null;
+            var job = new AuditJob { Pred = predPath, Baseline = baselinePath, MinMaskRows = rows, Settings = settings };
             DateTimeOffset at = ReportPage.ParseGeneratedAt(parseResult.GetValue(generatedAt));
             var clock = Stopwatch.StartNew();
             LaneSourceOpener opener = LaneInputs.Opener(settings.Size, rows, stderr);
@@ -122,7 +123,11 @@ internal static class AuditCommand
                 var header = new AuditStateHeader
                 {
                     Shard = shardSpec ?? new ShardSpec(0, 1),
-                    Job = JobOf(predPath, baselinePath, cameraPath, settings, sizeText, rows),
+                    Job = job with
+                    {
+                        PredSha256 = ContentHash.Of(predPath),
+                        BaselineSha256 = baselinePath is null ? null : ContentHash.Of(baselinePath),
+                    },
                     InputFrames = result.InputFrames,
                     Frames = result.Frames,
                     ComparedFrames = result.ComparedFrames,
@@ -141,9 +146,8 @@ internal static class AuditCommand
                 var outputs = new AuditOutputs(outPath!, parseResult.GetValue(frames), n, m, gateSeverity, reportPath is null ? null : (reportPath, at))
                 {
                     SummaryJson = parseResult.GetValue(summaryJson),
-                    Baseline = baselinePath is not null,
                 };
-                exit = AuditOutputWriter.Finish(stdout, stderr, result, outputs, predPath, baselinePath, settings, opener, settings.Camera is not null, cancellationToken);
+                exit = AuditOutputWriter.Finish(stdout, stderr, result, outputs, job, opener, cancellationToken);
             }
 
             stderr.WriteLine(F($"audit: {result.Frames} frames in {clock.Elapsed.TotalSeconds:0.###} s ({threadCount} thread(s))"));
@@ -151,22 +155,6 @@ internal static class AuditCommand
         })));
         return command;
     }
-
-    /// <summary>The job entries of a partial state: every input and option that changes a finding.</summary>
-    internal static List<KeyValuePair<string, string>> JobOf(string predPath, string? baselinePath, string? cameraPath, AuditSettings settings, string? sizeText, int minMaskRows) =>
-    [
-        new("pred", predPath),
-        new("pred_sha256", ContentHash.Of(predPath)),
-        new("baseline", baselinePath ?? string.Empty),
-        new("baseline_sha256", baselinePath is null ? string.Empty : ContentHash.Of(baselinePath)),
-        new("camera", cameraPath ?? string.Empty),
-        new("design_speed_kmh", settings.DesignSpeedKmh.ToString("R", CultureInfo.InvariantCulture)),
-        new("size", sizeText ?? string.Empty),
-        new("horizon_row", settings.HorizonRow?.ToString("R", CultureInfo.InvariantCulture) ?? string.Empty),
-        new("fps", settings.FramesPerSecond.ToString("R", CultureInfo.InvariantCulture)),
-        new("min_mask_rows", minMaskRows.ToString(CultureInfo.InvariantCulture)),
-        .. settings.Stills ? new[] { new KeyValuePair<string, string>("stills", "true") } : [],
-    ];
 
     private static AuditResult Run(
         TextWriter stderr,

@@ -30,13 +30,12 @@ internal static class AuditOutputWriter
         TextWriter stderr,
         AuditResult result,
         AuditOutputs outputs,
-        string predPath,
-        string? baselinePath,
-        AuditSettings settings,
+        AuditJob job,
         LaneSourceOpener opener,
-        bool groundRules,
         CancellationToken cancellationToken)
     {
+        AuditSettings settings = job.Settings;
+        bool groundRules = settings.Camera is not null, baseline = job.Baseline is not null;
         string outPath = outputs.OutPath;
         using var findingsFile = new AtomicFile(outPath);
         AuditJsonWriter.Write(findingsFile.Stream, result);
@@ -57,7 +56,7 @@ internal static class AuditOutputWriter
         var drawn = new List<(int Rank, string Frame, string Path, byte[] Jpeg, int Width, int Height)>();
         if (outputs.Overlays > 0)
         {
-            WriteOverlays(stem + ".overlays", result, predPath, baselinePath, outputs.FramesRoot, settings, opener, outputs.Overlays, drawn, cancellationToken);
+            WriteOverlays(stem + ".overlays", result, job.Pred, job.Baseline, outputs.FramesRoot, settings, opener, outputs.Overlays, drawn, cancellationToken);
         }
 
         if (outputs.Report is (string reportPath, DateTimeOffset at))
@@ -75,7 +74,7 @@ internal static class AuditOutputWriter
         if (outputs.SummaryJson is string summaryPath)
         {
             using var summaryFile = new AtomicFile(summaryPath);
-            WriteSummaryJson(summaryFile.Stream, result, outPath, groundRules, settings.Stills, outputs.Baseline, settings.FramesPerSecond);
+            WriteSummaryJson(summaryFile.Stream, result, outPath, groundRules, settings.Stills, baseline, settings.FramesPerSecond);
             summaryFile.Commit();
         }
 

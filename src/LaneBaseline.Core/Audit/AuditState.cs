@@ -15,11 +15,8 @@ public sealed record AuditStateHeader
     /// <summary>The shard that wrote the state.</summary>
     public required ShardSpec Shard { get; init; }
 
-    /// <summary>
-    /// The job's inputs and settings as canonical text (paths as given, every option that changes a finding); equal for
-    /// every shard of one job.
-    /// </summary>
-    public required IReadOnlyList<KeyValuePair<string, string>> Job { get; init; }
+    /// <summary>The job: inputs and every setting, equal for every shard of one job.</summary>
+    public required AuditJob Job { get; init; }
 
     /// <summary>Records in the prediction input (every shard reads all of them).</summary>
     public required long InputFrames { get; init; }
@@ -30,11 +27,11 @@ public sealed record AuditStateHeader
     /// <summary>Frames this shard compared with the baseline.</summary>
     public required long ComparedFrames { get; init; }
 
-    /// <summary>Value of a job entry, or null.</summary>
-    public string? JobValue(string key) => Job.FirstOrDefault(kv => kv.Key == key).Value;
+    /// <summary>Layout version of the state; 1 (until 2026-12-05) held the job as text and dropped settings in merge.</summary>
+    public const int Version = 2;
 
     internal string JobKey() =>
-        string.Join('\n', Job.Select(kv => kv.Key + "=" + kv.Value)) + "\n" + InputFrames.ToString(CultureInfo.InvariantCulture) + "\n" + Shard.Count.ToString(CultureInfo.InvariantCulture);
+        string.Join('\n', Job.Entries().Select(kv => kv.Key + "=" + kv.Value)) + "\n" + InputFrames.ToString(CultureInfo.InvariantCulture) + "\n" + Shard.Count.ToString(CultureInfo.InvariantCulture);
 }
 
 /// <summary>
@@ -72,19 +69,14 @@ public static class AuditStateWriter
         Line(json =>
         {
             json.WriteString("format", AuditStateHeader.FormatName);
-            json.WriteNumber("version", 1);
+            json.WriteNumber("version", AuditStateHeader.Version);
             json.WriteNumber("shard_index", header.Shard.Index);
             json.WriteNumber("shard_count", header.Shard.Count);
             json.WriteNumber("input_frames", header.InputFrames);
             json.WriteNumber("frames", header.Frames);
             json.WriteNumber("compared_frames", header.ComparedFrames);
-            json.WriteStartObject("job");
-            foreach ((string key, string value) in header.Job)
-            {
-                json.WriteString(key, value);
-            }
-
-            json.WriteEndObject();
+            json.WritePropertyName("job");
+            AuditJobJson.Write(json, header.Job);
         });
         foreach (AuditFrameScore f in result.RankedFrames.OrderBy(f => f.Ordinal))
         {
@@ -171,18 +163,21 @@ public static class AuditStateMerge
             headers.Add(Read(path, frames, findings, ordinals));
         }
 
+        IReadOnlyList<KeyValuePair<string, string>> firstJob = headers[0].Job.Entries();
         for (int i = 1; i < headers.Count; i++)
         {
             // Name the first setting that differs (a content hash: the same path held other contents).
-            foreach (KeyValuePair<string, string> kv in headers[0].Job)
+            IReadOnlyList<KeyValuePair<string, string>> job = headers[i].Job.Entries();
+            for (int k = 0; k < firstJob.Count && k < job.Count; k++)
             {
-                string? other = headers[i].JobValue(kv.Key);
-                if (other is not null && !string.Equals(other, kv.Value, StringComparison.Ordinal))
+                (string name, string value) = firstJob[k];
+                string other = job[k].Value;
+                if (!string.Equals(other, value, StringComparison.Ordinal))
                 {
-                    string what = kv.Key.EndsWith("_sha256", StringComparison.Ordinal)
-                        ? $"belongs to a different audit job than {paths[0]}: it was made from different contents of {headers[0].JobValue(kv.Key[..^7])} ({other} vs {kv.Value}); re-run every shard on the same inputs"
-                        : $"belongs to a different audit job than {paths[0]}: its {kv.Key} is '{other}' where that state's is '{kv.Value}'";
-                    throw BadInputException.At(paths[i], 1, kv.Key, what);
+                    string what = name.EndsWith("_sha256", StringComparison.Ordinal)
+                        ? $"belongs to a different audit job than {paths[0]}: it was made from different contents of {firstJob.FirstOrDefault(kv => kv.Key == name[..^7]).Value} ({other} vs {value}); re-run every shard on the same inputs"
+                        : $"belongs to a different audit job than {paths[0]}: its {name} is '{other}' where that state's is '{value}'";
+                    throw BadInputException.At(paths[i], 1, name, what);
                 }
             }
         }
@@ -223,9 +218,15 @@ public static class AuditStateMerge
                     }
 
                     key = "version";
-                    if (r.GetProperty("version").GetInt32() != 1)
+                    int version = r.GetProperty("version").GetInt32();
+                    if (version == 1)
                     {
-                        throw BadInputException.At(path, line, key, "unsupported version (this build reads 1)");
+                        throw BadInputException.At(path, line, key, "an audit state of an older build (version 1, which lost settings such as --fps, --design-speed-kmh and --horizon-row in merge); re-run the shards' audits with this build");
+                    }
+
+                    if (version != AuditStateHeader.Version)
+                    {
+                        throw BadInputException.At(path, line, key, string.Create(CultureInfo.InvariantCulture, $"unsupported version {version} (this build reads {AuditStateHeader.Version})"));
                     }
 
                     key = "shard_count";
@@ -238,12 +239,10 @@ public static class AuditStateMerge
                     }
 
                     key = "job";
-                    var job = new List<KeyValuePair<string, string>>();
-#pragma warning disable IDISP004 // misreads foreach over JsonElement.EnumerateObject(): foreach disposes the enumerator
-                    foreach (JsonProperty p in r.GetProperty(key).EnumerateObject())
-#pragma warning restore IDISP004
+                    AuditJob job = AuditJobJson.Read(r.GetProperty(key));
+                    if (job.MinMaskRows < 2)
                     {
-                        job.Add(new(p.Name, p.Value.GetString() ?? string.Empty));
+                        throw BadInputException.At(path, line, key, "min_mask_rows must be at least 2");
                     }
 
                     key = "input_frames";
