@@ -89,10 +89,20 @@ internal static class AuditOutputWriter
     }
 
     /// <summary>Whether a rule ran in this audit (temporal rules are off for stills, ground rules need a camera, the baseline rule a baseline).</summary>
-    private static bool Ran(AuditRuleInfo rule, bool groundRules, bool stills, bool baseline) =>
-        rule.Id.StartsWith("LBA-T", StringComparison.Ordinal) ? !stills
-        : rule.Id.StartsWith("LBA-G", StringComparison.Ordinal) ? groundRules
-        : !rule.Id.StartsWith("LBA-B", StringComparison.Ordinal) || baseline;
+    private static bool Ran(IAuditRule rule, bool groundRules, bool stills, bool baseline) => rule.Family switch
+    {
+        AuditRuleFamily.Temporal => !stills,
+        AuditRuleFamily.Ground => groundRules,
+        AuditRuleFamily.Baseline => baseline,
+        _ => true,
+    };
+
+    /// <summary>The ids of a family's rules as a range, e.g. <c>LBA-G01..G03</c>.</summary>
+    private static string IdRange(AuditRuleFamily family)
+    {
+        IAuditRule[] rules = [.. AuditRuleCatalogue.Rules.Where(r => r.Family == family)];
+        return rules[0].Info.Id + ".." + rules[^1].Info.Id[4..];
+    }
 
     /// <summary>Version of the summary JSON's layout (docs/schema/audit-summary.schema.json).</summary>
     internal const int SummarySchemaVersion = 1;
@@ -120,13 +130,14 @@ internal static class AuditOutputWriter
         }
 
         w.WriteStartArray("rules");
-        foreach (AuditRuleInfo rule in AuditRules.All)
+        foreach (IAuditRule r in AuditRuleCatalogue.Rules)
         {
+            AuditRuleInfo rule = r.Info;
             w.WriteStartObject();
             w.WriteString("id", rule.Id);
             w.WriteString("name", rule.Name);
             w.WriteString("severity", AuditJsonWriter.SeverityName(rule.Severity));
-            w.WriteBoolean("ran", Ran(rule, groundRules, stills, baseline));
+            w.WriteBoolean("ran", Ran(r, groundRules, stills, baseline));
             w.WriteNumber("findings", result.Findings.Count(f => f.Rule == rule.Id));
             w.WriteNumber("frames", result.Findings.Where(f => f.Rule == rule.Id).Select(f => f.Ordinal).Distinct().Count());
             w.WriteString("limit", rule.Limit);
@@ -159,13 +170,13 @@ internal static class AuditOutputWriter
         if (!groundRules)
         {
             o.WriteLine();
-            o.WriteLine("Ground-geometry rules (LBA-G01..G03) did not run: they need --camera camera.json.");
+            o.WriteLine("Ground-geometry rules (" + IdRange(AuditRuleFamily.Ground) + ") did not run: they need --camera camera.json.");
         }
 
         if (stills)
         {
             o.WriteLine();
-            o.WriteLine("Temporal rules (LBA-T01..T03) did not run: --stills says the frames are independent stills.");
+            o.WriteLine("Temporal rules (" + IdRange(AuditRuleFamily.Temporal) + ") did not run: --stills says the frames are independent stills.");
         }
     }
 
