@@ -29,4 +29,7 @@ internal sealed record BenchRequest
 
     /// <summary>Most frames decoded (they are held in memory).</summary>
     public int MaxFrames { get; init; } = 60;
+
+    /// <summary>Most bytes the decoded frames and their resized copies may take together (default <see cref="BenchRunner.MemoryBudgetBytes"/>).</summary>
+    public long MemoryBudgetBytes { get; init; } = BenchRunner.MemoryBudgetBytes;
 }

@@ -101,6 +101,7 @@ internal static class AuditCommand
             OutputPaths.Check(
                 [("--pred", parseResult.GetValue(pred)), ("--baseline", parseResult.GetValue(baseline)), ("--camera", cameraPath)],
                 [("-o", outPath), ("--partial", partialPath), ("--report", reportPath), ("--mine", m > 0 ? findingsStem + ".mine.txt" : null)]);
+            OutputPaths.Check([], [("--overlays (its folder)", n > 0 ? findingsStem + ".overlays" : null)], outputsAreFiles: false);
             var settings = new AuditSettings
             {
                 Camera = cameraPath is null ? null : CameraModel.Load(cameraPath),

@@ -47,6 +47,7 @@ internal static class MergeCommand
             OutputPaths.Check(
                 [.. paths.Select(p => ("input", (string?)p))],
                 [("-o", outPath), ("--csv", parseResult.GetValue(csv)), ("--mask-iou-csv", parseResult.GetValue(maskCsv)), ("--report", parseResult.GetValue(report)), ("--summary-json", parseResult.GetValue(summaryJson)), ("--mine", parseResult.GetValue(mine) > 0 ? outStem + ".mine.txt" : null)]);
+            OutputPaths.Check([], [("--overlays (its folder)", parseResult.GetValue(overlays) > 0 ? outStem + ".overlays" : null)], outputsAreFiles: false);
             InputKind[] kinds = [.. paths.Select(KindOf)];
             if (kinds.Distinct().Count() > 1)
             {

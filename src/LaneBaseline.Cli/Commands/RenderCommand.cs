@@ -136,15 +136,8 @@ internal static class RenderCommand
                 Threads = threadCount,
                 OverlayDir = parseResult.GetValue(overlays),
             };
-            if (File.Exists(options.OutDir))
-            {
-                throw new UsageException($"-o/--output {options.OutDir}: is a file; give a folder.");
-            }
-
-            if (options.OverlayDir is not null && File.Exists(options.OverlayDir))
-            {
-                throw new UsageException($"--overlays {options.OverlayDir}: is a file; give a folder.");
-            }
+            // A folder output that is a file, or lies under one, is bad input (exit 3) as in every other command.
+            OutputPaths.Check([], [("-o/--output", options.OutDir), ("--overlays", options.OverlayDir)], outputsAreFiles: false);
 
             var clock = Stopwatch.StartNew();
             int frames;

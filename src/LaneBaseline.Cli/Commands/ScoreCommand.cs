@@ -69,6 +69,7 @@ internal static class ScoreCommand
             OutputPaths.Check(
                 [("--truth", parseResult.GetValue(truth)), .. OutputPaths.Preds(parseResult.GetValue(pred)), ("--camera", parseResult.GetValue(camera))],
                 [("--json", parseResult.GetValue(json)), ("--csv", parseResult.GetValue(csv)), ("--report", parseResult.GetValue(report)), ("--partial", parseResult.GetValue(partial)), ("--mask-iou-csv", parseResult.GetValue(maskCsv))]);
+            OutputPaths.Check([], [("--report (its gallery folder)", OutputPaths.GalleryFolder(parseResult.GetValue(report), parseResult.GetValue(frames)))], outputsAreFiles: false);
             var settings = new ScoreSettings
             {
                 LaneWidthPx = parseResult.GetValue(laneWidth),
