@@ -229,8 +229,10 @@ internal static class AuditOutputWriter
             if (rankOf.TryGetValue(ordinal, out int rank))
             {
                 baseRecords.TryGetValue(r.Frame, out LaneRecord? b);
-                int w = r.Width ?? b?.Width ?? settings.Size!.Value.Width;
-                int h = r.Height ?? b?.Height ?? settings.Size!.Value.Height;
+                // The size the audit used for this frame (AuditRun): the record's, the baseline record's, --size, the camera's.
+                (int w, int h) = r.Width is int rw && r.Height is int rh ? (rw, rh)
+                    : b?.Width is int bw && b.Height is int bh ? (bw, bh)
+                    : settings.SizeWithoutRecordSize() ?? throw new InvalidOperationException("an audited frame without a size");
                 string? image = framesRoot is null ? null : Path.Combine(framesRoot, r.Frame);
                 using Mat overlay = AuditOverlayPainter.Paint(image, r, b, w, h, byOrdinal.GetValueOrDefault(ordinal) ?? []);
                 string name = F($"{rank:000}_") + string.Concat(r.Frame.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '_'));

@@ -200,7 +200,7 @@ public sealed class AuditRun
     {
         (int w, int h) = p.Width is int pw && p.Height is int ph ? (pw, ph)
             : b?.Width is int bw && b.Height is int bh ? (bw, bh)
-            : settings.Size ?? settings.Camera.SizeOrNull() ?? throw BadInputException.At(file, p.LineNumber, "width", $"frame '{p.Frame}' has no size: give --size WxH (or a baseline with sizes)");
+            : settings.SizeWithoutRecordSize() ?? throw BadInputException.At(file, p.LineNumber, "width", $"frame '{p.Frame}' has no size: give --size WxH (or a baseline with sizes)");
         if (settings.Camera is { } c && (c.ImageWidth != w || c.ImageHeight != h))
         {
             throw BadInputException.At(file, p.LineNumber, "width", string.Create(CultureInfo.InvariantCulture, $"frame '{p.Frame}' is {w}x{h} but the camera file is for {c.ImageWidth}x{c.ImageHeight}"));
