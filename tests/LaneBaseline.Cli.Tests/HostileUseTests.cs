@@ -68,11 +68,11 @@ public sealed class HostileUseTests : IDisposable
 
         (string truth, string pred) = WriteSet();
         string a = dir.File("a.jsonl"), b = dir.File("b.jsonl");
-        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", a, "--overlays", "5").Exit);
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", a, "--overlay-count", "5").Exit);
         using (var predPipe = new Fifo(dir.File("p.fifo"), File.ReadAllBytes(pred)))
         using (var basePipe = new Fifo(dir.File("b.fifo"), File.ReadAllBytes(truth)))
         {
-            (int exit, _, string err) = CliRunner.Run("audit", "--pred", predPipe.Path, "--baseline", basePipe.Path, "-o", b, "--overlays", "5");
+            (int exit, _, string err) = CliRunner.Run("audit", "--pred", predPipe.Path, "--baseline", basePipe.Path, "-o", b, "--overlay-count", "5");
             Assert.True(exit == 0, err);
         }
 
@@ -259,7 +259,7 @@ public sealed class HostileUseTests : IDisposable
         (string truth, string pred) = WriteSet();
         string findings = dir.File("out.jsonl");
         File.WriteAllText(dir.File("out.overlays"), "not a folder");
-        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", findings, "--overlays", "3");
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", findings, "--overlay-count", "3");
         Assert.Equal(3, exit);
         Assert.Contains("out.overlays", err, StringComparison.Ordinal);
         Assert.Contains("give a folder", err, StringComparison.Ordinal);
