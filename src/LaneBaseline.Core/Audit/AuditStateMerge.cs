@@ -83,8 +83,9 @@ public static class AuditStateMerge
                         throw BadInputException.At(path, line, "format", $"not an audit state (expected \"format\": \"{AuditStateHeader.FormatName}\")");
                     }
 
-                    key = "version";
-                    int version = r.GetProperty("version").GetInt32();
+                    // "schema_version" since 2026-12-05 (docs/schema/audit-state.schema.json); "version" before.
+                    key = r.TryGetProperty("schema_version", out _) ? "schema_version" : "version";
+                    int version = r.GetProperty(key).GetInt32();
                     if (version == 1)
                     {
                         throw BadInputException.At(path, line, key, "an audit state of an older build (version 1, which lost settings such as --fps, --design-speed-kmh and --horizon-row in merge); re-run the shards' audits with this build");

@@ -39,8 +39,9 @@ public static class AuditStateWriter
 
         Line(json =>
         {
+            json.WriteString("tool", "lanebaseline");
             json.WriteString("format", AuditStateHeader.FormatName);
-            json.WriteNumber("version", AuditStateHeader.Version);
+            json.WriteNumber("schema_version", AuditStateHeader.Version);
             json.WriteNumber("shard_index", header.Shard.Index);
             json.WriteNumber("shard_count", header.Shard.Count);
             json.WriteNumber("input_frames", header.InputFrames);
