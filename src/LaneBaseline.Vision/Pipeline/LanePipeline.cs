@@ -1,4 +1,6 @@
+using System.Globalization;
 using LaneBaseline.Core;
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Options;
 using LaneBaseline.Core.Results;
@@ -22,15 +24,19 @@ public sealed class LanePipeline : IDisposable
     private readonly PipelineOptions options;
     private readonly List<IFrameStage> stages = [];
     private readonly (double X, double Y)? cameraVanishingPoint;
+    private readonly CameraModel? camera;
     private FrameWorkspace? workspace;
 
     /// <summary>Creates a pipeline; stages are built on the first frame.</summary>
     /// <param name="options">Validated options.</param>
     /// <param name="cameraVanishingPoint">Vanishing point from a camera file (image pixels), or null to estimate it per frame.</param>
+    /// <param name="camera">The camera file's model (frame pixels): with it, and <see cref="MetricViewOptions.MetresPerPx"/>
+    /// above 0, the bird's-eye view is metric (<see cref="MetricBirdsEye"/>); null keeps the vanishing-point trapezoid.</param>
     /// <exception cref="BadInputException">The options are invalid.</exception>
-    public LanePipeline(PipelineOptions options, (double X, double Y)? cameraVanishingPoint = null)
+    public LanePipeline(PipelineOptions options, (double X, double Y)? cameraVanishingPoint = null, CameraModel? camera = null)
     {
         this.cameraVanishingPoint = cameraVanishingPoint;
+        this.camera = camera;
         ArgumentNullException.ThrowIfNull(options);
         IReadOnlyList<OptionsFinding> findings = options.Validate();
         if (findings.Count > 0)
@@ -152,10 +158,19 @@ public sealed class LanePipeline : IDisposable
         DisposeStages();
         workspace?.Dispose();
         int bandTop = Math.Clamp((int)Math.Round(options.Region.SearchTopFraction * height), 0, height - 2);
-        workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale)
+        MetricViewOptions metric = options.Metric ?? new MetricViewOptions();
+        (PlaneHomography H, int W, int Ht)? view = camera is not null && metric.IsEnabled() ? MetricView(camera, metric, scaling) : null;
+        workspace = new FrameWorkspace(width, height, view?.W ?? options.Warp.WidthPx, view?.Ht ?? options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale)
         {
             Scaling = scaling,
         };
+        if (view is not null)
+        {
+            workspace.Warp.MetresPerPixel = metric.MetresPerPx;
+            workspace.Warp.MinLaneWidthM = metric.MinLaneWidthM;
+            workspace.Warp.MaxLaneWidthM = metric.MaxLaneWidthM;
+        }
+
         (double X, double Y)? vanishing = cameraVanishingPoint is (double vx, double vy) ? scaling.ToWorking(vx, vy) : null;
         if (scaling.Enlarged)
         {
@@ -164,7 +179,7 @@ public sealed class LanePipeline : IDisposable
 
         stages.Add(new GradientStage(options.Gradient));
         stages.Add(new HoughStage(options.Hough));
-        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, vanishing));
+        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, vanishing, view?.H));
         stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
         stages.Add(new BirdsEyeWarpStage());
         stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));
@@ -179,6 +194,60 @@ public sealed class LanePipeline : IDisposable
             stages.Add(new TemporalTracker(options.Tracking, options.Fit));
         }
         LastStageMs = new double[stages.Count];
+    }
+
+    /// <summary>
+    /// The camera's metric bird's-eye view for the working size: the homography from the camera's (frame) pixels
+    /// (<see cref="MetricBirdsEye.ImageToBirdsEye"/>), re-solved from the four corners of the view mapped to working
+    /// pixels, and the view's size.
+    /// </summary>
+    private static (PlaneHomography H, int W, int Ht) MetricView(CameraModel camera, MetricViewOptions metric, WorkingScale scaling)
+    {
+        double near;
+        try
+        {
+            near = metric.NearDistanceM > 0 ? metric.NearDistanceM : MetricBirdsEye.BottomRowDistance(camera);
+        }
+        catch (ArgumentOutOfRangeException)
+        {
+            throw new BadInputException("camera: the bottom image row does not see the ground ahead, so metric.nearDistanceM must be given");
+        }
+
+        if (near >= metric.FarDistanceM)
+        {
+            throw new BadInputException(string.Create(
+                CultureInfo.InvariantCulture,
+                $"metric.farDistanceM: {metric.FarDistanceM} m is not beyond the near edge of the view ({near:0.##} m ahead)"));
+        }
+
+        int w = metric.WidthPx(), h = metric.HeightPx(near);
+        PlaneHomography frameToView;
+        try
+        {
+            frameToView = MetricBirdsEye.ImageToBirdsEye(camera, metric.MetresPerPx, near, w, h);
+        }
+        catch (ArgumentOutOfRangeException)
+        {
+            throw new BadInputException("metric: the metric view reaches the horizon of the camera; lower metric.farDistanceM");
+        }
+
+        if (!scaling.Enlarged)
+        {
+            return (frameToView, w, h);
+        }
+
+        PlaneHomography viewToFrame = frameToView.Inverse();
+        ReadOnlySpan<double> viewCorners = [0, 0, w - 1, 0, w - 1, h - 1, 0, h - 1];
+        Span<double> working = stackalloc double[8];
+        for (int k = 0; k < 4; k++)
+        {
+            viewToFrame.TryMap(viewCorners[2 * k], viewCorners[(2 * k) + 1], out double fx, out double fy);
+            (working[2 * k], working[(2 * k) + 1]) = scaling.ToWorking(fx, fy);
+        }
+
+        return PlaneHomography.TryFromPoints(working, viewCorners, out PlaneHomography hw)
+            ? (hw, w, h)
+            : throw new BadInputException("metric: degenerate metric bird's-eye view");
     }
 
     private void DisposeStages()
