@@ -1,4 +1,3 @@
-using System.Globalization;
 using LaneBaseline.Core;
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
@@ -154,100 +153,13 @@ public sealed class LanePipeline : IDisposable
 
     private void Build(WorkingScale scaling)
     {
-        int width = scaling.Width, height = scaling.Height;
         DisposeStages();
         workspace?.Dispose();
-        int bandTop = Math.Clamp((int)Math.Round(options.Region.SearchTopFraction * height), 0, height - 2);
-        MetricViewOptions metric = options.Metric ?? new MetricViewOptions();
-        (PlaneHomography H, int W, int Ht)? view = camera is not null && metric.IsEnabled() ? MetricView(camera, metric, scaling) : null;
-        workspace = new FrameWorkspace(width, height, view?.W ?? options.Warp.WidthPx, view?.Ht ?? options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale)
-        {
-            Scaling = scaling,
-        };
-        if (view is not null)
-        {
-            workspace.Warp.MetresPerPixel = metric.MetresPerPx;
-            workspace.Warp.MinLaneWidthM = metric.MinLaneWidthM;
-            workspace.Warp.MaxLaneWidthM = metric.MaxLaneWidthM;
-        }
-
+        MetricView? view = MetricView.For(options, camera, scaling);
+        workspace = StageFactory.CreateWorkspace(options, scaling, view);
         (double X, double Y)? vanishing = cameraVanishingPoint is (double vx, double vy) ? scaling.ToWorking(vx, vy) : null;
-        if (scaling.Enlarged)
-        {
-            stages.Add(new ResizeStage());
-        }
-
-        stages.Add(new GradientStage(options.Gradient));
-        stages.Add(new HoughStage(options.Hough));
-        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, vanishing, view?.H));
-        stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
-        stages.Add(new BirdsEyeWarpStage());
-        stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));
-        stages.Add(new MarkingProfileStage(options.Gradient));
-        if (options.Calibration is not null)
-        {
-            stages.Add(new CalibrationStep(options.Calibration, options.Confidence.MinScore));
-        }
-
-        if (options.Tracking.Enabled)
-        {
-            stages.Add(new TemporalTracker(options.Tracking, options.Fit));
-        }
+        stages.AddRange(StageFactory.CreateStages(options, scaling, vanishing, view));
         LastStageMs = new double[stages.Count];
-    }
-
-    /// <summary>
-    /// The camera's metric bird's-eye view for the working size: the homography from the camera's (frame) pixels
-    /// (<see cref="MetricBirdsEye.ImageToBirdsEye"/>), re-solved from the four corners of the view mapped to working
-    /// pixels, and the view's size.
-    /// </summary>
-    private static (PlaneHomography H, int W, int Ht) MetricView(CameraModel camera, MetricViewOptions metric, WorkingScale scaling)
-    {
-        double near;
-        try
-        {
-            near = metric.NearDistanceM > 0 ? metric.NearDistanceM : MetricBirdsEye.BottomRowDistance(camera);
-        }
-        catch (ArgumentOutOfRangeException)
-        {
-            throw new BadInputException("camera: the bottom image row does not see the ground ahead, so metric.nearDistanceM must be given");
-        }
-
-        if (near >= metric.FarDistanceM)
-        {
-            throw new BadInputException(string.Create(
-                CultureInfo.InvariantCulture,
-                $"metric.farDistanceM: {metric.FarDistanceM} m is not beyond the near edge of the view ({near:0.##} m ahead)"));
-        }
-
-        int w = metric.WidthPx(), h = metric.HeightPx(near);
-        PlaneHomography frameToView;
-        try
-        {
-            frameToView = MetricBirdsEye.ImageToBirdsEye(camera, metric.MetresPerPx, near, w, h);
-        }
-        catch (ArgumentOutOfRangeException)
-        {
-            throw new BadInputException("metric: the metric view reaches the horizon of the camera; lower metric.farDistanceM");
-        }
-
-        if (!scaling.Enlarged)
-        {
-            return (frameToView, w, h);
-        }
-
-        PlaneHomography viewToFrame = frameToView.Inverse();
-        ReadOnlySpan<double> viewCorners = [0, 0, w - 1, 0, w - 1, h - 1, 0, h - 1];
-        Span<double> working = stackalloc double[8];
-        for (int k = 0; k < 4; k++)
-        {
-            viewToFrame.TryMap(viewCorners[2 * k], viewCorners[(2 * k) + 1], out double fx, out double fy);
-            (working[2 * k], working[(2 * k) + 1]) = scaling.ToWorking(fx, fy);
-        }
-
-        return PlaneHomography.TryFromPoints(working, viewCorners, out PlaneHomography hw)
-            ? (hw, w, h)
-            : throw new BadInputException("metric: degenerate metric bird's-eye view");
     }
 
     private void DisposeStages()
