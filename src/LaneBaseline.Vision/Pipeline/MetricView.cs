@@ -1,6 +1,5 @@
 using System.Globalization;
 using LaneBaseline.Core;
-using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.Options;
 
 namespace LaneBaseline.Vision.Pipeline;
