@@ -57,6 +57,46 @@ internal static class SharedOptions
         return parse.GetValue(legacy);
     }
 
+    /// <summary>
+    /// A hidden, deprecated spelling <paramref name="name"/> of <paramref name="replacement"/> (same value type), kept
+    /// for one release; read it with <see cref="GetRenamed{T}"/>, which prints the deprecation line.
+    /// </summary>
+    public static Option<T> Deprecated<T>(string name, Option<T> replacement)
+    {
+        Option<T> legacy = new(name) { Description = "Deprecated spelling of " + replacement.Name + ".", Hidden = true };
+        Replacements.Add(legacy, replacement);
+        return legacy;
+    }
+
+    /// <summary>The option that replaces a deprecated one made by <see cref="Deprecated{T}"/>, else null.</summary>
+    public static Option? ReplacementOf(Option option) => Replacements.TryGetValue(option, out Option? r) ? r : null;
+
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<Option, Option> Replacements = new();
+
+    /// <summary>The line printed on stderr when the deprecated <paramref name="old"/> is used instead of <paramref name="replacement"/>.</summary>
+    public static string DeprecationLine(string old, string replacement) =>
+        $"note: {old} is deprecated; use {replacement}; it will be removed in the next release";
+
+    /// <summary>
+    /// The value of <paramref name="modern"/>, or of its deprecated spelling <paramref name="legacy"/> (with the
+    /// deprecation line on stderr); giving both is a usage error.
+    /// </summary>
+    public static T? GetRenamed<T>(ParseResult parse, Option<T> modern, Option<T> legacy, string valueName, TextWriter stderr)
+    {
+        if (parse.GetResult(legacy) is not { Implicit: false })
+        {
+            return parse.GetValue(modern);
+        }
+
+        if (parse.GetResult(modern) is { Implicit: false })
+        {
+            throw new UsageException($"give {modern.Name} once ({legacy.Name} is its deprecated spelling)");
+        }
+
+        stderr.WriteLine(DeprecationLine(legacy.Name + " " + valueName, modern.Name + " " + valueName));
+        return parse.GetValue(legacy);
+    }
+
     /// <summary>Checks a thread count from <c>--threads</c>.</summary>
     public static int CheckThreads(int value) =>
         value is >= 1 and <= 256 ? value : throw new UsageException("--threads must be between 1 and 256");
