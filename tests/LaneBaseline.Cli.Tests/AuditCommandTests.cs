@@ -41,7 +41,7 @@ public sealed class AuditCommandTests : IDisposable
         records.RemoveAt(12); // a dropped frame in sequence 0
         string pred = dir.File("bad.lanes.jsonl"), outFile = dir.File("f.jsonl");
         Lanes.WriteFile(pred, records);
-        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--fail-on", "warning", "--overlays", "2", "--mine", "5");
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--fail-on", "warning", "--overlay-count", "2", "--mine", "5");
         Assert.Equal(4, exit);
         Assert.Contains("quality gate failed", err, StringComparison.Ordinal);
         string[] lines = File.ReadAllLines(outFile);
@@ -70,7 +70,7 @@ public sealed class AuditCommandTests : IDisposable
         records[5] = new LaneRecord { Frame = records[5].Frame, Width = 1280, Height = 720, Lanes = lanes };
         string pred = dir.File("bad.lanes.jsonl"), outFile = dir.File("out/f.jsonl"), page = dir.File("page/a.html");
         Lanes.WriteFile(pred, records);
-        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--overlays", "3", "--report", page, "--generated-at", "2026-12-05T00:00:00Z");
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--overlay-count", "3", "--report", page, "--generated-at", "2026-12-05T00:00:00Z");
         Assert.True(exit == 0, err);
         string html = File.ReadAllText(page);
         var hrefs = System.Text.RegularExpressions.Regex.Matches(html, "<figure class=\"thumb\" data-frame=\"([^\"]+)\"><a href=\"([^\"]+)\"><img [^>]*src=\"data:image/jpeg;base64,")

@@ -26,7 +26,7 @@ public sealed class AuditShardTests : IDisposable
         string outFile = dir.File("out/f.jsonl"), page = dir.File("out/f.html");
         Directory.CreateDirectory(dir.File("out"));
         string[] common = ["--pred", pred, "--baseline", baseline, "--fps", "10"];
-        string[] outputs = ["-o", outFile, "--mine", "25", "--fail-on", "warning", "--overlays", "3", "--report", page, "--generated-at", "2026-01-02T03:04:05Z"];
+        string[] outputs = ["-o", outFile, "--mine", "25", "--fail-on", "warning", "--overlay-count", "3", "--report", page, "--generated-at", "2026-01-02T03:04:05Z"];
 
         (int exit, string fullOut, string fullErr) = CliRunner.Run(["audit", .. common, .. outputs, "--threads", "2"]);
         Assert.True(exit == 4, fullErr); // the gate fails on the injected faults, after writing everything
@@ -109,7 +109,7 @@ public sealed class AuditShardTests : IDisposable
         (string pred, _) = WriteSet();
         (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "--shard", "0/2", "--partial", dir.File("s.state"), "--mine", "3");
         Assert.Equal(2, exit);
-        Assert.Contains("give -o, --overlays, --mine, --fail-on and --report to merge", err, StringComparison.Ordinal);
+        Assert.Contains("give -o, --overlay-count, --mine, --fail-on and --report to merge", err, StringComparison.Ordinal);
         Assert.False(File.Exists(dir.File("s.state")));
     }
 

@@ -68,11 +68,11 @@ public sealed class HostileUseTests : IDisposable
 
         (string truth, string pred) = WriteSet();
         string a = dir.File("a.jsonl"), b = dir.File("b.jsonl");
-        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", a, "--overlays", "5").Exit);
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", a, "--overlay-count", "5").Exit);
         using (var predPipe = new Fifo(dir.File("p.fifo"), File.ReadAllBytes(pred)))
         using (var basePipe = new Fifo(dir.File("b.fifo"), File.ReadAllBytes(truth)))
         {
-            (int exit, _, string err) = CliRunner.Run("audit", "--pred", predPipe.Path, "--baseline", basePipe.Path, "-o", b, "--overlays", "5");
+            (int exit, _, string err) = CliRunner.Run("audit", "--pred", predPipe.Path, "--baseline", basePipe.Path, "-o", b, "--overlay-count", "5");
             Assert.True(exit == 0, err);
         }
 

@@ -32,7 +32,8 @@ internal static class AuditCommand
         Option<double> fps = new("--fps") { Description = "Frame rate of numbered sequences (temporal rules).", DefaultValueFactory = _ => 10.0 };
         Option<bool> stills = new("--stills") { Description = "The frames are independent stills (not sequences): the temporal rules (LBA-T) are off, and the summary says so." };
         Option<string?> summaryJson = new("--summary-json") { Description = "Also write the per-rule summary (findings, frames, limit, whether the rule ran) as JSON to this file." };
-        Option<int> overlays = new("--overlays") { Description = "Draw the N worst frames to OUT.overlays/.", DefaultValueFactory = _ => 0 };
+        Option<int> overlays = new("--overlay-count") { Description = "Draw the N worst frames to OUT.overlays/.", DefaultValueFactory = _ => 0 };
+        Option<int> legacyOverlays = SharedOptions.Deprecated("--overlays", overlays); // until 2026-12; detect's and render's --overlays is a folder
         Option<int> mine = new("--mine") { Description = "Write the N frames most worth labelling to OUT.mine.txt (by disagreement with --baseline, else by findings).", DefaultValueFactory = _ => 0 };
         Option<string> failOn = new("--fail-on") { Description = "Quality gate: exit 4 when a finding of this severity or worse exists (none, warning, error).", DefaultValueFactory = _ => "none" };
         Option<int> minMaskRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };
@@ -46,7 +47,7 @@ internal static class AuditCommand
 
         Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.")
         {
-            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads, shard, partial, stills, summaryJson,
+            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads, shard, partial, stills, summaryJson, legacyOverlays,
             SettingsFile.Option(),
         };
         SharedOptions.AddOutput(command, output, legacyOut, required: false);
@@ -61,10 +62,10 @@ internal static class AuditCommand
                 throw new UsageException("--fps must be a positive number");
             }
 
-            int n = parseResult.GetValue(overlays), m = parseResult.GetValue(mine), rows = parseResult.GetValue(minMaskRows);
+            int n = SharedOptions.GetRenamed(parseResult, overlays, legacyOverlays, "N", stderr), m = parseResult.GetValue(mine), rows = parseResult.GetValue(minMaskRows);
             if (n < 0 || m < 0)
             {
-                throw new UsageException("--overlays and --mine must be 0 or more");
+                throw new UsageException("--overlay-count and --mine must be 0 or more");
             }
 
             if (rows < 2)
@@ -84,7 +85,7 @@ internal static class AuditCommand
             {
                 if (outPath is not null || n > 0 || m > 0 || gateSeverity is not null || reportPath is not null || parseResult.GetValue(summaryJson) is not null)
                 {
-                    throw new UsageException("--partial writes a state for 'merge': give -o, --overlays, --mine, --fail-on and --report to merge instead");
+                    throw new UsageException("--partial writes a state for 'merge': give -o, --overlay-count, --mine, --fail-on and --report to merge instead");
                 }
             }
             else if (outPath is null)
@@ -93,7 +94,7 @@ internal static class AuditCommand
             }
             else if (StandardStreams.IsDash(outPath) && (n > 0 || m > 0 || reportPath is not null))
             {
-                throw new UsageException("--overlays, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
+                throw new UsageException("--overlay-count, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
             }
 
             string? cameraPath = parseResult.GetValue(camera), sizeText = parseResult.GetValue(size);

@@ -27,15 +27,16 @@ internal static class MergeCommand
         Option<double?> minF1 = new("--min-f1") { Description = "Score states only: quality gate, exit 4 when F1@0.50 is below this." };
         Option<int> threads = SharedOptions.Threads("Threads for the bootstrap (results do not depend on it).");
         Option<int> mine = new("--mine") { Description = "Audit states only: also write the N frames most worth labelling to OUT.mine.txt.", DefaultValueFactory = _ => 0 };
-        Option<int> overlays = new("--overlays") { Description = "Audit states only: draw the N worst frames to OUT.overlays/ (reads the predictions named in the states).", DefaultValueFactory = _ => 0 };
-        Option<string> frames = SharedOptions.Frames("Audit states only: frames root for --overlays.");
+        Option<int> overlays = new("--overlay-count") { Description = "Audit states only: draw the N worst frames to OUT.overlays/ (reads the predictions named in the states).", DefaultValueFactory = _ => 0 };
+        Option<int> legacyOverlays = SharedOptions.Deprecated("--overlays", overlays); // until 2026-12
+        Option<string> frames = SharedOptions.Frames("Audit states only: frames root for --overlay-count.");
         Option<string> failOn = new("--fail-on") { Description = "Audit states only: exit 4 when a finding of this severity or worse exists (none, warning, error).", DefaultValueFactory = _ => "none" };
         Option<string?> report = new("--report") { Description = "Audit states only: also write the findings page (HTML)." };
         Option<string?> generatedAt = new("--generated-at") { Description = "Audit states only: time printed in the --report page (ISO 8601)." };
 
         Command command = new("merge", "Join the outputs of sharded runs (score states, audit states or lane files) into the output of one unsharded run.")
         {
-            inputs, output, csv, maskCsv, minF1, threads, mine, overlays, frames, failOn, report, generatedAt,
+            inputs, output, csv, maskCsv, minF1, threads, mine, overlays, frames, failOn, report, generatedAt, legacyOverlays,
         };
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
@@ -52,11 +53,12 @@ internal static class MergeCommand
                 throw new UsageException("merge: give inputs of one kind (score states, audit states or lane files), not a mix");
             }
 
-            bool auditOptions = parseResult.GetValue(mine) != 0 || parseResult.GetValue(overlays) != 0 || parseResult.GetValue(frames) is not null
+            int overlayCount = SharedOptions.GetRenamed(parseResult, overlays, legacyOverlays, "N", stderr);
+            bool auditOptions = parseResult.GetValue(mine) != 0 || overlayCount != 0 || parseResult.GetValue(frames) is not null
                 || parseResult.GetValue(failOn) != "none" || parseResult.GetValue(report) is not null || parseResult.GetValue(generatedAt) is not null;
             if (kinds[0] != InputKind.AuditState && auditOptions)
             {
-                throw new UsageException("--mine, --overlays, --frames, --fail-on, --report and --generated-at apply to audit states only");
+                throw new UsageException("--mine, --overlay-count, --frames, --fail-on, --report and --generated-at apply to audit states only");
             }
 
             if (kinds[0] == InputKind.AuditState)
@@ -66,7 +68,7 @@ internal static class MergeCommand
                     throw new UsageException("--csv, --mask-iou-csv and --min-f1 apply to score states only");
                 }
 
-                return MergeAudit(stdout, stderr, paths, outPath, parseResult.GetValue(mine), parseResult.GetValue(overlays), parseResult.GetValue(frames), parseResult.GetValue(failOn)!, parseResult.GetValue(report), parseResult.GetValue(generatedAt), cancellationToken);
+                return MergeAudit(stdout, stderr, paths, outPath, parseResult.GetValue(mine), overlayCount, parseResult.GetValue(frames), parseResult.GetValue(failOn)!, parseResult.GetValue(report), parseResult.GetValue(generatedAt), cancellationToken);
             }
 
             if (kinds[0] == InputKind.ScoreState)
@@ -176,12 +178,12 @@ internal static class MergeCommand
         AuditSeverity? gate = CommandArguments.ParseGate(failOn);
         if (mine < 0 || overlays < 0)
         {
-            throw new UsageException("--overlays and --mine must be 0 or more");
+            throw new UsageException("--overlay-count and --mine must be 0 or more");
         }
 
         if (StandardStreams.IsDash(outPath) && (mine > 0 || overlays > 0 || reportPath is not null))
         {
-            throw new UsageException("--overlays, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
+            throw new UsageException("--overlay-count, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
         }
 
         DateTimeOffset at = Reports.ReportPage.ParseGeneratedAt(generatedAt);

@@ -33,7 +33,7 @@ public sealed record AuditTopFinding(long Rank, string Frame, string Rule, strin
 /// <param name="Top">The first findings of the file, in file (rank) order.</param>
 public sealed record AuditSummary(string Source, long Findings, long FlaggedFrames, IReadOnlyList<AuditRuleCount> Rules, IReadOnlyList<AuditTopFinding> Top)
 {
-    /// <summary>Thumbnails of the overlays <c>audit --overlays</c> drew, worst frame first (empty when none).</summary>
+    /// <summary>Thumbnails of the overlays <c>audit --overlay-count</c> drew, worst frame first (empty when none).</summary>
     public IReadOnlyList<AuditThumbnail> Thumbnails { get; init; } = [];
 }
 
