@@ -27,6 +27,9 @@ internal sealed record BenchRequest
     /// <summary>Measured passes over the frames.</summary>
     public int Passes { get; init; } = 3;
 
+    /// <summary>Frames decoded from <c>--frames</c> when <c>--max-frames</c> is not given.</summary>
+    public const int DefaultMaxFrames = 60;
+
     /// <summary>Most frames decoded (they are held in memory).</summary>
-    public int MaxFrames { get; init; } = 60;
+    public int MaxFrames { get; init; } = DefaultMaxFrames;
 }

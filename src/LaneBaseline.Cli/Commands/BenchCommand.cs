@@ -18,11 +18,9 @@ internal static class BenchCommand
             Description = "Processing size WxH; repeat or separate by commas for several (frames are resized to each). Default: the frames' own size.",
             AllowMultipleArgumentsPerToken = false,
         };
-        Option<string> threads = new("--threads", "-j")
-        {
-            Description = "Worker counts to measure, comma-separated (e.g. 1,2); one pipeline per worker, OpenCV on one thread in each.",
-            DefaultValueFactory = _ => Environment.ProcessorCount.ToString(CultureInfo.InvariantCulture),
-        };
+        Option<int> threads = SharedOptions.Threads("Workers to measure with: one pipeline per worker, OpenCV on one thread in each.");
+        threads.CustomParser = ParseThreadsToken; // the deprecated list form -j 1,2 still parses (for one release)
+        Option<string?> threadCounts = new("--thread-counts") { Description = "Several worker counts to measure in turn, comma-separated (e.g. 1,2); replaces -j." };
         Option<string> config = new("--config", "-c")
         {
             Description = "Preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file.",
@@ -30,12 +28,12 @@ internal static class BenchCommand
         };
         Option<int> warmup = new("--warmup") { Description = "Frame calls per worker before measuring (not recorded).", DefaultValueFactory = _ => 5 };
         Option<int> passes = new("--passes") { Description = "Measured passes over the frames.", DefaultValueFactory = _ => 3 };
-        Option<int> maxFrames = new("--max-frames") { Description = "Most frames read from --frames (they are held decoded in memory).", DefaultValueFactory = _ => 60 };
+        Option<int?> maxFrames = new("--max-frames") { Description = $"Most frames read from --frames (they are held decoded in memory; default {BenchRequest.DefaultMaxFrames})." };
         Option<string?> json = new("--json") { Description = "Also write the figures as JSON (docs/bench.md; '-': standard output, the table then goes to stderr)." };
 
         Command command = new("bench", "Measure per-stage latency, frames per second and memory beside the bare OpenCV primitives on the same frames.")
         {
-            frames, render, seed, size, threads, config, warmup, passes, maxFrames, json,
+            frames, render, seed, size, threads, threadCounts, config, warmup, passes, maxFrames, json,
         };
 
         command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
@@ -64,7 +62,7 @@ internal static class BenchCommand
                 throw new UsageException("--passes must be between 1 and 10000");
             }
 
-            int max = parse.GetValue(maxFrames);
+            int max = parse.GetValue(maxFrames) ?? BenchRequest.DefaultMaxFrames;
             if (max < 1)
             {
                 throw new UsageException("--max-frames must be at least 1");
@@ -78,7 +76,7 @@ internal static class BenchCommand
                 RenderCount = renderCount ?? 24,
                 Seed = parse.GetValue(seed),
                 Sizes = ParseSizes(parse.GetValue(size) ?? []),
-                Threads = ParseThreads(parse.GetValue(threads)!),
+                Threads = WorkerCounts(parse, threads, threadCounts, stderr),
                 Options = KnownPresets.Resolve(parse.GetValue(config)!, stderr),
                 ConfigSource = parse.GetValue(config)!,
                 Warmup = warm,
@@ -120,14 +118,53 @@ internal static class BenchCommand
         return sizes;
     }
 
-    internal static IReadOnlyList<int> ParseThreads(string text)
+    /// <summary>
+    /// The worker counts to measure: <c>--thread-counts</c>, else <c>-j</c> (one count; the number of cores by default).
+    /// <c>-j 1,2</c> was the list form until 2026-12 and still works for one release, with a deprecation line.
+    /// </summary>
+    private static IReadOnlyList<int> WorkerCounts(ParseResult parse, Option<int> threads, Option<string?> threadCounts, TextWriter stderr)
+    {
+        string? list = parse.GetValue(threadCounts);
+        System.CommandLine.Parsing.OptionResult? given = parse.GetResult(threads) is { Implicit: false } r ? r : null;
+        if (list is not null)
+        {
+            return given is null ? ParseThreads(list, "--thread-counts") : throw new UsageException("give -j/--threads (one worker count) or --thread-counts (several), not both");
+        }
+
+        string? text = given?.Tokens.Count > 0 ? given.Tokens[0].Value : null;
+        if (text is not null && text.Contains(',', StringComparison.Ordinal))
+        {
+            stderr.WriteLine(SharedOptions.DeprecationLine("--threads " + text, "--thread-counts " + text));
+            return ParseThreads(text, "--threads");
+        }
+
+        return [SharedOptions.CheckThreads(parse.GetValue(threads))];
+    }
+
+    private static int ParseThreadsToken(System.CommandLine.Parsing.ArgumentResult result)
+    {
+        string text = result.Tokens.Count > 0 ? result.Tokens[0].Value : string.Empty;
+        if (text.Contains(',', StringComparison.Ordinal))
+        {
+            return 0; // the deprecated list form; WorkerCounts reads the token itself
+        }
+
+        if (!int.TryParse(text, NumberStyles.AllowLeadingSign, CultureInfo.InvariantCulture, out int n))
+        {
+            result.AddError($"Cannot parse argument '{text}' for option '--threads' as expected type 'System.Int32'.");
+        }
+
+        return n;
+    }
+
+    internal static IReadOnlyList<int> ParseThreads(string text, string optionName = "--thread-counts")
     {
         var list = new List<int>();
         foreach (string part in text.Split(',', StringSplitOptions.TrimEntries))
         {
             if (!int.TryParse(part, NumberStyles.None, CultureInfo.InvariantCulture, out int n) || n < 1 || n > 256)
             {
-                throw new UsageException("--threads must be a comma-separated list of worker counts between 1 and 256 (e.g. 1,2), got '" + text + "'");
+                throw new UsageException(optionName + " must be a comma-separated list of worker counts between 1 and 256 (e.g. 1,2), got '" + text + "'");
             }
 
             if (!list.Contains(n))

@@ -21,7 +21,7 @@ public sealed class BenchCommandTests : IDisposable
     {
         string json = dir.File("bench.json");
         var (code, stdout, err) = CliRunner.Run(
-            "bench", "--render", "2", "--size", "128x96", "--threads", "1,2", "--warmup", "1", "--passes", "2", "--json", json);
+            "bench", "--render", "2", "--size", "128x96", "--thread-counts", "1,2", "--warmup", "1", "--passes", "2", "--json", json);
         Assert.True(code == 0, err);
         Assert.Contains("pipeline/floor", stdout, StringComparison.Ordinal);
 
@@ -149,6 +149,7 @@ public sealed class BenchCommandTests : IDisposable
     [InlineData("--threads", "0", "--threads")]
     [InlineData("--threads", "1,x", "--threads")]
     [InlineData("--threads", "1,,2", "--threads")]
+    [InlineData("--thread-counts", "1,x", "--thread-counts")]
     [InlineData("--passes", "0", "--passes")]
     [InlineData("--render", "0", "--render")]
     public void BadOption_ExitsTwo(string option, string value, string expected)
