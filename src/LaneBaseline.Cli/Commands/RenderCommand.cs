@@ -15,7 +15,7 @@ internal static class RenderCommand
         Option<string> legacyOut = SharedOptions.LegacyOut();
         Option<ulong> seed = new("--seed") { Description = "Seed of everything random.", DefaultValueFactory = _ => 1UL };
         Option<int> count = new("--count") { Description = "Number of scenes.", DefaultValueFactory = _ => 10 };
-        Option<string> size = new("--size") { Description = "Frame size WxH.", DefaultValueFactory = _ => "1280x720" };
+        Option<string?> size = new("--size") { Description = $"Frame size WxH (default {DefaultSize}, or the size of --camera)." };
         Option<string?> conditions = new("--conditions")
         {
             Description = "Comma-separated conditions for every scene, or 'none' (default: clean and each condition in turn). Known: " +
@@ -116,7 +116,7 @@ internal static class RenderCommand
             }
             else
             {
-                (int w, int h) = ParseSize(parseResult.GetValue(size)!);
+                (int w, int h) = ParseSize(parseResult.GetValue(size) ?? DefaultSize);
                 camera = CameraModel.CreateDefault(w, h);
             }
 
@@ -175,6 +175,12 @@ internal static class RenderCommand
         }));
         return command;
     }
+
+    /// <summary>
+    /// The frame size rendered when neither <c>--size</c> nor <c>--camera</c> is given. (Not a parser default, so that
+    /// <c>--size</c> has one default on every command: none, "the frames' own size" where there are frames.)
+    /// </summary>
+    internal const string DefaultSize = "1280x720";
 
     internal static IReadOnlyList<string>? ParseConditions(string? text)
     {
