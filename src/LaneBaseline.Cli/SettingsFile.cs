@@ -69,7 +69,8 @@ internal static class SettingsFile
                 continue;
             }
 
-            if (command.Options.Any(o => (o == option || SharedOptions.ReplacementOf(o) == option || SharedOptions.ReplacementOf(option) == o) && first.GetResult(o) is { Implicit: false }))
+            // (an old and a new spelling of one setting count as one option here)
+            if (command.Options.Any(o => (o == option || SharedOptions.ReplacementOf(o) == option.Name || SharedOptions.ReplacementOf(option) == o.Name) && first.GetResult(o) is { Implicit: false }))
             {
                 continue; // the command line wins
             }

@@ -57,31 +57,28 @@ internal static class SharedOptions
         return parse.GetValue(legacy);
     }
 
-    /// <summary>
-    /// A hidden, deprecated spelling <paramref name="name"/> of <paramref name="replacement"/> (same value type), kept
-    /// for one release; read it with <see cref="GetRenamed{T}"/>, which prints the deprecation line.
-    /// </summary>
-    public static Option<T> Deprecated<T>(string name, Option<T> replacement)
+    /// <summary>A deprecated spelling of a renamed option, hidden from help; it still works for one release (see <see cref="GetRenamed{T}"/>).</summary>
+    public static Option<T> Deprecated<T>(string name, string replacement)
     {
-        Option<T> legacy = new(name) { Description = "Deprecated spelling of " + replacement.Name + ".", Hidden = true };
+        Option<T> legacy = new(name) { Description = "Deprecated spelling of " + replacement + ".", Hidden = true };
         Replacements.Add(legacy, replacement);
         return legacy;
     }
 
-    /// <summary>The option that replaces a deprecated one made by <see cref="Deprecated{T}"/>, else null.</summary>
-    public static Option? ReplacementOf(Option option) => Replacements.TryGetValue(option, out Option? r) ? r : null;
+    /// <summary>The name of the option that replaces a deprecated one made by <see cref="Deprecated{T}"/>, else null.</summary>
+    public static string? ReplacementOf(Option option) => Replacements.TryGetValue(option, out string? r) ? r : null;
 
-    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<Option, Option> Replacements = new();
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<Option, string> Replacements = new();
 
     /// <summary>The line printed on stderr when the deprecated <paramref name="old"/> is used instead of <paramref name="replacement"/>.</summary>
     public static string DeprecationLine(string old, string replacement) =>
         $"note: {old} is deprecated; use {replacement}; it will be removed in the next release";
 
     /// <summary>
-    /// The value of <paramref name="modern"/>, or of its deprecated spelling <paramref name="legacy"/> (with the
-    /// deprecation line on stderr); giving both is a usage error.
+    /// The value of a renamed option: from <paramref name="modern"/>, or from its deprecated spelling
+    /// <paramref name="legacy"/> with one <c>note:</c> line on stderr; both given is a usage error.
     /// </summary>
-    public static T? GetRenamed<T>(ParseResult parse, Option<T> modern, Option<T> legacy, string valueName, TextWriter stderr)
+    public static T? GetRenamed<T>(ParseResult parse, Option<T> modern, Option<T> legacy, TextWriter stderr)
     {
         if (parse.GetResult(legacy) is not { Implicit: false })
         {
@@ -93,7 +90,8 @@ internal static class SharedOptions
             throw new UsageException($"give {modern.Name} once ({legacy.Name} is its deprecated spelling)");
         }
 
-        stderr.WriteLine(DeprecationLine(legacy.Name + " " + valueName, modern.Name + " " + valueName));
+        string value = typeof(T) == typeof(string) ? " VALUE" : " N"; // every renamed option so far takes a number
+        stderr.WriteLine(DeprecationLine(legacy.Name + value, modern.Name + value));
         return parse.GetValue(legacy);
     }
 

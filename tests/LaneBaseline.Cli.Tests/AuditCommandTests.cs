@@ -137,6 +137,26 @@ public sealed class AuditCommandTests : IDisposable
         Assert.Equal(3, exit);
     }
 
+    // Records without a size take the camera file's (docs/audit.md); the overlays did not, and a run with --overlay-count
+    // ended in an internal error (exit 1) after writing the findings.
+    [Fact]
+    public void Camera_SizesRecordsWithoutOne_ForTheOverlaysToo()
+    {
+        string cam = dir.File("camera.json"), p = dir.File("p.lanes.jsonl"), o = dir.File("out/f.jsonl");
+        Core.Geometry.CameraModel.CreateDefault(1280, 720).Save(cam);
+        var records = Clean();
+        records[4] = AuditCrossed(records[4]);
+        Lanes.WriteFile(p, records.Select(r => new LaneRecord { Frame = r.Frame, Tags = r.Tags, Lanes = r.Lanes }));
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", p, "-o", o, "--camera", cam, "--overlay-count", "1");
+        Assert.True(exit == 0, err);
+        string overlay = Assert.Single(Directory.GetFiles(dir.File("out/f.overlays")));
+        using var image = new OpenCvSharp.Mat(overlay);
+        Assert.Equal((1280, 720), (image.Width, image.Height));
+    }
+
+    private static LaneRecord AuditCrossed(LaneRecord r) =>
+        new() { Frame = r.Frame, Width = r.Width, Height = r.Height, Tags = r.Tags, Lanes = [.. r.Lanes.Select((l, i) => i == 0 ? new Lane { Points = [.. l.Points.Select(q => q with { X = 1280 - q.X })], Slot = l.Slot } : l)] };
+
     [Fact]
     public void RenderedTruth_NoFalseAlarms()
     {

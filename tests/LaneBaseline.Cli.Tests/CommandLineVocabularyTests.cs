@@ -268,6 +268,47 @@ public sealed class CommandLineVocabularyTests : IDisposable
     }
 
     [Fact]
+    public void RenamedOptions_OldSpellingsGiveTheSameResult_WithANote_AndBothIsAUsageError()
+    {
+        string truth = Truth(), pred = dir.File("pred.lanes.jsonl");
+        Lanes.WriteFile(pred, [Lanes.Truth("s/000001.png", 640, 360, Lanes.Of((104, 359), (302, 180))), Lanes.Truth("s/000002.png", 640, 360, Lanes.Of((300, 359), (320, 180)))]);
+
+        // score --seed -> --bootstrap-seed: the same intervals from the same seed.
+        string a = dir.File("a.json"), b = dir.File("b.json");
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--bootstrap", "200", "--bootstrap-seed", "7", "--json", a);
+        Assert.True(exit == 0, err);
+        Assert.DoesNotContain("deprecated", err, StringComparison.Ordinal);
+        (exit, _, err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--bootstrap", "200", "--seed", "7", "--json", b);
+        Assert.True(exit == 0, err);
+        Assert.Contains("note: --seed N is deprecated; use --bootstrap-seed N; it will be removed in the next release", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllText(a), File.ReadAllText(b));
+        (exit, _, err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--seed", "7", "--bootstrap-seed", "7");
+        Assert.Equal(2, exit);
+        Assert.Contains("give --bootstrap-seed once (--seed is its deprecated spelling)", err, StringComparison.Ordinal);
+
+        // audit --overlays N -> --overlay-count N: the same overlays.
+        string f1 = dir.File("f1.jsonl"), f2 = dir.File("f2.jsonl");
+        (exit, _, err) = CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", f1, "--overlay-count", "2");
+        Assert.True(exit == 0, err);
+        (exit, _, err) = CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", f2, "--overlays", "2");
+        Assert.True(exit == 0, err);
+        Assert.Contains("note: --overlays N is deprecated; use --overlay-count N; it will be removed in the next release", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllText(f1), File.ReadAllText(f2));
+        string[] drawn = [.. Directory.GetFiles(dir.File("f1.overlays")).Select(Path.GetFileName)!];
+        Assert.NotEmpty(drawn);
+        Assert.Equal(drawn, Directory.GetFiles(dir.File("f2.overlays")).Select(Path.GetFileName));
+
+        // A settings file may still use the old key (with the same note).
+        string yaml = dir.File("s.yaml");
+        File.WriteAllText(yaml, "seed: 7\nbootstrap: 200\n");
+        string c = dir.File("c.json");
+        (exit, _, err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--config", yaml, "--json", c);
+        Assert.True(exit == 0, err);
+        Assert.Contains("note: --seed N is deprecated", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllText(a), File.ReadAllText(c));
+    }
+
+    [Fact]
     public void DetectPositionalFrames_StillWorks_WithANote_AndGivingBothIsAUsageError()
     {
         string frames = dir.File("frames");

@@ -27,9 +27,12 @@ internal sealed record BenchRequest
     /// <summary>Measured passes over the frames.</summary>
     public int Passes { get; init; } = 3;
 
-    /// <summary>Frames decoded from <c>--frames</c> when <c>--max-frames</c> is not given.</summary>
-    public const int DefaultMaxFrames = 60;
-
     /// <summary>Most frames decoded (they are held in memory).</summary>
     public int MaxFrames { get; init; } = DefaultMaxFrames;
+
+    /// <summary>Most frames held when <c>--max-frames</c> is not given.</summary>
+    public const int DefaultMaxFrames = 60;
+
+    /// <summary>Most bytes the decoded frames and their resized copies may take together (default <see cref="BenchRunner.MemoryBudgetBytes"/>).</summary>
+    public long MemoryBudgetBytes { get; init; } = BenchRunner.MemoryBudgetBytes;
 }

@@ -28,7 +28,7 @@ internal static class BenchCommand
         };
         Option<int> warmup = new("--warmup") { Description = "Frame calls per worker before measuring (not recorded).", DefaultValueFactory = _ => 5 };
         Option<int> passes = new("--passes") { Description = "Measured passes over the frames.", DefaultValueFactory = _ => 3 };
-        Option<int?> maxFrames = new("--max-frames") { Description = $"Most frames read from --frames (they are held decoded in memory; default {BenchRequest.DefaultMaxFrames})." };
+        Option<int?> maxFrames = new("--max-frames") { Description = "Most frames read from --frames; they are held decoded in memory (60 when not given, and fewer when they would take more than 1 GiB)." };
         Option<string?> json = new("--json") { Description = "Also write the figures as JSON (docs/bench.md; '-': standard output, the table then goes to stderr)." };
 
         Command command = new("bench", "Measure per-stage latency, frames per second and memory beside the bare OpenCV primitives on the same frames.")
@@ -131,7 +131,7 @@ internal static class BenchCommand
             return given is null ? ParseThreads(list, "--thread-counts") : throw new UsageException("give -j/--threads (one worker count) or --thread-counts (several), not both");
         }
 
-        string? text = given?.Tokens.Count > 0 ? given.Tokens[0].Value : null;
+        string? text = given?.Tokens.Count > 0 ? given.Tokens[^1].Value : null;
         if (text is not null && text.Contains(',', StringComparison.Ordinal))
         {
             stderr.WriteLine(SharedOptions.DeprecationLine("--threads " + text, "--thread-counts " + text));
@@ -143,7 +143,7 @@ internal static class BenchCommand
 
     private static int ParseThreadsToken(System.CommandLine.Parsing.ArgumentResult result)
     {
-        string text = result.Tokens.Count > 0 ? result.Tokens[0].Value : string.Empty;
+        string text = result.Tokens.Count > 0 ? result.Tokens[^1].Value : string.Empty;
         if (text.Contains(',', StringComparison.Ordinal))
         {
             return 0; // the deprecated list form; WorkerCounts reads the token itself

@@ -15,7 +15,7 @@ internal static class RenderCommand
         Option<string> legacyOut = SharedOptions.LegacyOut();
         Option<ulong> seed = new("--seed") { Description = "Seed of everything random.", DefaultValueFactory = _ => 1UL };
         Option<int> count = new("--count") { Description = "Number of scenes.", DefaultValueFactory = _ => 10 };
-        Option<string?> size = new("--size") { Description = $"Frame size WxH (default {DefaultSize}, or the size of --camera)." };
+        Option<string?> size = new("--size") { Description = "Frame size WxH (1280x720 when neither it nor --camera is given)." };
         Option<string?> conditions = new("--conditions")
         {
             Description = "Comma-separated conditions for every scene, or 'none' (default: clean and each condition in turn). Known: " +
@@ -116,7 +116,7 @@ internal static class RenderCommand
             }
             else
             {
-                (int w, int h) = ParseSize(parseResult.GetValue(size) ?? DefaultSize);
+                (int w, int h) = ParseSize(parseResult.GetValue(size) ?? "1280x720");
                 camera = CameraModel.CreateDefault(w, h);
             }
 
@@ -136,15 +136,8 @@ internal static class RenderCommand
                 Threads = threadCount,
                 OverlayDir = parseResult.GetValue(overlays),
             };
-            if (File.Exists(options.OutDir))
-            {
-                throw new UsageException($"-o/--output {options.OutDir}: is a file; give a folder.");
-            }
-
-            if (options.OverlayDir is not null && File.Exists(options.OverlayDir))
-            {
-                throw new UsageException($"--overlays {options.OverlayDir}: is a file; give a folder.");
-            }
+            // A folder output that is a file, or lies under one, is bad input (exit 3) as in every other command.
+            OutputPaths.Check([], [("-o/--output", options.OutDir), ("--overlays", options.OverlayDir)], outputsAreFiles: false);
 
             var clock = Stopwatch.StartNew();
             int frames;
@@ -175,12 +168,6 @@ internal static class RenderCommand
         }));
         return command;
     }
-
-    /// <summary>
-    /// The frame size rendered when neither <c>--size</c> nor <c>--camera</c> is given. (Not a parser default, so that
-    /// <c>--size</c> has one default on every command: none, "the frames' own size" where there are frames.)
-    /// </summary>
-    internal const string DefaultSize = "1280x720";
 
     internal static IReadOnlyList<string>? ParseConditions(string? text)
     {
