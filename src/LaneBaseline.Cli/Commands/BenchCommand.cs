@@ -107,7 +107,7 @@ internal static class BenchCommand
         {
             foreach (string part in value.Split(',', StringSplitOptions.TrimEntries))
             {
-                (int w, int h) = RenderCommand.ParseSize(part);
+                (int w, int h) = CommandArguments.ParseFrameSize(part);
                 if (!sizes.Contains((w, h)))
                 {
                     sizes.Add((w, h));

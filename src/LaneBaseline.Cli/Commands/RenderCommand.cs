@@ -116,7 +116,7 @@ internal static class RenderCommand
             }
             else
             {
-                (int w, int h) = ParseSize(parseResult.GetValue(size) ?? "1280x720");
+                (int w, int h) = CommandArguments.ParseFrameSize(parseResult.GetValue(size) ?? "1280x720");
                 camera = CameraModel.CreateDefault(w, h);
             }
 
@@ -197,23 +197,5 @@ internal static class RenderCommand
         }
 
         return list;
-    }
-
-    internal static (int Width, int Height) ParseSize(string text)
-    {
-        string[] parts = text.Split('x', 'X');
-        if (parts.Length != 2 ||
-            !int.TryParse(parts[0], NumberStyles.None, CultureInfo.InvariantCulture, out int w) ||
-            !int.TryParse(parts[1], NumberStyles.None, CultureInfo.InvariantCulture, out int h))
-        {
-            throw new UsageException($"--size must look like 1280x720, not '{text}'.");
-        }
-
-        if (w < 64 || h < 64 || w > 8192 || h > 8192)
-        {
-            throw new UsageException($"--size {w}x{h}: each side must be between 64 and 8192 pixels.");
-        }
-
-        return (w, h);
     }
 }

@@ -11,20 +11,6 @@ namespace LaneBaseline.Cli.Tests.Docs;
 /// </summary>
 public sealed partial class SourceLayoutTests
 {
-    // Files still holding several types: the score metrics are being regrouped into one folder per metric (issue 13,
-    // item 4); each is split there. The list may only shrink.
-    private static readonly HashSet<string> Pending = new(StringComparer.Ordinal)
-    {
-        "src/LaneBaseline.Core/Metrics/Coverage/FrameCoverage.cs",
-        "src/LaneBaseline.Core/Metrics/MaskFrameState.cs",
-        "src/LaneBaseline.Core/Metrics/ScoreJsonWriter.cs",
-        "src/LaneBaseline.Core/Metrics/ScoreRun.cs",
-        "src/LaneBaseline.Core/Metrics/ScoreTally.cs",
-        "src/LaneBaseline.Core/Metrics/ShardJobKey.cs",
-        "src/LaneBaseline.Core/Metrics/ScoreGate.cs",
-        "src/LaneBaseline.Core/Metrics/Bootstrap.cs",
-    };
-
     [Fact]
     public void EverySourceFile_HoldsOneTopLevelType_NamedAfterIt()
     {
@@ -42,7 +28,7 @@ public sealed partial class SourceLayoutTests
             files++;
             string[] names = [.. File.ReadLines(file).Select(l => TopLevelType().Match(l)).Where(m => m.Success).Select(m => m.Groups["name"].Value)];
             string stem = Path.GetFileName(file).Split('.')[0];
-            if (names.Length > 1 && !Pending.Contains(rel))
+            if (names.Length > 1)
             {
                 problems.Add(rel + ": " + names.Length + " top-level types (" + string.Join(", ", names) + "); give each its own file");
             }
@@ -50,14 +36,34 @@ public sealed partial class SourceLayoutTests
             {
                 problems.Add(rel + ": holds " + names[0] + "; name the file " + names[0] + ".cs");
             }
-            else if (names.Length <= 1 && Pending.Contains(rel))
-            {
-                problems.Add(rel + ": now holds one type; take it off the pending list");
-            }
         }
 
         Assert.True(files > 200, "the scan found only " + files + " source files: is the path right?");
         Assert.True(problems.Count == 0, string.Join('\n', problems));
+    }
+
+    [Fact]
+    public void NoCommand_CallsAnotherCommandsMembers()
+    {
+        // DEVELOPERS.md, "Adding a command": commands share through Outputs/ writers, CommandArguments, LaneInputs and
+        // Core services, never through another command's statics (Program.cs only calls each command's Create).
+        string commands = RepoPaths.Combine("src", "LaneBaseline.Cli", "Commands");
+        var problems = new List<string>();
+        string[] files = Directory.GetFiles(commands, "*.cs");
+        Assert.True(files.Length >= 10, "the scan found only " + files.Length + " command files");
+        foreach (string file in files)
+        {
+            string own = Path.GetFileName(file).Split('.')[0];
+            foreach (Match m in CommandMember().Matches(File.ReadAllText(file)))
+            {
+                if (m.Groups["command"].Value + "Command" != own.Replace("Runner", "Command", StringComparison.Ordinal) && m.Groups["command"].Value + "Command" != own)
+                {
+                    problems.Add(Path.GetFileName(file) + ": " + m.Value);
+                }
+            }
+        }
+
+        Assert.True(problems.Count == 0, "calls into another command:\n" + string.Join('\n', problems));
     }
 
     [Fact]
@@ -76,4 +82,7 @@ public sealed partial class SourceLayoutTests
 
     [GeneratedRegex(@"^(public |internal )?((sealed|static|abstract|readonly|partial) )*(class|record|struct|enum|interface)\s+(struct\s+|class\s+)?(?<name>[A-Za-z_]\w*)")]
     private static partial Regex TopLevelType();
+
+    [GeneratedRegex(@"\b(?<command>[A-Z][a-z]+)Command\.(?!Create\b)[A-Z]\w*")]
+    private static partial Regex CommandMember();
 }
