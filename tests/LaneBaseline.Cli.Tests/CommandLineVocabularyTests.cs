@@ -242,9 +242,13 @@ public sealed class CommandLineVocabularyTests : IDisposable
         Assert.DoesNotContain("deprecated", err, StringComparison.Ordinal);
         (exit, _, err) = CliRunner.Run([.. common, "-j", "1,2", "--json", dir.File("old.json")]);
         Assert.True(exit == 0, err);
-        Assert.Contains("note: --threads 1,2 is deprecated; use --thread-counts 1,2; it will be removed in the next release", err, StringComparison.Ordinal);
+        Assert.Contains("note: -j 1,2 is deprecated; use --thread-counts 1,2; it will be removed in the next release", err, StringComparison.Ordinal);
+        (exit, _, err) = CliRunner.Run([.. common, "--threads", "2,1", "--json", dir.File("old-long.json")]);
+        Assert.True(exit == 0, err);
+        Assert.Contains("note: --threads 2,1 is deprecated; use --thread-counts 2,1; it will be removed in the next release", err, StringComparison.Ordinal);
         Assert.Equal([1, 2], Workers(dir.File("new.json")));
         Assert.Equal([1, 2], Workers(dir.File("old.json")));
+        Assert.Equal([2, 1], Workers(dir.File("old-long.json")));
 
         // One count with -j, the number of cores without it; -j with --thread-counts is a usage error.
         Assert.Equal(0, CliRunner.Run([.. common, "-j", "1", "--json", dir.File("one.json")]).Exit);

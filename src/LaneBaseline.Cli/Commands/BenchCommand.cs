@@ -134,7 +134,8 @@ internal static class BenchCommand
         string? text = given?.Tokens.Count > 0 ? given.Tokens[^1].Value : null;
         if (text is not null && text.Contains(',', StringComparison.Ordinal))
         {
-            stderr.WriteLine(SharedOptions.DeprecationLine("--threads " + text, "--thread-counts " + text));
+            string spelled = given!.IdentifierToken?.Value ?? "--threads"; // the note repeats what was typed: -j or --threads
+            stderr.WriteLine(SharedOptions.DeprecationLine(spelled + " " + text, "--thread-counts " + text));
             return ParseThreads(text, "--threads");
         }
 
