@@ -53,7 +53,7 @@ internal static class SharedOptions
             throw new UsageException("give -o/--output once (--out is its deprecated spelling)");
         }
 
-        stderr.WriteLine("note: --out is deprecated, use -o/--output");
+        stderr.WriteLine(DeprecationLine("--out", "-o/--output"));
         return parse.GetValue(legacy);
     }
 

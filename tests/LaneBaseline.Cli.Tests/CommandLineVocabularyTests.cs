@@ -164,7 +164,7 @@ public sealed class CommandLineVocabularyTests : IDisposable
         string truth = Truth(), copy = dir.File("copy.lanes.jsonl");
         (int exit, _, string err) = CliRunner.Run("convert", truth, "--out", copy);
         Assert.Equal(0, exit);
-        Assert.Contains("note: --out is deprecated, use -o/--output", err, StringComparison.Ordinal);
+        Assert.Contains("note: --out is deprecated; use -o/--output; it will be removed in the next release", err, StringComparison.Ordinal);
         Assert.Equal(File.ReadAllText(truth), File.ReadAllText(copy));
         Assert.Equal(2, CliRunner.Run("convert", truth, "--out", copy, "-o", copy).Exit);
         Assert.Equal(2, CliRunner.Run("convert", truth).Exit); // the output is still required
@@ -324,7 +324,7 @@ public sealed class CommandLineVocabularyTests : IDisposable
 
         (int exit, _, string err) = CliRunner.Run("detect", frames, "-o", dir.File("a.lanes.jsonl"), "-j", "1");
         Assert.Equal(0, exit);
-        Assert.Contains("note: the positional FRAMES is deprecated", err, StringComparison.Ordinal);
+        Assert.Contains("note: the positional FRAMES is deprecated; use --frames FRAMES; it will be removed in the next release", err, StringComparison.Ordinal);
         (exit, _, err) = CliRunner.Run("detect", "--frames", frames, "-o", dir.File("b.lanes.jsonl"), "-j", "1");
         Assert.Equal(0, exit);
         Assert.DoesNotContain("deprecated", err, StringComparison.Ordinal);
