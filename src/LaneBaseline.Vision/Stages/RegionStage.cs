@@ -1,6 +1,7 @@
 using LaneBaseline.Core.Options;
 using LaneBaseline.Core.Results;
 using LaneBaseline.Vision.Pipeline;
+using OpenCvSharp;
 
 namespace LaneBaseline.Vision.Stages;
 
@@ -9,7 +10,9 @@ namespace LaneBaseline.Vision.Stages;
 /// </summary>
 /// <remarks>
 /// With a camera file the vanishing point is the image of the point at infinity straight ahead on the road and steps
-/// (1)–(4) are skipped. Otherwise: (1) hypotheses: every pair of Hough segments with opposite lean (one left boundary going up-right,
+/// (1)–(4) are skipped. Otherwise: (0) voters: segments within <see cref="RegionOptions.VerticalToleranceDeg"/> of the
+/// image vertical, and in a dark frame segments whose upper end lies straight below a light source (its specular
+/// reflection on a wet road lies on the vertical through it, law of reflection), take no part in (1)–(3); (1) hypotheses: every pair of Hough segments with opposite lean (one left boundary going up-right,
 /// one right boundary going up-left) is intersected; an intersection outside the plausible band (horizon within
 /// [<see cref="RegionOptions.MinHorizonFraction"/>, <see cref="RegionOptions.MaxHorizonFraction"/>] of the height,
 /// column within <see cref="RegionOptions.MaxVanishingOffsetFraction"/> of the width from the centre) is dropped;
@@ -33,6 +36,8 @@ public sealed class RegionStage : IFrameStage
     private readonly WarpOptions warp;
     private readonly bool smooth;
     private readonly (double X, double Y)? fixedPoint;
+    private HoughSegment[] voters = [];
+    private int[] lightRow = [];
 
     /// <summary>Creates the stage.</summary>
     /// <param name="region">Region options.</param>
@@ -128,8 +133,8 @@ public sealed class RegionStage : IFrameStage
 
     private bool TryEstimate(FrameWorkspace ws, out double bestX, out double bestY)
     {
-        int n = ws.Hough.SegmentCount;
-        HoughSegment[] s = ws.Hough.Segments;
+        int n = SelectVoters(ws);
+        HoughSegment[] s = voters;
         int w = ws.Width, h = ws.Height;
         double tol = region.VanishingToleranceFraction * w;
         double minY = region.MinHorizonFraction * h, maxY = region.MaxHorizonFraction * h;
@@ -212,6 +217,137 @@ public sealed class RegionStage : IFrameStage
         }
 
         return true;
+    }
+
+    /// <summary>
+    /// Copies the frame's Hough segments that may vote for the vanishing point into <see cref="voters"/> (in their
+    /// order) and returns their count. Dropped: (a) segments within <see cref="RegionOptions.VerticalToleranceDeg"/> of
+    /// the image vertical; (b) in a dark frame, segments whose upper end lies straight below a light source (a pixel of
+    /// grey level at least <see cref="RegionOptions.LightSourceLightness"/> above the end, within half the vanishing
+    /// tolerance of its column). A flat wet road mirrors a light onto the vertical through it (law of reflection, camera
+    /// without roll); the streak's tapering top gives short slanted segments that would otherwise vote for a point
+    /// above the streak.
+    /// </summary>
+    private int SelectVoters(FrameWorkspace ws)
+    {
+        int n = ws.Hough.SegmentCount;
+        HoughSegment[] s = ws.Hough.Segments;
+        if (voters.Length < s.Length)
+        {
+            voters = new HoughSegment[s.Length];
+        }
+
+        double maxLean = Math.Tan(region.VerticalToleranceDeg * Math.PI / 180);
+        bool lights = region.LightSourceLightness < 255 && n > 0 && FindLights(ws);
+        int margin = Math.Max(1, (int)(region.VanishingToleranceFraction * ws.Width / 2));
+        int m = 0;
+        for (int i = 0; i < n; i++)
+        {
+            HoughSegment g = s[i];
+            if (Math.Abs(g.X2 - g.X1) < maxLean * Math.Abs(g.Y2 - g.Y1))
+            {
+                continue;
+            }
+
+            if (lights)
+            {
+                (double xt, double yt) = g.Y1 <= g.Y2 ? (g.X1, g.Y1) : (g.X2, g.Y2);
+                if (UnderLight((int)Math.Round(xt), yt, margin))
+                {
+                    continue;
+                }
+            }
+
+            voters[m++] = g;
+        }
+
+        return m;
+    }
+
+    /// <summary>
+    /// In a dark frame (median grey of the bottom quarter of the centre half below
+    /// <see cref="RegionOptions.DarkRoadLightness"/>), fills <see cref="lightRow"/>: per column the highest row above
+    /// <see cref="RegionOptions.MaxHorizonFraction"/> × height holding a pixel of grey level at least
+    /// <see cref="RegionOptions.LightSourceLightness"/>, int.MaxValue where none. Lights are small: when more than a
+    /// quarter of the columns hold one, the sky itself is bright and the test is not applied.
+    /// </summary>
+    /// <returns>Whether the light-source test applies to this frame.</returns>
+    private unsafe bool FindLights(FrameWorkspace ws)
+    {
+        int w = ws.Width, h = ws.Height;
+        Mat band = ws.Gradient.Blurred;
+        int bandTop = ws.BandTop;
+        int y0 = Math.Max(bandTop, h - (h / 4)), x0 = w / 4, x1 = w - (w / 4);
+        Span<int> hist = stackalloc int[256];
+        hist.Clear();
+        int count = 0;
+        byte* bandBase = (byte*)band.DataPointer;
+        long bandStep = band.Step();
+        for (int y = y0; y < h; y += 4)
+        {
+            byte* row = bandBase + ((y - bandTop) * bandStep);
+            for (int x = x0; x < x1; x += 4)
+            {
+                hist[row[x]]++;
+                count++;
+            }
+        }
+
+        int median = 0, acc = hist[0];
+        while (median < 255 && acc * 2 < count)
+        {
+            acc += hist[++median];
+        }
+
+        if (count == 0 || median >= region.DarkRoadLightness)
+        {
+            return false;
+        }
+
+        if (lightRow.Length != w)
+        {
+            lightRow = new int[w];
+        }
+
+        Array.Fill(lightRow, int.MaxValue);
+        int last = Math.Min(h - 1, (int)(region.MaxHorizonFraction * h));
+        byte limit = (byte)Math.Clamp(Math.Ceiling(region.LightSourceLightness), 0, 255);
+        Mat gray = ws.Gradient.Gray;
+        byte* grayBase = (byte*)gray.DataPointer;
+        long grayStep = gray.Step();
+        int lit = 0;
+        for (int y = 0; y <= last; y++)
+        {
+            ReadOnlySpan<byte> row = new(grayBase + (y * grayStep), w);
+            if (row.IndexOfAnyInRange(limit, (byte)255) < 0)
+            {
+                continue;
+            }
+
+            for (int x = 0; x < w; x++)
+            {
+                if (row[x] >= limit && lightRow[x] == int.MaxValue)
+                {
+                    lightRow[x] = y;
+                    lit++;
+                }
+            }
+        }
+
+        return lit > 0 && lit * 4 <= w;
+    }
+
+    private bool UnderLight(int x, double y, int margin)
+    {
+        for (int k = Math.Max(0, x - margin), kEnd = Math.Min(lightRow.Length - 1, x + margin); k <= kEnd; k++)
+        {
+            if (lightRow[k] < y)
+            {
+                return true;
+            }
+        }
+
+        return false;
     }
 
     /// <summary>dx/dy sign: negative for a left boundary (x grows as y shrinks), positive for a right one.</summary>
