@@ -222,9 +222,9 @@ public sealed class RegionStage : IFrameStage
     /// <summary>
     /// Copies the frame's Hough segments that may vote for the vanishing point into <see cref="voters"/> (in their
     /// order) and returns their count. Dropped: (a) segments within <see cref="RegionOptions.VerticalToleranceDeg"/> of
-    /// the image vertical; (b) in a dark frame, segments whose upper end lies straight below a light source (a pixel of
-    /// grey level at least <see cref="RegionOptions.LightSourceLightness"/> above the end, within half the vanishing
-    /// tolerance of its column). A flat wet road mirrors a light onto the vertical through it (law of reflection, camera
+    /// the image vertical; (b) in a dark frame, segments whose upper end lies straight below a light source or on its
+    /// rim (a pixel of grey level at least <see cref="RegionOptions.LightSourceLightness"/> in a column within half the
+    /// vanishing tolerance m of the end's column, above the row m below the end). A flat wet road mirrors a light onto the vertical through it (law of reflection, camera
     /// without roll); the streak's tapering top gives short slanted segments that would otherwise vote for a point
     /// above the streak.
     /// </summary>
@@ -252,7 +252,7 @@ public sealed class RegionStage : IFrameStage
             if (lights)
             {
                 (double xt, double yt) = g.Y1 <= g.Y2 ? (g.X1, g.Y1) : (g.X2, g.Y2);
-                if (UnderLight((int)Math.Round(xt), yt, margin))
+                if (UnderLight((int)Math.Round(xt), yt + margin, margin))
                 {
                     continue;
                 }
