@@ -90,4 +90,23 @@ internal static class CommandArguments
         "error" => AuditSeverity.Error,
         _ => throw new UsageException("--fail-on must be none, warning or error"),
     };
+
+    /// <summary>A frame size to make or process at, <c>WxH</c> with each side 64–8192 pixels (render, bench).</summary>
+    internal static (int Width, int Height) ParseFrameSize(string text)
+    {
+        string[] parts = text.Split('x', 'X');
+        if (parts.Length != 2 ||
+            !int.TryParse(parts[0], NumberStyles.None, CultureInfo.InvariantCulture, out int w) ||
+            !int.TryParse(parts[1], NumberStyles.None, CultureInfo.InvariantCulture, out int h))
+        {
+            throw new UsageException($"--size must look like 1280x720, not '{text}'.");
+        }
+
+        if (w < 64 || h < 64 || w > 8192 || h > 8192)
+        {
+            throw new UsageException($"--size {w}x{h}: each side must be between 64 and 8192 pixels.");
+        }
+
+        return (w, h);
+    }
 }

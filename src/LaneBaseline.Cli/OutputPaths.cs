@@ -43,13 +43,33 @@ internal static class OutputPaths
                 }
             }
 
+            RefuseFileOnTheWay(option, path);
             if (outputsAreFiles)
             {
                 Core.IO.OutputTarget.RefuseFolder(path, path);
             }
+            else if (File.Exists(path))
+            {
+                throw Core.BadInputException.At(path, 0, null, option + " names a folder to write into, but this is a file; give a folder");
+            }
 
             seenOutputs.Add((option, path, id));
         }
+    }
+
+    /// <summary>
+    /// The folder a score page's regression gallery writes its full-size overlays to (<c>PAGE.frames/</c> beside the
+    /// page), or null when no gallery is drawn; checked as a folder output so a file in its place fails before any work.
+    /// </summary>
+    public static string? GalleryFolder(string? reportPath, string? framesDir)
+    {
+        if (reportPath is null || framesDir is null || StandardStreams.IsDash(reportPath))
+        {
+            return null;
+        }
+
+        string full = System.IO.Path.GetFullPath(reportPath);
+        return System.IO.Path.Combine(System.IO.Path.GetDirectoryName(full) ?? ".", System.IO.Path.GetFileNameWithoutExtension(full) + ".frames");
     }
 
     /// <summary>The files of <c>--pred [NAME=]FILE</c> values, without reading anything (standard input stays <c>-</c>).</summary>
@@ -86,6 +106,26 @@ internal static class OutputPaths
         }
 
         return list;
+    }
+
+    /// <summary>
+    /// Refuses an output whose folder, or a folder above it, is an existing file: no folder can be made there
+    /// (before, <c>--json F/x.json</c> with F a file was an internal error after the work).
+    /// </summary>
+    private static void RefuseFileOnTheWay(string option, string fullPath)
+    {
+        for (string? parent = System.IO.Path.GetDirectoryName(fullPath); !string.IsNullOrEmpty(parent); parent = System.IO.Path.GetDirectoryName(parent))
+        {
+            if (File.Exists(parent))
+            {
+                throw Core.BadInputException.At(fullPath, 0, null, $"{option}: '{parent}' is a file, so no folder can hold this output; choose another path");
+            }
+
+            if (Directory.Exists(parent))
+            {
+                return;
+            }
+        }
     }
 
     private static bool Same(string a, FileIdentity? aId, string b, FileIdentity? bId) =>

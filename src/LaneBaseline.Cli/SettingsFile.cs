@@ -54,7 +54,7 @@ internal static class SettingsFile
             string key = (keyNode as YamlScalarNode)?.Value ?? string.Empty;
             long line = keyNode.Start.Line;
             string name = "--" + key.Replace('_', '-');
-            Option? option = command.Options.FirstOrDefault(o => o.Name == name && !o.Hidden);
+            Option? option = command.Options.FirstOrDefault(o => o.Name == name); // deprecated (hidden) spellings still work, with their note
             if (option is null || NotSettings.Contains(name))
             {
                 string known = string.Join(", ", command.Options.Where(o => !o.Hidden && !NotSettings.Contains(o.Name)).Select(o => o.Name[2..]));

@@ -57,6 +57,29 @@ internal static class SharedOptions
         return parse.GetValue(legacy);
     }
 
+    /// <summary>A deprecated spelling of a renamed option, hidden from help; it still works for one release (see <see cref="GetRenamed{T}"/>).</summary>
+    public static Option<T> Deprecated<T>(string name, string replacement) => new(name) { Description = "Deprecated spelling of " + replacement + ".", Hidden = true };
+
+    /// <summary>
+    /// The value of a renamed option: from <paramref name="modern"/>, or from its deprecated spelling
+    /// <paramref name="legacy"/> with one <c>note:</c> line on stderr; both given is a usage error.
+    /// </summary>
+    public static T? GetRenamed<T>(ParseResult parse, Option<T> modern, Option<T> legacy, TextWriter stderr)
+    {
+        if (parse.GetResult(legacy) is not { Implicit: false })
+        {
+            return parse.GetValue(modern);
+        }
+
+        if (parse.GetResult(modern) is { Implicit: false })
+        {
+            throw new UsageException($"give {modern.Name} once ({legacy.Name} is its deprecated spelling)");
+        }
+
+        stderr.WriteLine($"note: {legacy.Name} is deprecated here, use {modern.Name}");
+        return parse.GetValue(legacy);
+    }
+
     /// <summary>Checks a thread count from <c>--threads</c>.</summary>
     public static int CheckThreads(int value) =>
         value is >= 1 and <= 256 ? value : throw new UsageException("--threads must be between 1 and 256");

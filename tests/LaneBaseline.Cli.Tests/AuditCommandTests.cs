@@ -41,7 +41,7 @@ public sealed class AuditCommandTests : IDisposable
         records.RemoveAt(12); // a dropped frame in sequence 0
         string pred = dir.File("bad.lanes.jsonl"), outFile = dir.File("f.jsonl");
         Lanes.WriteFile(pred, records);
-        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--fail-on", "warning", "--overlays", "2", "--mine", "5");
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--fail-on", "warning", "--overlay-count", "2", "--mine", "5");
         Assert.Equal(4, exit);
         Assert.Contains("quality gate failed", err, StringComparison.Ordinal);
         string[] lines = File.ReadAllLines(outFile);
@@ -70,7 +70,7 @@ public sealed class AuditCommandTests : IDisposable
         records[5] = new LaneRecord { Frame = records[5].Frame, Width = 1280, Height = 720, Lanes = lanes };
         string pred = dir.File("bad.lanes.jsonl"), outFile = dir.File("out/f.jsonl"), page = dir.File("page/a.html");
         Lanes.WriteFile(pred, records);
-        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--overlays", "3", "--report", page, "--generated-at", "2026-12-05T00:00:00Z");
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "-o", outFile, "--overlay-count", "3", "--report", page, "--generated-at", "2026-12-05T00:00:00Z");
         Assert.True(exit == 0, err);
         string html = File.ReadAllText(page);
         var hrefs = System.Text.RegularExpressions.Regex.Matches(html, "<figure class=\"thumb\" data-frame=\"([^\"]+)\"><a href=\"([^\"]+)\"><img [^>]*src=\"data:image/jpeg;base64,")
@@ -136,6 +136,26 @@ public sealed class AuditCommandTests : IDisposable
         (exit, _, err) = CliRunner.Run("audit", "--pred", p, "-o", o, "--camera", dir.File("missing.json"));
         Assert.Equal(3, exit);
     }
+
+    // Records without a size take the camera file's (docs/audit.md); the overlays did not, and a run with --overlay-count
+    // ended in an internal error (exit 1) after writing the findings.
+    [Fact]
+    public void Camera_SizesRecordsWithoutOne_ForTheOverlaysToo()
+    {
+        string cam = dir.File("camera.json"), p = dir.File("p.lanes.jsonl"), o = dir.File("out/f.jsonl");
+        Core.Geometry.CameraModel.CreateDefault(1280, 720).Save(cam);
+        var records = Clean();
+        records[4] = AuditCrossed(records[4]);
+        Lanes.WriteFile(p, records.Select(r => new LaneRecord { Frame = r.Frame, Tags = r.Tags, Lanes = r.Lanes }));
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", p, "-o", o, "--camera", cam, "--overlay-count", "1");
+        Assert.True(exit == 0, err);
+        string overlay = Assert.Single(Directory.GetFiles(dir.File("out/f.overlays")));
+        using var image = new OpenCvSharp.Mat(overlay);
+        Assert.Equal((1280, 720), (image.Width, image.Height));
+    }
+
+    private static LaneRecord AuditCrossed(LaneRecord r) =>
+        new() { Frame = r.Frame, Width = r.Width, Height = r.Height, Tags = r.Tags, Lanes = [.. r.Lanes.Select((l, i) => i == 0 ? new Lane { Points = [.. l.Points.Select(q => q with { X = 1280 - q.X })], Slot = l.Slot } : l)] };
 
     [Fact]
     public void RenderedTruth_NoFalseAlarms()

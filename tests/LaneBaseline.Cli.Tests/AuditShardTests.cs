@@ -26,7 +26,7 @@ public sealed class AuditShardTests : IDisposable
         string outFile = dir.File("out/f.jsonl"), page = dir.File("out/f.html");
         Directory.CreateDirectory(dir.File("out"));
         string[] common = ["--pred", pred, "--baseline", baseline, "--fps", "10"];
-        string[] outputs = ["-o", outFile, "--mine", "25", "--fail-on", "warning", "--overlays", "3", "--report", page, "--generated-at", "2026-01-02T03:04:05Z"];
+        string[] outputs = ["-o", outFile, "--mine", "25", "--fail-on", "warning", "--overlay-count", "3", "--report", page, "--generated-at", "2026-01-02T03:04:05Z"];
 
         (int exit, string fullOut, string fullErr) = CliRunner.Run(["audit", .. common, .. outputs, "--threads", "2"]);
         Assert.True(exit == 4, fullErr); // the gate fails on the injected faults, after writing everything
@@ -54,6 +54,66 @@ public sealed class AuditShardTests : IDisposable
         {
             Assert.True(bytes.AsSpan().SequenceEqual(merged[name]), name + " differs");
         }
+    }
+
+    // Issue 13 item 4: merge rebuilt the audit settings from a few text entries of the state and dropped the others
+    // (the frame rate reached the summary JSON as the default 10). With non-default frame rate, design speed and horizon
+    // row, every output of the merged shards (findings, labelling list, overlays, page, summary JSON, stdout) must
+    // equal the unsharded run's byte for byte; the settings change findings (LBA-T01's limit scales with 1/fps, LBA-I03
+    // and LBA-I08 read the horizon, LBA-I08 the design speed), so a shard that lost one would differ too.
+    [Fact]
+    public void AuditShards_NonDefaultFpsDesignSpeedHorizon_MergedEqualUnshardedByteForByte()
+    {
+        (string pred, string baseline) = WriteSet();
+        string outFile = dir.File("out/f.jsonl");
+        Directory.CreateDirectory(dir.File("out"));
+        string[] common = ["--pred", pred, "--baseline", baseline, "--fps", "25", "--design-speed-kmh", "60", "--horizon-row", "250.5", "--size", "1280x720"];
+        string[] outputs = ["-o", outFile, "--mine", "5", "--overlay-count", "2", "--report", dir.File("out/f.html"), "--generated-at", "2026-01-02T03:04:05Z", "--summary-json", dir.File("out/f.summary.json")];
+
+        (int exit, string fullOut, string fullErr) = CliRunner.Run(["audit", .. common, .. outputs]);
+        Assert.True(exit == 0, fullErr);
+        Dictionary<string, byte[]> full = Snapshot();
+        Assert.Contains("\"fps\": 25", File.ReadAllText(dir.File("out/f.summary.json")), StringComparison.Ordinal);
+        Directory.Delete(dir.File("out"), recursive: true);
+        Directory.CreateDirectory(dir.File("out"));
+
+        var states = new List<string>();
+        for (int k = 0; k < 3; k++)
+        {
+            string state = dir.File($"p{k}.state");
+            (int e, _, string err) = CliRunner.Run(["audit", .. common, "--shard", $"{k}/3", "--partial", state]);
+            Assert.True(e == 0, err);
+            states.Add(state);
+        }
+
+        (int mExit, string mergedOut, string mErr) = CliRunner.Run(["merge", .. states, .. outputs]);
+        Assert.True(mExit == 0, mErr);
+        Assert.Equal(fullOut, mergedOut);
+        Dictionary<string, byte[]> merged = Snapshot();
+        Assert.Equal(full.Keys.Order(StringComparer.Ordinal), merged.Keys.Order(StringComparer.Ordinal));
+        foreach ((string name, byte[] bytes) in full)
+        {
+            Assert.True(bytes.AsSpan().SequenceEqual(merged[name]), name + " differs");
+        }
+
+        // Shards run with another frame rate belong to another job.
+        string other = dir.File("p1-fps.state");
+        Assert.Equal(0, CliRunner.Run(["audit", .. common[..4], "--fps", "30", "--design-speed-kmh", "60", "--horizon-row", "250.5", "--size", "1280x720", "--shard", "1/3", "--partial", other]).Exit);
+        (int oExit, _, string oErr) = CliRunner.Run("merge", states[0], other, states[2], "-o", dir.File("o.jsonl"));
+        Assert.Equal(3, oExit);
+        Assert.Contains("its settings.frames_per_second is '30' where that state's is '25'", oErr, StringComparison.Ordinal);
+    }
+
+    // States of the build before the typed job (version 1: the job as text) are refused with a clear message.
+    [Fact]
+    public void Merge_Version1State_Exits3NamingTheVersion()
+    {
+        string state = dir.File("old.state");
+        File.WriteAllText(state, "{\"format\":\"lanebaseline-audit-state\",\"version\":1,\"shard_index\":0,\"shard_count\":1,\"input_frames\":0,\"frames\":0,\"compared_frames\":0,\"job\":{\"pred\":\"p.lanes.jsonl\",\"fps\":\"25\"}}\n");
+        (int exit, _, string err) = CliRunner.Run("merge", state, "-o", dir.File("m.jsonl"));
+        Assert.Equal(3, exit);
+        Assert.Contains("old.state:1: version: an audit state of an older build (version 1", err, StringComparison.Ordinal);
+        Assert.False(File.Exists(dir.File("m.jsonl")));
     }
 
     // A sequence is never split: every frame of it lands in the shard its name hashes to.
@@ -109,7 +169,7 @@ public sealed class AuditShardTests : IDisposable
         (string pred, _) = WriteSet();
         (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "--shard", "0/2", "--partial", dir.File("s.state"), "--mine", "3");
         Assert.Equal(2, exit);
-        Assert.Contains("give -o, --overlays, --mine, --fail-on and --report to merge", err, StringComparison.Ordinal);
+        Assert.Contains("give -o, --overlay-count, --mine, --fail-on and --report to merge", err, StringComparison.Ordinal);
         Assert.False(File.Exists(dir.File("s.state")));
     }
 

@@ -127,25 +127,10 @@ public sealed class CommandLineVocabularyTests : IDisposable
             }
         }
 
-        // Differences found by this test on 2026-12-05 and not settled yet (each changes a command's meaning, so each
-        // needs its own deprecation step): listed here so that no new one can appear unnoticed. Remove a line when its
-        // difference is settled; the test then holds the settled form.
-        string[] open =
-        [
-            "--overlays: String on detect, Int32 on audit", // detect: a folder; audit/merge: how many frames to draw
-            "--overlays: default '' on detect, '0' on audit",
-            "--overlays: String on detect, Int32 on merge",
-            "--overlays: default '' on detect, '0' on merge",
-            "--seed: default '0' on score, '1' on tune",
-            "--seed: default '0' on score, '1' on render",
-            "--seed: default '0' on score, '1' on bench",
-            "--size: default '' on score, '1280x720' on render", // score: gallery size; render: frame size
-            "--threads: Int32 on detect, String on bench", // bench also takes a list of counts
-            "--max-frames: Nullable`1 on detect, Int32 on bench",
-            "--max-frames: default '' on detect, '60' on bench",
-        ];
-        Assert.False(problems.Except(open).Any(), string.Join("\n", problems.Except(open)));
-        Assert.False(open.Except(problems).Any(), "settled now, remove from the list: " + string.Join("; ", open.Except(problems)));
+        // Settled 2026-12-05 (docs/cli.md, "Shared vocabulary"): audit/merge --overlays N became --overlay-count, score
+        // --seed became --bootstrap-seed, bench's list of worker counts moved to --thread-counts, and render --size and
+        // bench --max-frames state their fallback instead of a default, as the other commands' --size and --max-frames do.
+        Assert.True(problems.Count == 0, string.Join("\n", problems));
         Assert.True(shared >= 10, "expected the shared options (--threads, --frames, --output, --truth, ...) on several commands; found " + shared);
     }
 
@@ -159,6 +144,58 @@ public sealed class CommandLineVocabularyTests : IDisposable
         Assert.Equal(File.ReadAllText(truth), File.ReadAllText(copy));
         Assert.Equal(2, CliRunner.Run("convert", truth, "--out", copy, "-o", copy).Exit);
         Assert.Equal(2, CliRunner.Run("convert", truth).Exit); // the output is still required
+    }
+
+    [Fact]
+    public void RenamedOptions_OldSpellingsGiveTheSameResult_WithANote_AndBothIsAUsageError()
+    {
+        string truth = Truth(), pred = dir.File("pred.lanes.jsonl");
+        Lanes.WriteFile(pred, [Lanes.Truth("s/000001.png", 640, 360, Lanes.Of((104, 359), (302, 180))), Lanes.Truth("s/000002.png", 640, 360, Lanes.Of((300, 359), (320, 180)))]);
+
+        // score --seed -> --bootstrap-seed: the same intervals from the same seed.
+        string a = dir.File("a.json"), b = dir.File("b.json");
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--bootstrap", "200", "--bootstrap-seed", "7", "--json", a);
+        Assert.True(exit == 0, err);
+        Assert.DoesNotContain("deprecated", err, StringComparison.Ordinal);
+        (exit, _, err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--bootstrap", "200", "--seed", "7", "--json", b);
+        Assert.True(exit == 0, err);
+        Assert.Contains("note: --seed is deprecated here, use --bootstrap-seed", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllText(a), File.ReadAllText(b));
+        (exit, _, err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--seed", "7", "--bootstrap-seed", "7");
+        Assert.Equal(2, exit);
+        Assert.Contains("give --bootstrap-seed once (--seed is its deprecated spelling)", err, StringComparison.Ordinal);
+
+        // audit --overlays N -> --overlay-count N: the same overlays.
+        string f1 = dir.File("f1.jsonl"), f2 = dir.File("f2.jsonl");
+        (exit, _, err) = CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", f1, "--overlay-count", "2");
+        Assert.True(exit == 0, err);
+        (exit, _, err) = CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", f2, "--overlays", "2");
+        Assert.True(exit == 0, err);
+        Assert.Contains("note: --overlays is deprecated here, use --overlay-count", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllText(f1), File.ReadAllText(f2));
+        string[] drawn = [.. Directory.GetFiles(dir.File("f1.overlays")).Select(Path.GetFileName)!];
+        Assert.NotEmpty(drawn);
+        Assert.Equal(drawn, Directory.GetFiles(dir.File("f2.overlays")).Select(Path.GetFileName));
+
+        // A settings file may still use the old key (with the same note).
+        string yaml = dir.File("s.yaml");
+        File.WriteAllText(yaml, "seed: 7\nbootstrap: 200\n");
+        string c = dir.File("c.json");
+        (exit, _, err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--config", yaml, "--json", c);
+        Assert.True(exit == 0, err);
+        Assert.Contains("note: --seed is deprecated here", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllText(a), File.ReadAllText(c));
+    }
+
+    [Fact]
+    public void Bench_ThreadsTakesOneCount_AndAListPointsToThreadCounts()
+    {
+        (int exit, _, string err) = CliRunner.Run("bench", "--render", "1", "--size", "128x96", "--threads", "1,2");
+        Assert.Equal(2, exit);
+        Assert.Contains("-j/--threads takes one worker count; measure several with --thread-counts 1,2", err, StringComparison.Ordinal);
+        (exit, _, err) = CliRunner.Run("bench", "--render", "1", "--size", "128x96", "-j", "1", "--thread-counts", "1,2");
+        Assert.Equal(2, exit);
+        Assert.Contains("give -j/--threads or --thread-counts, not both", err, StringComparison.Ordinal);
     }
 
     [Fact]

@@ -68,11 +68,11 @@ public sealed class HostileUseTests : IDisposable
 
         (string truth, string pred) = WriteSet();
         string a = dir.File("a.jsonl"), b = dir.File("b.jsonl");
-        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", a, "--overlays", "5").Exit);
+        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", a, "--overlay-count", "5").Exit);
         using (var predPipe = new Fifo(dir.File("p.fifo"), File.ReadAllBytes(pred)))
         using (var basePipe = new Fifo(dir.File("b.fifo"), File.ReadAllBytes(truth)))
         {
-            (int exit, _, string err) = CliRunner.Run("audit", "--pred", predPipe.Path, "--baseline", basePipe.Path, "-o", b, "--overlays", "5");
+            (int exit, _, string err) = CliRunner.Run("audit", "--pred", predPipe.Path, "--baseline", basePipe.Path, "-o", b, "--overlay-count", "5");
             Assert.True(exit == 0, err);
         }
 
@@ -250,6 +250,80 @@ public sealed class HostileUseTests : IDisposable
         Assert.False(File.Exists(csv));
         Assert.False(File.Exists(page));
         Assert.Empty(Directory.GetFiles(dir.Path, "*.tmp"));
+    }
+
+    [Fact]
+    public void Audit_OverlayFolderIsAFile_IsBadInputBeforeTheFindingsAreWritten()
+    {
+        // Before: the findings file was committed, then the overlay folder failed as "internal error" (exit 1).
+        (string truth, string pred) = WriteSet();
+        string findings = dir.File("out.jsonl");
+        File.WriteAllText(dir.File("out.overlays"), "not a folder");
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "-o", findings, "--overlay-count", "3");
+        Assert.Equal(3, exit);
+        Assert.Contains("out.overlays", err, StringComparison.Ordinal);
+        Assert.Contains("give a folder", err, StringComparison.Ordinal);
+        Assert.DoesNotContain("internal error", err, StringComparison.Ordinal);
+        Assert.False(File.Exists(findings));
+        Assert.Equal("not a folder", File.ReadAllText(dir.File("out.overlays")));
+    }
+
+    [Theory]
+    [InlineData("--overlays")]
+    [InlineData("--stages")]
+    public void Detect_ImageFolderIsAFile_IsBadInputNamingTheOption_NotTheFrame(string option)
+    {
+        // Before: the frame was blamed ("cannot write ...") after the first frame's work, as if the image were bad.
+        string blocker = dir.File("blocker");
+        File.WriteAllText(blocker, "x");
+        string output = dir.File("d.lanes.jsonl");
+        (int exit, _, string err) = CliRunner.Run("detect", "--frames", RepoPaths.Combine("sample-frames", "lap-0000"), "-o", output, option, blocker);
+        Assert.Equal(3, exit);
+        Assert.Contains(option + " names a folder", err, StringComparison.Ordinal);
+        Assert.Contains("blocker", err, StringComparison.Ordinal);
+        Assert.False(File.Exists(output));
+    }
+
+    [Fact]
+    public void Outputs_UnderAFile_AreBadInputBeforeAnyWork()
+    {
+        // Before: "internal error: IOException" (exit 1) after scoring, or after the first detected frame.
+        (string truth, string pred) = WriteSet();
+        string blocker = dir.File("F");
+        File.WriteAllText(blocker, "x");
+        (string Name, string[] Args)[] runs =
+        [
+            ("score --json", ["score", "--truth", truth, "--pred", pred, "--bootstrap", "0", "--json", Path.Combine(blocker, "x.json")]),
+            ("score --report", ["score", "--truth", truth, "--pred", pred, "--bootstrap", "0", "--report", Path.Combine(blocker, "sub", "x.html")]),
+            ("detect -o", ["detect", "--frames", RepoPaths.Combine("sample-frames", "lap-0000"), "-o", Path.Combine(blocker, "d.lanes.jsonl")]),
+            ("audit -o", ["audit", "--pred", pred, "-o", Path.Combine(blocker, "f.jsonl")]),
+        ];
+        foreach ((string name, string[] args) in runs)
+        {
+            (int exit, string stdout, string err) = CliRunner.Run(args);
+            Assert.True(exit == 3, name + ": exit " + exit + ": " + err);
+            Assert.Contains("'" + blocker + "' is a file", err, StringComparison.Ordinal);
+            Assert.DoesNotContain("internal error", err, StringComparison.Ordinal);
+            Assert.Equal(string.Empty, stdout); // refused before the table or any record was printed
+        }
+
+        Assert.Equal("x", File.ReadAllText(blocker));
+    }
+
+    [Fact]
+    public void Score_ReportGalleryFolderIsAFile_IsBadInputBeforeAnyOutput()
+    {
+        (string truth, string pred) = WriteSet();
+        string frames = dir.File("frames");
+        Directory.CreateDirectory(frames);
+        string json = dir.File("g.json"), page = dir.File("g.html");
+        File.WriteAllText(dir.File("g.frames"), "x"); // where the page's full-size regression overlays would go
+        (int exit, _, string err) = CliRunner.Run("score", "--truth", truth, "--pred", pred, "--json", json, "--report", page, "--frames", frames, "--bootstrap", "0");
+        Assert.Equal(3, exit);
+        Assert.Contains("g.frames", err, StringComparison.Ordinal);
+        Assert.Contains("give a folder", err, StringComparison.Ordinal);
+        Assert.False(File.Exists(json));
+        Assert.False(File.Exists(page));
     }
 
     private static bool Link(string target, string link)

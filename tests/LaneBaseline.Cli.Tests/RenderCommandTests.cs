@@ -146,13 +146,23 @@ public sealed class RenderCommandTests : IDisposable
     }
 
     [Fact]
-    public void Render_OutIsAFile_IsUsageError()
+    public void Render_OutIsAFileOrUnderOne_IsBadInput()
     {
+        // Exit 3 as for every command's folder outputs (docs/reliability.md, case 13); before, under a file was exit 2
+        // with the runtime's "Could not find a part of the path".
         string file = Path.Combine(root, "taken");
         File.WriteAllText(file, "x");
         (int code, _, string err) = Run("render", "--out", file, "--count", "1", "--size", "160x90");
-        Assert.Equal(2, code);
-        Assert.Contains("is a file", err, StringComparison.Ordinal);
+        Assert.Equal(3, code);
+        Assert.Contains("names a folder to write into, but this is a file", err, StringComparison.Ordinal);
+        (code, _, err) = Run("render", "--out", Path.Combine(file, "sub"), "--count", "1", "--size", "160x90");
+        Assert.Equal(3, code);
+        Assert.Contains("'" + file + "' is a file", err, StringComparison.Ordinal);
+        (code, _, err) = Run("render", "--out", Path.Combine(root, "fine"), "--overlays", file, "--count", "1", "--size", "160x90");
+        Assert.Equal(3, code);
+        Assert.Contains("--overlays names a folder", err, StringComparison.Ordinal);
+        Assert.False(Directory.Exists(Path.Combine(root, "fine")));
+        Assert.Equal("x", File.ReadAllText(file));
     }
 
     [Fact]

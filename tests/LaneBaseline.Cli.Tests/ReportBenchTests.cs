@@ -18,7 +18,7 @@ public sealed class ReportBenchTests : IDisposable
     public void Report_WithBench_HasCostSection_WithOneRowPerRun()
     {
         string bench = dir.File("b.json");
-        (int exit, _, string err) = CliRunner.Run("bench", "--render", "2", "--size", "128x96", "--threads", "1,2", "--warmup", "1", "--passes", "1", "--json", bench);
+        (int exit, _, string err) = CliRunner.Run("bench", "--render", "2", "--size", "128x96", "--thread-counts", "1,2", "--warmup", "1", "--passes", "1", "--json", bench);
         Assert.True(exit == 0, err);
         string score = Score();
         string html = dir.File("r.html");

@@ -20,7 +20,7 @@ public sealed class ShardMergeTests : IDisposable
     public void ScoreShards_Merged_EqualUnshardedByteForByte(int n)
     {
         (string truth, string pred) = WriteSet(60);
-        string[] common = ["--truth", truth, "--pred", "net=" + pred, "--pred", "same=" + truth, "--bootstrap", "50", "--seed", "9", "--iou", "0.4"];
+        string[] common = ["--truth", truth, "--pred", "net=" + pred, "--pred", "same=" + truth, "--bootstrap", "50", "--bootstrap-seed", "9", "--iou", "0.4"];
         (int exit, string fullOut, _) = CliRunner.Run(["score", .. common, "--json", dir.File("full.json"), "--csv", dir.File("full.csv")]);
         Assert.Equal(0, exit);
         using (var doc = System.Text.Json.JsonDocument.Parse(File.ReadAllBytes(dir.File("full.json"))))

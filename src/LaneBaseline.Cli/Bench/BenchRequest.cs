@@ -28,5 +28,11 @@ internal sealed record BenchRequest
     public int Passes { get; init; } = 3;
 
     /// <summary>Most frames decoded (they are held in memory).</summary>
-    public int MaxFrames { get; init; } = 60;
+    public int MaxFrames { get; init; } = DefaultMaxFrames;
+
+    /// <summary>Most frames held when <c>--max-frames</c> is not given.</summary>
+    public const int DefaultMaxFrames = 60;
+
+    /// <summary>Most bytes the decoded frames and their resized copies may take together (default <see cref="BenchRunner.MemoryBudgetBytes"/>).</summary>
+    public long MemoryBudgetBytes { get; init; } = BenchRunner.MemoryBudgetBytes;
 }

@@ -28,7 +28,7 @@ internal sealed class BenchRunner
         this.stderr = stderr;
     }
 
-    /// <summary>Most bytes the decoded frames and their resized copies may take together (frames beyond are not decoded).</summary>
+    /// <summary>Default for <see cref="BenchRequest.MemoryBudgetBytes"/>: most bytes the decoded frames and their resized copies may take together (frames beyond are not decoded).</summary>
     public const long MemoryBudgetBytes = 1L << 30;
 
     public BenchResult Run()
@@ -158,7 +158,7 @@ internal sealed class BenchRunner
 
         if (frames.Count < request.MaxFrames && !WithinBudget(frames))
         {
-            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"bench: {frames.Count} frames kept within the {MemoryBudgetBytes >> 20} MiB memory budget for decoded and resized frames"));
+            stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"bench: {frames.Count} frames kept within the {request.MemoryBudgetBytes >> 20} MiB memory budget for decoded and resized frames"));
         }
 
         return TimingStats.From(decodeMs);
@@ -175,13 +175,13 @@ internal sealed class BenchRunner
         long largest = request.Sizes.Count > 0 ? request.Sizes.Max(s => (long)s.Width * s.Height * 3) : 0;
         long perFrame = frames.Max(f => (long)f.Frame.Total() * f.Frame.ElemSize());
         long copy = Math.Max(largest, perFrame);
-        return (frames.Count + 1) * (perFrame + copy) <= MemoryBudgetBytes;
+        return (frames.Count + 1) * (perFrame + copy) <= request.MemoryBudgetBytes;
     }
 
     private TimingStats RenderAndDecode(List<(string Key, Mat Frame)> frames)
     {
         (int w, int h) = request.Sizes.Count > 0 ? request.Sizes.MaxBy(s => (long)s.Width * s.Height) : (1280, 720);
-        int count = (int)Math.Clamp(MemoryBudgetBytes / (2L * w * h * 3), 1, request.RenderCount); // no more scenes than the frames kept
+        int count = (int)Math.Clamp(request.MemoryBudgetBytes / (2L * w * h * 3), 1, request.RenderCount); // no more scenes than the frames kept
         string dir = Path.Combine(Path.GetTempPath(), "lanebaseline-bench-" + Environment.ProcessId.ToString(CultureInfo.InvariantCulture) + "-" + Guid.NewGuid().ToString("N")[..8]);
         try
         {

@@ -32,7 +32,8 @@ internal static class AuditCommand
         Option<double> fps = new("--fps") { Description = "Frame rate of numbered sequences (temporal rules).", DefaultValueFactory = _ => 10.0 };
         Option<bool> stills = new("--stills") { Description = "The frames are independent stills (not sequences): the temporal rules (LBA-T) are off, and the summary says so." };
         Option<string?> summaryJson = new("--summary-json") { Description = "Also write the per-rule summary (findings, frames, limit, whether the rule ran) as JSON to this file." };
-        Option<int> overlays = new("--overlays") { Description = "Draw the N worst frames to OUT.overlays/.", DefaultValueFactory = _ => 0 };
+        Option<int> overlays = new("--overlay-count") { Description = "Draw the N worst frames to OUT.overlays/.", DefaultValueFactory = _ => 0 };
+        Option<int> legacyOverlays = SharedOptions.Deprecated<int>("--overlays", "--overlay-count"); // until 2026-12: --overlays names a folder on detect and render
         Option<int> mine = new("--mine") { Description = "Write the N frames most worth labelling to OUT.mine.txt (by disagreement with --baseline, else by findings).", DefaultValueFactory = _ => 0 };
         Option<string> failOn = new("--fail-on") { Description = "Quality gate: exit 4 when a finding of this severity or worse exists (none, warning, error).", DefaultValueFactory = _ => "none" };
         Option<int> minMaskRows = new("--min-mask-rows") { Description = "Fewest mask rows a lane id must cover to become a lane.", DefaultValueFactory = _ => 10 };
@@ -46,7 +47,7 @@ internal static class AuditCommand
 
         Command command = new("audit", "Sanity-check predicted lanes without truth: image geometry, temporal consistency, disagreement with the baseline. Writes ranked findings, a summary table, overlays of the worst frames and a labelling list.")
         {
-            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads, shard, partial, stills, summaryJson,
+            pred, baseline, output, frames, size, horizon, camera, speed, fps, overlays, mine, failOn, minMaskRows, report, generatedAt, threads, shard, partial, stills, summaryJson, legacyOverlays,
             SettingsFile.Option(),
         };
         SharedOptions.AddOutput(command, output, legacyOut, required: false);
@@ -61,10 +62,10 @@ internal static class AuditCommand
                 throw new UsageException("--fps must be a positive number");
             }
 
-            int n = parseResult.GetValue(overlays), m = parseResult.GetValue(mine), rows = parseResult.GetValue(minMaskRows);
+            int n = SharedOptions.GetRenamed(parseResult, overlays, legacyOverlays, stderr), m = parseResult.GetValue(mine), rows = parseResult.GetValue(minMaskRows);
             if (n < 0 || m < 0)
             {
-                throw new UsageException("--overlays and --mine must be 0 or more");
+                throw new UsageException("--overlay-count and --mine must be 0 or more");
             }
 
             if (rows < 2)
@@ -84,7 +85,7 @@ internal static class AuditCommand
             {
                 if (outPath is not null || n > 0 || m > 0 || gateSeverity is not null || reportPath is not null || parseResult.GetValue(summaryJson) is not null)
                 {
-                    throw new UsageException("--partial writes a state for 'merge': give -o, --overlays, --mine, --fail-on and --report to merge instead");
+                    throw new UsageException("--partial writes a state for 'merge': give -o, --overlay-count, --mine, --fail-on and --report to merge instead");
                 }
             }
             else if (outPath is null)
@@ -93,7 +94,7 @@ internal static class AuditCommand
             }
             else if (StandardStreams.IsDash(outPath) && (n > 0 || m > 0 || reportPath is not null))
             {
-                throw new UsageException("--overlays, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
+                throw new UsageException("--overlay-count, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
             }
 
             string? cameraPath = parseResult.GetValue(camera), sizeText = parseResult.GetValue(size);
@@ -101,6 +102,7 @@ internal static class AuditCommand
             OutputPaths.Check(
                 [("--pred", parseResult.GetValue(pred)), ("--baseline", parseResult.GetValue(baseline)), ("--camera", cameraPath)],
                 [("-o", outPath), ("--partial", partialPath), ("--report", reportPath), ("--mine", m > 0 ? findingsStem + ".mine.txt" : null)]);
+            OutputPaths.Check([], [("--overlay-count (its folder)", n > 0 ? findingsStem + ".overlays" : null)], outputsAreFiles: false);
             var settings = new AuditSettings
             {
                 Camera = cameraPath is null ? null : CameraModel.Load(cameraPath),
@@ -112,6 +114,7 @@ internal static class AuditCommand
             };
             string predPath = InputSpool.Input(parseResult.GetRequiredValue(pred));
             string? baselinePath = parseResult.GetValue(baseline) is string b ? InputSpool.Input(b) : null;
+            var job = new AuditJob { Pred = predPath, Baseline = baselinePath, MinMaskRows = rows, Settings = settings };
             DateTimeOffset at = ReportPage.ParseGeneratedAt(parseResult.GetValue(generatedAt));
             var clock = Stopwatch.StartNew();
             LaneSourceOpener opener = LaneInputs.Opener(settings.Size, rows, stderr);
@@ -122,7 +125,11 @@ internal static class AuditCommand
                 var header = new AuditStateHeader
                 {
                     Shard = shardSpec ?? new ShardSpec(0, 1),
-                    Job = JobOf(predPath, baselinePath, cameraPath, settings, sizeText, rows),
+                    Job = job with
+                    {
+                        PredSha256 = ContentHash.Of(predPath),
+                        BaselineSha256 = baselinePath is null ? null : ContentHash.Of(baselinePath),
+                    },
                     InputFrames = result.InputFrames,
                     Frames = result.Frames,
                     ComparedFrames = result.ComparedFrames,
@@ -141,9 +148,8 @@ internal static class AuditCommand
                 var outputs = new AuditOutputs(outPath!, parseResult.GetValue(frames), n, m, gateSeverity, reportPath is null ? null : (reportPath, at))
                 {
                     SummaryJson = parseResult.GetValue(summaryJson),
-                    Baseline = baselinePath is not null,
                 };
-                exit = AuditOutputWriter.Finish(stdout, stderr, result, outputs, predPath, baselinePath, settings, opener, settings.Camera is not null, cancellationToken);
+                exit = AuditOutputWriter.Finish(stdout, stderr, result, outputs, job, opener, cancellationToken);
             }
 
             stderr.WriteLine(F($"audit: {result.Frames} frames in {clock.Elapsed.TotalSeconds:0.###} s ({threadCount} thread(s))"));
@@ -151,22 +157,6 @@ internal static class AuditCommand
         })));
         return command;
     }
-
-    /// <summary>The job entries of a partial state: every input and option that changes a finding.</summary>
-    internal static List<KeyValuePair<string, string>> JobOf(string predPath, string? baselinePath, string? cameraPath, AuditSettings settings, string? sizeText, int minMaskRows) =>
-    [
-        new("pred", predPath),
-        new("pred_sha256", ContentHash.Of(predPath)),
-        new("baseline", baselinePath ?? string.Empty),
-        new("baseline_sha256", baselinePath is null ? string.Empty : ContentHash.Of(baselinePath)),
-        new("camera", cameraPath ?? string.Empty),
-        new("design_speed_kmh", settings.DesignSpeedKmh.ToString("R", CultureInfo.InvariantCulture)),
-        new("size", sizeText ?? string.Empty),
-        new("horizon_row", settings.HorizonRow?.ToString("R", CultureInfo.InvariantCulture) ?? string.Empty),
-        new("fps", settings.FramesPerSecond.ToString("R", CultureInfo.InvariantCulture)),
-        new("min_mask_rows", minMaskRows.ToString(CultureInfo.InvariantCulture)),
-        .. settings.Stills ? new[] { new KeyValuePair<string, string>("stills", "true") } : [],
-    ];
 
     private static AuditResult Run(
         TextWriter stderr,

@@ -18,11 +18,22 @@ internal static class BenchCommand
             Description = "Processing size WxH; repeat or separate by commas for several (frames are resized to each). Default: the frames' own size.",
             AllowMultipleArgumentsPerToken = false,
         };
-        Option<string> threads = new("--threads", "-j")
+        Option<int> threads = SharedOptions.Threads("Workers to measure: one pipeline per worker, OpenCV on one thread in each.");
+        threads.CustomParser = result =>
         {
-            Description = "Worker counts to measure, comma-separated (e.g. 1,2); one pipeline per worker, OpenCV on one thread in each.",
-            DefaultValueFactory = _ => Environment.ProcessorCount.ToString(CultureInfo.InvariantCulture),
+            // Until 2026-12 bench's --threads took a list: point to the option that takes it now.
+            string text = result.Tokens.Count > 0 ? result.Tokens[^1].Value : string.Empty;
+            if (int.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out int n))
+            {
+                return n;
+            }
+
+            result.AddError(text.Contains(',', StringComparison.Ordinal)
+                ? $"-j/--threads takes one worker count; measure several with --thread-counts {text}"
+                : $"-j/--threads: '{text}' is not a whole number");
+            return 0;
         };
+        Option<string?> threadCounts = new("--thread-counts") { Description = "Several worker counts to measure one after the other, comma-separated (e.g. 1,2), instead of -j." };
         Option<string> config = new("--config", "-c")
         {
             Description = "Preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file.",
@@ -30,12 +41,12 @@ internal static class BenchCommand
         };
         Option<int> warmup = new("--warmup") { Description = "Frame calls per worker before measuring (not recorded).", DefaultValueFactory = _ => 5 };
         Option<int> passes = new("--passes") { Description = "Measured passes over the frames.", DefaultValueFactory = _ => 3 };
-        Option<int> maxFrames = new("--max-frames") { Description = "Most frames read from --frames (they are held decoded in memory).", DefaultValueFactory = _ => 60 };
+        Option<int?> maxFrames = new("--max-frames") { Description = "Most frames read from --frames; they are held decoded in memory (60 when not given, and fewer when they would take more than 1 GiB)." };
         Option<string?> json = new("--json") { Description = "Also write the figures as JSON (docs/bench.md; '-': standard output, the table then goes to stderr)." };
 
         Command command = new("bench", "Measure per-stage latency, frames per second and memory beside the bare OpenCV primitives on the same frames.")
         {
-            frames, render, seed, size, threads, config, warmup, passes, maxFrames, json,
+            frames, render, seed, size, threads, threadCounts, config, warmup, passes, maxFrames, json,
         };
 
         command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
@@ -64,7 +75,7 @@ internal static class BenchCommand
                 throw new UsageException("--passes must be between 1 and 10000");
             }
 
-            int max = parse.GetValue(maxFrames);
+            int max = parse.GetValue(maxFrames) ?? BenchRequest.DefaultMaxFrames;
             if (max < 1)
             {
                 throw new UsageException("--max-frames must be at least 1");
@@ -78,7 +89,7 @@ internal static class BenchCommand
                 RenderCount = renderCount ?? 24,
                 Seed = parse.GetValue(seed),
                 Sizes = ParseSizes(parse.GetValue(size) ?? []),
-                Threads = ParseThreads(parse.GetValue(threads)!),
+                Threads = WorkerCounts(parse, threads, threadCounts),
                 Options = KnownPresets.Resolve(parse.GetValue(config)!, stderr),
                 ConfigSource = parse.GetValue(config)!,
                 Warmup = warm,
@@ -109,7 +120,7 @@ internal static class BenchCommand
         {
             foreach (string part in value.Split(',', StringSplitOptions.TrimEntries))
             {
-                (int w, int h) = RenderCommand.ParseSize(part);
+                (int w, int h) = CommandArguments.ParseFrameSize(part);
                 if (!sizes.Contains((w, h)))
                 {
                     sizes.Add((w, h));
@@ -120,6 +131,22 @@ internal static class BenchCommand
         return sizes;
     }
 
+    private static IReadOnlyList<int> WorkerCounts(ParseResult parse, Option<int> threads, Option<string?> threadCounts)
+    {
+        string? list = parse.GetValue(threadCounts);
+        if (list is null)
+        {
+            return [SharedOptions.CheckThreads(parse.GetValue(threads))];
+        }
+
+        if (parse.GetResult(threads) is { Implicit: false })
+        {
+            throw new UsageException("give -j/--threads or --thread-counts, not both");
+        }
+
+        return ParseThreads(list);
+    }
+
     internal static IReadOnlyList<int> ParseThreads(string text)
     {
         var list = new List<int>();
@@ -127,7 +154,7 @@ internal static class BenchCommand
         {
             if (!int.TryParse(part, NumberStyles.None, CultureInfo.InvariantCulture, out int n) || n < 1 || n > 256)
             {
-                throw new UsageException("--threads must be a comma-separated list of worker counts between 1 and 256 (e.g. 1,2), got '" + text + "'");
+                throw new UsageException("--thread-counts must be a comma-separated list of worker counts between 1 and 256 (e.g. 1,2), got '" + text + "'");
             }
 
             if (!list.Contains(n))

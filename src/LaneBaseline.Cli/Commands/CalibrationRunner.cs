@@ -13,9 +13,6 @@ using OpenCvSharp;
 
 namespace LaneBaseline.Cli.Commands;
 
-/// <summary>What a <c>tune --calibrate</c> run measured.</summary>
-internal sealed record CalibrationSummary(int Frames, int Lanes, int Positives, double EceBefore, double EceAfter);
-
 /// <summary>
 /// <c>tune --calibrate</c>: runs the pipeline of a preset (its calibration and tracking off) on labelled frames,
 /// marks each reported lane as a true positive at IoU 0.50 or not with the scorer's own matching

@@ -43,6 +43,3 @@ internal sealed record DetectRequest
 
     public string? CameraPath { get; init; }
 }
-
-/// <summary>What a detect run did.</summary>
-internal sealed record DetectSummary(int Written, int Lanes, int Resumed, IReadOnlyList<string> Skipped, string? ConfigPath, double MsPerFrame);

@@ -27,36 +27,41 @@ internal static class MergeCommand
         Option<double?> minF1 = new("--min-f1") { Description = "Score states only: quality gate, exit 4 when F1@0.50 is below this." };
         Option<int> threads = SharedOptions.Threads("Threads for the bootstrap (results do not depend on it).");
         Option<int> mine = new("--mine") { Description = "Audit states only: also write the N frames most worth labelling to OUT.mine.txt.", DefaultValueFactory = _ => 0 };
-        Option<int> overlays = new("--overlays") { Description = "Audit states only: draw the N worst frames to OUT.overlays/ (reads the predictions named in the states).", DefaultValueFactory = _ => 0 };
-        Option<string> frames = SharedOptions.Frames("Audit states only: frames root for --overlays.");
+        Option<int> overlays = new("--overlay-count") { Description = "Audit states only: draw the N worst frames to OUT.overlays/ (reads the predictions named in the states).", DefaultValueFactory = _ => 0 };
+        Option<int> legacyOverlays = SharedOptions.Deprecated<int>("--overlays", "--overlay-count"); // until 2026-12
+        Option<string> frames = SharedOptions.Frames("Audit states only: frames root for --overlay-count.");
         Option<string> failOn = new("--fail-on") { Description = "Audit states only: exit 4 when a finding of this severity or worse exists (none, warning, error).", DefaultValueFactory = _ => "none" };
         Option<string?> report = new("--report") { Description = "Audit states only: also write the findings page (HTML)." };
         Option<string?> generatedAt = new("--generated-at") { Description = "Audit states only: time printed in the --report page (ISO 8601)." };
+        Option<string?> summaryJson = new("--summary-json") { Description = "Audit states only: also write the per-rule summary as JSON to this file (as audit --summary-json)." };
 
         Command command = new("merge", "Join the outputs of sharded runs (score states, audit states or lane files) into the output of one unsharded run.")
         {
-            inputs, output, csv, maskCsv, minF1, threads, mine, overlays, frames, failOn, report, generatedAt,
+            inputs, output, csv, maskCsv, minF1, threads, mine, overlays, frames, failOn, report, generatedAt, summaryJson, legacyOverlays,
         };
         command.SetAction((parseResult, cancellationToken) => Task.FromResult(CommandRunner.Run(parseResult, (stdout, stderr) =>
         {
             string[] paths = parseResult.GetRequiredValue(inputs);
             string outPath = parseResult.GetRequiredValue(output);
             int threadCount = SharedOptions.CheckThreads(parseResult.GetValue(threads));
+            int overlayCount = SharedOptions.GetRenamed(parseResult, overlays, legacyOverlays, stderr);
             string outStem = outPath.EndsWith(".jsonl", StringComparison.OrdinalIgnoreCase) ? outPath[..^6] : outPath;
             OutputPaths.Check(
                 [.. paths.Select(p => ("input", (string?)p))],
-                [("-o", outPath), ("--csv", parseResult.GetValue(csv)), ("--mask-iou-csv", parseResult.GetValue(maskCsv)), ("--report", parseResult.GetValue(report)), ("--mine", parseResult.GetValue(mine) > 0 ? outStem + ".mine.txt" : null)]);
+                [("-o", outPath), ("--csv", parseResult.GetValue(csv)), ("--mask-iou-csv", parseResult.GetValue(maskCsv)), ("--report", parseResult.GetValue(report)), ("--summary-json", parseResult.GetValue(summaryJson)), ("--mine", parseResult.GetValue(mine) > 0 ? outStem + ".mine.txt" : null)]);
+            OutputPaths.Check([], [("--overlay-count (its folder)", overlayCount > 0 ? outStem + ".overlays" : null)], outputsAreFiles: false);
             InputKind[] kinds = [.. paths.Select(KindOf)];
             if (kinds.Distinct().Count() > 1)
             {
                 throw new UsageException("merge: give inputs of one kind (score states, audit states or lane files), not a mix");
             }
 
-            bool auditOptions = parseResult.GetValue(mine) != 0 || parseResult.GetValue(overlays) != 0 || parseResult.GetValue(frames) is not null
-                || parseResult.GetValue(failOn) != "none" || parseResult.GetValue(report) is not null || parseResult.GetValue(generatedAt) is not null;
+            bool auditOptions = parseResult.GetValue(mine) != 0 || overlayCount != 0 || parseResult.GetValue(frames) is not null
+                || parseResult.GetValue(failOn) != "none" || parseResult.GetValue(report) is not null || parseResult.GetValue(generatedAt) is not null
+                || parseResult.GetValue(summaryJson) is not null;
             if (kinds[0] != InputKind.AuditState && auditOptions)
             {
-                throw new UsageException("--mine, --overlays, --frames, --fail-on, --report and --generated-at apply to audit states only");
+                throw new UsageException("--mine, --overlay-count, --frames, --fail-on, --report, --generated-at and --summary-json apply to audit states only");
             }
 
             if (kinds[0] == InputKind.AuditState)
@@ -66,7 +71,7 @@ internal static class MergeCommand
                     throw new UsageException("--csv, --mask-iou-csv and --min-f1 apply to score states only");
                 }
 
-                return MergeAudit(stdout, stderr, paths, outPath, parseResult.GetValue(mine), parseResult.GetValue(overlays), parseResult.GetValue(frames), parseResult.GetValue(failOn)!, parseResult.GetValue(report), parseResult.GetValue(generatedAt), cancellationToken);
+                return MergeAudit(stdout, stderr, paths, outPath, parseResult.GetValue(mine), overlayCount, parseResult.GetValue(frames), parseResult.GetValue(failOn)!, parseResult.GetValue(report), parseResult.GetValue(generatedAt), parseResult.GetValue(summaryJson), cancellationToken);
             }
 
             if (kinds[0] == InputKind.ScoreState)
@@ -171,38 +176,26 @@ internal static class MergeCommand
         string failOn,
         string? reportPath,
         string? generatedAt,
+        string? summaryJson,
         CancellationToken cancellationToken)
     {
         AuditSeverity? gate = CommandArguments.ParseGate(failOn);
         if (mine < 0 || overlays < 0)
         {
-            throw new UsageException("--overlays and --mine must be 0 or more");
+            throw new UsageException("--overlay-count and --mine must be 0 or more");
         }
 
         if (StandardStreams.IsDash(outPath) && (mine > 0 || overlays > 0 || reportPath is not null))
         {
-            throw new UsageException("--overlays, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
+            throw new UsageException("--overlay-count, --mine and --report are written beside the findings file; give -o FILE instead of -o -");
         }
 
         DateTimeOffset at = Reports.ReportPage.ParseGeneratedAt(generatedAt);
         (AuditStateHeader header, AuditResult result) = AuditStateMerge.Merge(paths);
         stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"merge: {result.Frames} audited frames from {paths.Length} shard state(s)"));
-        string sizeText = header.JobValue("size") ?? string.Empty;
-        var settings = new AuditSettings { Size = LaneInputs.ParseSize(sizeText.Length == 0 ? null : sizeText, "size (from the state)"), Stills = header.JobValue("stills") == "true" };
-        int minMaskRows = int.TryParse(header.JobValue("min_mask_rows"), NumberStyles.None, CultureInfo.InvariantCulture, out int rows) ? rows : 10;
-        LaneSourceOpener opener = LaneInputs.Opener(settings.Size, minMaskRows, stderr);
-        string baseline = header.JobValue("baseline") ?? string.Empty;
-        var outputs = new AuditOutputs(outPath, framesRoot, overlays, mine, gate, reportPath is null ? null : (reportPath, at)) { Baseline = baseline.Length > 0 };
-        return AuditOutputWriter.Finish(
-            stdout,
-            stderr,
-            result,
-            outputs,
-            header.JobValue("pred") ?? string.Empty,
-            baseline.Length == 0 ? null : baseline,
-            settings,
-            opener,
-            !string.IsNullOrEmpty(header.JobValue("camera")),
-            cancellationToken);
+        AuditJob job = header.Job;
+        LaneSourceOpener opener = LaneInputs.Opener(job.Settings.Size, job.MinMaskRows, stderr);
+        var outputs = new AuditOutputs(outPath, framesRoot, overlays, mine, gate, reportPath is null ? null : (reportPath, at)) { SummaryJson = summaryJson };
+        return AuditOutputWriter.Finish(stdout, stderr, result, outputs, job, opener, cancellationToken);
     }
 }

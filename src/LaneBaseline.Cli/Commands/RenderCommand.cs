@@ -15,7 +15,7 @@ internal static class RenderCommand
         Option<string> legacyOut = SharedOptions.LegacyOut();
         Option<ulong> seed = new("--seed") { Description = "Seed of everything random.", DefaultValueFactory = _ => 1UL };
         Option<int> count = new("--count") { Description = "Number of scenes.", DefaultValueFactory = _ => 10 };
-        Option<string> size = new("--size") { Description = "Frame size WxH.", DefaultValueFactory = _ => "1280x720" };
+        Option<string?> size = new("--size") { Description = "Frame size WxH (1280x720 when neither it nor --camera is given)." };
         Option<string?> conditions = new("--conditions")
         {
             Description = "Comma-separated conditions for every scene, or 'none' (default: clean and each condition in turn). Known: " +
@@ -116,7 +116,7 @@ internal static class RenderCommand
             }
             else
             {
-                (int w, int h) = ParseSize(parseResult.GetValue(size)!);
+                (int w, int h) = CommandArguments.ParseFrameSize(parseResult.GetValue(size) ?? "1280x720");
                 camera = CameraModel.CreateDefault(w, h);
             }
 
@@ -136,15 +136,8 @@ internal static class RenderCommand
                 Threads = threadCount,
                 OverlayDir = parseResult.GetValue(overlays),
             };
-            if (File.Exists(options.OutDir))
-            {
-                throw new UsageException($"-o/--output {options.OutDir}: is a file; give a folder.");
-            }
-
-            if (options.OverlayDir is not null && File.Exists(options.OverlayDir))
-            {
-                throw new UsageException($"--overlays {options.OverlayDir}: is a file; give a folder.");
-            }
+            // A folder output that is a file, or lies under one, is bad input (exit 3) as in every other command.
+            OutputPaths.Check([], [("-o/--output", options.OutDir), ("--overlays", options.OverlayDir)], outputsAreFiles: false);
 
             var clock = Stopwatch.StartNew();
             int frames;
@@ -204,23 +197,5 @@ internal static class RenderCommand
         }
 
         return list;
-    }
-
-    internal static (int Width, int Height) ParseSize(string text)
-    {
-        string[] parts = text.Split('x', 'X');
-        if (parts.Length != 2 ||
-            !int.TryParse(parts[0], NumberStyles.None, CultureInfo.InvariantCulture, out int w) ||
-            !int.TryParse(parts[1], NumberStyles.None, CultureInfo.InvariantCulture, out int h))
-        {
-            throw new UsageException($"--size must look like 1280x720, not '{text}'.");
-        }
-
-        if (w < 64 || h < 64 || w > 8192 || h > 8192)
-        {
-            throw new UsageException($"--size {w}x{h}: each side must be between 64 and 8192 pixels.");
-        }
-
-        return (w, h);
     }
 }

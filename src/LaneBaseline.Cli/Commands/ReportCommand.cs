@@ -34,6 +34,7 @@ internal static class ReportCommand
             OutputPaths.Check(
                 [("--score", parseResult.GetValue(score)), ("--audit", parseResult.GetValue(audit)), ("--bench", parseResult.GetValue(bench)), ("--truth", parseResult.GetValue(truth)), .. OutputPaths.Preds(parseResult.GetValue(pred))],
                 [("--output", parseResult.GetValue(output))]);
+            OutputPaths.Check([], [("--output (its gallery folder)", OutputPaths.GalleryFolder(parseResult.GetValue(output), parseResult.GetValue(frames)))], outputsAreFiles: false);
             string? scorePath = parseResult.GetValue(score);
             string? auditPath = parseResult.GetValue(audit);
             if (scorePath is null && auditPath is null)

@@ -33,7 +33,8 @@ internal static class ScoreCommand
         Option<double?> tolerance = new("--tolerance-px") { Description = "Base point tolerance in pixels (default 20*width/1280)." };
         Option<string[]> iou = new("--iou") { Description = "Extra IoU thresholds to report, e.g. --iou 0.4 --iou 0.6 or --iou 0.4,0.6." };
         Option<int> bootstrap = new("--bootstrap") { Description = "Bootstrap resamples for 95 % intervals (0 disables).", DefaultValueFactory = _ => 1000 };
-        Option<ulong> seed = new("--seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
+        Option<ulong> seed = new("--bootstrap-seed") { Description = "Seed of the bootstrap resampling.", DefaultValueFactory = _ => 0UL };
+        Option<ulong> legacySeed = SharedOptions.Deprecated<ulong>("--seed", "--bootstrap-seed"); // until 2026-12: --seed means a scene or search seed (default 1) elsewhere
         Option<double?> minF1 = new("--min-f1") { Description = "Quality gate: exit 4 when F1@0.50 of any system is below this." };
         Option<string?> report = new("--report") { Description = "Also write the HTML report (as 'lanebaseline report') to this file." };
         Option<string> frames = SharedOptions.Frames("Folder of the frame images, for the report's worst-frame gallery (needs --report).");
@@ -60,7 +61,7 @@ internal static class ScoreCommand
         Command command = new("score", "Score predicted lanes against ground truth: IoU F1 at thresholds, mF1, point accuracy, per-tag breakdown, bootstrap intervals.")
         {
             truth, pred, json, csv, laneWidth, tolerance, iou, bootstrap, seed, minF1, report, frames, threads, shard, partial, camera, size, minMaskRows, maskCsv,
-            missing, extra, bootstrapUnit, gates, focus,
+            missing, extra, bootstrapUnit, gates, focus, legacySeed,
             SettingsFile.Option(),
         };
 
@@ -69,6 +70,7 @@ internal static class ScoreCommand
             OutputPaths.Check(
                 [("--truth", parseResult.GetValue(truth)), .. OutputPaths.Preds(parseResult.GetValue(pred)), ("--camera", parseResult.GetValue(camera))],
                 [("--json", parseResult.GetValue(json)), ("--csv", parseResult.GetValue(csv)), ("--report", parseResult.GetValue(report)), ("--partial", parseResult.GetValue(partial)), ("--mask-iou-csv", parseResult.GetValue(maskCsv))]);
+            OutputPaths.Check([], [("--report (its gallery folder)", OutputPaths.GalleryFolder(parseResult.GetValue(report), parseResult.GetValue(frames)))], outputsAreFiles: false);
             var settings = new ScoreSettings
             {
                 LaneWidthPx = parseResult.GetValue(laneWidth),
@@ -128,7 +130,7 @@ internal static class ScoreCommand
                 systems,
                 settings,
                 resamples,
-                parseResult.GetValue(seed),
+                SharedOptions.GetRenamed(parseResult, seed, legacySeed, stderr),
                 threadCount,
                 parseResult.GetValue(json),
                 parseResult.GetValue(csv),

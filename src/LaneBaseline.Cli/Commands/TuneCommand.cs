@@ -131,38 +131,3 @@ internal static class TuneCommand
         return d.UtcDateTime.ToString("yyyy-MM-dd'T'HH:mm:ss'Z'", CultureInfo.InvariantCulture);
     }
 }
-
-/// <summary>Everything one tune run needs, parsed and checked.</summary>
-internal sealed record TuneRequest
-{
-    public required string Frames { get; init; }
-
-    public required string Truth { get; init; }
-
-    public string? SpacePath { get; init; }
-
-    public required string ConfigSource { get; init; }
-
-    public int Budget { get; init; } = 40;
-
-    public ulong Seed { get; init; } = 1;
-
-    public string Objective { get; init; } = "f1";
-
-    public double HoldoutFraction { get; init; } = 0.3;
-
-    public string? HoldoutTruth { get; init; }
-
-    public bool AllowOverlap { get; init; }
-
-    public int Threads { get; init; } = 1;
-
-    public bool Resume { get; init; }
-
-    public required string Date { get; init; }
-
-    public required string Output { get; init; }
-}
-
-/// <summary>What a tune run measured (objective values).</summary>
-internal sealed record TuneSummary(double BaseTuning, double TunedTuning, double BaseHoldout, double TunedHoldout, int TuningFrames, int HoldoutFrames, bool Overlap);

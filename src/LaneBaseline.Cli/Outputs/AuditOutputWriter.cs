@@ -30,13 +30,12 @@ internal static class AuditOutputWriter
         TextWriter stderr,
         AuditResult result,
         AuditOutputs outputs,
-        string predPath,
-        string? baselinePath,
-        AuditSettings settings,
+        AuditJob job,
         LaneSourceOpener opener,
-        bool groundRules,
         CancellationToken cancellationToken)
     {
+        AuditSettings settings = job.Settings;
+        bool groundRules = settings.Camera is not null, baseline = job.Baseline is not null;
         string outPath = outputs.OutPath;
         using var findingsFile = new AtomicFile(outPath);
         AuditJsonWriter.Write(findingsFile.Stream, result);
@@ -57,7 +56,7 @@ internal static class AuditOutputWriter
         var drawn = new List<(int Rank, string Frame, string Path, byte[] Jpeg, int Width, int Height)>();
         if (outputs.Overlays > 0)
         {
-            WriteOverlays(stem + ".overlays", result, predPath, baselinePath, outputs.FramesRoot, settings, opener, outputs.Overlays, drawn, cancellationToken);
+            WriteOverlays(stem + ".overlays", result, job.Pred, job.Baseline, outputs.FramesRoot, settings, opener, outputs.Overlays, drawn, cancellationToken);
         }
 
         if (outputs.Report is (string reportPath, DateTimeOffset at))
@@ -75,7 +74,7 @@ internal static class AuditOutputWriter
         if (outputs.SummaryJson is string summaryPath)
         {
             using var summaryFile = new AtomicFile(summaryPath);
-            WriteSummaryJson(summaryFile.Stream, result, outPath, groundRules, settings.Stills, outputs.Baseline, settings.FramesPerSecond);
+            WriteSummaryJson(summaryFile.Stream, result, outPath, groundRules, settings.Stills, baseline, settings.FramesPerSecond);
             summaryFile.Commit();
         }
 
@@ -90,10 +89,20 @@ internal static class AuditOutputWriter
     }
 
     /// <summary>Whether a rule ran in this audit (temporal rules are off for stills, ground rules need a camera, the baseline rule a baseline).</summary>
-    private static bool Ran(AuditRuleInfo rule, bool groundRules, bool stills, bool baseline) =>
-        rule.Id.StartsWith("LBA-T", StringComparison.Ordinal) ? !stills
-        : rule.Id.StartsWith("LBA-G", StringComparison.Ordinal) ? groundRules
-        : !rule.Id.StartsWith("LBA-B", StringComparison.Ordinal) || baseline;
+    private static bool Ran(IAuditRule rule, bool groundRules, bool stills, bool baseline) => rule.Family switch
+    {
+        AuditRuleFamily.Temporal => !stills,
+        AuditRuleFamily.Ground => groundRules,
+        AuditRuleFamily.Baseline => baseline,
+        _ => true,
+    };
+
+    /// <summary>The ids of a family's rules as a range, e.g. <c>LBA-G01..G03</c>.</summary>
+    private static string IdRange(AuditRuleFamily family)
+    {
+        IAuditRule[] rules = [.. AuditRuleCatalogue.Rules.Where(r => r.Family == family)];
+        return rules[0].Info.Id + ".." + rules[^1].Info.Id[4..];
+    }
 
     /// <summary>Version of the summary JSON's layout (docs/schema/audit-summary.schema.json).</summary>
     internal const int SummarySchemaVersion = 1;
@@ -121,13 +130,14 @@ internal static class AuditOutputWriter
         }
 
         w.WriteStartArray("rules");
-        foreach (AuditRuleInfo rule in AuditRules.All)
+        foreach (IAuditRule r in AuditRuleCatalogue.Rules)
         {
+            AuditRuleInfo rule = r.Info;
             w.WriteStartObject();
             w.WriteString("id", rule.Id);
             w.WriteString("name", rule.Name);
             w.WriteString("severity", AuditJsonWriter.SeverityName(rule.Severity));
-            w.WriteBoolean("ran", Ran(rule, groundRules, stills, baseline));
+            w.WriteBoolean("ran", Ran(r, groundRules, stills, baseline));
             w.WriteNumber("findings", result.Findings.Count(f => f.Rule == rule.Id));
             w.WriteNumber("frames", result.Findings.Where(f => f.Rule == rule.Id).Select(f => f.Ordinal).Distinct().Count());
             w.WriteString("limit", rule.Limit);
@@ -160,13 +170,13 @@ internal static class AuditOutputWriter
         if (!groundRules)
         {
             o.WriteLine();
-            o.WriteLine("Ground-geometry rules (LBA-G01..G03) did not run: they need --camera camera.json.");
+            o.WriteLine("Ground-geometry rules (" + IdRange(AuditRuleFamily.Ground) + ") did not run: they need --camera camera.json.");
         }
 
         if (stills)
         {
             o.WriteLine();
-            o.WriteLine("Temporal rules (LBA-T01..T03) did not run: --stills says the frames are independent stills.");
+            o.WriteLine("Temporal rules (" + IdRange(AuditRuleFamily.Temporal) + ") did not run: --stills says the frames are independent stills.");
         }
     }
 
@@ -219,8 +229,10 @@ internal static class AuditOutputWriter
             if (rankOf.TryGetValue(ordinal, out int rank))
             {
                 baseRecords.TryGetValue(r.Frame, out LaneRecord? b);
-                int w = r.Width ?? b?.Width ?? settings.Size!.Value.Width;
-                int h = r.Height ?? b?.Height ?? settings.Size!.Value.Height;
+                // The size the audit used for this frame (AuditRun): the record's, the baseline record's, --size, the camera's.
+                (int w, int h) = r.Width is int rw && r.Height is int rh ? (rw, rh)
+                    : b?.Width is int bw && b.Height is int bh ? (bw, bh)
+                    : settings.SizeWithoutRecordSize() ?? throw new InvalidOperationException("an audited frame without a size");
                 string? image = framesRoot is null ? null : Path.Combine(framesRoot, r.Frame);
                 using Mat overlay = AuditOverlayPainter.Paint(image, r, b, w, h, byOrdinal.GetValueOrDefault(ordinal) ?? []);
                 string name = F($"{rank:000}_") + string.Concat(r.Frame.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '_'));

@@ -13,7 +13,4 @@ internal sealed record AuditOutputs(string OutPath, string? FramesRoot, int Over
 {
     /// <summary>Per-rule summary JSON (<c>--summary-json</c>), or null.</summary>
     public string? SummaryJson { get; init; }
-
-    /// <summary>Whether a baseline was given (the baseline rule ran).</summary>
-    public bool Baseline { get; init; }
 }

@@ -4,47 +4,6 @@ using LaneBaseline.Core.Metrics;
 
 namespace LaneBaseline.Core.Audit;
 
-/// <summary>Per-frame outcome used for ranking, mining and overlays.</summary>
-/// <param name="Frame">Frame key.</param>
-/// <param name="Ordinal">Position in the prediction file.</param>
-/// <param name="Score">Badness: 100 per error, 10 per warning, 1 per info, plus 10 x disagreement.</param>
-/// <param name="Disagreement">1 - F1@0.50 against the baseline's confident lanes, or null when not compared.</param>
-public sealed record AuditFrameScore(string Frame, long Ordinal, double Score, double? Disagreement);
-
-internal static class CameraSizeExtensions
-{
-    public static (int Width, int Height)? SizeOrNull(this Geometry.CameraModel? camera) =>
-        camera is null ? null : (camera.ImageWidth, camera.ImageHeight);
-}
-
-/// <summary>What an audit found.</summary>
-public sealed class AuditResult
-{
-    /// <summary>Frames audited.</summary>
-    public long Frames { get; internal set; }
-
-    /// <summary>Records in the prediction input, including those of other shards.</summary>
-    public long InputFrames { get; internal set; }
-
-    /// <summary>Frames compared with the baseline.</summary>
-    public long ComparedFrames { get; internal set; }
-
-    /// <summary>Findings, ranked: worst frame first, then frame order, severity, rule and lane.</summary>
-    public IReadOnlyList<AuditFinding> Findings { get; internal set; } = [];
-
-    /// <summary>Frame rank (1 = worst) of each finding, parallel to <see cref="Findings"/>.</summary>
-    public IReadOnlyList<int> Ranks { get; internal set; } = [];
-
-    /// <summary>Frames with findings or a baseline comparison, worst first.</summary>
-    public IReadOnlyList<AuditFrameScore> RankedFrames { get; internal set; } = [];
-
-    /// <summary>The frames most worth labelling: by disagreement with the baseline when compared, else by badness.</summary>
-    public IEnumerable<AuditFrameScore> Mine(int count) =>
-        (ComparedFrames > 0
-            ? RankedFrames.Where(f => f.Disagreement is not null).OrderByDescending(f => f.Disagreement!.Value).ThenBy(f => f.Ordinal)
-            : RankedFrames.Where(f => f.Score > 0).OrderByDescending(f => f.Score).ThenBy(f => f.Ordinal)).Take(count);
-}
-
 /// <summary>
 /// Audits a prediction source without truth: image rules and baseline agreement per frame (in parallel batches, one
 /// scorer per worker), temporal rules in file order. Streams the predictions (and the baseline, joined by frame key,
@@ -92,7 +51,7 @@ public sealed class AuditRun
         var findings = new List<AuditFinding>();
         var frames = new List<AuditFrameScore>();
         var result = new AuditResult();
-        var temporal = new TemporalRules(settings);
+        var temporal = new TemporalWindow();
         Geometry.GroundProjection? projection = settings.Camera?.ToProjection();
         AuditSettings imageSettings = settings.Camera is { } cam && settings.HorizonRow is null ? settings with { HorizonRow = cam.HorizonRowAtCentre() } : settings;
         try
@@ -112,7 +71,7 @@ public sealed class AuditRun
             var pending = new Dictionary<string, LaneRecord>(StringComparer.Ordinal);
             var batch = new List<(LaneRecord Pred, LaneRecord? Base, long Ordinal, int Width, int Height, bool BreakBefore)>(BatchSize);
             var perFrame = new List<AuditFinding>[BatchSize];
-            var agreement = new double?[BatchSize];
+            var views = new AuditFrame[BatchSize];
             long ordinal = 0;
             bool more = true, skipped = false; // skipped: a frame of another shard came since the last kept one
             while (more)
@@ -142,19 +101,15 @@ public sealed class AuditRun
                     {
                         (LaneRecord p, LaneRecord? b, long o, int width, int height, _) = batch[i];
                         var list = new List<AuditFinding>();
-                        ImageRules.Check(p, o, width, height, imageSettings, list);
-                        KinkRule.Check(p, o, width, height, imageSettings, list);
-                        if (projection is Geometry.GroundProjection gp)
+                        var frame = new AuditFrame(p, o, width, height, imageSettings)
                         {
-                            GroundRules.Check(p, o, gp, settings, list);
-                        }
-
-                        agreement[i] = null;
-                        if (b is not null)
-                        {
-                            agreement[i] = Compare(scorers[w], p, b, width, height, o, list);
-                        }
-
+                            Ground = projection is Geometry.GroundProjection gp ? AuditFrame.GroundLanesOf(p, gp) : null,
+                            Baseline = b is null ? null : Compare(scorers[w], p, b, width, height),
+                        };
+                        AuditRuleCatalogue.Check(frame, AuditRuleFamily.Image, list);
+                        AuditRuleCatalogue.Check(frame, AuditRuleFamily.Ground, list);
+                        AuditRuleCatalogue.Check(frame, AuditRuleFamily.Baseline, list);
+                        views[i] = frame;
                         perFrame[i] = list;
                     }
                 }
@@ -177,16 +132,18 @@ public sealed class AuditRun
                             temporal.Break();
                         }
 
-                        temporal.Push(batch[i].Pred, batch[i].Ordinal, perFrame[i]);
+                        temporal.Push(views[i]);
+                        AuditRuleCatalogue.Check(views[i], AuditRuleFamily.Temporal, perFrame[i]);
                     }
 
                     findings.AddRange(perFrame[i]);
-                    if (agreement[i] is not null)
+                    BaselineAgreement? agreement = views[i].Baseline;
+                    if (agreement is not null)
                     {
                         result.ComparedFrames++;
                     }
 
-                    frames.Add(new AuditFrameScore(batch[i].Pred.Frame, batch[i].Ordinal, 0, agreement[i] is double f1 ? 1 - f1 : null));
+                    frames.Add(new AuditFrameScore(batch[i].Pred.Frame, batch[i].Ordinal, 0, agreement is null ? null : 1 - agreement.F1));
                 }
 
                 result.Frames += n;
@@ -243,7 +200,7 @@ public sealed class AuditRun
     {
         (int w, int h) = p.Width is int pw && p.Height is int ph ? (pw, ph)
             : b?.Width is int bw && b.Height is int bh ? (bw, bh)
-            : settings.Size ?? settings.Camera.SizeOrNull() ?? throw BadInputException.At(file, p.LineNumber, "width", $"frame '{p.Frame}' has no size: give --size WxH (or a baseline with sizes)");
+            : settings.SizeWithoutRecordSize() ?? throw BadInputException.At(file, p.LineNumber, "width", $"frame '{p.Frame}' has no size: give --size WxH (or a baseline with sizes)");
         if (settings.Camera is { } c && (c.ImageWidth != w || c.ImageHeight != h))
         {
             throw BadInputException.At(file, p.LineNumber, "width", string.Create(CultureInfo.InvariantCulture, $"frame '{p.Frame}' is {w}x{h} but the camera file is for {c.ImageWidth}x{c.ImageHeight}"));
@@ -252,7 +209,8 @@ public sealed class AuditRun
         return (w, h);
     }
 
-    private double? Compare(FrameScorer scorer, LaneRecord pred, LaneRecord baseline, int width, int height, long ordinal, List<AuditFinding> sink)
+    /// <summary>The frame's agreement with the baseline's confident lanes, or null when the baseline has none here.</summary>
+    private BaselineAgreement? Compare(FrameScorer scorer, LaneRecord pred, LaneRecord baseline, int width, int height)
     {
         var confident = baseline.Lanes.Where(l => l.Score is not double s || s >= settings.BaselineMinScore).ToList();
         if (confident.Count == 0)
@@ -263,14 +221,7 @@ public sealed class AuditRun
         var reference = new LaneRecord { Frame = pred.Frame, Width = width, Height = height, Lanes = confident };
         FrameScore score = scorer.Score(reference, pred);
         int tp = score.TruePositives[scorer.HalfIndex];
-        double f1 = 2.0 * tp / (confident.Count + pred.Lanes.Count);
-        if (f1 < settings.MinAgreementF1)
-        {
-            sink.Add(new AuditFinding(pred.Frame, ordinal, AuditRules.BaselineDisagreement, AuditRules.Get(AuditRules.BaselineDisagreement).Severity, null, null, f1, settings.MinAgreementF1, "F1",
-                string.Create(CultureInfo.InvariantCulture, $"F1@0.50 {f1:0.###} against {confident.Count} confident baseline lane(s) ({tp} matched of {pred.Lanes.Count} predicted)")));
-        }
-
-        return f1;
+        return new BaselineAgreement(2.0 * tp / (confident.Count + pred.Lanes.Count), confident.Count, tp);
     }
 
     private bool InShard(string frame) => Shard is not Sharding.ShardSpec s || s.ContainsFrame(frame);

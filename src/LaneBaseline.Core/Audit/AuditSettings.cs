@@ -9,6 +9,9 @@ public sealed record AuditSettings
     /// <summary>Frame size for records that carry none (and no baseline record gives one), or null.</summary>
     public (int Width, int Height)? Size { get; init; }
 
+    /// <summary>The size of a record that carries none (and no baseline record gives one): <see cref="Size"/>, else the camera's, else null.</summary>
+    public (int Width, int Height)? SizeWithoutRecordSize() => Size ?? Camera.SizeOrNull();
+
     /// <summary>Frame rate of numbered sequences, frames per second (default 10, as <c>detect</c> and <c>render</c>).</summary>
     public double FramesPerSecond { get; init; } = 10;
 

@@ -1,8 +1,5 @@
 namespace LaneBaseline.Core.Metrics;
 
-/// <summary>One truth lane's mask IoU in a partial state: its id, the assigned prediction id (null when none) and IoU.</summary>
-public readonly record struct MaskLaneState(int TruthId, int? PredId, double Iou);
-
 /// <summary>One frame's mask IoU for one system in a partial state.</summary>
 /// <param name="System">Index of the system in the header.</param>
 /// <param name="Frame">The mask's relative path.</param>

@@ -2,32 +2,6 @@ using System.Globalization;
 
 namespace LaneBaseline.Core.Metrics;
 
-/// <summary>The metric a <see cref="ScoreGate"/> reads.</summary>
-public enum GateMetric
-{
-    /// <summary>F1 at an IoU threshold.</summary>
-    F1,
-
-    /// <summary>Precision at an IoU threshold.</summary>
-    Precision,
-
-    /// <summary>Recall at an IoU threshold.</summary>
-    Recall,
-
-    /// <summary>Mean F1 over 0.50:0.05:0.95.</summary>
-    MeanF1,
-
-    /// <summary>Row-sampled point accuracy.</summary>
-    Accuracy,
-}
-
-/// <summary>The outcome of one gate.</summary>
-/// <param name="Gate">The gate.</param>
-/// <param name="Value">The value compared (the interval bound for a paired gate); NaN when it could not be computed.</param>
-/// <param name="Passed">Whether the comparison holds.</param>
-/// <param name="Explanation">One line: what was compared.</param>
-public sealed record GateOutcome(ScoreGate Gate, double Value, bool Passed, string Explanation);
-
 /// <summary>
 /// A quality gate on <c>score</c> results (<c>--gate EXPR</c>): <c>SYSTEM:METRIC&gt;=VALUE</c>,
 /// <c>SYSTEM:TAG:METRIC&gt;=VALUE</c> or <c>diff(SYSTEM,BASE):METRIC&gt;=VALUE</c>, METRIC one of <c>f1@T</c>, <c>mf1</c>,

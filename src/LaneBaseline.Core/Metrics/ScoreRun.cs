@@ -4,39 +4,6 @@ using LaneBaseline.Core.Metrics.Coverage;
 
 namespace LaneBaseline.Core.Metrics;
 
-/// <summary>A prediction source to score: a display name and a lane file.</summary>
-/// <param name="Name">Name used in tables, JSON and CSV.</param>
-/// <param name="Path">Lane file path as the user gave it.</param>
-public sealed record ScoredSystem(string Name, string Path);
-
-/// <summary>What one system scored: overall, per tag, and the per-frame series for the bootstrap.</summary>
-public sealed class SystemScore
-{
-    internal SystemScore(ScoredSystem system, IReadOnlyList<IouThreshold> thresholds)
-    {
-        System = system;
-        Overall = new ScoreTally(thresholds);
-    }
-
-    /// <summary>The system.</summary>
-    public ScoredSystem System { get; }
-
-    /// <summary>All frames.</summary>
-    public ScoreTally Overall { get; }
-
-    /// <summary>Frames by truth tag, in ordinal key order.</summary>
-    public SortedDictionary<string, ScoreTally> ByTag { get; } = new(StringComparer.Ordinal);
-
-    /// <summary>Per-frame statistics in truth order.</summary>
-    public BootstrapSeries Series { get; } = new();
-
-    /// <summary>Per-frame statistics of each tag's frames in truth order (with the mF1 thresholds' TP), in ordinal tag order.</summary>
-    public SortedDictionary<string, BootstrapSeries> TagSeries { get; } = new(StringComparer.Ordinal);
-
-    /// <summary>How the prediction file covers the truth (whole files), or null when unknown (a merge of old states).</summary>
-    public FrameCoverage? Coverage { get; set; }
-}
-
 /// <summary>
 /// Scores one or several prediction files against a truth file, streaming frame by frame. A first pass validates
 /// every file completely (so bad input is reported before any output is written) and keeps only frame keys; the

@@ -129,35 +129,3 @@ public sealed class ScoreTally
     /// <summary>Unmatched truth lanes / truth lanes.</summary>
     public double PointFnRate => Metrics.Ratio(TruthLanes - PointMatched, TruthLanes);
 }
-
-/// <summary>TP/FP/FN and the rates derived from them.</summary>
-/// <param name="TruePositives">Matched pairs meeting the threshold.</param>
-/// <param name="FalsePositives">Predictions not counted as TP.</param>
-/// <param name="FalseNegatives">Truth lanes not counted as TP.</param>
-/// <param name="Precision">TP / (TP + FP), 0 when the denominator is 0 (1 when the set is all empty).</param>
-/// <param name="Recall">TP / (TP + FN), same rules.</param>
-/// <param name="F1">2PR / (P + R), same rules.</param>
-public readonly record struct DetectionCounts(long TruePositives, long FalsePositives, long FalseNegatives, double Precision, double Recall, double F1)
-{
-    /// <summary>Derives the counts and rates from TP and the lane totals.</summary>
-    public static DetectionCounts From(long tp, long predLanes, long truthLanes)
-    {
-        long fp = predLanes - tp, fn = truthLanes - tp;
-        if (predLanes == 0 && truthLanes == 0)
-        {
-            return new DetectionCounts(tp, fp, fn, 1.0, 1.0, 1.0);
-        }
-
-        double p = Metrics.Ratio(tp, tp + fp);
-        double r = Metrics.Ratio(tp, tp + fn);
-        double f1 = p + r == 0 ? 0.0 : 2 * p * r / (p + r);
-        return new DetectionCounts(tp, fp, fn, p, r, f1);
-    }
-}
-
-/// <summary>Small shared numeric rules.</summary>
-public static class Metrics
-{
-    /// <summary>a / b, or 0 when b is 0 (the specification's rule for every rate).</summary>
-    public static double Ratio(double a, double b) => b == 0 ? 0.0 : a / b;
-}

@@ -6,17 +6,6 @@ using System.Text;
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>
-/// Marks a property that <see cref="ShardJobKey"/> leaves out of a shard job's key, with the reason (it differs between the
-/// shards of one job, or it is checked on its own).
-/// </summary>
-[AttributeUsage(AttributeTargets.Property)]
-public sealed class NotInJobKeyAttribute(string reason) : Attribute
-{
-    /// <summary>Why the property is not part of the key.</summary>
-    public string Reason { get; } = reason;
-}
-
-/// <summary>
 /// The canonical text of a settings record for comparing the shards of one job: every public instance property that
 /// can be set (<c>init</c> or <c>set</c>), in name order, as <c>name=value</c> lines, unless it is marked
 /// <see cref="NotInJobKeyAttribute"/>. A new setting is in the key without anyone listing it, so <c>merge</c> can

@@ -396,8 +396,3 @@ public static class PresetLoader
     /// <summary>Formats a number for messages with the invariant culture.</summary>
     internal static string Num(double v) => v.ToString(CultureInfo.InvariantCulture);
 }
-
-/// <summary>Source-generated JSON metadata of the option records (camelCase; NaN and infinities as named literals).</summary>
-[JsonSourceGenerationOptions(PropertyNamingPolicy = JsonKnownNamingPolicy.CamelCase, NumberHandling = JsonNumberHandling.AllowNamedFloatingPointLiterals)]
-[JsonSerializable(typeof(PipelineOptions))]
-internal sealed partial class OptionsJsonContext : JsonSerializerContext;

@@ -5,47 +5,6 @@ using LaneBaseline.Core.Audit;
 
 namespace LaneBaseline.Reporting.Audit;
 
-/// <summary>One row of the per-rule table: how often a rule fired and on how many frames.</summary>
-/// <param name="Id">Rule id.</param>
-/// <param name="Name">Rule name.</param>
-/// <param name="Severity">Severity name (error, warning, info).</param>
-/// <param name="Findings">Findings of the rule.</param>
-/// <param name="Frames">Distinct frames with a finding of the rule.</param>
-public sealed record AuditRuleCount(string Id, string Name, string Severity, long Findings, long Frames);
-
-/// <summary>One of the first findings of the file (the file is ranked worst frame first).</summary>
-/// <param name="Rank">Frame rank (1 = worst).</param>
-/// <param name="Frame">Frame key.</param>
-/// <param name="Rule">Rule id.</param>
-/// <param name="Severity">Severity name.</param>
-/// <param name="Lane">Lane index, or null for the whole frame.</param>
-/// <param name="Value">Measured value.</param>
-/// <param name="Limit">The limit it broke.</param>
-/// <param name="Unit">Unit of value and limit.</param>
-/// <param name="Message">The finding's sentence.</param>
-public sealed record AuditTopFinding(long Rank, string Frame, string Rule, string Severity, int? Lane, double Value, double Limit, string Unit, string Message);
-
-/// <summary>What the report shows of an audit: counts per rule and the first findings.</summary>
-/// <param name="Source">The findings file as the user named it.</param>
-/// <param name="Findings">Number of findings (lines).</param>
-/// <param name="FlaggedFrames">Distinct frames with at least one finding.</param>
-/// <param name="Rules">Every catalogue rule in catalogue order, then rules unknown to this version in id order.</param>
-/// <param name="Top">The first findings of the file, in file (rank) order.</param>
-public sealed record AuditSummary(string Source, long Findings, long FlaggedFrames, IReadOnlyList<AuditRuleCount> Rules, IReadOnlyList<AuditTopFinding> Top)
-{
-    /// <summary>Thumbnails of the overlays <c>audit --overlays</c> drew, worst frame first (empty when none).</summary>
-    public IReadOnlyList<AuditThumbnail> Thumbnails { get; init; } = [];
-}
-
-/// <summary>A small JPEG of one overlay the audit drew, embedded in the page, and a link to the full-size file.</summary>
-/// <param name="Rank">1 for the worst frame.</param>
-/// <param name="Frame">Frame key.</param>
-/// <param name="Href">The full-size overlay relative to the page (URL-escaped), or null.</param>
-/// <param name="Jpeg">Encoded thumbnail.</param>
-/// <param name="Width">Thumbnail width, px.</param>
-/// <param name="Height">Thumbnail height, px.</param>
-public sealed record AuditThumbnail(int Rank, string Frame, string? Href, ReadOnlyMemory<byte> Jpeg, int Width, int Height);
-
 /// <summary>
 /// Reads an <c>audit</c> findings file (JSON Lines) one line at a time: memory holds the per-rule counters, the set of
 /// flagged frame keys and the first <c>top</c> findings, never the whole file. Every problem throws

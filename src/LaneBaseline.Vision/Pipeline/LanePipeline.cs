@@ -148,36 +148,11 @@ public sealed class LanePipeline : IDisposable
 
     private void Build(WorkingScale scaling)
     {
-        int width = scaling.Width, height = scaling.Height;
         DisposeStages();
         workspace?.Dispose();
-        int bandTop = Math.Clamp((int)Math.Round(options.Region.SearchTopFraction * height), 0, height - 2);
-        workspace = new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale)
-        {
-            Scaling = scaling,
-        };
+        workspace = StageFactory.CreateWorkspace(options, scaling);
         (double X, double Y)? vanishing = cameraVanishingPoint is (double vx, double vy) ? scaling.ToWorking(vx, vy) : null;
-        if (scaling.Enlarged)
-        {
-            stages.Add(new ResizeStage());
-        }
-
-        stages.Add(new GradientStage(options.Gradient));
-        stages.Add(new HoughStage(options.Hough));
-        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, vanishing));
-        stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
-        stages.Add(new BirdsEyeWarpStage());
-        stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));
-        stages.Add(new MarkingProfileStage(options.Gradient));
-        if (options.Calibration is not null)
-        {
-            stages.Add(new CalibrationStep(options.Calibration, options.Confidence.MinScore));
-        }
-
-        if (options.Tracking.Enabled)
-        {
-            stages.Add(new TemporalTracker(options.Tracking, options.Fit));
-        }
+        stages.AddRange(StageFactory.CreateStages(options, scaling, vanishing));
         LastStageMs = new double[stages.Count];
     }
 

@@ -21,7 +21,7 @@ public sealed class BenchCommandTests : IDisposable
     {
         string json = dir.File("bench.json");
         var (code, stdout, err) = CliRunner.Run(
-            "bench", "--render", "2", "--size", "128x96", "--threads", "1,2", "--warmup", "1", "--passes", "2", "--json", json);
+            "bench", "--render", "2", "--size", "128x96", "--thread-counts", "1,2", "--warmup", "1", "--passes", "2", "--json", json);
         Assert.True(code == 0, err);
         Assert.Contains("pipeline/floor", stdout, StringComparison.Ordinal);
 
@@ -114,6 +114,41 @@ public sealed class BenchCommandTests : IDisposable
     }
 
     [Fact]
+    public void FramesBeyondTheMemoryBudget_AreNotDecoded_AndANoteSaysHowManyWereKept()
+    {
+        // Issue 17 case 11: bench holds its frames decoded, so their number is bounded by bytes, not only by a count.
+        // Ten 64x48 BGR frames of 64*48*3 = 9,216 bytes each; every frame kept also needs a resized copy of the same
+        // size, so a budget of 5 * 2 * 9,216 bytes fits exactly five (arithmetic, common practice: 8-bit BGR = 3 B/px).
+        string frames = dir.File("small");
+        Directory.CreateDirectory(frames);
+        for (int i = 0; i < 10; i++)
+        {
+            using var m = new Mat(48, 64, MatType.CV_8UC3, new Scalar(40 + i, 60, 80));
+            Cv2.ImWrite(Path.Combine(frames, $"f{i:D2}.png"), m);
+        }
+
+        var request = new BenchRequest
+        {
+            FramesPath = frames,
+            Options = LaneBaseline.Core.Options.KnownPresets.Default,
+            ConfigSource = "default",
+            Warmup = 0,
+            Passes = 1,
+            MaxFrames = 60,
+            MemoryBudgetBytes = 5 * 2 * 64 * 48 * 3,
+        };
+        using var err = new StringWriter();
+        BenchResult result = new BenchRunner(request, err).Run();
+        Assert.Equal(["f00.png", "f01.png", "f02.png", "f03.png", "f04.png"], result.FrameKeys);
+        Assert.Contains("bench: 5 frames kept within the 0 MiB memory budget", err.ToString(), StringComparison.Ordinal);
+
+        // One byte less and only four fit.
+        using var err4 = new StringWriter();
+        BenchResult four = new BenchRunner(request with { MemoryBudgetBytes = request.MemoryBudgetBytes - 1 }, err4).Run();
+        Assert.Equal(4, four.FrameKeys.Count);
+    }
+
+    [Fact]
     public void MissingFrames_ExitsThreeNamingThePath_AndWritesNoJson()
     {
         string missing = dir.File("no-such-folder");
@@ -149,6 +184,8 @@ public sealed class BenchCommandTests : IDisposable
     [InlineData("--threads", "0", "--threads")]
     [InlineData("--threads", "1,x", "--threads")]
     [InlineData("--threads", "1,,2", "--threads")]
+    [InlineData("--thread-counts", "1,x", "--thread-counts")]
+    [InlineData("--thread-counts", "0,1", "--thread-counts")]
     [InlineData("--passes", "0", "--passes")]
     [InlineData("--render", "0", "--render")]
     public void BadOption_ExitsTwo(string option, string value, string expected)

@@ -18,7 +18,10 @@ public sealed class OutputSchemaTests : IDisposable
     private static readonly JsonSchema Camera = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "camera.schema.json")));
     private static readonly JsonSchema TuneLog = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "tune-log.schema.json")));
     private static readonly JsonSchema AuditSummary = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "audit-summary.schema.json")));
+    private static readonly JsonSchema AuditFindings = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "audit-findings.schema.json")));
+    private static readonly JsonSchema AuditState = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "audit-state.schema.json")));
     private static readonly JsonSchema ScoreState = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "score-state.schema.json")));
+    private static readonly JsonSchema OpenLabelOutput = JsonSchema.FromText(File.ReadAllText(RepoPaths.Combine("docs", "schema", "openlabel.schema.json")));
     private readonly TempDir dir = new();
 
     public void Dispose() => dir.Dispose();
@@ -79,6 +82,73 @@ public sealed class OutputSchemaTests : IDisposable
         Assert.False(Evaluate(Camera, doc.RootElement.GetRawText().Replace("\"mount_height_m\"", "\"mountHeightM\"", StringComparison.Ordinal)));
         Assert.False(Evaluate(Camera, doc.RootElement.GetRawText().Replace("\"ground_x_m\"", "\"groundXM\"", StringComparison.Ordinal)));
         Assert.Equal(Core.Geometry.CameraModel.Load(cam), Core.Geometry.CameraModel.Parse(File.ReadAllText(cam), "camera.json"));
+    }
+
+    // Issue 16: every line of audit's findings file follows docs/schema/audit-findings.schema.json (snake_case), and every
+    // line of an audit shard state follows docs/schema/audit-state.schema.json (its header names the tool and the
+    // schema version); both schemas can fail.
+    [Fact]
+    public void AuditFindingsAndState_FollowTheirSchemas()
+    {
+        string truth = RepoPaths.Combine("sample-frames", "truth.lanes.jsonl"), camera = RepoPaths.Combine("sample-frames", "camera.json");
+        string pred = dir.File("pred.lanes.jsonl");
+        // A prediction that trips image, temporal and ground rules: every lane of every other frame shifted 60 px.
+        int n = 0;
+        File.WriteAllLines(pred, File.ReadLines(truth).Select(line => n++ % 2 == 0 ? line : System.Text.RegularExpressions.Regex.Replace(line, @"\[(\d+(?:\.\d+)?),", m => "[" + (double.Parse(m.Groups[1].Value, System.Globalization.CultureInfo.InvariantCulture) + 60).ToString(System.Globalization.CultureInfo.InvariantCulture) + ",")));
+        string findings = dir.File("f.jsonl"), state = dir.File("a0.state");
+        (int exit, _, string err) = CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "--camera", camera, "-o", findings);
+        Assert.True(exit is 0 or 4, err);
+        string[] lines = File.ReadAllLines(findings);
+        Assert.True(lines.Length >= 10, "expected findings from the shifted lanes, got " + lines.Length);
+        for (int i = 0; i < lines.Length; i++)
+        {
+            using JsonDocument line = ValidText(AuditFindings, lines[i], "findings line " + (i + 1));
+            AssertSnakeCase(line.RootElement, "findings line " + (i + 1));
+        }
+
+        Assert.False(Evaluate(AuditFindings, lines[0].Replace("\"severity\":\"", "\"severity\":\"x", StringComparison.Ordinal)));
+        Assert.False(Evaluate(AuditFindings, lines[0].Replace("\"rank\":", "\"Rank\":", StringComparison.Ordinal)));
+
+        (exit, _, err) = CliRunner.Run("audit", "--pred", pred, "--baseline", truth, "--camera", camera, "--shard", "0/2", "--partial", state);
+        Assert.True(exit == 0, err);
+        string[] stateLines = File.ReadAllLines(state);
+        Assert.Contains(stateLines, l => l.Contains("\"t\":\"finding\"", StringComparison.Ordinal));
+        for (int i = 0; i < stateLines.Length; i++)
+        {
+            using JsonDocument line = ValidText(AuditState, stateLines[i], "state line " + (i + 1));
+            if (i == 0)
+            {
+                Assert.Equal("lanebaseline", line.RootElement.GetProperty("tool").GetString());
+                Assert.Equal(2, line.RootElement.GetProperty("schema_version").GetInt32());
+                Assert.Equal(JsonValueKind.Object, line.RootElement.GetProperty("job").GetProperty("settings").GetProperty("camera").ValueKind);
+            }
+        }
+
+        Assert.False(Evaluate(AuditState, stateLines[0].Replace("\"frames_per_second\"", "\"framesPerSecond\"", StringComparison.Ordinal)));
+        Assert.False(Evaluate(AuditState, stateLines[0].Replace("\"schema_version\":2", "\"schema_version\":3", StringComparison.Ordinal)));
+    }
+
+    // Issue 16: convert's JSON output (ASAM OpenLABEL 1.0.0) follows docs/schema/openlabel.schema.json, keys in
+    // snake_case, the producer named by metadata.annotator and the version by OpenLABEL's own metadata.schema_version
+    // (the standard's root holds only "openlabel", so no root "tool"); the schema can fail (a camelCase key, a second
+    // root key). Source: ASAM OpenLABEL 1.0.0 (root "openlabel", metadata.schema_version, poly2d name/val/mode/closed).
+    [Fact]
+    public void OpenLabelJson_FromConvert_FollowsTheSchema()
+    {
+        string lanes = dir.File("in.lanes.jsonl"), json = dir.File("out.json");
+        File.WriteAllText(lanes, string.Join("\n",
+            "{\"frame\":\"seq/000001.png\",\"width\":640,\"height\":360,\"tags\":[\"night\"],\"lanes\":[{\"points\":[[100,359],[300,180]],\"slot\":-1,\"score\":0.75,\"kind\":\"dashed\"},{\"points\":[[540,359],[340,180]]}]}",
+            "{\"frame\":\"seq/000002.png\",\"width\":640,\"height\":360,\"lanes\":[]}") + "\n");
+        (int exit, _, string err) = CliRunner.Run("convert", lanes, "--to", "openlabel", "-o", json);
+        Assert.True(exit == 0, err);
+        using JsonDocument doc = Valid(OpenLabelOutput, json);
+        JsonElement metadata = doc.RootElement.GetProperty("openlabel").GetProperty("metadata");
+        Assert.Equal("lanebaseline", metadata.GetProperty("annotator").GetString());
+        Assert.Equal("1.0.0", metadata.GetProperty("schema_version").GetString());
+        Assert.Equal(2, doc.RootElement.GetProperty("openlabel").GetProperty("objects").EnumerateObject().Count());
+        string text = doc.RootElement.GetRawText();
+        Assert.False(Evaluate(OpenLabelOutput, text.Replace("\"frame_properties\"", "\"frameProperties\"", StringComparison.Ordinal)));
+        Assert.False(Evaluate(OpenLabelOutput, "{\"tool\":\"lanebaseline\"," + text[1..]));
     }
 
     // Issue 16: audit --summary-json follows docs/schema/audit-summary.schema.json (tool, schema_version, snake_case),

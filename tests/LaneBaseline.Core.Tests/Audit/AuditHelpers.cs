@@ -18,7 +18,7 @@ internal static class AuditHelpers
     public static List<AuditFinding> Check(LaneRecord record, AuditSettings? settings = null)
     {
         var sink = new List<AuditFinding>();
-        ImageRules.Check(record, 0, record.Width!.Value, record.Height!.Value, settings ?? new AuditSettings(), sink);
+        AuditRuleCatalogue.Check(new AuditFrame(record, 0, record.Width!.Value, record.Height!.Value, settings ?? new AuditSettings()), AuditRuleFamily.Image, sink);
         return sink;
     }
 

@@ -20,7 +20,8 @@ public sealed class GroundRuleTests(ITestOutputHelper output)
     {
         var sink = new List<AuditFinding>();
         AuditSettings settings = s ?? WithCamera;
-        GroundRules.Check(r, 0, settings.Camera!.ToProjection(), settings, sink);
+        var frame = new AuditFrame(r, 0, r.Width!.Value, r.Height!.Value, settings) { Ground = AuditFrame.GroundLanesOf(r, settings.Camera!.ToProjection()) };
+        AuditRuleCatalogue.Check(frame, AuditRuleFamily.Ground, sink);
         return sink;
     }
 

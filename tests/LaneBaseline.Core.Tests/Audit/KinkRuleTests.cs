@@ -1,4 +1,5 @@
 using LaneBaseline.Core.Audit;
+using LaneBaseline.Core.Audit.Rules;
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Testing;
@@ -47,7 +48,7 @@ public sealed class KinkRuleTests(ITestOutputHelper output)
             {
                 LaneRecord clean = SyntheticRoad.Frame(scene, s, f);
                 var sink = new List<AuditFinding>();
-                KinkRule.Check(clean, f, 1280, 720, settings, sink);
+                new KinkRule().Check(new AuditFrame(clean, f, 1280, 720, settings), sink);
                 frames++;
                 flagged += sink.Count > 0 ? 1 : 0;
                 for (int i = 0; i < clean.Lanes.Count; i++)
@@ -59,7 +60,7 @@ public sealed class KinkRuleTests(ITestOutputHelper output)
 
                     var edited = clean.Lanes.Select((l, j) => j == i ? Kinked(l) : l).ToList();
                     var kinkSink = new List<AuditFinding>();
-                    KinkRule.Check(AuditHelpers.With(clean, edited), f, 1280, 720, settings, kinkSink);
+                    new KinkRule().Check(new AuditFrame(AuditHelpers.With(clean, edited), f, 1280, 720, settings), kinkSink);
                     lanes++;
                     found += kinkSink.Any(x => x.Rule == AuditRules.Kink && x.Lane == i) ? 1 : 0;
                 }
@@ -95,13 +96,24 @@ public sealed class KinkRuleTests(ITestOutputHelper output)
 
         LaneRecord R(List<LanePoint> pts) => new() { Frame = "a/000001.png", Width = 1280, Height = 720, Lanes = [new Lane { Points = pts, Slot = 1 }] };
         var quiet = new List<AuditFinding>();
-        KinkRule.Check(R(straight), 0, 1280, 720, settings, quiet);
+        new KinkRule().Check(new AuditFrame(R(straight), 0, 1280, 720, settings), quiet);
         var loud = new List<AuditFinding>();
-        KinkRule.Check(R(corner), 0, 1280, 720, settings, loud);
+        new KinkRule().Check(new AuditFrame(R(corner), 0, 1280, 720, settings), loud);
         Assert.Empty(quiet);
         AuditFinding f = Assert.Single(loud);
         Assert.Equal(AuditRules.Kink, f.Rule);
         Assert.InRange(f.Value, 80, 100);
+
+        // 30 copies of the corner in one frame: the catalogue lists 20 kink findings and one that counts the other 10,
+        // as for every one-frame rule (InputLimits.MaxFindingsPerFrameAndRule; the corner fires once per lane, above).
+        var many = new LaneRecord { Frame = "a/000001.png", Width = 1280, Height = 720, Lanes = [.. Enumerable.Range(0, 30).Select(_ => new Lane { Points = corner })] };
+        var capped = new List<AuditFinding>();
+        AuditRuleCatalogue.Check(new AuditFrame(many, 0, 1280, 720, settings), AuditRuleFamily.Image, capped);
+        var kinks = capped.Where(x => x.Rule == AuditRules.Kink).ToList();
+        Assert.Equal(21, kinks.Count);
+        Assert.Equal(10, kinks[^1].Value);
+        Assert.Null(kinks[^1].Lane);
+        Assert.Equal("10 more findings of LBA-I08 in this frame (at most 20 per frame and rule are listed)", kinks[^1].Message);
     }
 }
 
@@ -124,7 +136,7 @@ public sealed class CrossingRowTests
             ],
         };
         var sink = new List<AuditFinding>();
-        ImageRules.Check(r, 0, 1280, 720, new AuditSettings { HorizonRow = 200 }, sink);
+        AuditRuleCatalogue.Check(new AuditFrame(r, 0, 1280, 720, new AuditSettings { HorizonRow = 200 }), AuditRuleFamily.Image, sink);
         AuditFinding f = Assert.Single(sink, x => x.Rule == AuditRules.LanesCross);
         Assert.DoesNotContain("NaN", f.Message, StringComparison.Ordinal);
         Assert.Matches("near row 50[0-2] ", f.Message);

@@ -175,7 +175,7 @@ public sealed class InputLimitTests
             .Select((a, b, y0, y1) => Lanes.Of((a, y0), (b, y1)));
         Gen.Select(lane.Array[0, 40], Gen.Double[1, 60]).Sample((lanes, gap) =>
         {
-            var kept = ImageRules.PairsWithinX(lanes, gap).ToHashSet();
+            var kept = Core.Audit.Rules.NearDuplicateRule.PairsWithinX(lanes, gap).ToHashSet();
             for (int i = 0; i < lanes.Length; i++)
             {
                 for (int j = i + 1; j < lanes.Length; j++)
@@ -192,7 +192,7 @@ public sealed class InputLimitTests
                 }
             }
 
-            Assert.Equal(kept.OrderBy(p => p).ToList(), ImageRules.PairsWithinX(lanes, gap));
+            Assert.Equal(kept.OrderBy(p => p).ToList(), Core.Audit.Rules.NearDuplicateRule.PairsWithinX(lanes, gap));
         });
     }
 

@@ -31,7 +31,7 @@ public sealed class StageCatalogueTests
         Assert.Equal(names.Count, names.Distinct(StringComparer.Ordinal).Count());
         Assert.True(
             stageTypes.Length == names.Count,
-            $"{stageTypes.Length} stage classes ({string.Join(", ", stageTypes.Select(t => t.Name))}) but the pipeline builds {names.Count} ({string.Join(", ", names)}): register the new stage in LanePipeline.Build");
+            $"{stageTypes.Length} stage classes ({string.Join(", ", stageTypes.Select(t => t.Name))}) but the pipeline builds {names.Count} ({string.Join(", ", names)}): register the new stage in StageFactory.CreateStages");
     }
 
     [Fact]

@@ -12,18 +12,15 @@ public sealed class StageTests
 {
     private const int W = 320, H = 180;
 
-    private static FrameWorkspace Workspace(PipelineOptions o, int bandTop) =>
-        new(W, H, o.Warp.WidthPx, o.Warp.HeightPx, bandTop, o.Hough.MaxSegments, o.Hough.ImageScale);
+    // The workspace and stages are built by the pipeline's own factory, at the frame's size (no enlargement), so these
+    // checks run exactly the stages detect runs, in its order.
+    private static FrameWorkspace Workspace(PipelineOptions o) => StageFactory.CreateWorkspace(o, WorkingScale.For(W, H, 0));
 
     private static void RunUpTo(FrameWorkspace ws, PipelineOptions o, Mat frame, int stages)
     {
         ws.Frame = frame;
-        IFrameStage[] all =
-        [
-            new GradientStage(o.Gradient), new HoughStage(o.Hough), new RegionStage(o.Region, o.Warp, false),
-            new ColorThresholdStage(o.Color, o.Gradient), new BirdsEyeWarpStage(),
-            new SlidingWindowFitStage(o.Search, o.Fit, o.Confidence),
-        ];
+        List<IFrameStage> all = StageFactory.CreateStages(o, WorkingScale.For(W, H, 0), null);
+        Assert.Equal(["gradient", "hough", "region", "color", "warp", "search"], all.Take(6).Select(s => s.Name));
         for (int i = 0; i < stages; i++)
         {
             all[i].Process(ws);
@@ -39,7 +36,7 @@ public sealed class StageTests
     public void Hough_BlankFrame_FindsNoSegments()
     {
         var o = new PipelineOptions();
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         RunUpTo(ws, o, frame, 2);
         Assert.Equal(0, ws.Hough.SegmentCount);
@@ -53,7 +50,7 @@ public sealed class StageTests
         // the 5x5 blur widens them by about 1 px, the half-resolution Hough quantises to 2 px and its 1-degree
         // angle step lets a segment drift by up to another 1-2 px along its length (common practice).
         var o = new PipelineOptions();
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         Cv2.Line(frame, new Point(60, 179), new Point(150, 70), Scalar.All(230), 3);
         RunUpTo(ws, o, frame, 2);
@@ -75,7 +72,7 @@ public sealed class StageTests
     {
         // hough.minAngleDeg (10°) rejects horizontal clutter such as shadows across the road or the horizon.
         var o = new PipelineOptions();
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         Cv2.Line(frame, new Point(20, 120), new Point(300, 125), Scalar.All(230), 3);
         RunUpTo(ws, o, frame, 2);
@@ -86,7 +83,7 @@ public sealed class StageTests
     public void Region_WithoutLineEvidence_FallsBackToThePresetPoint()
     {
         var o = new PipelineOptions();
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         RunUpTo(ws, o, frame, 3);
         Assert.Equal(VanishingSource.Preset, ws.Region.VanishingSource);
@@ -99,7 +96,7 @@ public sealed class StageTests
     {
         // A bright bar above the horizon (sky) and one below: only the one inside the region may give evidence.
         var o = new PipelineOptions();
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         Cv2.Line(frame, new Point(100, 10), new Point(110, 60), Scalar.All(230), 4);    // above the preset horizon (90)
         Cv2.Line(frame, new Point(100, 179), new Point(140, 120), Scalar.All(230), 5);  // on the road
@@ -116,7 +113,7 @@ public sealed class StageTests
         // The ridge gate needs a darker road on both sides within two marking widths: a bright patch much wider
         // than a marking (a sunlit area, a white car roof) must not produce evidence in its interior.
         var o = new PipelineOptions();
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         Cv2.Rectangle(frame, new Rect(100, 130, 120, 50), Scalar.All(230), -1);
         RunUpTo(ws, o, frame, 4);
@@ -133,7 +130,7 @@ public sealed class StageTests
         // is atan2(60, 90) = 33.7 degrees from the horizontal (56.3 from the vertical), beyond the 8 + 12 * 0.6 = 15.2
         // degree tolerance, so the streak is cleared; the line through the vanishing point is kept.
         var o = new PipelineOptions();
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         Cv2.Line(frame, new Point(60, 179), new Point(160, 90), Scalar.All(230), 4);  // through the preset point (160, 90)
         Cv2.Line(frame, new Point(250, 115), new Point(250, 179), Scalar.All(230), 4); // vertical streak
@@ -150,7 +147,7 @@ public sealed class StageTests
 
         // With the test switched off the same streak is evidence: the check above is the orientation test's doing.
         var off = o with { Gradient = o.Gradient with { OrientationToleranceDeg = 90 } };
-        using FrameWorkspace ws2 = Workspace(off, 60);
+        using FrameWorkspace ws2 = Workspace(off);
         RunUpTo(ws2, off, frame, 4);
         using Mat streak2 = new Mat(ws2.Color.Evidence, new Rect(240, 125, 21, 50));
         Assert.True(Cv2.CountNonZero(streak2) > 50);
@@ -168,7 +165,7 @@ public sealed class StageTests
         // gives gains near (54.7 / 20, 54.7 / 56, 54.7 / 88) = (2.73, 0.98, 0.62) (derived), which make both greys
         // achromatic again: no yellow evidence inside the patch.
         var o = new PipelineOptions();
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(20, 56, 88));
         Cv2.Rectangle(frame, new Rect(60, 168, 200, 12), new Scalar(28, 77, 121), -1);
         RunUpTo(ws, o, frame, 4);
@@ -182,7 +179,7 @@ public sealed class StageTests
 
         // Without the gains the cast patch is "yellow paint": the check above is the grey world's doing.
         var off = o with { Color = o.Color with { GreyWorld = false } };
-        using FrameWorkspace ws2 = Workspace(off, 60);
+        using FrameWorkspace ws2 = Workspace(off);
         RunUpTo(ws2, off, frame, 4);
         using Mat inner2 = new Mat(ws2.Color.Evidence, new Rect(100, 170, 120, 8));
         Assert.True(Cv2.CountNonZero(inner2) > 400);
@@ -210,9 +207,9 @@ public sealed class StageTests
 
         Cv2.Line(frame, new Point(60, 179), new Point(160, 90), Scalar.All(42), 6);  // through the preset point
         var off = o with { Color = o.Color with { ClaheMaxRoadLightness = 0, ClaheMinVeilLightness = 255 } };
-        using FrameWorkspace plain = Workspace(off, 60);
+        using FrameWorkspace plain = Workspace(off);
         RunUpTo(plain, off, frame, 4);
-        using FrameWorkspace equalised = Workspace(o, 60);
+        using FrameWorkspace equalised = Workspace(o);
         RunUpTo(equalised, o, frame, 4);
         Assert.False(plain.Color.Equalised);
         Assert.True(equalised.Color.Equalised);
@@ -223,7 +220,7 @@ public sealed class StageTests
 
         // A road of ordinary lightness (grey 100-108) is neither dark nor veiled: no equalisation.
         using var day = new Mat(H, W, MatType.CV_8UC3, Scalar.All(104));
-        using FrameWorkspace dayWs = Workspace(o, 60);
+        using FrameWorkspace dayWs = Workspace(o);
         RunUpTo(dayWs, o, day, 4);
         Assert.False(dayWs.Color.Equalised);
     }
@@ -242,7 +239,7 @@ public sealed class StageTests
         Cv2.Circle(frame, new Point(250, 50), 3, Scalar.All(255), -1);                    // street lamp
         Cv2.Line(frame, new Point(250, 115), new Point(250, 179), Scalar.All(200), 4);   // its reflection
         Cv2.Line(frame, new Point(60, 179), new Point(160, 90), Scalar.All(200), 4);     // a lane line
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         RunUpTo(ws, o, frame, 4);
         Assert.Equal(160, ws.Region.VanishingX, 6);
         using (Mat streak = new Mat(ws.Color.Evidence, new Rect(240, 125, 21, 50)))
@@ -254,7 +251,7 @@ public sealed class StageTests
 
         // With the test off (lightSourceLightness 255) the same streak is evidence.
         var off = o with { Color = o.Color with { LightSourceLightness = 255 } };
-        using FrameWorkspace ws2 = Workspace(off, 60);
+        using FrameWorkspace ws2 = Workspace(off);
         RunUpTo(ws2, off, frame, 4);
         using Mat streak2 = new Mat(ws2.Color.Evidence, new Rect(240, 125, 21, 50));
         Assert.True(Cv2.CountNonZero(streak2) > 50);
@@ -266,7 +263,7 @@ public sealed class StageTests
         // Lines through the vanishing point are images of road lines parallel to the vehicle; the warp must make them
         // vertical: the bird's-eye x of two points of such a line agree (projective geometry, Hartley & Zisserman 2.3).
         var o = new PipelineOptions();
-        using FrameWorkspace ws = Workspace(o, 60);
+        using FrameWorkspace ws = Workspace(o);
         using var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(80, 80, 80));
         RunUpTo(ws, o, frame, 3);
         double vx = ws.Region.VanishingX, vy = ws.Region.VanishingY;

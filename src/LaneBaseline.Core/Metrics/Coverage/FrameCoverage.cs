@@ -1,25 +1,5 @@
 namespace LaneBaseline.Core.Metrics.Coverage;
 
-/// <summary>What <c>score</c> does with truth frames that have no prediction record (<c>--missing</c>).</summary>
-public enum MissingFramePolicy
-{
-    /// <summary>Scored as predicting no lanes (docs/metrics.md), with a warning line.</summary>
-    Empty,
-
-    /// <summary>Bad input (exit 3).</summary>
-    Error,
-}
-
-/// <summary>What <c>score</c> does with prediction records of frames the truth lacks (<c>--extra</c>).</summary>
-public enum ExtraFramePolicy
-{
-    /// <summary>Left out of the scores, with a warning line.</summary>
-    Ignore,
-
-    /// <summary>Bad input (exit 3).</summary>
-    Error,
-}
-
 /// <summary>
 /// How well one prediction file covers the truth: counted over the whole files (every shard sees the same numbers).
 /// </summary>

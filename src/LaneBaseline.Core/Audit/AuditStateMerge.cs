@@ -1,150 +1,8 @@
-using System.Buffers;
 using System.Globalization;
-using System.Text.Encodings.Web;
 using System.Text.Json;
 using LaneBaseline.Core.Sharding;
 
 namespace LaneBaseline.Core.Audit;
-
-/// <summary>What a partial audit state says about the shard and the job that wrote it.</summary>
-public sealed record AuditStateHeader
-{
-    /// <summary>Format marker written as the first key.</summary>
-    public const string FormatName = "lanebaseline-audit-state";
-
-    /// <summary>The shard that wrote the state.</summary>
-    public required ShardSpec Shard { get; init; }
-
-    /// <summary>
-    /// The job's inputs and settings as canonical text (paths as given, every option that changes a finding); equal for
-    /// every shard of one job.
-    /// </summary>
-    public required IReadOnlyList<KeyValuePair<string, string>> Job { get; init; }
-
-    /// <summary>Records in the prediction input (every shard reads all of them).</summary>
-    public required long InputFrames { get; init; }
-
-    /// <summary>Frames this shard audited.</summary>
-    public required long Frames { get; init; }
-
-    /// <summary>Frames this shard compared with the baseline.</summary>
-    public required long ComparedFrames { get; init; }
-
-    /// <summary>Value of a job entry, or null.</summary>
-    public string? JobValue(string key) => Job.FirstOrDefault(kv => kv.Key == key).Value;
-
-    internal string JobKey() =>
-        string.Join('\n', Job.Select(kv => kv.Key + "=" + kv.Value)) + "\n" + InputFrames.ToString(CultureInfo.InvariantCulture) + "\n" + Shard.Count.ToString(CultureInfo.InvariantCulture);
-}
-
-/// <summary>
-/// Partial audit state (<c>audit --shard K/N --partial FILE</c>): JSON Lines — a header, then one <c>frame</c> line
-/// for every frame with findings or a baseline comparison (its key, position in the prediction file and
-/// disagreement), then one <c>finding</c> line per finding with every field at full precision. That is all
-/// <see cref="AuditResult"/> ranking needs, so <see cref="AuditStateMerge"/> rebuilds exactly what one unsharded run
-/// writes.
-/// </summary>
-public static class AuditStateWriter
-{
-    private static readonly JsonWriterOptions Options = new() { Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
-
-    /// <summary>Writes the state of one shard's result.</summary>
-    public static void Write(Stream stream, AuditStateHeader header, AuditResult result)
-    {
-        ArgumentNullException.ThrowIfNull(stream);
-        ArgumentNullException.ThrowIfNull(header);
-        ArgumentNullException.ThrowIfNull(result);
-        var buffer = new ArrayBufferWriter<byte>(1024);
-        void Line(Action<Utf8JsonWriter> body)
-        {
-            buffer.ResetWrittenCount();
-            using (var json = new Utf8JsonWriter(buffer, Options))
-            {
-                json.WriteStartObject();
-                body(json);
-                json.WriteEndObject();
-            }
-
-            buffer.Write("\n"u8);
-            stream.Write(buffer.WrittenSpan);
-        }
-
-        Line(json =>
-        {
-            json.WriteString("format", AuditStateHeader.FormatName);
-            json.WriteNumber("version", 1);
-            json.WriteNumber("shard_index", header.Shard.Index);
-            json.WriteNumber("shard_count", header.Shard.Count);
-            json.WriteNumber("input_frames", header.InputFrames);
-            json.WriteNumber("frames", header.Frames);
-            json.WriteNumber("compared_frames", header.ComparedFrames);
-            json.WriteStartObject("job");
-            foreach ((string key, string value) in header.Job)
-            {
-                json.WriteString(key, value);
-            }
-
-            json.WriteEndObject();
-        });
-        foreach (AuditFrameScore f in result.RankedFrames.OrderBy(f => f.Ordinal))
-        {
-            Line(json =>
-            {
-                json.WriteString("t", "frame");
-                json.WriteString("frame", f.Frame);
-                json.WriteNumber("ordinal", f.Ordinal);
-                WriteDouble(json, "disagreement", f.Disagreement);
-            });
-        }
-
-        foreach (AuditFinding f in result.Findings.OrderBy(f => f.Ordinal))
-        {
-            Line(json =>
-            {
-                json.WriteString("t", "finding");
-                json.WriteString("frame", f.Frame);
-                json.WriteNumber("ordinal", f.Ordinal);
-                json.WriteString("rule", f.Rule);
-                json.WriteString("severity", AuditJsonWriter.SeverityName(f.Severity));
-                WriteInt(json, "lane", f.Lane);
-                WriteInt(json, "other_lane", f.OtherLane);
-                WriteDouble(json, "value", f.Value);
-                WriteDouble(json, "limit", f.Limit);
-                json.WriteString("unit", f.Unit);
-                json.WriteString("message", f.Message);
-            });
-        }
-    }
-
-    private static void WriteInt(Utf8JsonWriter json, string name, int? value)
-    {
-        if (value is int v)
-        {
-            json.WriteNumber(name, v);
-        }
-        else
-        {
-            json.WriteNull(name);
-        }
-    }
-
-    // Shortest round-trip text of finite values; non-finite ones as strings ("NaN", "Infinity", "-Infinity").
-    private static void WriteDouble(Utf8JsonWriter json, string name, double? value)
-    {
-        if (value is not double v)
-        {
-            json.WriteNull(name);
-        }
-        else if (double.IsFinite(v))
-        {
-            json.WriteNumber(name, v);
-        }
-        else
-        {
-            json.WriteString(name, v.ToString("R", CultureInfo.InvariantCulture));
-        }
-    }
-}
 
 /// <summary>Merges partial audit states of shards 0..N−1 into the result of one unsharded run.</summary>
 public static class AuditStateMerge
@@ -171,18 +29,21 @@ public static class AuditStateMerge
             headers.Add(Read(path, frames, findings, ordinals));
         }
 
+        IReadOnlyList<KeyValuePair<string, string>> firstJob = headers[0].Job.Entries();
         for (int i = 1; i < headers.Count; i++)
         {
             // Name the first setting that differs (a content hash: the same path held other contents).
-            foreach (KeyValuePair<string, string> kv in headers[0].Job)
+            IReadOnlyList<KeyValuePair<string, string>> job = headers[i].Job.Entries();
+            for (int k = 0; k < firstJob.Count && k < job.Count; k++)
             {
-                string? other = headers[i].JobValue(kv.Key);
-                if (other is not null && !string.Equals(other, kv.Value, StringComparison.Ordinal))
+                (string name, string value) = firstJob[k];
+                string other = job[k].Value;
+                if (!string.Equals(other, value, StringComparison.Ordinal))
                 {
-                    string what = kv.Key.EndsWith("_sha256", StringComparison.Ordinal)
-                        ? $"belongs to a different audit job than {paths[0]}: it was made from different contents of {headers[0].JobValue(kv.Key[..^7])} ({other} vs {kv.Value}); re-run every shard on the same inputs"
-                        : $"belongs to a different audit job than {paths[0]}: its {kv.Key} is '{other}' where that state's is '{kv.Value}'";
-                    throw BadInputException.At(paths[i], 1, kv.Key, what);
+                    string what = name.EndsWith("_sha256", StringComparison.Ordinal)
+                        ? $"belongs to a different audit job than {paths[0]}: it was made from different contents of {firstJob.FirstOrDefault(kv => kv.Key == name[..^7]).Value} ({other} vs {value}); re-run every shard on the same inputs"
+                        : $"belongs to a different audit job than {paths[0]}: its {name} is '{other}' where that state's is '{value}'";
+                    throw BadInputException.At(paths[i], 1, name, what);
                 }
             }
         }
@@ -222,10 +83,17 @@ public static class AuditStateMerge
                         throw BadInputException.At(path, line, "format", $"not an audit state (expected \"format\": \"{AuditStateHeader.FormatName}\")");
                     }
 
-                    key = "version";
-                    if (r.GetProperty("version").GetInt32() != 1)
+                    // "schema_version" since 2026-12-05 (docs/schema/audit-state.schema.json); "version" before.
+                    key = r.TryGetProperty("schema_version", out _) ? "schema_version" : "version";
+                    int version = r.GetProperty(key).GetInt32();
+                    if (version == 1)
                     {
-                        throw BadInputException.At(path, line, key, "unsupported version (this build reads 1)");
+                        throw BadInputException.At(path, line, key, "an audit state of an older build (version 1, which lost settings such as --fps, --design-speed-kmh and --horizon-row in merge); re-run the shards' audits with this build");
+                    }
+
+                    if (version != AuditStateHeader.Version)
+                    {
+                        throw BadInputException.At(path, line, key, string.Create(CultureInfo.InvariantCulture, $"unsupported version {version} (this build reads {AuditStateHeader.Version})"));
                     }
 
                     key = "shard_count";
@@ -238,12 +106,10 @@ public static class AuditStateMerge
                     }
 
                     key = "job";
-                    var job = new List<KeyValuePair<string, string>>();
-#pragma warning disable IDISP004 // misreads foreach over JsonElement.EnumerateObject(): foreach disposes the enumerator
-                    foreach (JsonProperty p in r.GetProperty(key).EnumerateObject())
-#pragma warning restore IDISP004
+                    AuditJob job = AuditJobJson.Read(r.GetProperty(key));
+                    if (job.MinMaskRows < 2)
                     {
-                        job.Add(new(p.Name, p.Value.GetString() ?? string.Empty));
+                        throw BadInputException.At(path, line, key, "min_mask_rows must be at least 2");
                     }
 
                     key = "input_frames";

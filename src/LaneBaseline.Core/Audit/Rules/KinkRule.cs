@@ -1,7 +1,7 @@
-using System.Globalization;
 using LaneBaseline.Core.LaneFiles;
+using static LaneBaseline.Core.Audit.Rules.RuleText;
 
-namespace LaneBaseline.Core.Audit;
+namespace LaneBaseline.Core.Audit.Rules;
 
 /// <summary>
 /// Rule <c>LBA-I08</c> (kink): a lane whose direction on the road turns faster than the sharpest curve the
@@ -19,23 +19,25 @@ namespace LaneBaseline.Core.Audit;
 /// (mean piece length) / R_min + <see cref="AuditSettings.KinkAllowanceDeg"/> (the allowance absorbs label noise:
 /// common practice). One finding per lane, at its sharpest turn. Pure and thread-safe.
 /// </remarks>
-public static class KinkRule
+public sealed class KinkRule : IAuditRule
 {
+    /// <inheritdoc/>
+    public AuditRuleInfo Info { get; } = new(
+        AuditRules.Kink, "kink", AuditSeverity.Error, "a lane's heading on the road turns between two pieces of >= 4 m (within 60 m ahead) by more than (piece length) / R_min + 3 deg, R_min = V^2 / (127 (e + f)) of --design-speed-kmh; road plane from the camera, else from the horizon with f = frame width and a 1.5 m camera height",
+        "AASHTO Green Book Sec. 3.3 (docs/checks.md worked example: 393.7 m at 100 km/h); a curve of radius R turns by s / R over a length s (geometry); 3 deg label-noise allowance: common practice; 1.5 m camera height and 53 deg field of view: from memory");
+
+    /// <inheritdoc/>
+    public AuditRuleFamily Family => AuditRuleFamily.Image;
+
     /// <summary>Checks one frame's lanes and appends at most one finding per lane.</summary>
-    /// <param name="record">The frame's lanes.</param>
-    /// <param name="ordinal">Position of the frame in its file.</param>
-    /// <param name="width">Frame width, px.</param>
-    /// <param name="height">Frame height, px.</param>
-    /// <param name="settings">Limits; <see cref="AuditSettings.HorizonRow"/> when known.</param>
-    /// <param name="sink">Receives findings.</param>
-    public static void Check(LaneRecord record, long ordinal, int width, int height, AuditSettings settings, List<AuditFinding> sink)
+    public void Check(AuditFrame frame, List<AuditFinding> sink)
     {
-        ArgumentNullException.ThrowIfNull(record);
-        ArgumentNullException.ThrowIfNull(settings);
+        ArgumentNullException.ThrowIfNull(frame);
         ArgumentNullException.ThrowIfNull(sink);
-        IReadOnlyList<Lane> lanes = record.Lanes;
-        double? horizonRow = settings.HorizonRow ?? LaneSampling.EstimateHorizon(lanes, height);
-        if (horizonRow is not double yh)
+        IReadOnlyList<Lane> lanes = frame.Lanes;
+        AuditSettings settings = frame.Settings;
+        int width = frame.Width;
+        if (frame.Horizon is not double yh)
         {
             return;
         }
@@ -80,9 +82,8 @@ public static class KinkRule
             if (worst > 0)
             {
                 double deg = worst * 180 / Math.PI, limDeg = worstLimit * 180 / Math.PI;
-                sink.Add(new AuditFinding(record.Frame, ordinal, AuditRules.Kink, AuditRules.Get(AuditRules.Kink).Severity, i, null, deg, limDeg, "deg",
-                    string.Create(CultureInfo.InvariantCulture,
-                        $"lane {i} turns by {deg:0.#} deg on the road near row {worstRow:0}; a curve of radius {rMin:0} m (design speed {settings.DesignSpeedKmh:0} km/h) turns at most {limDeg:0.#} deg there")));
+                sink.Add(frame.Finding(this, i, null, deg, limDeg, "deg",
+                    Inv($"lane {i} turns by {deg:0.#} deg on the road near row {worstRow:0}; a curve of radius {rMin:0} m (design speed {settings.DesignSpeedKmh:0} km/h) turns at most {limDeg:0.#} deg there")));
             }
         }
     }
