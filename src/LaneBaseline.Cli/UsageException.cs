@@ -1,6 +1,3 @@
-using System.CommandLine;
-using LaneBaseline.Core;
-
 namespace LaneBaseline.Cli;
 
 /// <summary>A usage error found after parsing (conflicting or malformed option values): exit code 2.</summary>

@@ -1,5 +1,3 @@
-using LaneBaseline.Reporting.Score;
-
 namespace LaneBaseline.Reporting;
 
 /// <summary>Worst frames per truth tag (condition) for one system: the same thumbnails as the gallery, grouped by tag.</summary>

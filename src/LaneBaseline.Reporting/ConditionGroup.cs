@@ -1,5 +1,3 @@
-using LaneBaseline.Reporting.Score;
-
 namespace LaneBaseline.Reporting;
 
 /// <summary>The worst frames carrying one tag.</summary>

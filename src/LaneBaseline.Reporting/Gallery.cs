@@ -1,5 +1,3 @@
-using LaneBaseline.Reporting.Score;
-
 namespace LaneBaseline.Reporting;
 
 /// <summary>The worst-frame gallery: thumbnails already drawn (the report itself draws nothing on images).</summary>

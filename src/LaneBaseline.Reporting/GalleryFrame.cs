@@ -1,5 +1,3 @@
-using LaneBaseline.Reporting.Score;
-
 namespace LaneBaseline.Reporting;
 
 /// <summary>One thumbnail of the gallery with the scores that ranked it.</summary>

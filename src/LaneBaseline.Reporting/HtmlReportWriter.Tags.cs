@@ -1,8 +1,5 @@
 using System.Globalization;
-using System.Net;
 using System.Text;
-using LaneBaseline.Core;
-using LaneBaseline.Reporting.Audit;
 using LaneBaseline.Reporting.Score;
 
 namespace LaneBaseline.Reporting;

@@ -1,5 +1,3 @@
-using LaneBaseline.Reporting.Score;
-
 namespace LaneBaseline.Reporting;
 
 /// <summary>The colours of the overlays, shared by the drawing code and the page's legend.</summary>

@@ -1,5 +1,3 @@
-using LaneBaseline.Reporting.Score;
-
 namespace LaneBaseline.Reporting;
 
 /// <summary>The "largest regressions" gallery: frames ranked by (network − baseline) frame F1, worst first.</summary>

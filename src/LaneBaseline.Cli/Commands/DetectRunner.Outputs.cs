@@ -51,6 +51,9 @@ internal sealed partial class DetectRunner
         AtomicFile.WriteAllBytes(path, png);
     }
 
+    /// <summary>The options with the metric view's section stated (its defaults when the preset leaves it out): a camera run uses it.</summary>
+    private static PipelineOptions WithMetricView(PipelineOptions options) => options with { Metric = options.Metric ?? new MetricViewOptions() };
+
     private string ConfigText()
     {
         var text = new StringBuilder();
@@ -66,7 +69,7 @@ internal sealed partial class DetectRunner
             }
         }
 
-        text.Append(PresetLoader.ToYaml(request.Options));
+        text.Append(PresetLoader.ToYaml(request.Camera is null ? request.Options : WithMetricView(request.Options)));
         return text.ToString();
     }
 

@@ -37,7 +37,7 @@ internal sealed partial class DetectRunner
         configHash = request.Camera is null
             ? PresetLoader.Hash(request.Options)
             : "sha256:" + Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(
-                Encoding.UTF8.GetBytes(PresetLoader.ToYaml(request.Options) + "\n" + request.Camera.ToJson())).AsSpan(0, 8));
+                Encoding.UTF8.GetBytes(PresetLoader.ToYaml(WithMetricView(request.Options)) + "\n" + request.Camera.ToJson())).AsSpan(0, 8));
         configJson = "\"" + configHash + "\"";
         extraJson = request.ShardCount > 1
             ? [new("config", configJson), new("shard", "\"" + new ShardSpec(request.ShardIndex, request.ShardCount).ToString() + "\"")]
@@ -147,7 +147,7 @@ internal sealed partial class DetectRunner
         {
             workers[t] = Task.Run(() =>
             {
-                using var pipeline = new LanePipeline(request.Options, CameraVanishingPoint()) { MeasureStages = request.Timings };
+                using var pipeline = new LanePipeline(request.Options, CameraVanishingPoint(), request.Camera) { MeasureStages = request.Timings };
                 using var primitives = request.Timings ? new FloorPrimitives(request.Options.Limits.WorkingWidthPx) : null;
                 var runner = new FrameSequenceRunner(pipeline, item => FrameLoader.Load(item.Path!, request.Options.Limits), CheckCameraSize);
                 try

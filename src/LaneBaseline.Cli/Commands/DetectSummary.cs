@@ -1,5 +1,3 @@
-using LaneBaseline.Core.Options;
-
 namespace LaneBaseline.Cli.Commands;
 
 /// <summary>What a detect run did.</summary>

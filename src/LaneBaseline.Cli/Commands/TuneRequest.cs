@@ -1,7 +1,3 @@
-using System.CommandLine;
-using System.Globalization;
-using LaneBaseline.Core.Options;
-
 namespace LaneBaseline.Cli.Commands;
 
 /// <summary>Everything one tune run needs, parsed and checked.</summary>

@@ -1,5 +1,4 @@
 using System.Globalization;
-using LaneBaseline.Core;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Reporting;

@@ -1,9 +1,3 @@
-using System.Globalization;
-using System.Text.Encodings.Web;
-using System.Text.Json;
-
-using LaneBaseline.Core.Metrics.Ground;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>Bootstrap results for a run: per-system intervals and paired differences.</summary>

@@ -1,5 +1,3 @@
-using LaneBaseline.Core.Random;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>Per-frame statistics of one system that a bootstrap resample sums.</summary>

@@ -1,5 +1,3 @@
-using LaneBaseline.Core.Random;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>The four statistics the intervals are given for.</summary>

@@ -1,5 +1,3 @@
-using LaneBaseline.Core.Random;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>What one bootstrap draw resamples.</summary>

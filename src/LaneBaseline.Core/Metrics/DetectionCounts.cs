@@ -1,5 +1,3 @@
-using LaneBaseline.Core.Metrics.Ground;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>TP/FP/FN and the rates derived from them.</summary>

@@ -48,13 +48,13 @@ public sealed class FrameScore
     public required int[] ConfidencePredLanes { get; init; }
 
     /// <summary>Metric-space errors when a camera is given, else null.</summary>
-    public FrameGroundErrors? Ground { get; init; }
+    public FrameGroundErrors? Ground { get; set; }
 
     /// <summary>Scores of the predicted lanes that carry one, in file order (the calibration metric's input).</summary>
-    public double[] LaneScores { get; init; } = [];
+    public double[] LaneScores { get; set; } = [];
 
     /// <summary>Per entry of <see cref="LaneScores"/>: whether that lane is a true positive at IoU 0.50.</summary>
-    public bool[] LaneHits { get; init; } = [];
+    public bool[] LaneHits { get; set; } = [];
 
     /// <summary>Whether any predicted lane in the frame carries a confidence.</summary>
     public bool HasConfidence { get; init; }

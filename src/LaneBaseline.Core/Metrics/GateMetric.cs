@@ -1,5 +1,3 @@
-using System.Globalization;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>The metric a <see cref="ScoreGate"/> reads.</summary>

@@ -1,5 +1,3 @@
-using LaneBaseline.Core.Random;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>An interval [Low, High].</summary>

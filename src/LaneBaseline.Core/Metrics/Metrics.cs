@@ -1,5 +1,3 @@
-using LaneBaseline.Core.Metrics.Ground;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>Small shared numeric rules.</summary>

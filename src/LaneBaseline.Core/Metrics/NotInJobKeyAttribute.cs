@@ -1,8 +1,3 @@
-using System.Collections;
-using System.Globalization;
-using System.Reflection;
-using System.Text;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>

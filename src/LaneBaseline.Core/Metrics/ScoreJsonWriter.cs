@@ -198,8 +198,7 @@ public static class ScoreJsonWriter
 
     private static void WriteSystemBody(Utf8JsonWriter json, SystemScore system, int index, ScoreSettings settings, BootstrapResult? bootstrap)
     {
-        WriteTally(json, system.Overall, settings, includeFrames: true);
-        system.Coverage?.WriteJson(json, "coverage");
+        WriteTally(json, system.Overall, system, settings, includeFrames: true);
 
         if (bootstrap is not null && bootstrap.Resamples > 0)
         {
@@ -238,13 +237,13 @@ public static class ScoreJsonWriter
             json.WriteEndArray();
         }
 
-        system.Overall.Reliability.WriteJson(json);
+        WriteUnits(json, MetricJsonSlot.Closing, system.Overall, system);
         json.WriteStartObject("by_tag");
         foreach (KeyValuePair<string, ScoreTally> kv in system.ByTag)
         {
             json.WriteStartObject(kv.Key);
-            WriteTally(json, kv.Value, settings, includeFrames: true);
-            kv.Value.Reliability.WriteJson(json);
+            WriteTally(json, kv.Value, null, settings, includeFrames: true);
+            WriteUnits(json, MetricJsonSlot.Closing, kv.Value, null);
             if (bootstrap is { Resamples: > 0 } && bootstrap.ByTag.TryGetValue(kv.Key, out TagBootstrap? tb))
             {
                 json.WriteStartObject("intervals");
@@ -265,7 +264,16 @@ public static class ScoreJsonWriter
         json.WriteEndObject();
     }
 
-    private static void WriteTally(Utf8JsonWriter json, ScoreTally tally, ScoreSettings settings, bool includeFrames)
+    // The parts of the metric units in one slot, in catalogue order.
+    private static void WriteUnits(Utf8JsonWriter json, MetricJsonSlot slot, ScoreTally tally, SystemScore? system)
+    {
+        foreach (IMetricUnit unit in MetricCatalogue.InSlot(slot))
+        {
+            unit.WriteJson(json, tally, system);
+        }
+    }
+
+    private static void WriteTally(Utf8JsonWriter json, ScoreTally tally, SystemScore? system, ScoreSettings settings, bool includeFrames)
     {
         if (includeFrames)
         {
@@ -320,10 +328,7 @@ public static class ScoreJsonWriter
         json.WriteNumber("truth_lanes", tally.TruthLanes);
         json.WriteNumber("pred_lanes", tally.PredLanes);
         json.WriteEndObject();
-        if (tally.Ground is { } g)
-        {
-            g.WriteJson(json);
-        }
+        WriteUnits(json, MetricJsonSlot.Tally, tally, system);
     }
 
     private static void WriteCounts(Utf8JsonWriter json, DetectionCounts c)

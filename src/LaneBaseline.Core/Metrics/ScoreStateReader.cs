@@ -105,6 +105,7 @@ public sealed class ScoreStateReader : IDisposable
             }
 
             var row = new List<FrameScore>();
+            FrameStateSource? source = null;
             foreach (JsonElement s in r.GetProperty("s").EnumerateArray())
             {
                 int[] tp = Ints(s.GetProperty("tp"));
@@ -129,13 +130,7 @@ public sealed class ScoreStateReader : IDisposable
                 double acc = s.GetProperty("acc").GetDouble();
                 int matched = s.GetProperty("m").GetInt32();
                 CheckConsistent(frame, nt, np, ious, acc, matched, ctp, cp);
-                (double[] laneScores, bool[] laneHits) = Calibration.ReliabilityTally.ReadFrameState(s);
-                if (laneScores.Length != laneHits.Length || laneScores.Length > np)
-                {
-                    throw BadInputException.At(path, line, "s.ps", "scored lanes and their outcomes differ in count or exceed the predicted lanes");
-                }
-
-                row.Add(new FrameScore
+                var frameScore = new FrameScore
                 {
                     Ordinal = ordinal,
                     Frame = frame,
@@ -151,10 +146,14 @@ public sealed class ScoreStateReader : IDisposable
                     ConfidenceTruePositives = ctp,
                     ConfidencePredLanes = cp,
                     HasConfidence = s.GetProperty("conf").GetBoolean(),
-                    LaneScores = laneScores,
-                    LaneHits = laneHits,
-                    Ground = ReadGround(s),
-                });
+                };
+                source ??= new FrameStateSource(path, line, Header);
+                foreach (IMetricUnit unit in MetricCatalogue.Units)
+                {
+                    unit.ReadFrameState(s, source, frameScore);
+                }
+
+                row.Add(frameScore);
             }
 
             if (row.Count != Header.Systems.Count)
@@ -263,23 +262,6 @@ public sealed class ScoreStateReader : IDisposable
             yield return m;
             text = ReadLine();
         }
-    }
-
-    // Metric-space errors of one frame: present exactly when the header has a camera.
-    private FrameGroundErrors? ReadGround(JsonElement s)
-    {
-        bool has = s.TryGetProperty("g", out JsonElement g);
-        if (has != (Header.Settings.Camera is not null))
-        {
-            throw BadInputException.At(path, line, "s.g", has ? "metric-space errors without a camera in the header" : "metric-space errors missing (the header has a camera)");
-        }
-
-        if (!has)
-        {
-            return null;
-        }
-
-        return FrameGroundErrors.ReadState(g) ?? throw BadInputException.At(path, line, "s.g", "look-ahead distances do not match this build");
     }
 
     private static ScoreStateHeader ParseHeader(string path, string text)

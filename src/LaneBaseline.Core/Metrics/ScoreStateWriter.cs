@@ -145,8 +145,10 @@ public sealed class ScoreStateWriter : IDisposable
                 Ints(json, "ctp", f.ConfidenceTruePositives);
                 Ints(json, "cp", f.ConfidencePredLanes);
                 json.WriteBoolean("conf", f.HasConfidence);
-                Calibration.ReliabilityTally.WriteFrameState(json, f);
-                f.Ground?.WriteState(json);
+                foreach (IMetricUnit unit in MetricCatalogue.Units)
+                {
+                    unit.WriteFrameState(json, f);
+                }
 
                 json.WriteEndObject();
             }

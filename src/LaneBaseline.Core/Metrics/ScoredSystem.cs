@@ -1,7 +1,3 @@
-using System.Globalization;
-using LaneBaseline.Core.LaneFiles;
-using LaneBaseline.Core.Metrics.Coverage;
-
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>A prediction source to score: a display name and a lane file.</summary>

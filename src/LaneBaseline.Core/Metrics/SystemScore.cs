@@ -1,5 +1,3 @@
-using System.Globalization;
-using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics.Coverage;
 
 namespace LaneBaseline.Core.Metrics;

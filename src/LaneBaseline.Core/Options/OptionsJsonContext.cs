@@ -1,12 +1,4 @@
-using System.Globalization;
-using System.Security.Cryptography;
-using System.Text;
-using System.Buffers;
-using System.Text.Json;
 using System.Text.Json.Serialization;
-using System.Text.Json.Serialization.Metadata;
-using YamlDotNet.Core;
-using YamlDotNet.RepresentationModel;
 
 namespace LaneBaseline.Core.Options;
 

@@ -39,6 +39,9 @@ public sealed record PipelineOptions
     /// <summary>Fitted confidence calibration, or null (absent) for the raw confidences.</summary>
     public CalibrationOptions? Calibration { get; init; }
 
+    /// <summary>The metric bird's-eye view used with a camera file, or null (absent) for its defaults.</summary>
+    public MetricViewOptions? Metric { get; init; }
+
     /// <summary>Checks every value against its documented range.</summary>
     /// <returns>All findings (empty when valid), never throwing on the first.</returns>
     public IReadOnlyList<OptionsFinding> Validate()
@@ -72,6 +75,7 @@ public sealed record PipelineOptions
         }
 
         Calibration?.Validate(findings);
+        Metric?.Validate(findings);
         return findings;
     }
 }

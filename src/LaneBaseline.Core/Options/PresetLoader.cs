@@ -182,6 +182,10 @@ public static class PresetLoader
             {
                 sectionDefaults = CalibrationDefaults; // an optional section: absent by default
             }
+            else if (sectionDefaults.ValueKind == JsonValueKind.Null && property.PropertyType == typeof(MetricViewOptions))
+            {
+                sectionDefaults = MetricDefaults; // an optional section: absent by default
+            }
 
             WriteObject(json, value, sectionDefaults, OptionsJsonContext.Default.GetTypeInfo(property.PropertyType)!, key, file, errors);
         }
@@ -189,6 +193,9 @@ public static class PresetLoader
 
     private static JsonElement CalibrationDefaults { get; } =
         JsonSerializer.SerializeToElement(new CalibrationOptions(), OptionsJsonContext.Default.CalibrationOptions);
+
+    private static JsonElement MetricDefaults { get; } =
+        JsonSerializer.SerializeToElement(new MetricViewOptions(), OptionsJsonContext.Default.MetricViewOptions);
 
     private static void WriteDouble(Utf8JsonWriter json, double v)
     {

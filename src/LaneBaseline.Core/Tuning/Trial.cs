@@ -1,5 +1,3 @@
-using LaneBaseline.Core.Random;
-
 namespace LaneBaseline.Core.Tuning;
 
 /// <summary>One evaluated parameter set.</summary>

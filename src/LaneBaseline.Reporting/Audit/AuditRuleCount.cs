@@ -1,8 +1,3 @@
-using System.Text;
-using System.Text.Json;
-using LaneBaseline.Core;
-using LaneBaseline.Core.Audit;
-
 namespace LaneBaseline.Reporting.Audit;
 
 /// <summary>One row of the per-rule table: how often a rule fired and on how many frames.</summary>

@@ -1,8 +1,3 @@
-using System.Text;
-using System.Text.Json;
-using LaneBaseline.Core;
-using LaneBaseline.Core.Audit;
-
 namespace LaneBaseline.Reporting.Audit;
 
 /// <summary>What the report shows of an audit: counts per rule and the first findings.</summary>

@@ -1,8 +1,3 @@
-using System.Text;
-using System.Text.Json;
-using LaneBaseline.Core;
-using LaneBaseline.Core.Audit;
-
 namespace LaneBaseline.Reporting.Audit;
 
 /// <summary>A small JPEG of one overlay the audit drew, embedded in the page, and a link to the full-size file.</summary>

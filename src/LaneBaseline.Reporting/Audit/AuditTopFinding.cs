@@ -1,8 +1,3 @@
-using System.Text;
-using System.Text.Json;
-using LaneBaseline.Core;
-using LaneBaseline.Core.Audit;
-
 namespace LaneBaseline.Reporting.Audit;
 
 /// <summary>One of the first findings of the file (the file is ranked worst frame first).</summary>

@@ -1,7 +1,3 @@
-using System.Globalization;
-using System.Text.Json;
-using LaneBaseline.Core;
-
 namespace LaneBaseline.Reporting.Bench;
 
 /// <summary>One measured configuration of <c>bench --json</c>: frame size, workers, per-stage and whole-frame cost.</summary>

@@ -1,7 +1,3 @@
-using LaneBaseline.Core;
-using LaneBaseline.Core.Metrics;
-using OpenCvSharp;
-
 namespace LaneBaseline.Vision.Masks;
 
 /// <summary>One truth lane id of a frame and its assigned prediction id (or none) with their mask IoU.</summary>

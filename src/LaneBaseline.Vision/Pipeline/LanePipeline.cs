@@ -1,4 +1,5 @@
 using LaneBaseline.Core;
+using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Options;
 using LaneBaseline.Core.Results;
@@ -22,15 +23,19 @@ public sealed class LanePipeline : IDisposable
     private readonly PipelineOptions options;
     private readonly List<IFrameStage> stages = [];
     private readonly (double X, double Y)? cameraVanishingPoint;
+    private readonly CameraModel? camera;
     private FrameWorkspace? workspace;
 
     /// <summary>Creates a pipeline; stages are built on the first frame.</summary>
     /// <param name="options">Validated options.</param>
     /// <param name="cameraVanishingPoint">Vanishing point from a camera file (image pixels), or null to estimate it per frame.</param>
+    /// <param name="camera">The camera file's model (frame pixels): with it, and <see cref="MetricViewOptions.MetresPerPx"/>
+    /// above 0, the bird's-eye view is metric (<see cref="MetricBirdsEye"/>); null keeps the vanishing-point trapezoid.</param>
     /// <exception cref="BadInputException">The options are invalid.</exception>
-    public LanePipeline(PipelineOptions options, (double X, double Y)? cameraVanishingPoint = null)
+    public LanePipeline(PipelineOptions options, (double X, double Y)? cameraVanishingPoint = null, CameraModel? camera = null)
     {
         this.cameraVanishingPoint = cameraVanishingPoint;
+        this.camera = camera;
         ArgumentNullException.ThrowIfNull(options);
         IReadOnlyList<OptionsFinding> findings = options.Validate();
         if (findings.Count > 0)
@@ -150,9 +155,10 @@ public sealed class LanePipeline : IDisposable
     {
         DisposeStages();
         workspace?.Dispose();
-        workspace = StageFactory.CreateWorkspace(options, scaling);
+        MetricView? view = MetricView.For(options, camera, scaling);
+        workspace = StageFactory.CreateWorkspace(options, scaling, view);
         (double X, double Y)? vanishing = cameraVanishingPoint is (double vx, double vy) ? scaling.ToWorking(vx, vy) : null;
-        stages.AddRange(StageFactory.CreateStages(options, scaling, vanishing));
+        stages.AddRange(StageFactory.CreateStages(options, scaling, vanishing, view));
         LastStageMs = new double[stages.Count];
     }
 

@@ -12,22 +12,34 @@ namespace LaneBaseline.Vision.Pipeline;
 public static class StageFactory
 {
     /// <summary>A workspace for frames processed at <paramref name="scaling"/>; the caller owns and disposes it.</summary>
-    public static FrameWorkspace CreateWorkspace(PipelineOptions options, WorkingScale scaling)
+    /// <param name="options">Validated options.</param>
+    /// <param name="scaling">Frame and working sizes.</param>
+    /// <param name="metric">The camera's metric bird's-eye view (its size replaces warp.widthPx × warp.heightPx), or null.</param>
+    public static FrameWorkspace CreateWorkspace(PipelineOptions options, WorkingScale scaling, MetricView? metric = null)
     {
         ArgumentNullException.ThrowIfNull(options);
         int width = scaling.Width, height = scaling.Height;
         int bandTop = Math.Clamp((int)Math.Round(options.Region.SearchTopFraction * height), 0, height - 2);
-        return new FrameWorkspace(width, height, options.Warp.WidthPx, options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale)
+        var ws = new FrameWorkspace(width, height, metric?.WidthPx ?? options.Warp.WidthPx, metric?.HeightPx ?? options.Warp.HeightPx, bandTop, options.Hough.MaxSegments, options.Hough.ImageScale)
         {
             Scaling = scaling,
         };
+        if (metric is not null)
+        {
+            ws.Warp.MetresPerPixel = metric.Options.MetresPerPx;
+            ws.Warp.MinLaneWidthM = metric.Options.MinLaneWidthM;
+            ws.Warp.MaxLaneWidthM = metric.Options.MaxLaneWidthM;
+        }
+
+        return ws;
     }
 
     /// <summary>The stages in run order; the caller owns and disposes each.</summary>
     /// <param name="options">Validated options.</param>
     /// <param name="scaling">Frame and working sizes (a resize stage is added when the frame is enlarged).</param>
     /// <param name="vanishingWorking">A fixed vanishing point in working pixels (from a camera file), or null to estimate it per frame.</param>
-    public static List<IFrameStage> CreateStages(PipelineOptions options, WorkingScale scaling, (double X, double Y)? vanishingWorking)
+    /// <param name="metric">The camera's metric bird's-eye view, warped to instead of the vanishing-point trapezoid, or null.</param>
+    public static List<IFrameStage> CreateStages(PipelineOptions options, WorkingScale scaling, (double X, double Y)? vanishingWorking, MetricView? metric = null)
     {
         ArgumentNullException.ThrowIfNull(options);
         var stages = new List<IFrameStage>();
@@ -38,7 +50,7 @@ public static class StageFactory
 
         stages.Add(new GradientStage(options.Gradient));
         stages.Add(new HoughStage(options.Hough));
-        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, vanishingWorking));
+        stages.Add(new RegionStage(options.Region, options.Warp, options.Tracking.Enabled, vanishingWorking, metric?.ImageToBirdsEye));
         stages.Add(new ColorThresholdStage(options.Color, options.Gradient));
         stages.Add(new BirdsEyeWarpStage());
         stages.Add(new SlidingWindowFitStage(options.Search, options.Fit, options.Confidence));

@@ -26,6 +26,11 @@ namespace LaneBaseline.Vision.Stages;
 /// to the bottom row, <see cref="WarpOptions.BottomSpanFraction"/> × width wide at the bottom and centred on the
 /// frame centre; (6) its homography to the bird's-eye rectangle maps lines through the vanishing point (road lines
 /// parallel to the vehicle) to vertical columns. Pixel (x, y), origin top-left, y down.
+/// With a camera file and a metric view (<see cref="MetricViewOptions"/>), steps (5)–(6) use the camera's
+/// plane-induced homography instead (<see cref="Core.Geometry.MetricBirdsEye"/>, built once per stream by
+/// <see cref="LanePipeline"/>): the bird's-eye view is a metric top view of the ground, one pixel
+/// <see cref="MetricViewOptions.MetresPerPx"/> metres along both axes, and the region is the image of that ground
+/// rectangle.
 /// <para>References: [1] M. A. Fischler, R. C. Bolles, "Random Sample Consensus", Communications of the ACM
 /// 24(6):381–395, 1981, DOI 10.1145/358669.358692. [2] R. Hartley, A. Zisserman, Multiple View Geometry in Computer
 /// Vision, 2nd ed., 2004, Sec. 8.6 (vanishing points and lines).</para>
@@ -36,6 +41,7 @@ public sealed class RegionStage : IFrameStage
     private readonly WarpOptions warp;
     private readonly bool smooth;
     private readonly (double X, double Y)? fixedPoint;
+    private readonly PlaneHomography? metric;
     private HoughSegment[] voters = [];
     private int[] lightRow = [];
 
@@ -44,8 +50,10 @@ public sealed class RegionStage : IFrameStage
     /// <param name="warp">Warp options.</param>
     /// <param name="smoothOverSequence">Whether to smooth the vanishing point over a sequence.</param>
     /// <param name="cameraVanishingPoint">The vanishing point from a camera file (image pixels), used instead of estimation.</param>
-    public RegionStage(RegionOptions region, WarpOptions warp, bool smoothOverSequence, (double X, double Y)? cameraVanishingPoint = null)
+    /// <param name="metricImageToBirdsEye">The camera's image-to-metric-bird's-eye homography (working pixels), used instead of the trapezoid; null without a camera.</param>
+    public RegionStage(RegionOptions region, WarpOptions warp, bool smoothOverSequence, (double X, double Y)? cameraVanishingPoint = null, PlaneHomography? metricImageToBirdsEye = null)
     {
+        metric = metricImageToBirdsEye;
         this.region = region;
         this.warp = warp;
         smooth = smoothOverSequence;
@@ -105,6 +113,12 @@ public sealed class RegionStage : IFrameStage
 
     private void SetGeometry(FrameWorkspace ws, double vx, double vy)
     {
+        if (metric is PlaneHomography camera)
+        {
+            SetMetricGeometry(ws, camera);
+            return;
+        }
+
         int w = ws.Width, h = ws.Height;
         double yb = h - 1;
         double yt = vy + (warp.FarRowFraction * (yb - vy));
@@ -123,6 +137,30 @@ public sealed class RegionStage : IFrameStage
         }
 
         ws.Region.RoiTop = yt;
+        SetHomography(ws, hm);
+    }
+
+    // The region is the image of the metric view's ground rectangle: its corners mapped back through the inverse.
+    private static void SetMetricGeometry(FrameWorkspace ws, PlaneHomography hm)
+    {
+        PlaneHomography inv = hm.Inverse();
+        double bw = ws.Warp.BirdsEyeWidth - 1, bh = ws.Warp.BirdsEyeHeight - 1;
+        ReadOnlySpan<double> corners = [0, 0, bw, 0, bw, bh, 0, bh];
+        double[] q = ws.Region.Trapezoid;
+        for (int k = 0; k < 4; k++)
+        {
+            if (!inv.TryMap(corners[2 * k], corners[(2 * k) + 1], out q[2 * k], out q[(2 * k) + 1]))
+            {
+                throw new InvalidOperationException("degenerate metric bird's-eye view");
+            }
+        }
+
+        ws.Region.RoiTop = Math.Min(q[1], q[3]);
+        SetHomography(ws, hm);
+    }
+
+    private static void SetHomography(FrameWorkspace ws, PlaneHomography hm)
+    {
         ws.Region.ImageToBirdsEye = hm;
         ws.Region.BirdsEyeToImage = hm.Inverse();
         var m = ws.Region.HomographyMat;

@@ -1,11 +1,3 @@
-using System.Collections.Concurrent;
-using System.Globalization;
-using LaneBaseline.Core.Geometry;
-using LaneBaseline.Core.IO;
-using LaneBaseline.Core.LaneFiles;
-using LaneBaseline.Core.Random;
-using OpenCvSharp;
-
 namespace LaneBaseline.Vision.Synthetic;
 
 /// <summary>Settings of one render run (see the <c>render</c> command).</summary>

@@ -1,8 +1,5 @@
 using System.Globalization;
-using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
-using LaneBaseline.Core.Random;
-using OpenCvSharp;
 
 namespace LaneBaseline.Vision.Synthetic;
 

@@ -20,6 +20,15 @@ public sealed class WarpSection : IDisposable
     /// <summary>Bird's-eye height in pixels.</summary>
     public int BirdsEyeHeight { get; }
 
+    /// <summary>Ground size of one bird's-eye pixel in metres when the view is metric (a camera file), else 0.</summary>
+    public double MetresPerPixel { get; internal set; }
+
+    /// <summary>Smallest plausible lane width in metres (used only when <see cref="MetresPerPixel"/> is above 0).</summary>
+    public double MinLaneWidthM { get; internal set; }
+
+    /// <summary>Largest plausible lane width in metres (used only when <see cref="MetresPerPixel"/> is above 0).</summary>
+    public double MaxLaneWidthM { get; internal set; }
+
     /// <summary>Evidence warped to the bird's-eye view.</summary>
     public Mat BirdsEye => birdsEye;
 

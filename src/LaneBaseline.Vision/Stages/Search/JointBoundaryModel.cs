@@ -235,8 +235,8 @@ internal sealed class JointBoundaryModel
         }
 
         double width = ((n * sic) - (si * sc)) / den, c0 = (sc - (width * si)) / n;
-        int bw = frame.Warp.BirdsEyeWidth;
-        if (width < search.MinLaneWidthFraction * bw || width > search.MaxLaneWidthFraction * bw)
+        (double minW, double maxW) = LaneWidthLimits.Of(search, frame);
+        if (width < minW || width > maxW)
         {
             return;
         }

@@ -83,7 +83,7 @@ internal sealed class SlotAssigner
         double centre = (bw - 1) / 2.0;
         int l1 = Nearest(ws, kept, centre, -1, double.NegativeInfinity);
         int r1 = Nearest(ws, kept, centre, +1, double.PositiveInfinity);
-        double minW = search.MinLaneWidthFraction * bw, maxW = search.MaxLaneWidthFraction * bw;
+        (double minW, double maxW) = LaneWidthLimits.Of(search, ws);
         if (l1 >= 0 && r1 >= 0)
         {
             double width = Xb(ws, r1) - Xb(ws, l1);

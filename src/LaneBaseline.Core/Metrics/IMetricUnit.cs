@@ -1,0 +1,35 @@
+using System.Text.Json;
+
+namespace LaneBaseline.Core.Metrics;
+
+/// <summary>
+/// One metric as one unit (DEVELOPERS.md, "Adding a metric"): the folder <c>Metrics/&lt;Name&gt;/</c> holding its
+/// per-frame computation, its tally, its part of the score JSON and its part of the shard state. The score JSON
+/// writer and the shard state writer and reader iterate <see cref="MetricCatalogue.Units"/> and call these members.
+/// </summary>
+public interface IMetricUnit
+{
+    /// <summary>The unit's folder under <c>src/LaneBaseline.Core/Metrics/</c> (and its row in docs/metrics.md section 8).</summary>
+    string Name { get; }
+
+    /// <summary>The key of its object in the score JSON.</summary>
+    string JsonKey { get; }
+
+    /// <summary>Where in a system's (or a tag's) object of the score JSON its part is written.</summary>
+    MetricJsonSlot Slot { get; }
+
+    /// <summary>
+    /// Writes its part of the score JSON for a tally (nothing when it has nothing to say); <paramref name="system"/>
+    /// is the system whose overall tally this is, or null for a tag's tally.
+    /// </summary>
+    void WriteJson(Utf8JsonWriter json, ScoreTally tally, SystemScore? system);
+
+    /// <summary>Writes its keys of one system's entry of a shard state frame line (full precision).</summary>
+    void WriteFrameState(Utf8JsonWriter json, FrameScore frame);
+
+    /// <summary>
+    /// Reads back what <see cref="WriteFrameState"/> wrote into <paramref name="frame"/> (the frame's other counts
+    /// are already read); a value no scorer can produce is bad input (<see cref="FrameStateSource.Bad"/>).
+    /// </summary>
+    void ReadFrameState(JsonElement entry, FrameStateSource source, FrameScore frame);
+}
