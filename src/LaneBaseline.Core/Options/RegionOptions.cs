@@ -41,8 +41,13 @@ public sealed record RegionOptions
     public double VerticalToleranceDeg { get; init; } = 10;
 
     /// <summary>Grey level (0–255) of a light source above the horizon; in a dark frame a Hough segment whose upper end
-    /// lies straight below one does not vote for the vanishing point (its reflection on a wet road). 255 = off. Default 250.</summary>
+    /// touches one (within <see cref="LightReachFraction"/> above it) does not vote for the vanishing point (the rim of
+    /// the light or of its reflection on a wet road). 255 = off. Default 250.</summary>
     public double LightSourceLightness { get; init; } = 250;
+
+    /// <summary>How far above a segment's upper end a light still touches it, fraction of the frame width (0–1).
+    /// Default 0.02. A lamp higher above the end (a real far dash under a street lamp) does not stop the segment voting.</summary>
+    public double LightReachFraction { get; init; } = 0.02;
 
     /// <summary>A frame is dark (the light-source test applies) when the median grey of the bottom quarter of the
     /// frame's centre half is below this (0–255). Default 80.</summary>
@@ -62,5 +67,6 @@ public sealed record RegionOptions
         OptionsChecks.Range(f, "region.verticalToleranceDeg", VerticalToleranceDeg, 0, 45);
         OptionsChecks.Range(f, "region.lightSourceLightness", LightSourceLightness, 0, 255);
         OptionsChecks.Range(f, "region.darkRoadLightness", DarkRoadLightness, 0, 255);
+        OptionsChecks.Range(f, "region.lightReachFraction", LightReachFraction, 0, 1);
     }
 }
