@@ -274,7 +274,7 @@ public sealed class RegionStage : IFrameStage
     /// through it, law of reflection, camera without roll), which would otherwise vote for a point above the streak. A
     /// light far above the end (a street lamp over a real far dash) does not count.
     /// </summary>
-    private int SelectVoters(FrameWorkspace ws)
+    internal int SelectVoters(FrameWorkspace ws)
     {
         int n = ws.Hough.SegmentCount;
         HoughSegment[] s = ws.Hough.Segments;

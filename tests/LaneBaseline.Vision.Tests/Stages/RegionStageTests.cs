@@ -15,12 +15,17 @@ public sealed class RegionStageTests
     // The road's vanishing point in the drawn frame: the two boundaries below meet there.
     private const double VanishX = 320, VanishY = 150;
 
-    private static (double X, double Y, VanishingSource Source) Estimate(RegionOptions region, bool streaks)
+    private static (double X, double Y, VanishingSource Source) Estimate(RegionOptions region, bool streaks) =>
+        Run(region, streaks, highLamp: false).Estimate;
+
+    /// <summary>Runs gradient, Hough and region on the drawn road; returns the estimate and the number of Hough
+    /// segments allowed to vote for the vanishing point.</summary>
+    private static ((double X, double Y, VanishingSource Source) Estimate, int Voters) Run(RegionOptions region, bool streaks, bool highLamp)
     {
         var o = new PipelineOptions { Region = region };
         int bandTop = (int)(o.Region.SearchTopFraction * H);
         using var ws = new FrameWorkspace(W, H, o.Warp.WidthPx, o.Warp.HeightPx, bandTop, o.Hough.MaxSegments, o.Hough.ImageScale);
-        using Mat frame = WetNightRoad(streaks);
+        using Mat frame = WetNightRoad(streaks, highLamp);
         ws.Frame = frame;
         using var gradient = new GradientStage(o.Gradient);
         using var hough = new HoughStage(o.Hough);
@@ -28,16 +33,17 @@ public sealed class RegionStageTests
         gradient.Process(ws);
         hough.Process(ws);
         stage.Process(ws);
-        return (ws.Region.VanishingX, ws.Region.VanishingY, ws.Region.VanishingSource);
+        return ((ws.Region.VanishingX, ws.Region.VanishingY, ws.Region.VanishingSource), stage.SelectVoters(ws));
     }
 
     /// <summary>
     /// A dark road (grey 40 under a grey 15 sky): a solid left edge line and a dashed right boundary through
     /// (320, 150); with <paramref name="streaks"/>, two street lamps (saturated discs above the horizon) and their
     /// reflections on the wet road: bright streaks straight below each lamp, tapering to a point at the top (a flat wet
-    /// road mirrors a light onto the vertical through it, law of reflection).
+    /// road mirrors a light onto the vertical through it, law of reflection). With <paramref name="highLamp"/>, a street
+    /// lamp high in the sky (row 60) straight above the far end of the dash (575, 328), with no streak.
     /// </summary>
-    private static Mat WetNightRoad(bool streaks)
+    private static Mat WetNightRoad(bool streaks, bool highLamp = false)
     {
         var frame = new Mat(H, W, MatType.CV_8UC3, new Scalar(40, 40, 40));
         Cv2.Rectangle(frame, new Rect(0, 0, W, (int)VanishY), new Scalar(15, 15, 15), -1);
@@ -58,6 +64,11 @@ public sealed class RegionStageTests
                 Cv2.Line(frame, new Point(x, 162), new Point(x + 10, 359), new Scalar(200, 215, 230), 4, LineTypes.AntiAlias);
                 Cv2.Circle(frame, new Point(x, 158), 5, Scalar.All(255), -1, LineTypes.AntiAlias);
             }
+        }
+
+        if (highLamp)
+        {
+            Cv2.Circle(frame, new Point(575, 60), 4, Scalar.All(255), -1, LineTypes.AntiAlias);
         }
 
         return frame;
@@ -98,5 +109,24 @@ public sealed class RegionStageTests
         var off = new RegionOptions { VerticalToleranceDeg = 0, LightSourceLightness = 255 };
         (double sx, double sy, _) = Estimate(off, streaks: true);
         Assert.True(Math.Abs(sx - VanishX) > 50 || Math.Abs(sy - VanishY) > 50, $"({sx:0.0}, {sy:0.0}) was not pulled");
+    }
+
+    [Fact]
+    public void FarDash_UnderAHighStreetLamp_StillVotes_WhileALightTouchingItsEndWouldStopIt()
+    {
+        // Source: law of reflection: a lamp's reflection on a flat wet road lies on the vertical through the lamp and
+        // starts at the road, so only a segment whose upper end touches a light (its rim, or the top of its streak)
+        // is the light's; a lamp 268 px above a dash's far end (sky row 60, dash end at row 328) is a street lamp over
+        // real paint (validation frame wet-night lap-0024 and held-out lap-0005 lost their far dashes this way, common
+        // practice to check). With the default reach (0.02 x 640 = 13 px above the end) the dash's segments vote as
+        // without the lamp; with a reach covering the whole frame height (the earlier "straight below a light" rule)
+        // they do not, so this test fails if the rule is widened again.
+        (var plain, int votersPlain) = Run(new RegionOptions(), streaks: false, highLamp: false);
+        (var lamp, int votersLamp) = Run(new RegionOptions(), streaks: false, highLamp: true);
+        (_, int votersWide) = Run(new RegionOptions { LightReachFraction = 1 }, streaks: false, highLamp: true);
+        Assert.Equal(votersPlain, votersLamp);
+        Assert.True(votersWide < votersLamp, $"{votersWide} voters with the whole-height reach against {votersLamp}");
+        Assert.Equal(plain.X, lamp.X, 6);
+        Assert.Equal(plain.Y, lamp.Y, 6);
     }
 }
