@@ -29,13 +29,13 @@ internal static class ScoreTableWriter
                 o.Write(Ci(boot.Intervals[s][(int)BootstrapStatistic.F1]));
             }
 
-            o.Write(F($"  {half.Precision:0.0000}  {half.Recall:0.0000}  {t.MeanF1:0.0000}  {t.At(IouThreshold.Parse("0.10")).F1:0.0000}  {t.At(IouThreshold.Parse("0.30")).F1:0.0000}  {t.At(IouThreshold.Parse("0.75")).F1:0.0000}  | {t.PointAccuracy:0.0000}  "));
+            o.Write(F($"  {half.Precision:0.0000}  {half.Recall:0.0000}  {t.MeanF1:0.0000}  {t.At(IouThreshold.Parse("0.10")).F1:0.0000}  {t.At(IouThreshold.Parse("0.30")).F1:0.0000}  {t.At(IouThreshold.Parse("0.75")).F1:0.0000}  | {t.Points.Accuracy:0.0000}  "));
             if (boot is not null)
             {
                 o.Write(Ci(boot.Intervals[s][(int)BootstrapStatistic.Accuracy]));
             }
 
-            o.WriteLine(F($"  {t.PointFpRate:0.0000}  {t.PointFnRate:0.0000}"));
+            o.WriteLine(F($"  {t.Points.FpRate:0.0000}  {t.Points.FnRate:0.0000}"));
         }
 
         if (settings.Camera is not null)
@@ -94,7 +94,7 @@ internal static class ScoreTableWriter
                 o.Write(F($"  {tag.PadRight(tagWidth)}  {frames,6}"));
                 foreach (SystemScore r in results)
                 {
-                    string cell = r.ByTag.TryGetValue(tag, out ScoreTally? x) ? F($"{x.At(IouThreshold.Half).F1:0.000} / {x.PointAccuracy:0.000}") : "-";
+                    string cell = r.ByTag.TryGetValue(tag, out ScoreTally? x) ? F($"{x.At(IouThreshold.Half).F1:0.000} / {x.Points.Accuracy:0.000}") : "-";
                     o.Write("  " + cell.PadLeft(15));
                 }
 

@@ -99,8 +99,6 @@ internal sealed class CalibrationRunner(TuneRequest request, double lambda, bool
             Tags = [],
             TruePositives = [],
             AssignedIous = [],
-            ConfidenceTruePositives = [],
-            ConfidencePredLanes = [],
             LaneScores = [.. scores],
             LaneHits = [.. hits],
         });

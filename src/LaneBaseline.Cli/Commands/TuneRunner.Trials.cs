@@ -70,7 +70,7 @@ internal sealed partial class TuneRunner
         return request.Objective switch
         {
             "mf1" => tally.MeanF1,
-            "accuracy" => tally.PointAccuracy,
+            "accuracy" => tally.Points.Accuracy,
             _ => tally.At(IouThreshold.Half).F1,
         };
     }

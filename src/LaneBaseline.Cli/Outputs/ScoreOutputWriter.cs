@@ -197,7 +197,7 @@ internal static class ScoreOutputWriter
     internal static void WriteCsvHeader(TextWriter csv, bool multi) => csv.Write(CsvHeader(multi));
 
     private static string CsvHeader(bool multi) =>
-        (multi ? "system," : string.Empty) + "frame,tags,tp,fp,fn,mean_matched_iou,point_accuracy\n";
+        (multi ? "system," : string.Empty) + "frame,tags,tp,fp,fn,mean_matched_iou" + string.Concat(MetricCatalogue.Units.SelectMany(u => u.CsvColumns).Select(c => "," + c)) + "\n";
 
     internal static void WriteCsvRows(TextWriter csv, IReadOnlyList<ScoredSystem> systems, int halfIndex, IReadOnlyList<FrameScore> row)
     {
@@ -217,9 +217,11 @@ internal static class ScoreOutputWriter
             csv.Write(string.Create(CultureInfo.InvariantCulture, $",{tp},{f.PredLanes - tp},{f.TruthLanes - tp},"));
             double miou = f.MeanMatchedIou;
             csv.Write(double.IsNaN(miou) ? string.Empty : miou.ToString("R", CultureInfo.InvariantCulture));
-            csv.Write(',');
-            double acc = f.FramePointAccuracy;
-            csv.Write(double.IsNaN(acc) ? string.Empty : acc.ToString("R", CultureInfo.InvariantCulture));
+            foreach (IMetricUnit unit in MetricCatalogue.Units)
+            {
+                unit.WriteCsvCells(csv, f, halfIndex);
+            }
+
             csv.Write('\n');
         }
     }

@@ -126,7 +126,7 @@ internal static partial class WorstFrameGallery
             {
                 FrameScore f = row[s];
                 int tp = f.TruePositives[half];
-                double f1 = FrameF1(tp, f.PredLanes, f.TruthLanes), acc = f.FramePointAccuracy;
+                double f1 = FrameF1(tp, f.PredLanes, f.TruthLanes), acc = f.Points.FrameAccuracy(f.TruthLanes);
                 All[s].Add((tp, f.PredLanes, f.TruthLanes, acc));
                 bool perfect = f1 >= 1.0 && (double.IsNaN(acc) || acc >= 1.0); // perfect (or empty) frames teach nothing in a gallery of failures
                 Candidate? c = perfect ? null : new Candidate(ordinal, f.Frame, f.Tags, tp, f.PredLanes - tp, f.TruthLanes - tp, f1, acc);

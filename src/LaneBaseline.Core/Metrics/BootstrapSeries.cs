@@ -44,7 +44,7 @@ public sealed class BootstrapSeries
         TruePositives.Add(frame.TruePositives[halfIndex]);
         TruthLanes.Add(frame.TruthLanes);
         PredLanes.Add(frame.PredLanes);
-        PointAccuracySums.Add(frame.PointAccuracySum);
+        PointAccuracySums.Add(frame.Points.AccuracySum);
     }
 
     /// <summary>Adds one frame's statistics and its TP at the mF1 thresholds (indices into <see cref="FrameScore.TruePositives"/>).</summary>

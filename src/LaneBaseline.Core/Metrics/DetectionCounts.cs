@@ -1,3 +1,5 @@
+using System.Text.Json;
+
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>TP/FP/FN and the rates derived from them.</summary>
@@ -22,5 +24,20 @@ public readonly record struct DetectionCounts(long TruePositives, long FalsePosi
         double r = Metrics.Ratio(tp, tp + fn);
         double f1 = p + r == 0 ? 0.0 : 2 * p * r / (p + r);
         return new DetectionCounts(tp, fp, fn, p, r, f1);
+    }
+
+    /// <summary>Writes the counts and rates as keys of the current JSON object: <c>tp</c>, <c>fp</c>, <c>fn</c>, <c>precision</c>, <c>recall</c>, <c>f1</c>.</summary>
+    public void WriteJson(Utf8JsonWriter json)
+    {
+        ArgumentNullException.ThrowIfNull(json);
+        json.WriteNumber("tp", TruePositives);
+        json.WriteNumber("fp", FalsePositives);
+        json.WriteNumber("fn", FalseNegatives);
+        json.WritePropertyName("precision");
+        ScoreJsonWriter.WriteFloat(json, Precision);
+        json.WritePropertyName("recall");
+        ScoreJsonWriter.WriteFloat(json, Recall);
+        json.WritePropertyName("f1");
+        ScoreJsonWriter.WriteFloat(json, F1);
     }
 }

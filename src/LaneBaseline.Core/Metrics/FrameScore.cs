@@ -1,4 +1,6 @@
+using LaneBaseline.Core.Metrics.ConfidenceSweep;
 using LaneBaseline.Core.Metrics.Ground;
+using LaneBaseline.Core.Metrics.PointAccuracy;
 
 namespace LaneBaseline.Core.Metrics;
 
@@ -32,20 +34,11 @@ public sealed class FrameScore
     /// <summary>IoU of each Hungarian-assigned truth/prediction pair (IoU matrix values, assignment order by truth row).</summary>
     public required double[] AssignedIous { get; init; }
 
-    /// <summary>Sum over truth lanes of the assigned pair accuracy (0 when unassigned).</summary>
-    public double PointAccuracySum { get; init; }
+    /// <summary>The row-sampled point accuracy of the frame (<see cref="FramePointAccuracy"/>).</summary>
+    public FramePointAccuracy Points { get; set; } = FramePointAccuracy.Empty;
 
-    /// <summary>Truth lanes whose assigned pair accuracy reaches 0.85 (equally, matched predictions).</summary>
-    public int PointMatched { get; init; }
-
-    /// <summary>
-    /// True positives at IoU 0.50 when only predictions with confidence &gt;= cutoff k/20 are kept (k = 0…19);
-    /// a lane without a confidence is always kept.
-    /// </summary>
-    public required int[] ConfidenceTruePositives { get; init; }
-
-    /// <summary>Predictions kept at each confidence cutoff k/20.</summary>
-    public required int[] ConfidencePredLanes { get; init; }
+    /// <summary>The confidence sweep of the frame (<see cref="FrameConfidenceSweep"/>).</summary>
+    public FrameConfidenceSweep Sweep { get; set; } = FrameConfidenceSweep.Empty;
 
     /// <summary>Metric-space errors when a camera is given, else null.</summary>
     public FrameGroundErrors? Ground { get; set; }
@@ -55,9 +48,6 @@ public sealed class FrameScore
 
     /// <summary>Per entry of <see cref="LaneScores"/>: whether that lane is a true positive at IoU 0.50.</summary>
     public bool[] LaneHits { get; set; } = [];
-
-    /// <summary>Whether any predicted lane in the frame carries a confidence.</summary>
-    public bool HasConfidence { get; init; }
 
     /// <summary>Mean IoU of the assigned pairs with IoU &gt; 0, or NaN when there are none.</summary>
     public double MeanMatchedIou
@@ -78,7 +68,4 @@ public sealed class FrameScore
             return n == 0 ? double.NaN : sum / n;
         }
     }
-
-    /// <summary>Point accuracy of the frame alone (sum / truth lanes), or NaN without truth lanes.</summary>
-    public double FramePointAccuracy => TruthLanes == 0 ? double.NaN : PointAccuracySum / TruthLanes;
 }

@@ -5,7 +5,8 @@ namespace LaneBaseline.Core.Metrics;
 /// <summary>
 /// One metric as one unit (DEVELOPERS.md, "Adding a metric"): the folder <c>Metrics/&lt;Name&gt;/</c> holding its
 /// per-frame computation, its tally, its part of the score JSON and its part of the shard state. The score JSON
-/// writer and the shard state writer and reader iterate <see cref="MetricCatalogue.Units"/> and call these members.
+/// writer, the per-frame CSV writer and the shard state writer and reader iterate <see cref="MetricCatalogue.Units"/>
+/// and call these members.
 /// </summary>
 public interface IMetricUnit
 {
@@ -22,7 +23,18 @@ public interface IMetricUnit
     /// Writes its part of the score JSON for a tally (nothing when it has nothing to say); <paramref name="system"/>
     /// is the system whose overall tally this is, or null for a tag's tally.
     /// </summary>
-    void WriteJson(Utf8JsonWriter json, ScoreTally tally, SystemScore? system);
+    void WriteJson(Utf8JsonWriter json, ScoreTally tally, SystemScore? system, ScoreSettings settings);
+
+    /// <summary>The columns it adds to each row of the per-frame CSV (<c>score --csv</c>), in order; none by default.</summary>
+    IReadOnlyList<string> CsvColumns => [];
+
+    /// <summary>
+    /// Writes its cells of a frame's CSV row, each preceded by a comma (one per <see cref="CsvColumns"/>);
+    /// <paramref name="halfIndex"/> is the position of IoU 0.50 in the settings' thresholds.
+    /// </summary>
+    void WriteCsvCells(TextWriter csv, FrameScore frame, int halfIndex)
+    {
+    }
 
     /// <summary>Writes its keys of one system's entry of a shard state frame line (full precision).</summary>
     void WriteFrameState(Utf8JsonWriter json, FrameScore frame);

@@ -1,6 +1,8 @@
 using LaneBaseline.Core.Metrics.Calibration;
+using LaneBaseline.Core.Metrics.ConfidenceSweep;
 using LaneBaseline.Core.Metrics.Coverage;
 using LaneBaseline.Core.Metrics.Ground;
+using LaneBaseline.Core.Metrics.PointAccuracy;
 
 namespace LaneBaseline.Core.Metrics;
 
@@ -13,6 +15,8 @@ public static class MetricCatalogue
     /// <summary>Every metric unit.</summary>
     public static IReadOnlyList<IMetricUnit> Units { get; } =
     [
+        new PointAccuracyUnit(),
+        new ConfidenceSweepUnit(),
         new CalibrationUnit(),
         new GroundUnit(),
         new CoverageUnit(),

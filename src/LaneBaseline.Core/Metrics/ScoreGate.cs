@@ -185,7 +185,7 @@ public sealed record ScoreGate
             GateMetric.Precision => tally.At(Threshold).Precision,
             GateMetric.Recall => tally.At(Threshold).Recall,
             GateMetric.MeanF1 => tally.MeanF1,
-            _ => tally.PointAccuracy,
+            _ => tally.Points.Accuracy,
         };
         return new GateOutcome(this, value, Compare(value), string.Create(CultureInfo.InvariantCulture, $"{MetricName} = {value:0.####}"));
     }

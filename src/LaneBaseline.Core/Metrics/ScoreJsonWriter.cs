@@ -164,7 +164,7 @@ public static class ScoreJsonWriter
             BootstrapStatistic.F1 => c.F1,
             BootstrapStatistic.Precision => c.Precision,
             BootstrapStatistic.Recall => c.Recall,
-            _ => tally.PointAccuracy,
+            _ => tally.Points.Accuracy,
         };
     }
 
@@ -220,30 +220,13 @@ public static class ScoreJsonWriter
             json.WriteEndObject();
         }
 
-        if (system.Overall.AnyConfidence)
-        {
-            json.WriteStartArray("confidence_sweep");
-            for (int k = 0; k < FrameScorer.ConfidenceCutoffs; k++)
-            {
-                DetectionCounts c = DetectionCounts.From(
-                    system.Overall.ConfidenceTruePositives[k], system.Overall.ConfidencePredLanes[k], system.Overall.TruthLanes);
-                json.WriteStartObject();
-                json.WritePropertyName("min_score");
-                WriteFloat(json, (double)(k * 0.05m));
-                WriteCounts(json, c);
-                json.WriteEndObject();
-            }
-
-            json.WriteEndArray();
-        }
-
-        WriteUnits(json, MetricJsonSlot.Closing, system.Overall, system);
+        WriteUnits(json, MetricJsonSlot.Closing, system.Overall, system, settings);
         json.WriteStartObject("by_tag");
         foreach (KeyValuePair<string, ScoreTally> kv in system.ByTag)
         {
             json.WriteStartObject(kv.Key);
             WriteTally(json, kv.Value, null, settings, includeFrames: true);
-            WriteUnits(json, MetricJsonSlot.Closing, kv.Value, null);
+            WriteUnits(json, MetricJsonSlot.Closing, kv.Value, null, settings);
             if (bootstrap is { Resamples: > 0 } && bootstrap.ByTag.TryGetValue(kv.Key, out TagBootstrap? tb))
             {
                 json.WriteStartObject("intervals");
@@ -265,11 +248,11 @@ public static class ScoreJsonWriter
     }
 
     // The parts of the metric units in one slot, in catalogue order.
-    private static void WriteUnits(Utf8JsonWriter json, MetricJsonSlot slot, ScoreTally tally, SystemScore? system)
+    private static void WriteUnits(Utf8JsonWriter json, MetricJsonSlot slot, ScoreTally tally, SystemScore? system, ScoreSettings settings)
     {
         foreach (IMetricUnit unit in MetricCatalogue.InSlot(slot))
         {
-            unit.WriteJson(json, tally, system);
+            unit.WriteJson(json, tally, system, settings);
         }
     }
 
@@ -297,7 +280,7 @@ public static class ScoreJsonWriter
         for (int k = 0; k < tally.Thresholds.Count; k++)
         {
             json.WriteStartObject(tally.Thresholds[k].Key);
-            WriteCounts(json, tally.At(k));
+            tally.At(k).WriteJson(json);
             json.WriteEndObject();
         }
 
@@ -306,42 +289,7 @@ public static class ScoreJsonWriter
         WriteFloat(json, tally.MeanF1);
         json.WriteEndObject();
 
-        json.WriteStartObject("point_accuracy");
-        double? tolerance = settings.TolerancePx ?? (tally.CommonWidth is int tw ? settings.ToleranceFor(tw) : null);
-        json.WritePropertyName("tolerance_px");
-        if (tolerance is double tol)
-        {
-            WriteFloat(json, tol);
-        }
-        else
-        {
-            json.WriteNullValue();
-        }
-
-        json.WritePropertyName("accuracy");
-        WriteFloat(json, tally.PointAccuracy);
-        json.WritePropertyName("fp_rate");
-        WriteFloat(json, tally.PointFpRate);
-        json.WritePropertyName("fn_rate");
-        WriteFloat(json, tally.PointFnRate);
-        json.WriteNumber("matched", tally.PointMatched);
-        json.WriteNumber("truth_lanes", tally.TruthLanes);
-        json.WriteNumber("pred_lanes", tally.PredLanes);
-        json.WriteEndObject();
-        WriteUnits(json, MetricJsonSlot.Tally, tally, system);
-    }
-
-    private static void WriteCounts(Utf8JsonWriter json, DetectionCounts c)
-    {
-        json.WriteNumber("tp", c.TruePositives);
-        json.WriteNumber("fp", c.FalsePositives);
-        json.WriteNumber("fn", c.FalseNegatives);
-        json.WritePropertyName("precision");
-        WriteFloat(json, c.Precision);
-        json.WritePropertyName("recall");
-        WriteFloat(json, c.Recall);
-        json.WritePropertyName("f1");
-        WriteFloat(json, c.F1);
+        WriteUnits(json, MetricJsonSlot.Tally, tally, system, settings);
     }
 
     private static void WriteSettings(Utf8JsonWriter json, IReadOnlyList<SystemScore> systems, ScoreSettings settings, BootstrapResult? bootstrap, string truthPath)

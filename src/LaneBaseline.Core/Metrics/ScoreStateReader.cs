@@ -114,12 +114,6 @@ public sealed class ScoreStateReader : IDisposable
                     throw BadInputException.At(path, line, "s.tp", "threshold count does not match the header");
                 }
 
-                int[] ctp = Ints(s.GetProperty("ctp")), cp = Ints(s.GetProperty("cp"));
-                if (ctp.Length != FrameScorer.ConfidenceCutoffs || cp.Length != FrameScorer.ConfidenceCutoffs)
-                {
-                    throw BadInputException.At(path, line, "s.ctp", "confidence cut-off count does not match this build");
-                }
-
                 int nt = s.GetProperty("nt").GetInt32(), np = s.GetProperty("np").GetInt32();
                 if (nt < 0 || np < 0 || tp.Any(v => v < 0 || v > Math.Min(nt, np)))
                 {
@@ -127,9 +121,7 @@ public sealed class ScoreStateReader : IDisposable
                 }
 
                 double[] ious = [.. s.GetProperty("iou").EnumerateArray().Select(v => v.GetDouble())];
-                double acc = s.GetProperty("acc").GetDouble();
-                int matched = s.GetProperty("m").GetInt32();
-                CheckConsistent(frame, nt, np, ious, acc, matched, ctp, cp);
+                CheckConsistent(frame, nt, np, ious);
                 var frameScore = new FrameScore
                 {
                     Ordinal = ordinal,
@@ -141,11 +133,6 @@ public sealed class ScoreStateReader : IDisposable
                     PredLanes = np,
                     TruePositives = tp,
                     AssignedIous = ious,
-                    PointAccuracySum = acc,
-                    PointMatched = matched,
-                    ConfidenceTruePositives = ctp,
-                    ConfidencePredLanes = cp,
-                    HasConfidence = s.GetProperty("conf").GetBoolean(),
                 };
                 source ??= new FrameStateSource(path, line, Header);
                 foreach (IMetricUnit unit in MetricCatalogue.Units)
@@ -173,28 +160,14 @@ public sealed class ScoreStateReader : IDisposable
 
     /// <summary>
     /// The per-frame counts must be ones a scorer can produce (a hand-edited state could otherwise give an accuracy of
-    /// 1e9): at most min(truth, predicted) assigned pairs, IoUs in [0, 1], a point-accuracy sum in [0, pairs], and
-    /// per-cut-off counts within the lane counts.
+    /// 1e9): at most min(truth, predicted) assigned pairs, IoUs in [0, 1].
     /// </summary>
-    private void CheckConsistent(string frame, int nt, int np, double[] ious, double acc, int matched, int[] ctp, int[] cp)
+    private void CheckConsistent(string frame, int nt, int np, double[] ious)
     {
         int pairs = Math.Min(nt, np);
         if (ious.Length > pairs || ious.Any(v => !(v >= 0 && v <= 1)))
         {
             throw BadInputException.At(path, line, "s.iou", $"frame '{frame}': {ious.Length.ToString(CultureInfo.InvariantCulture)} assigned IoUs for {nt.ToString(CultureInfo.InvariantCulture)} truth and {np.ToString(CultureInfo.InvariantCulture)} predicted lanes, or an IoU outside [0, 1]");
-        }
-
-        if (matched < 0 || matched > pairs || !(acc >= 0 && acc <= pairs + 1e-9))
-        {
-            throw BadInputException.At(path, line, "s.acc", string.Create(CultureInfo.InvariantCulture, $"frame '{frame}': point accuracy sum {acc} with {matched} matched lanes is impossible (each assigned pair's accuracy is in [0, 1] and there are at most {pairs} pairs)"));
-        }
-
-        for (int k = 0; k < cp.Length; k++)
-        {
-            if (cp[k] < 0 || cp[k] > np || ctp[k] < 0 || ctp[k] > Math.Min(cp[k], nt))
-            {
-                throw BadInputException.At(path, line, "s.ctp", $"frame '{frame}': confidence cut-off counts exceed the lane counts");
-            }
         }
     }
 

@@ -139,12 +139,6 @@ public sealed class ScoreStateWriter : IDisposable
                 }
 
                 json.WriteEndArray();
-                json.WritePropertyName("acc");
-                json.WriteRawValue(f.PointAccuracySum.ToString("R", CultureInfo.InvariantCulture));
-                json.WriteNumber("m", f.PointMatched);
-                Ints(json, "ctp", f.ConfidenceTruePositives);
-                Ints(json, "cp", f.ConfidencePredLanes);
-                json.WriteBoolean("conf", f.HasConfidence);
                 foreach (IMetricUnit unit in MetricCatalogue.Units)
                 {
                     unit.WriteFrameState(json, f);

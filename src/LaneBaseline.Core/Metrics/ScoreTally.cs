@@ -1,4 +1,6 @@
+using LaneBaseline.Core.Metrics.ConfidenceSweep;
 using LaneBaseline.Core.Metrics.Ground;
+using LaneBaseline.Core.Metrics.PointAccuracy;
 
 namespace LaneBaseline.Core.Metrics;
 
@@ -28,26 +30,17 @@ public sealed class ScoreTally
     /// <summary>True positives per threshold.</summary>
     public long[] TruePositives { get; }
 
-    /// <summary>Sum of assigned pair accuracies.</summary>
-    public double PointAccuracySum { get; private set; }
+    /// <summary>The row-sampled point accuracy over the frames.</summary>
+    public PointAccuracyTally Points { get; } = new();
 
-    /// <summary>Truth lanes matched by the point metric.</summary>
-    public long PointMatched { get; private set; }
-
-    /// <summary>True positives at IoU 0.50 per confidence cutoff.</summary>
-    public long[] ConfidenceTruePositives { get; } = new long[FrameScorer.ConfidenceCutoffs];
-
-    /// <summary>Kept predictions per confidence cutoff.</summary>
-    public long[] ConfidencePredLanes { get; } = new long[FrameScorer.ConfidenceCutoffs];
+    /// <summary>The confidence sweep over the frames.</summary>
+    public ConfidenceSweepTally Sweep { get; } = new();
 
     /// <summary>Metric-space error sums (present when a camera was given).</summary>
     public GroundTally? Ground { get; private set; }
 
     /// <summary>Calibration of the lanes' scores (reliability table, ECE, precision-recall over the score).</summary>
     public Calibration.ReliabilityTally Reliability { get; } = new();
-
-    /// <summary>Whether any prediction carried a confidence.</summary>
-    public bool AnyConfidence { get; private set; }
 
     /// <summary>Whether frames of different sizes were added.</summary>
     public bool MixedSizes { get; private set; }
@@ -83,15 +76,8 @@ public sealed class ScoreTally
             TruePositives[k] += frame.TruePositives[k];
         }
 
-        PointAccuracySum += frame.PointAccuracySum;
-        PointMatched += frame.PointMatched;
-        for (int k = 0; k < FrameScorer.ConfidenceCutoffs; k++)
-        {
-            ConfidenceTruePositives[k] += frame.ConfidenceTruePositives[k];
-            ConfidencePredLanes[k] += frame.ConfidencePredLanes[k];
-        }
-
-        AnyConfidence |= frame.HasConfidence;
+        Points.Add(frame);
+        Sweep.Add(frame);
         Reliability.Add(frame);
         if (frame.Ground is { } g)
         {
@@ -119,13 +105,4 @@ public sealed class ScoreTally
             return sum / IouThreshold.MeanF1Set.Count;
         }
     }
-
-    /// <summary>Point accuracy = Σ assigned pair accuracy / truth lanes.</summary>
-    public double PointAccuracy => AllEmpty ? 1.0 : Metrics.Ratio(PointAccuracySum, TruthLanes);
-
-    /// <summary>Unmatched predictions / predictions.</summary>
-    public double PointFpRate => Metrics.Ratio(PredLanes - PointMatched, PredLanes);
-
-    /// <summary>Unmatched truth lanes / truth lanes.</summary>
-    public double PointFnRate => Metrics.Ratio(TruthLanes - PointMatched, TruthLanes);
 }

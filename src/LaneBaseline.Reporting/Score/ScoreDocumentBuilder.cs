@@ -1,6 +1,7 @@
 using System.Globalization;
 using LaneBaseline.Core.Metrics;
 using LaneBaseline.Core.Metrics.Calibration;
+using LaneBaseline.Core.Metrics.ConfidenceSweep;
 using LaneBaseline.Core.Metrics.Ground;
 
 namespace LaneBaseline.Reporting.Score;
@@ -96,12 +97,11 @@ public static class ScoreDocumentBuilder
 
         var sweep = new List<SweepPoint>();
         ScoreTally overall = system.Overall;
-        if (overall.AnyConfidence)
+        if (overall.Sweep.AnyConfidence)
         {
-            for (int k = 0; k < FrameScorer.ConfidenceCutoffs; k++)
+            for (int k = 0; k < FrameConfidenceSweep.Cutoffs; k++)
             {
-                DetectionCounts c = DetectionCounts.From(overall.ConfidenceTruePositives[k], overall.ConfidencePredLanes[k], overall.TruthLanes);
-                sweep.Add(new SweepPoint((double)(k * 0.05m), Counts(c)));
+                sweep.Add(new SweepPoint((double)FrameConfidenceSweep.Cutoff(k), Counts(overall.Sweep.At(k))));
             }
         }
 
@@ -160,10 +160,10 @@ public static class ScoreDocumentBuilder
         rows.Sort((a, b) => a.Value.CompareTo(b.Value));
         var point = new PointSummary(
             tolerance is double t && double.IsFinite(t) ? t : null,
-            Finite(tally.PointAccuracy),
-            Finite(tally.PointFpRate),
-            Finite(tally.PointFnRate),
-            tally.PointMatched);
+            Finite(tally.Points.Accuracy),
+            Finite(tally.Points.FpRate),
+            Finite(tally.Points.FnRate),
+            tally.Points.Matched);
         return new Tally(tally.Frames, tally.TruthLanes, tally.PredLanes, width, rows, Finite(tally.MeanF1), point)
         {
             Ground = tally.Ground is { } g ? Ground(g) : null,

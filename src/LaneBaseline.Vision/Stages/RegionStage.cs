@@ -1,6 +1,7 @@
 using LaneBaseline.Core.Options;
 using LaneBaseline.Core.Results;
 using LaneBaseline.Vision.Pipeline;
+using OpenCvSharp;
 
 namespace LaneBaseline.Vision.Stages;
 
@@ -9,7 +10,12 @@ namespace LaneBaseline.Vision.Stages;
 /// </summary>
 /// <remarks>
 /// With a camera file the vanishing point is the image of the point at infinity straight ahead on the road and steps
-/// (1)–(4) are skipped. Otherwise: (1) hypotheses: every pair of Hough segments with opposite lean (one left boundary going up-right,
+/// (1)–(4) are skipped. Otherwise: (0) voters: segments within <see cref="RegionOptions.VerticalToleranceDeg"/> of the
+/// image vertical, and in a dark frame segments whose upper end touches a light source (within
+/// <see cref="RegionOptions.LightReachFraction"/> above it: the rims of headlights and the tops of their specular
+/// reflections on a wet road, which lie on the vertical through the light, law of reflection), take no part in
+/// (1)–(3); a light far above the end, such as a street lamp over a real far dash, does not count; (1) hypotheses:
+/// every pair of Hough segments with opposite lean (one left boundary going up-right,
 /// one right boundary going up-left) is intersected; an intersection outside the plausible band (horizon within
 /// [<see cref="RegionOptions.MinHorizonFraction"/>, <see cref="RegionOptions.MaxHorizonFraction"/>] of the height,
 /// column within <see cref="RegionOptions.MaxVanishingOffsetFraction"/> of the width from the centre) is dropped;
@@ -39,6 +45,10 @@ public sealed class RegionStage : IFrameStage
     private readonly bool smooth;
     private readonly (double X, double Y)? fixedPoint;
     private readonly PlaneHomography? metric;
+    private HoughSegment[] voters = [];
+    private bool[] litColumn = [];
+    private int lightLastRow;
+    private byte lightLimit = 255;
 
     /// <summary>Creates the stage.</summary>
     /// <param name="region">Region options.</param>
@@ -166,8 +176,8 @@ public sealed class RegionStage : IFrameStage
 
     private bool TryEstimate(FrameWorkspace ws, out double bestX, out double bestY)
     {
-        int n = ws.Hough.SegmentCount;
-        HoughSegment[] s = ws.Hough.Segments;
+        int n = SelectVoters(ws);
+        HoughSegment[] s = voters;
         int w = ws.Width, h = ws.Height;
         double tol = region.VanishingToleranceFraction * w;
         double minY = region.MinHorizonFraction * h, maxY = region.MaxHorizonFraction * h;
@@ -250,6 +260,157 @@ public sealed class RegionStage : IFrameStage
         }
 
         return true;
+    }
+
+    /// <summary>
+    /// Copies the frame's Hough segments that may vote for the vanishing point into <see cref="voters"/> (in their
+    /// order) and returns their count. Dropped: (a) segments within <see cref="RegionOptions.VerticalToleranceDeg"/> of
+    /// the image vertical; (b) in a dark frame, segments whose upper end touches a light source: a pixel of grey level
+    /// at least <see cref="RegionOptions.LightSourceLightness"/>, no lower than
+    /// <see cref="RegionOptions.MaxHorizonFraction"/> × height, in a column within m of the end's column and a row
+    /// from r above the end to m below it (m = half the vanishing tolerance, r =
+    /// <see cref="RegionOptions.LightReachFraction"/> × width). Such segments are the rims of headlights near the
+    /// horizon and the tapering tops of their streaks on a wet road (a flat wet road mirrors a light onto the vertical
+    /// through it, law of reflection, camera without roll), which would otherwise vote for a point above the streak. A
+    /// light far above the end (a street lamp over a real far dash) does not count.
+    /// </summary>
+    internal int SelectVoters(FrameWorkspace ws)
+    {
+        int n = ws.Hough.SegmentCount;
+        HoughSegment[] s = ws.Hough.Segments;
+        if (voters.Length < s.Length)
+        {
+            voters = new HoughSegment[s.Length];
+        }
+
+        double maxLean = Math.Tan(region.VerticalToleranceDeg * Math.PI / 180);
+        bool lights = region.LightSourceLightness < 255 && n > 0 && FindLights(ws);
+        int margin = Math.Max(1, (int)(region.VanishingToleranceFraction * ws.Width / 2));
+        int reach = (int)Math.Round(region.LightReachFraction * ws.Width);
+        int m = 0;
+        for (int i = 0; i < n; i++)
+        {
+            HoughSegment g = s[i];
+            if (Math.Abs(g.X2 - g.X1) < maxLean * Math.Abs(g.Y2 - g.Y1))
+            {
+                continue;
+            }
+
+            if (lights)
+            {
+                (double xt, double yt) = g.Y1 <= g.Y2 ? (g.X1, g.Y1) : (g.X2, g.Y2);
+                int x = (int)Math.Round(xt), y = (int)Math.Round(yt);
+                if (TouchesLight(ws, x - margin, x + margin, y - reach, y + margin))
+                {
+                    continue;
+                }
+            }
+
+            voters[m++] = g;
+        }
+
+        return m;
+    }
+
+    /// <summary>
+    /// Whether the frame is dark (median grey of the bottom quarter of the centre half below
+    /// <see cref="RegionOptions.DarkRoadLightness"/>) and holds small lights: pixels of grey level at least
+    /// <see cref="RegionOptions.LightSourceLightness"/> above <see cref="RegionOptions.MaxHorizonFraction"/> × height
+    /// in at least one column but no more than a quarter of them (more: the sky itself is bright and the test is not
+    /// applied). Sets <see cref="lightLimit"/> and <see cref="lightLastRow"/> for <see cref="TouchesLight"/>.
+    /// </summary>
+    /// <returns>Whether the light-source test applies to this frame.</returns>
+    private unsafe bool FindLights(FrameWorkspace ws)
+    {
+        int w = ws.Width, h = ws.Height;
+        Mat band = ws.Gradient.Blurred;
+        int bandTop = ws.BandTop;
+        int y0 = Math.Max(bandTop, h - (h / 4)), x0 = w / 4, x1 = w - (w / 4);
+        Span<int> hist = stackalloc int[256];
+        hist.Clear();
+        int count = 0;
+        byte* bandBase = (byte*)band.DataPointer;
+        long bandStep = band.Step();
+        for (int y = y0; y < h; y += 4)
+        {
+            byte* row = bandBase + ((y - bandTop) * bandStep);
+            for (int x = x0; x < x1; x += 4)
+            {
+                hist[row[x]]++;
+                count++;
+            }
+        }
+
+        int median = 0, acc = hist[0];
+        while (median < 255 && acc * 2 < count)
+        {
+            acc += hist[++median];
+        }
+
+        if (count == 0 || median >= region.DarkRoadLightness)
+        {
+            return false;
+        }
+
+        if (litColumn.Length != w)
+        {
+            litColumn = new bool[w];
+        }
+
+        Array.Fill(litColumn, false);
+        lightLastRow = Math.Min(h - 1, (int)(region.MaxHorizonFraction * h));
+        lightLimit = (byte)Math.Clamp(Math.Ceiling(region.LightSourceLightness), 0, 255);
+        Mat gray = ws.Gradient.Gray;
+        byte* grayBase = (byte*)gray.DataPointer;
+        long grayStep = gray.Step();
+        int lit = 0;
+        for (int y = 0; y <= lightLastRow; y++)
+        {
+            ReadOnlySpan<byte> row = new(grayBase + (y * grayStep), w);
+            if (row.IndexOfAnyInRange(lightLimit, (byte)255) < 0)
+            {
+                continue;
+            }
+
+            for (int x = 0; x < w; x++)
+            {
+                if (row[x] >= lightLimit && !litColumn[x])
+                {
+                    litColumn[x] = true;
+                    lit++;
+                }
+            }
+        }
+
+        return lit > 0 && lit * 4 <= w;
+    }
+
+    /// <summary>Whether the grey frame holds a light-source pixel in columns [x0, x1] and rows [y0, y1] (clipped to the
+    /// frame and to the rows searched for lights).</summary>
+    private unsafe bool TouchesLight(FrameWorkspace ws, int x0, int x1, int y0, int y1)
+    {
+        x0 = Math.Max(0, x0);
+        x1 = Math.Min(ws.Width - 1, x1);
+        y0 = Math.Max(0, y0);
+        y1 = Math.Min(lightLastRow, y1);
+        if (x1 < x0)
+        {
+            return false;
+        }
+
+        Mat gray = ws.Gradient.Gray;
+        byte* grayBase = (byte*)gray.DataPointer;
+        long grayStep = gray.Step();
+        for (int y = y0; y <= y1; y++)
+        {
+            ReadOnlySpan<byte> row = new(grayBase + (y * grayStep) + x0, x1 - x0 + 1);
+            if (row.IndexOfAnyInRange(lightLimit, (byte)255) >= 0)
+            {
+                return true;
+            }
+        }
+
+        return false;
     }
 
     /// <summary>dx/dy sign: negative for a left boundary (x grows as y shrinks), positive for a right one.</summary>

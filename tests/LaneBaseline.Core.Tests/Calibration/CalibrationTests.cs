@@ -274,8 +274,6 @@ public sealed class CalibrationTests
         TruthLanes = truthLanes,
         TruePositives = [],
         AssignedIous = [],
-        ConfidenceTruePositives = [],
-        ConfidencePredLanes = [],
         LaneScores = scores,
         LaneHits = hits,
     };

@@ -1,4 +1,5 @@
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Metrics.PointAccuracy;
 using LaneBaseline.Core.Random;
 using Xunit;
 
@@ -14,9 +15,7 @@ public sealed class ClusterBootstrapTests
         PredLanes = pred,
         TruePositives = [tp],
         AssignedIous = [],
-        PointAccuracySum = acc,
-        ConfidenceTruePositives = new int[FrameScorer.ConfidenceCutoffs],
-        ConfidencePredLanes = new int[FrameScorer.ConfidenceCutoffs],
+        Points = new FramePointAccuracy(acc, 0),
     };
 
     private static BootstrapSeries Series(IEnumerable<FrameScore> frames)
@@ -41,7 +40,7 @@ public sealed class ClusterBootstrapTests
             int truth = 1 + rng.NextInt(4), pred = rng.NextInt(5);
             return Frame($"drive{i:00}/000001.png", Math.Min(truth, pred) - rng.NextInt(1 + Math.Min(truth, pred)) + 0, truth, pred, rng.NextInt(truth + 1) * 0.5);
         })];
-        BootstrapSeries a = Series(frames), b = Series(frames.Select(f => Frame(f.Frame, f.TruePositives[0], f.TruthLanes, f.PredLanes, f.PointAccuracySum)));
+        BootstrapSeries a = Series(frames), b = Series(frames.Select(f => Frame(f.Frame, f.TruePositives[0], f.TruthLanes, f.PredLanes, f.Points.AccuracySum)));
         Assert.Equal(40, a.ClusterCount);
         double[][][] seq = Bootstrap.Resample([a, b], 300, 11, 2, BootstrapUnit.Sequence);
         double[][][] frm = Bootstrap.Resample([a, b], 300, 11, 1, BootstrapUnit.Frame);

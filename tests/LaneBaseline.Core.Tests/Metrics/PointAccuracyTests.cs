@@ -1,6 +1,7 @@
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Metrics.PointAccuracy;
 using LaneBaseline.Testing;
 using Xunit;
 
@@ -16,10 +17,10 @@ public sealed class PointAccuracyTests
         Lane lane = Lanes.Of((0.75 * 719 + 100, 719), (100, 0));
         var rows = new List<int>();
         var xs = new List<double>();
-        PointAccuracy.SampleRows(lane.Points, 720, rows, xs);
-        double a = PointAccuracy.FitSlope(rows, xs);
+        RowSampling.SampleRows(lane.Points, 720, rows, xs);
+        double a = RowSampling.FitSlope(rows, xs);
         Assert.Equal(0.75, a, 12);
-        Assert.Equal(25.0, PointAccuracy.Tolerance(new ScoreSettings().ToleranceFor(1280), a), 9);
+        Assert.Equal(25.0, RowSampling.Tolerance(new ScoreSettings().ToleranceFor(1280), a), 9);
     }
 
     // Hand-derived: rows sampled are height-1, height-11, ... ; a 720-high frame gives rows 719, 709, ..., 9 = 72 rows.
@@ -28,7 +29,7 @@ public sealed class PointAccuracyTests
     {
         var rows = new List<int>();
         var xs = new List<double>();
-        PointAccuracy.SampleRows(Lanes.Vertical(50, 720).Points, 720, rows, xs);
+        RowSampling.SampleRows(Lanes.Vertical(50, 720).Points, 720, rows, xs);
         Assert.Equal(72, rows.Count);
         Assert.Equal(719, rows[0]);
         Assert.Equal(9, rows[^1]);
@@ -43,8 +44,8 @@ public sealed class PointAccuracyTests
         Lane thin = Lanes.Of((10, 100.8), (20, 100.2));
         FrameScore f = scorer.Score(Lanes.Truth("a", 1280, 720, thin), Lanes.Pred("a", thin));
         Assert.Equal(1, f.TruthLanes);
-        Assert.Equal(0, f.PointAccuracySum);
-        Assert.Equal(0, f.PointMatched);
+        Assert.Equal(0, f.Points.AccuracySum);
+        Assert.Equal(0, f.Points.Matched);
     }
 
     // Hand-derived: truth vertical at x=100 (72 rows); prediction at x=119.9 is within 20 px (strict <), at x=120 is not.
@@ -55,8 +56,8 @@ public sealed class PointAccuracyTests
     {
         var scorer = new FrameScorer(new NoRaster(), new ScoreSettings());
         FrameScore f = scorer.Score(Lanes.Truth("a", 1280, 720, Lanes.Vertical(100, 720)), Lanes.Pred("a", Lanes.Vertical(predX, 720)));
-        Assert.Equal(expectedAcc, f.PointAccuracySum, 12);
-        Assert.Equal(expectedMatched, f.PointMatched);
+        Assert.Equal(expectedAcc, f.Points.AccuracySum, 12);
+        Assert.Equal(expectedMatched, f.Points.Matched);
     }
 
     // Hand-derived: a prediction covering only the lower 62 of 72 sample rows (rows 719..109) scores 62/72 = 0.861 >= 0.85,
@@ -68,8 +69,8 @@ public sealed class PointAccuracyTests
     {
         var scorer = new FrameScorer(new NoRaster(), new ScoreSettings());
         FrameScore f = scorer.Score(Lanes.Truth("a", 1280, 720, Lanes.Vertical(100, 720)), Lanes.Pred("a", Lanes.Of((100, 719), (100, topY))));
-        Assert.Equal(rowsCovered / 72.0, f.PointAccuracySum, 12);
-        Assert.Equal(rowsCovered * 20 >= 17 * 72 ? 1 : 0, f.PointMatched);
+        Assert.Equal(rowsCovered / 72.0, f.Points.AccuracySum, 12);
+        Assert.Equal(rowsCovered * 20 >= 17 * 72 ? 1 : 0, f.Points.Matched);
     }
 
     // Specification: x at a row comes from the first segment (in point order) whose closed y-range holds the row.

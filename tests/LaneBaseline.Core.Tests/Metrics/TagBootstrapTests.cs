@@ -1,4 +1,5 @@
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Metrics.PointAccuracy;
 using LaneBaseline.Core.Random;
 using Xunit;
 
@@ -17,9 +18,7 @@ public sealed class TagBootstrapTests
         PredLanes = pred,
         TruePositives = [.. Settings.Thresholds.Select(_ => tp)],
         AssignedIous = [],
-        PointAccuracySum = acc,
-        ConfidenceTruePositives = new int[FrameScorer.ConfidenceCutoffs],
-        ConfidencePredLanes = new int[FrameScorer.ConfidenceCutoffs],
+        Points = new FramePointAccuracy(acc, 0),
     };
 
     private static SystemScore[] Score(IEnumerable<FrameScore[]> rows, int systems)

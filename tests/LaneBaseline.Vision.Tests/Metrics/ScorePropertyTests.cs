@@ -26,7 +26,7 @@ public sealed class ScorePropertyTests
             FrameScore a = scorer.Score(Lanes.Truth("f", 1920, 1080, truth), Lanes.Pred("f", pred));
             FrameScore b = scorer.Score(Lanes.Truth("f", 1920, 1080, [.. truth.Reverse()]), Lanes.Pred("f", [.. pred.Reverse()]));
             Assert.Equal(a.TruePositives, b.TruePositives);
-            Assert.Equal(a.PointAccuracySum, b.PointAccuracySum, 9);
+            Assert.Equal(a.Points.AccuracySum, b.Points.AccuracySum, 9);
         }, iter: 60, threads: 1);
     }
 
@@ -43,7 +43,7 @@ public sealed class ScorePropertyTests
             var tally = new ScoreTally(scorer.Thresholds);
             tally.Add(f);
             Assert.All(Enumerable.Range(0, scorer.Thresholds.Count), k => Assert.Equal(1.0, tally.At(k).F1));
-            Assert.Equal(1.0, tally.PointAccuracy, 12);
+            Assert.Equal(1.0, tally.Points.Accuracy, 12);
         }, iter: 40, threads: 1);
     }
 

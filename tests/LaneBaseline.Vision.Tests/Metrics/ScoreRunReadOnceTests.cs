@@ -38,7 +38,7 @@ public sealed class ScoreRunReadOnceTests : IDisposable
                 Assert.Equal(a.PredLanes, b.PredLanes);
                 Assert.Equal(a.TruePositives, b.TruePositives);
                 Assert.Equal(a.AssignedIous, b.AssignedIous);
-                Assert.Equal(a.PointAccuracySum, b.PointAccuracySum);
+                Assert.Equal(a.Points.AccuracySum, b.Points.AccuracySum);
             }
         }
 

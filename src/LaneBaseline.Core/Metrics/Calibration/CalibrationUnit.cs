@@ -19,7 +19,7 @@ public sealed class CalibrationUnit : IMetricUnit
     public MetricJsonSlot Slot => MetricJsonSlot.Closing;
 
     /// <inheritdoc />
-    public void WriteJson(Utf8JsonWriter json, ScoreTally tally, SystemScore? system)
+    public void WriteJson(Utf8JsonWriter json, ScoreTally tally, SystemScore? system, ScoreSettings settings)
     {
         ArgumentNullException.ThrowIfNull(tally);
         tally.Reliability.WriteJson(json);

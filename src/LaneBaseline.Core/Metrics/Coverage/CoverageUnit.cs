@@ -19,7 +19,7 @@ public sealed class CoverageUnit : IMetricUnit
     public MetricJsonSlot Slot => MetricJsonSlot.Tally;
 
     /// <inheritdoc />
-    public void WriteJson(Utf8JsonWriter json, ScoreTally tally, SystemScore? system) => system?.Coverage?.WriteJson(json, JsonKey);
+    public void WriteJson(Utf8JsonWriter json, ScoreTally tally, SystemScore? system, ScoreSettings settings) => system?.Coverage?.WriteJson(json, JsonKey);
 
     /// <inheritdoc />
     public void WriteFrameState(Utf8JsonWriter json, FrameScore frame)

@@ -18,7 +18,7 @@ public sealed class GroundUnit : IMetricUnit
     public MetricJsonSlot Slot => MetricJsonSlot.Tally;
 
     /// <inheritdoc />
-    public void WriteJson(Utf8JsonWriter json, ScoreTally tally, SystemScore? system)
+    public void WriteJson(Utf8JsonWriter json, ScoreTally tally, SystemScore? system, ScoreSettings settings)
     {
         ArgumentNullException.ThrowIfNull(tally);
         tally.Ground?.WriteJson(json);

@@ -1,15 +1,15 @@
 using LaneBaseline.Core.Geometry;
 using LaneBaseline.Core.LaneFiles;
 
-namespace LaneBaseline.Core.Metrics;
+namespace LaneBaseline.Core.Metrics.PointAccuracy;
 
 /// <summary>
-/// Row-sampled point accuracy: truth and prediction are sampled at image rows <c>height-1, height-11, …</c>; a
+/// The row sampling of the point accuracy metric: truth and prediction are sampled at image rows <c>height-1, height-11, …</c>; a
 /// prediction row is correct when its x is within the truth lane's tolerance, widened by <c>1/cos(atan(a))</c>
 /// for the slope a of the least-squares line <c>x = a*y + b</c> through the truth samples.
 /// </summary>
 /// <remarks>Coordinates are pixels, x right, y down. Rows are sampled every 10 px from the bottom row upward.</remarks>
-public static class PointAccuracy
+public static class RowSampling
 {
     /// <summary>Spacing of the sample rows in pixels.</summary>
     public const int RowStepPx = 10;
