@@ -54,7 +54,8 @@ internal static class SettingsFile
             string key = (keyNode as YamlScalarNode)?.Value ?? string.Empty;
             long line = keyNode.Start.Line;
             string name = "--" + key.Replace('_', '-');
-            Option? option = command.Options.FirstOrDefault(o => o.Name == name); // deprecated (hidden) spellings still work, with their note
+            // A deprecated spelling (hidden) still works for one release, with its deprecation line.
+            Option? option = command.Options.FirstOrDefault(o => o.Name == name && (!o.Hidden || SharedOptions.ReplacementOf(o) is not null));
             if (option is null || NotSettings.Contains(name))
             {
                 string known = string.Join(", ", command.Options.Where(o => !o.Hidden && !NotSettings.Contains(o.Name)).Select(o => o.Name[2..]));
@@ -68,7 +69,8 @@ internal static class SettingsFile
                 continue;
             }
 
-            if (first.GetResult(option) is { Implicit: false })
+            // (an old and a new spelling of one setting count as one option here)
+            if (command.Options.Any(o => (o == option || SharedOptions.ReplacementOf(o) == option.Name || SharedOptions.ReplacementOf(option) == o.Name) && first.GetResult(o) is { Implicit: false }))
             {
                 continue; // the command line wins
             }

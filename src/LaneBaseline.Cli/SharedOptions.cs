@@ -53,12 +53,26 @@ internal static class SharedOptions
             throw new UsageException("give -o/--output once (--out is its deprecated spelling)");
         }
 
-        stderr.WriteLine("note: --out is deprecated, use -o/--output");
+        stderr.WriteLine(DeprecationLine("--out", "-o/--output"));
         return parse.GetValue(legacy);
     }
 
     /// <summary>A deprecated spelling of a renamed option, hidden from help; it still works for one release (see <see cref="GetRenamed{T}"/>).</summary>
-    public static Option<T> Deprecated<T>(string name, string replacement) => new(name) { Description = "Deprecated spelling of " + replacement + ".", Hidden = true };
+    public static Option<T> Deprecated<T>(string name, string replacement)
+    {
+        Option<T> legacy = new(name) { Description = "Deprecated spelling of " + replacement + ".", Hidden = true };
+        Replacements.Add(legacy, replacement);
+        return legacy;
+    }
+
+    /// <summary>The name of the option that replaces a deprecated one made by <see cref="Deprecated{T}"/>, else null.</summary>
+    public static string? ReplacementOf(Option option) => Replacements.TryGetValue(option, out string? r) ? r : null;
+
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<Option, string> Replacements = new();
+
+    /// <summary>The line printed on stderr when the deprecated <paramref name="old"/> is used instead of <paramref name="replacement"/>.</summary>
+    public static string DeprecationLine(string old, string replacement) =>
+        $"note: {old} is deprecated; use {replacement}; it will be removed in the next release";
 
     /// <summary>
     /// The value of a renamed option: from <paramref name="modern"/>, or from its deprecated spelling
@@ -76,7 +90,8 @@ internal static class SharedOptions
             throw new UsageException($"give {modern.Name} once ({legacy.Name} is its deprecated spelling)");
         }
 
-        stderr.WriteLine($"note: {legacy.Name} is deprecated here, use {modern.Name}");
+        string value = typeof(T) == typeof(string) ? " VALUE" : " N"; // every renamed option so far takes a number
+        stderr.WriteLine(DeprecationLine(legacy.Name + value, modern.Name + value));
         return parse.GetValue(legacy);
     }
 

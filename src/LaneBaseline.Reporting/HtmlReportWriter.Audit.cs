@@ -51,7 +51,7 @@ public static partial class HtmlReportWriter
 
         if (audit.Thumbnails.Count > 0)
         {
-            h.Append("<h3>Worst frames drawn</h3>\n<p>The overlays <code>audit --overlay-count</code> wrote, worst frame first: the audited lanes with their findings drawn (docs/audit.md, <code>--overlays</code>). Click a picture for the full-size file.</p>\n<div class=\"gallery\" id=\"audit-thumbs\">\n");
+            h.Append("<h3>Worst frames drawn</h3>\n<p>The overlays <code>audit --overlay-count</code> wrote, worst frame first: the audited lanes with their findings drawn (docs/audit.md, <code>--overlay-count</code>). Click a picture for the full-size file.</p>\n<div class=\"gallery\" id=\"audit-thumbs\">\n");
             foreach (AuditThumbnail t in audit.Thumbnails)
             {
                 string img = "<img alt=\"" + E(t.Frame) + " with its audit findings drawn\" width=\"" + I(t.Width) + "\" height=\"" + I(t.Height)

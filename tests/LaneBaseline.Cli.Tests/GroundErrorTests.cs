@@ -64,7 +64,7 @@ public sealed class GroundErrorTests : IDisposable
 
         Lanes.WriteFile(truth, t);
         Lanes.WriteFile(pred, p);
-        string[] common = ["--truth", truth, "--pred", pred, "--camera", cam, "--bootstrap", "40", "--seed", "3"];
+        string[] common = ["--truth", truth, "--pred", pred, "--camera", cam, "--bootstrap", "40", "--bootstrap-seed", "3"];
         (int exit, string fullOut, string err) = CliRunner.Run(["score", .. common, "--json", dir.File("full.json")]);
         Assert.True(exit == 0, err);
         var states = new List<string>();

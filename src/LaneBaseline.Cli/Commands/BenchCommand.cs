@@ -18,22 +18,9 @@ internal static class BenchCommand
             Description = "Processing size WxH; repeat or separate by commas for several (frames are resized to each). Default: the frames' own size.",
             AllowMultipleArgumentsPerToken = false,
         };
-        Option<int> threads = SharedOptions.Threads("Workers to measure: one pipeline per worker, OpenCV on one thread in each.");
-        threads.CustomParser = result =>
-        {
-            // Until 2026-12 bench's --threads took a list: point to the option that takes it now.
-            string text = result.Tokens.Count > 0 ? result.Tokens[^1].Value : string.Empty;
-            if (int.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out int n))
-            {
-                return n;
-            }
-
-            result.AddError(text.Contains(',', StringComparison.Ordinal)
-                ? $"-j/--threads takes one worker count; measure several with --thread-counts {text}"
-                : $"-j/--threads: '{text}' is not a whole number");
-            return 0;
-        };
-        Option<string?> threadCounts = new("--thread-counts") { Description = "Several worker counts to measure one after the other, comma-separated (e.g. 1,2), instead of -j." };
+        Option<int> threads = SharedOptions.Threads("Workers to measure with: one pipeline per worker, OpenCV on one thread in each.");
+        threads.CustomParser = ParseThreadsToken; // the deprecated list form -j 1,2 still parses (for one release)
+        Option<string?> threadCounts = new("--thread-counts") { Description = "Several worker counts to measure in turn, comma-separated (e.g. 1,2); replaces -j." };
         Option<string> config = new("--config", "-c")
         {
             Description = "Preset name (" + string.Join(", ", KnownPresets.Names) + ") or a YAML file.",
@@ -89,7 +76,7 @@ internal static class BenchCommand
                 RenderCount = renderCount ?? 24,
                 Seed = parse.GetValue(seed),
                 Sizes = ParseSizes(parse.GetValue(size) ?? []),
-                Threads = WorkerCounts(parse, threads, threadCounts),
+                Threads = WorkerCounts(parse, threads, threadCounts, stderr),
                 Options = KnownPresets.Resolve(parse.GetValue(config)!, stderr),
                 ConfigSource = parse.GetValue(config)!,
                 Warmup = warm,
@@ -131,30 +118,54 @@ internal static class BenchCommand
         return sizes;
     }
 
-    private static IReadOnlyList<int> WorkerCounts(ParseResult parse, Option<int> threads, Option<string?> threadCounts)
+    /// <summary>
+    /// The worker counts to measure: <c>--thread-counts</c>, else <c>-j</c> (one count; the number of cores by default).
+    /// <c>-j 1,2</c> was the list form until 2026-12 and still works for one release, with a deprecation line.
+    /// </summary>
+    private static IReadOnlyList<int> WorkerCounts(ParseResult parse, Option<int> threads, Option<string?> threadCounts, TextWriter stderr)
     {
         string? list = parse.GetValue(threadCounts);
-        if (list is null)
+        System.CommandLine.Parsing.OptionResult? given = parse.GetResult(threads) is { Implicit: false } r ? r : null;
+        if (list is not null)
         {
-            return [SharedOptions.CheckThreads(parse.GetValue(threads))];
+            return given is null ? ParseThreads(list, "--thread-counts") : throw new UsageException("give -j/--threads (one worker count) or --thread-counts (several), not both");
         }
 
-        if (parse.GetResult(threads) is { Implicit: false })
+        string? text = given?.Tokens.Count > 0 ? given.Tokens[^1].Value : null;
+        if (text is not null && text.Contains(',', StringComparison.Ordinal))
         {
-            throw new UsageException("give -j/--threads or --thread-counts, not both");
+            string spelled = given!.IdentifierToken?.Value ?? "--threads"; // the note repeats what was typed: -j or --threads
+            stderr.WriteLine(SharedOptions.DeprecationLine(spelled + " " + text, "--thread-counts " + text));
+            return ParseThreads(text, "--threads");
         }
 
-        return ParseThreads(list);
+        return [SharedOptions.CheckThreads(parse.GetValue(threads))];
     }
 
-    internal static IReadOnlyList<int> ParseThreads(string text)
+    private static int ParseThreadsToken(System.CommandLine.Parsing.ArgumentResult result)
+    {
+        string text = result.Tokens.Count > 0 ? result.Tokens[^1].Value : string.Empty;
+        if (text.Contains(',', StringComparison.Ordinal))
+        {
+            return 0; // the deprecated list form; WorkerCounts reads the token itself
+        }
+
+        if (!int.TryParse(text, NumberStyles.AllowLeadingSign, CultureInfo.InvariantCulture, out int n))
+        {
+            result.AddError($"Cannot parse argument '{text}' for option '--threads' as expected type 'System.Int32'.");
+        }
+
+        return n;
+    }
+
+    internal static IReadOnlyList<int> ParseThreads(string text, string optionName = "--thread-counts")
     {
         var list = new List<int>();
         foreach (string part in text.Split(',', StringSplitOptions.TrimEntries))
         {
             if (!int.TryParse(part, NumberStyles.None, CultureInfo.InvariantCulture, out int n) || n < 1 || n > 256)
             {
-                throw new UsageException("--thread-counts must be a comma-separated list of worker counts between 1 and 256 (e.g. 1,2), got '" + text + "'");
+                throw new UsageException(optionName + " must be a comma-separated list of worker counts between 1 and 256 (e.g. 1,2), got '" + text + "'");
             }
 
             if (!list.Contains(n))

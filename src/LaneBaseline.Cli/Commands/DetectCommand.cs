@@ -58,7 +58,7 @@ internal static class DetectCommand
             string input = parse.GetValue(frames) ?? parse.GetValue(framesArgument)!;
             if (parse.GetValue(frames) is null)
             {
-                stderr.WriteLine("note: the positional FRAMES is deprecated, use --frames FRAMES");
+                stderr.WriteLine(SharedOptions.DeprecationLine("the positional FRAMES", "--frames FRAMES"));
             }
 
             string outputPath = parse.GetValue(output)!;
