@@ -21,7 +21,7 @@ internal static class ScoreTableWriter
         for (int s = 0; s < results.Count; s++)
         {
             ScoreTally t = results[s].Overall;
-            DetectionCounts half = t.At(IouThreshold.Half);
+            DetectionCounts half = t.IouF1.At(IouThreshold.Half);
             o.Write(results[s].System.Name.PadRight(nameWidth));
             o.Write(F($"  {t.PredLanes,5}   {half.F1:0.0000}"));
             if (boot is not null)
@@ -29,7 +29,7 @@ internal static class ScoreTableWriter
                 o.Write(Ci(boot.Intervals[s][(int)BootstrapStatistic.F1]));
             }
 
-            o.Write(F($"  {half.Precision:0.0000}  {half.Recall:0.0000}  {t.MeanF1:0.0000}  {t.At(IouThreshold.Parse("0.10")).F1:0.0000}  {t.At(IouThreshold.Parse("0.30")).F1:0.0000}  {t.At(IouThreshold.Parse("0.75")).F1:0.0000}  | {t.Points.Accuracy:0.0000}  "));
+            o.Write(F($"  {half.Precision:0.0000}  {half.Recall:0.0000}  {t.IouF1.MeanF1:0.0000}  {t.IouF1.At(IouThreshold.Parse("0.10")).F1:0.0000}  {t.IouF1.At(IouThreshold.Parse("0.30")).F1:0.0000}  {t.IouF1.At(IouThreshold.Parse("0.75")).F1:0.0000}  | {t.Points.Accuracy:0.0000}  "));
             if (boot is not null)
             {
                 o.Write(Ci(boot.Intervals[s][(int)BootstrapStatistic.Accuracy]));
@@ -69,7 +69,7 @@ internal static class ScoreTableWriter
             o.Write(F($"F1@{extra.Key}:"));
             foreach (SystemScore r in results)
             {
-                o.Write(F($"  {r.System.Name} {r.Overall.At(extra).F1:0.0000}"));
+                o.Write(F($"  {r.System.Name} {r.Overall.IouF1.At(extra).F1:0.0000}"));
             }
 
             o.WriteLine();
@@ -94,7 +94,7 @@ internal static class ScoreTableWriter
                 o.Write(F($"  {tag.PadRight(tagWidth)}  {frames,6}"));
                 foreach (SystemScore r in results)
                 {
-                    string cell = r.ByTag.TryGetValue(tag, out ScoreTally? x) ? F($"{x.At(IouThreshold.Half).F1:0.000} / {x.Points.Accuracy:0.000}") : "-";
+                    string cell = r.ByTag.TryGetValue(tag, out ScoreTally? x) ? F($"{x.IouF1.At(IouThreshold.Half).F1:0.000} / {x.Points.Accuracy:0.000}") : "-";
                     o.Write("  " + cell.PadLeft(15));
                 }
 

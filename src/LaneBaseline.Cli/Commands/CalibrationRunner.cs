@@ -97,8 +97,6 @@ internal sealed class CalibrationRunner(TuneRequest request, double lambda, bool
         {
             Frame = "all",
             Tags = [],
-            TruePositives = [],
-            AssignedIous = [],
             LaneScores = [.. scores],
             LaneHits = [.. hits],
         });

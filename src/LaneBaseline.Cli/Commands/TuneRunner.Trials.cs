@@ -69,9 +69,9 @@ internal sealed partial class TuneRunner
 
         return request.Objective switch
         {
-            "mf1" => tally.MeanF1,
+            "mf1" => tally.IouF1.MeanF1,
             "accuracy" => tally.Points.Accuracy,
-            _ => tally.At(IouThreshold.Half).F1,
+            _ => tally.IouF1.At(IouThreshold.Half).F1,
         };
     }
 

@@ -107,7 +107,7 @@ internal static class ScoreOutputWriter
         {
             foreach (SystemScore r in results)
             {
-                double f1 = r.Overall.At(IouThreshold.Half).F1;
+                double f1 = r.Overall.IouF1.At(IouThreshold.Half).F1;
                 if (f1 < gate)
                 {
                     stderr.WriteLine(string.Create(CultureInfo.InvariantCulture, $"quality gate failed: {r.System.Name} F1@0.50 = {f1:0.####} < --min-f1 {gate}"));
@@ -197,14 +197,13 @@ internal static class ScoreOutputWriter
     internal static void WriteCsvHeader(TextWriter csv, bool multi) => csv.Write(CsvHeader(multi));
 
     private static string CsvHeader(bool multi) =>
-        (multi ? "system," : string.Empty) + "frame,tags,tp,fp,fn,mean_matched_iou" + string.Concat(MetricCatalogue.Units.SelectMany(u => u.CsvColumns).Select(c => "," + c)) + "\n";
+        (multi ? "system," : string.Empty) + "frame,tags" + string.Concat(MetricCatalogue.Units.SelectMany(u => u.CsvColumns).Select(c => "," + c)) + "\n";
 
     internal static void WriteCsvRows(TextWriter csv, IReadOnlyList<ScoredSystem> systems, int halfIndex, IReadOnlyList<FrameScore> row)
     {
         for (int s = 0; s < row.Count; s++)
         {
             FrameScore f = row[s];
-            int tp = f.TruePositives[halfIndex];
             if (systems.Count > 1)
             {
                 csv.Write(Csv(systems[s].Name));
@@ -214,9 +213,6 @@ internal static class ScoreOutputWriter
             csv.Write(Csv(f.Frame));
             csv.Write(',');
             csv.Write(Csv(string.Join(';', f.Tags)));
-            csv.Write(string.Create(CultureInfo.InvariantCulture, $",{tp},{f.PredLanes - tp},{f.TruthLanes - tp},"));
-            double miou = f.MeanMatchedIou;
-            csv.Write(double.IsNaN(miou) ? string.Empty : miou.ToString("R", CultureInfo.InvariantCulture));
             foreach (IMetricUnit unit in MetricCatalogue.Units)
             {
                 unit.WriteCsvCells(csv, f, halfIndex);

@@ -125,7 +125,7 @@ internal static partial class WorstFrameGallery
             for (int s = 0; s < row.Count; s++)
             {
                 FrameScore f = row[s];
-                int tp = f.TruePositives[half];
+                int tp = f.IouF1.TruePositives[half];
                 double f1 = FrameF1(tp, f.PredLanes, f.TruthLanes), acc = f.Points.FrameAccuracy(f.TruthLanes);
                 All[s].Add((tp, f.PredLanes, f.TruthLanes, acc));
                 bool perfect = f1 >= 1.0 && (double.IsNaN(acc) || acc >= 1.0); // perfect (or empty) frames teach nothing in a gallery of failures

@@ -220,7 +220,7 @@ public sealed class AuditRun
 
         var reference = new LaneRecord { Frame = pred.Frame, Width = width, Height = height, Lanes = confident };
         FrameScore score = scorer.Score(reference, pred);
-        int tp = score.TruePositives[scorer.HalfIndex];
+        int tp = score.IouF1.TruePositives[scorer.HalfIndex];
         return new BaselineAgreement(2.0 * tp / (confident.Count + pred.Lanes.Count), confident.Count, tp);
     }
 

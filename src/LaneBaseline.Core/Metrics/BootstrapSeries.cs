@@ -41,20 +41,20 @@ public sealed class BootstrapSeries
         }
 
         Clusters.Add(cluster);
-        TruePositives.Add(frame.TruePositives[halfIndex]);
+        TruePositives.Add(frame.IouF1.TruePositives[halfIndex]);
         TruthLanes.Add(frame.TruthLanes);
         PredLanes.Add(frame.PredLanes);
         PointAccuracySums.Add(frame.Points.AccuracySum);
     }
 
-    /// <summary>Adds one frame's statistics and its TP at the mF1 thresholds (indices into <see cref="FrameScore.TruePositives"/>).</summary>
+    /// <summary>Adds one frame's statistics and its TP at the mF1 thresholds (indices into <see cref="IouF1.FrameIouF1.TruePositives"/>).</summary>
     public void Add(FrameScore frame, int halfIndex, IReadOnlyList<int> meanF1Indices)
     {
         ArgumentNullException.ThrowIfNull(meanF1Indices);
         Add(frame, halfIndex);
         foreach (int k in meanF1Indices)
         {
-            MeanF1TruePositives.Add(frame.TruePositives[k]);
+            MeanF1TruePositives.Add(frame.IouF1.TruePositives[k]);
         }
     }
 }

@@ -48,6 +48,21 @@ public sealed class FrameAssignment
     /// <summary>Whether the pair (<paramref name="i"/>, <paramref name="j"/>) meets a threshold (compared exactly on the pixel counts).</summary>
     public bool Meets(IouThreshold threshold, int i, int j) => threshold.IsMetBy(Intersections[(i * Pred.Count) + j], Union(i, j));
 
+    /// <summary>The assigned pairs (truth index, prediction index) that meet a threshold, in truth order.</summary>
+    public List<(int Truth, int Pred)> PairsAt(IouThreshold threshold)
+    {
+        var pairs = new List<(int Truth, int Pred)>();
+        for (int i = 0; i < Assignment.Length; i++)
+        {
+            if (Assignment[i] is int j and >= 0 && Meets(threshold, i, j))
+            {
+                pairs.Add((i, j));
+            }
+        }
+
+        return pairs;
+    }
+
     /// <summary>Rasterises the lanes of a frame, computes every pair's IoU and assigns them.</summary>
     /// <param name="rasterizer">The rasteriser (not thread-safe: one per worker).</param>
     /// <param name="width">Frame width in pixels.</param>

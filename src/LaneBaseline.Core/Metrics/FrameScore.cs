@@ -1,5 +1,6 @@
 using LaneBaseline.Core.Metrics.ConfidenceSweep;
 using LaneBaseline.Core.Metrics.Ground;
+using LaneBaseline.Core.Metrics.IouF1;
 using LaneBaseline.Core.Metrics.PointAccuracy;
 
 namespace LaneBaseline.Core.Metrics;
@@ -28,11 +29,8 @@ public sealed class FrameScore
     /// <summary>Predicted lanes in the frame.</summary>
     public int PredLanes { get; init; }
 
-    /// <summary>True positives per threshold, in the order of <see cref="ScoreSettings.Thresholds"/>.</summary>
-    public required int[] TruePositives { get; init; }
-
-    /// <summary>IoU of each Hungarian-assigned truth/prediction pair (IoU matrix values, assignment order by truth row).</summary>
-    public required double[] AssignedIous { get; init; }
+    /// <summary>The rasterised-IoU detection counts of the frame (<see cref="FrameIouF1"/>).</summary>
+    public FrameIouF1 IouF1 { get; set; } = FrameIouF1.Empty;
 
     /// <summary>The row-sampled point accuracy of the frame (<see cref="FramePointAccuracy"/>).</summary>
     public FramePointAccuracy Points { get; set; } = FramePointAccuracy.Empty;
@@ -48,24 +46,4 @@ public sealed class FrameScore
 
     /// <summary>Per entry of <see cref="LaneScores"/>: whether that lane is a true positive at IoU 0.50.</summary>
     public bool[] LaneHits { get; set; } = [];
-
-    /// <summary>Mean IoU of the assigned pairs with IoU &gt; 0, or NaN when there are none.</summary>
-    public double MeanMatchedIou
-    {
-        get
-        {
-            double sum = 0;
-            int n = 0;
-            foreach (double iou in AssignedIous)
-            {
-                if (iou > 0)
-                {
-                    sum += iou;
-                    n++;
-                }
-            }
-
-            return n == 0 ? double.NaN : sum / n;
-        }
-    }
 }

@@ -1,14 +1,16 @@
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Metrics.ConfidenceSweep;
 using LaneBaseline.Core.Metrics.Ground;
+using LaneBaseline.Core.Metrics.IouF1;
 using LaneBaseline.Core.Metrics.PointAccuracy;
 
 namespace LaneBaseline.Core.Metrics;
 
 /// <summary>
-/// Scores one frame's predictions against its truth with both metrics of docs/metrics.md: rasterised-IoU
-/// matching (one Hungarian assignment maximising total IoU, applied at every threshold) and row-sampled point
-/// accuracy (a second Hungarian assignment maximising total pair accuracy). Not thread-safe: one per worker.
+/// Scores one frame's predictions against its truth with every metric unit (<see cref="MetricCatalogue"/>): it
+/// rasterises the lanes and makes the frame's one Hungarian assignment on IoU (<see cref="FrameAssignment"/>) once,
+/// and each unit's per-frame computation reads it (IoU F1, the confidence sweep, calibration, road-plane errors);
+/// point accuracy makes its own assignment on pair accuracy. Not thread-safe: one per worker.
 /// </summary>
 public sealed class FrameScorer
 {
@@ -33,7 +35,7 @@ public sealed class FrameScorer
     /// <summary>Position of IoU 0.50 in <see cref="Thresholds"/>.</summary>
     public int HalfIndex { get; }
 
-    /// <summary>The thresholds, in the order of <see cref="FrameScore.TruePositives"/>.</summary>
+    /// <summary>The thresholds, in the order of <see cref="FrameIouF1.TruePositives"/>.</summary>
     public IReadOnlyList<IouThreshold> Thresholds => thresholds;
 
     /// <summary>
@@ -74,40 +76,9 @@ public sealed class FrameScorer
         IReadOnlyList<Lane> p = prediction?.Lanes ?? [];
         int nt = t.Count, np = p.Count;
 
-        // --- Rasterised IoU: the one assignment every pair-based unit reads ---
+        // The rasterised IoU and its one assignment, read by every unit that works on pairs.
         FrameAssignment frame = FrameAssignment.Measure(rasterizer, width, height, settings.LaneWidthFor(width), t, p);
-        int[] assign = frame.Assignment;
-        double[] iou = frame.Iou;
-        long[] inter = frame.Intersections, areaT = frame.TruthAreas, areaP = frame.PredAreas;
-        var tp = new int[thresholds.Length];
-        var assigned = new List<double>(Math.Min(nt, np));
-        var halfPairs = ground is null ? null : new List<(int, int)>();
-        for (int i = 0; i < nt; i++)
-        {
-            int j = assign[i];
-            if (j < 0)
-            {
-                continue;
-            }
-
-            assigned.Add(iou[(i * np) + j]);
-            long n = inter[(i * np) + j];
-            long u = areaT[i] + areaP[j] - n;
-            if (halfPairs is not null && IouThreshold.Half.IsMetBy(n, u))
-            {
-                halfPairs.Add((i, j));
-            }
-
-            for (int k = 0; k < thresholds.Length; k++)
-            {
-                if (thresholds[k].IsMetBy(n, u))
-                {
-                    tp[k]++;
-                }
-            }
-        }
-
-        (double[] laneScores, bool[] laneHits) = Calibration.ReliabilityTally.OfFrame(p, assign, inter, areaT, areaP);
+        (double[] laneScores, bool[] laneHits) = Calibration.ReliabilityTally.OfFrame(p, frame.Assignment, frame.Intersections, frame.TruthAreas, frame.PredAreas);
 
         return new FrameScore
         {
@@ -117,13 +88,12 @@ public sealed class FrameScorer
             Height = height,
             TruthLanes = nt,
             PredLanes = np,
-            TruePositives = tp,
-            AssignedIous = [.. assigned],
+            IouF1 = FrameIouF1.Measure(frame, thresholds),
             Points = FramePointAccuracy.Measure(t, p, height, settings.ToleranceFor(width), rows, xs),
             Sweep = FrameConfidenceSweep.Measure(frame),
             LaneScores = laneScores,
             LaneHits = laneHits,
-            Ground = ground?.Measure(t, p, halfPairs!),
+            Ground = ground?.Measure(t, p, frame.PairsAt(IouThreshold.Half)),
         };
     }
 }

@@ -2,6 +2,7 @@ using LaneBaseline.Core.Metrics.Calibration;
 using LaneBaseline.Core.Metrics.ConfidenceSweep;
 using LaneBaseline.Core.Metrics.Coverage;
 using LaneBaseline.Core.Metrics.Ground;
+using LaneBaseline.Core.Metrics.IouF1;
 using LaneBaseline.Core.Metrics.PointAccuracy;
 
 namespace LaneBaseline.Core.Metrics;
@@ -15,6 +16,7 @@ public static class MetricCatalogue
     /// <summary>Every metric unit.</summary>
     public static IReadOnlyList<IMetricUnit> Units { get; } =
     [
+        new IouF1Unit(),
         new PointAccuracyUnit(),
         new ConfidenceSweepUnit(),
         new CalibrationUnit(),

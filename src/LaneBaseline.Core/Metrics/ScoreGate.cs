@@ -181,10 +181,10 @@ public sealed record ScoreGate
 
         double value = Metric switch
         {
-            GateMetric.F1 => tally.At(Threshold).F1,
-            GateMetric.Precision => tally.At(Threshold).Precision,
-            GateMetric.Recall => tally.At(Threshold).Recall,
-            GateMetric.MeanF1 => tally.MeanF1,
+            GateMetric.F1 => tally.IouF1.At(Threshold).F1,
+            GateMetric.Precision => tally.IouF1.At(Threshold).Precision,
+            GateMetric.Recall => tally.IouF1.At(Threshold).Recall,
+            GateMetric.MeanF1 => tally.IouF1.MeanF1,
             _ => tally.Points.Accuracy,
         };
         return new GateOutcome(this, value, Compare(value), string.Create(CultureInfo.InvariantCulture, $"{MetricName} = {value:0.####}"));

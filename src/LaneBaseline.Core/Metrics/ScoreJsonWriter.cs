@@ -158,7 +158,7 @@ public static class ScoreJsonWriter
     public static double Statistic(ScoreTally tally, BootstrapStatistic stat)
     {
         ArgumentNullException.ThrowIfNull(tally);
-        DetectionCounts c = tally.At(IouThreshold.Half);
+        DetectionCounts c = tally.IouF1.At(IouThreshold.Half);
         return stat switch
         {
             BootstrapStatistic.F1 => c.F1,
@@ -265,30 +265,6 @@ public static class ScoreJsonWriter
 
         json.WriteNumber("truth_lanes", tally.TruthLanes);
         json.WriteNumber("pred_lanes", tally.PredLanes);
-        json.WriteStartObject("iou_f1");
-        int? width = settings.LaneWidthPx ?? (tally.CommonWidth is int w ? settings.LaneWidthFor(w) : null);
-        if (width is int wp)
-        {
-            json.WriteNumber("width_px", wp);
-        }
-        else
-        {
-            json.WriteNull("width_px");
-        }
-
-        json.WriteStartObject("thresholds");
-        for (int k = 0; k < tally.Thresholds.Count; k++)
-        {
-            json.WriteStartObject(tally.Thresholds[k].Key);
-            tally.At(k).WriteJson(json);
-            json.WriteEndObject();
-        }
-
-        json.WriteEndObject();
-        json.WritePropertyName("mf1");
-        WriteFloat(json, tally.MeanF1);
-        json.WriteEndObject();
-
         WriteUnits(json, MetricJsonSlot.Tally, tally, system, settings);
     }
 

@@ -283,7 +283,7 @@ public sealed class ScoreRun
             {
                 if (!results[s].ByTag.TryGetValue(tag, out ScoreTally? tally))
                 {
-                    tally = new ScoreTally(results[s].Overall.Thresholds);
+                    tally = new ScoreTally(results[s].Overall.IouF1.Thresholds);
                     results[s].ByTag.Add(tag, tally);
                 }
 
@@ -294,7 +294,7 @@ public sealed class ScoreRun
                     results[s].TagSeries.Add(tag, series);
                 }
 
-                IReadOnlyList<IouThreshold> th = results[s].Overall.Thresholds;
+                IReadOnlyList<IouThreshold> th = results[s].Overall.IouF1.Thresholds;
                 meanF1Indices ??= [.. IouThreshold.MeanF1Set.Select(t => Enumerable.Range(0, th.Count).First(i => th[i] == t))];
                 series.Add(f, halfIndex, meanF1Indices);
             }

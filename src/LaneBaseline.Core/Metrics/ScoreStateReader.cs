@@ -14,7 +14,6 @@ public sealed class ScoreStateReader : IDisposable
 {
     private readonly StreamReader reader;
     private readonly string path;
-    private readonly int thresholdCount;
     private long line;
     private string? maskLine; // the first mask IoU line, read while looking for a frame line
 
@@ -23,7 +22,6 @@ public sealed class ScoreStateReader : IDisposable
         this.path = path;
         this.reader = reader;
         Header = header;
-        thresholdCount = header.Settings.Thresholds.Count;
         line = 1;
     }
 
@@ -108,20 +106,7 @@ public sealed class ScoreStateReader : IDisposable
             FrameStateSource? source = null;
             foreach (JsonElement s in r.GetProperty("s").EnumerateArray())
             {
-                int[] tp = Ints(s.GetProperty("tp"));
-                if (tp.Length != thresholdCount)
-                {
-                    throw BadInputException.At(path, line, "s.tp", "threshold count does not match the header");
-                }
-
                 int nt = s.GetProperty("nt").GetInt32(), np = s.GetProperty("np").GetInt32();
-                if (nt < 0 || np < 0 || tp.Any(v => v < 0 || v > Math.Min(nt, np)))
-                {
-                    throw BadInputException.At(path, line, "s.tp", "counts are negative or exceed the lane counts");
-                }
-
-                double[] ious = [.. s.GetProperty("iou").EnumerateArray().Select(v => v.GetDouble())];
-                CheckConsistent(frame, nt, np, ious);
                 var frameScore = new FrameScore
                 {
                     Ordinal = ordinal,
@@ -131,8 +116,6 @@ public sealed class ScoreStateReader : IDisposable
                     Height = h,
                     TruthLanes = nt,
                     PredLanes = np,
-                    TruePositives = tp,
-                    AssignedIous = ious,
                 };
                 source ??= new FrameStateSource(path, line, Header);
                 foreach (IMetricUnit unit in MetricCatalogue.Units)
@@ -153,21 +136,6 @@ public sealed class ScoreStateReader : IDisposable
         catch (Exception ex) when (ex is JsonException or KeyNotFoundException or InvalidOperationException or FormatException or ArgumentException or OverflowException)
         {
             throw BadInputException.At(path, line, null, "not a score state record: " + ex.Message);
-        }
-    }
-
-    private static int[] Ints(JsonElement e) => [.. e.EnumerateArray().Select(v => v.GetInt32())];
-
-    /// <summary>
-    /// The per-frame counts must be ones a scorer can produce (a hand-edited state could otherwise give an accuracy of
-    /// 1e9): at most min(truth, predicted) assigned pairs, IoUs in [0, 1].
-    /// </summary>
-    private void CheckConsistent(string frame, int nt, int np, double[] ious)
-    {
-        int pairs = Math.Min(nt, np);
-        if (ious.Length > pairs || ious.Any(v => !(v >= 0 && v <= 1)))
-        {
-            throw BadInputException.At(path, line, "s.iou", $"frame '{frame}': {ious.Length.ToString(CultureInfo.InvariantCulture)} assigned IoUs for {nt.ToString(CultureInfo.InvariantCulture)} truth and {np.ToString(CultureInfo.InvariantCulture)} predicted lanes, or an IoU outside [0, 1]");
         }
     }
 

@@ -131,14 +131,6 @@ public sealed class ScoreStateWriter : IDisposable
                 json.WriteStartObject();
                 json.WriteNumber("nt", f.TruthLanes);
                 json.WriteNumber("np", f.PredLanes);
-                Ints(json, "tp", f.TruePositives);
-                json.WriteStartArray("iou");
-                foreach (double v in f.AssignedIous)
-                {
-                    json.WriteRawValue(v.ToString("R", CultureInfo.InvariantCulture));
-                }
-
-                json.WriteEndArray();
                 foreach (IMetricUnit unit in MetricCatalogue.Units)
                 {
                     unit.WriteFrameState(json, f);
@@ -188,17 +180,6 @@ public sealed class ScoreStateWriter : IDisposable
         }
 
         Emit();
-    }
-
-    private static void Ints(Utf8JsonWriter json, string name, int[] values)
-    {
-        json.WriteStartArray(name);
-        foreach (int v in values)
-        {
-            json.WriteNumberValue(v);
-        }
-
-        json.WriteEndArray();
     }
 
     private void Emit()

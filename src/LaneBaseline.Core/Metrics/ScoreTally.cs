@@ -1,5 +1,6 @@
 using LaneBaseline.Core.Metrics.ConfidenceSweep;
 using LaneBaseline.Core.Metrics.Ground;
+using LaneBaseline.Core.Metrics.IouF1;
 using LaneBaseline.Core.Metrics.PointAccuracy;
 
 namespace LaneBaseline.Core.Metrics;
@@ -7,15 +8,13 @@ namespace LaneBaseline.Core.Metrics;
 /// <summary>Sums of per-frame counts over a set of frames (all frames, or the frames of one tag).</summary>
 public sealed class ScoreTally
 {
-    private readonly IouThreshold[] thresholds;
     private int? width;
     private int? height;
 
-    /// <summary>Creates an empty tally for the given thresholds (the order of <see cref="FrameScore.TruePositives"/>).</summary>
+    /// <summary>Creates an empty tally for the given thresholds (the order of <see cref="FrameIouF1.TruePositives"/>).</summary>
     public ScoreTally(IReadOnlyList<IouThreshold> thresholds)
     {
-        this.thresholds = [.. thresholds];
-        TruePositives = new long[this.thresholds.Length];
+        IouF1 = new IouF1Tally(thresholds);
     }
 
     /// <summary>Frames added.</summary>
@@ -27,8 +26,8 @@ public sealed class ScoreTally
     /// <summary>Predicted lanes over all frames.</summary>
     public long PredLanes { get; private set; }
 
-    /// <summary>True positives per threshold.</summary>
-    public long[] TruePositives { get; }
+    /// <summary>The rasterised-IoU detection counts over the frames (F1 per threshold, mF1).</summary>
+    public IouF1Tally IouF1 { get; }
 
     /// <summary>The row-sampled point accuracy over the frames.</summary>
     public PointAccuracyTally Points { get; } = new();
@@ -47,9 +46,6 @@ public sealed class ScoreTally
 
     /// <summary>The common frame width, or null when none or mixed.</summary>
     public int? CommonWidth => MixedSizes ? null : width;
-
-    /// <summary>The thresholds of <see cref="TruePositives"/>.</summary>
-    public IReadOnlyList<IouThreshold> Thresholds => thresholds;
 
     /// <summary>Whether the set holds no truth and no prediction at all (everything then scores 1).</summary>
     public bool AllEmpty => TruthLanes == 0 && PredLanes == 0;
@@ -71,38 +67,13 @@ public sealed class ScoreTally
         Frames++;
         TruthLanes += frame.TruthLanes;
         PredLanes += frame.PredLanes;
-        for (int k = 0; k < TruePositives.Length; k++)
-        {
-            TruePositives[k] += frame.TruePositives[k];
-        }
-
+        IouF1.Add(frame);
         Points.Add(frame);
         Sweep.Add(frame);
         Reliability.Add(frame);
         if (frame.Ground is { } g)
         {
             (Ground ??= new GroundTally(g.LateralCount.Length)).Add(g);
-        }
-    }
-
-    /// <summary>Detection counts and rates at threshold index <paramref name="k"/>.</summary>
-    public DetectionCounts At(int k) => DetectionCounts.From(TruePositives[k], PredLanes, TruthLanes);
-
-    /// <summary>Detection counts at a threshold.</summary>
-    public DetectionCounts At(IouThreshold t) => At(Array.IndexOf(thresholds, t));
-
-    /// <summary>Mean F1 over 0.50, 0.55, …, 0.95.</summary>
-    public double MeanF1
-    {
-        get
-        {
-            double sum = 0;
-            foreach (IouThreshold t in IouThreshold.MeanF1Set)
-            {
-                sum += At(t).F1;
-            }
-
-            return sum / IouThreshold.MeanF1Set.Count;
         }
     }
 }

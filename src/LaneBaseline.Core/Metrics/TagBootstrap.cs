@@ -74,6 +74,6 @@ public sealed class TagBootstrap
     public static double Value(ScoreTally tally, int stat)
     {
         ArgumentNullException.ThrowIfNull(tally);
-        return stat == Bootstrap.MeanF1Index ? tally.MeanF1 : ScoreJsonWriter.Statistic(tally, (BootstrapStatistic)stat);
+        return stat == Bootstrap.MeanF1Index ? tally.IouF1.MeanF1 : ScoreJsonWriter.Statistic(tally, (BootstrapStatistic)stat);
     }
 }

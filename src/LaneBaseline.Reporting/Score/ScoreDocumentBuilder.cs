@@ -150,11 +150,11 @@ public static class ScoreDocumentBuilder
     {
         int? width = settings.LaneWidthPx ?? (tally.CommonWidth is int w ? settings.LaneWidthFor(w) : null);
         double? tolerance = settings.TolerancePx ?? (tally.CommonWidth is int tw ? settings.ToleranceFor(tw) : null);
-        var rows = new List<ThresholdRow>(tally.Thresholds.Count);
-        for (int k = 0; k < tally.Thresholds.Count; k++)
+        var rows = new List<ThresholdRow>(tally.IouF1.Thresholds.Count);
+        for (int k = 0; k < tally.IouF1.Thresholds.Count; k++)
         {
-            string key = tally.Thresholds[k].Key;
-            rows.Add(new ThresholdRow(key, double.Parse(key, NumberStyles.Float, CultureInfo.InvariantCulture), Counts(tally.At(k))));
+            string key = tally.IouF1.Thresholds[k].Key;
+            rows.Add(new ThresholdRow(key, double.Parse(key, NumberStyles.Float, CultureInfo.InvariantCulture), Counts(tally.IouF1.At(k))));
         }
 
         rows.Sort((a, b) => a.Value.CompareTo(b.Value));
@@ -164,7 +164,7 @@ public static class ScoreDocumentBuilder
             Finite(tally.Points.FpRate),
             Finite(tally.Points.FnRate),
             tally.Points.Matched);
-        return new Tally(tally.Frames, tally.TruthLanes, tally.PredLanes, width, rows, Finite(tally.MeanF1), point)
+        return new Tally(tally.Frames, tally.TruthLanes, tally.PredLanes, width, rows, Finite(tally.IouF1.MeanF1), point)
         {
             Ground = tally.Ground is { } g ? Ground(g) : null,
         };

@@ -272,8 +272,6 @@ public sealed class CalibrationTests
         Frame = "f",
         Tags = [],
         TruthLanes = truthLanes,
-        TruePositives = [],
-        AssignedIous = [],
         LaneScores = scores,
         LaneHits = hits,
     };

@@ -1,4 +1,5 @@
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Metrics.IouF1;
 using LaneBaseline.Core.Metrics.PointAccuracy;
 using LaneBaseline.Core.Random;
 using Xunit;
@@ -13,8 +14,7 @@ public sealed class ClusterBootstrapTests
         Tags = [],
         TruthLanes = truth,
         PredLanes = pred,
-        TruePositives = [tp],
-        AssignedIous = [],
+        IouF1 = new FrameIouF1([tp], []),
         Points = new FramePointAccuracy(acc, 0),
     };
 
@@ -40,7 +40,7 @@ public sealed class ClusterBootstrapTests
             int truth = 1 + rng.NextInt(4), pred = rng.NextInt(5);
             return Frame($"drive{i:00}/000001.png", Math.Min(truth, pred) - rng.NextInt(1 + Math.Min(truth, pred)) + 0, truth, pred, rng.NextInt(truth + 1) * 0.5);
         })];
-        BootstrapSeries a = Series(frames), b = Series(frames.Select(f => Frame(f.Frame, f.TruePositives[0], f.TruthLanes, f.PredLanes, f.Points.AccuracySum)));
+        BootstrapSeries a = Series(frames), b = Series(frames.Select(f => Frame(f.Frame, f.IouF1.TruePositives[0], f.TruthLanes, f.PredLanes, f.Points.AccuracySum)));
         Assert.Equal(40, a.ClusterCount);
         double[][][] seq = Bootstrap.Resample([a, b], 300, 11, 2, BootstrapUnit.Sequence);
         double[][][] frm = Bootstrap.Resample([a, b], 300, 11, 1, BootstrapUnit.Frame);
@@ -83,7 +83,7 @@ public sealed class ClusterBootstrapTests
                 string name = clusterNames[draw.NextInt(clusterNames.Length)];
                 foreach (FrameScore f in frames.Where(f => f.Frame.StartsWith(name + "/", StringComparison.Ordinal)))
                 {
-                    tp += f.TruePositives[0];
+                    tp += f.IouF1.TruePositives[0];
                     truth += f.TruthLanes;
                     pred += f.PredLanes;
                 }

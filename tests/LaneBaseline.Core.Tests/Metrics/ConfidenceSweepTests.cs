@@ -56,7 +56,7 @@ public sealed class ConfidenceSweepTests
         var tally = new ConfidenceSweepTally();
         for (int i = 0; i < 2; i++)
         {
-            tally.Add(new FrameScore { Frame = "f", Tags = [], TruthLanes = 2, PredLanes = 3, TruePositives = [], AssignedIous = [], Sweep = FrameConfidenceSweep.Measure(frame) });
+            tally.Add(new FrameScore { Frame = "f", Tags = [], TruthLanes = 2, PredLanes = 3, Sweep = FrameConfidenceSweep.Measure(frame) });
         }
 
         DetectionCounts c = tally.At(0);

@@ -1,4 +1,5 @@
 using LaneBaseline.Core.Metrics;
+using LaneBaseline.Core.Metrics.IouF1;
 using LaneBaseline.Core.Metrics.PointAccuracy;
 using LaneBaseline.Core.Random;
 using Xunit;
@@ -16,8 +17,7 @@ public sealed class TagBootstrapTests
         Tags = tags,
         TruthLanes = truth,
         PredLanes = pred,
-        TruePositives = [.. Settings.Thresholds.Select(_ => tp)],
-        AssignedIous = [],
+        IouF1 = new FrameIouF1([.. Settings.Thresholds.Select(_ => tp)], []),
         Points = new FramePointAccuracy(acc, 0),
     };
 
@@ -89,7 +89,7 @@ public sealed class TagBootstrapTests
             for (int i = 0; i < rain.Length; i++)
             {
                 FrameScore f = rain[draw.NextInt(rain.Length)];
-                tp += f.TruePositives[0];
+                tp += f.IouF1.TruePositives[0];
                 truth += f.TruthLanes;
                 pred += f.PredLanes;
             }
@@ -138,10 +138,10 @@ public sealed class TagBootstrapTests
         Assert.DoesNotContain("'sun'", w, StringComparison.Ordinal);
         TagBootstrap fog = byTag["fog"];
         Assert.Equal(1, fog.Units);
-        double f1 = results[0].ByTag["fog"].At(IouThreshold.Half).F1; // TP 3, pred 4, truth 4: 0.75
+        double f1 = results[0].ByTag["fog"].IouF1.At(IouThreshold.Half).F1; // TP 3, pred 4, truth 4: 0.75
         Assert.Equal(0.75, f1, 12);
         Assert.Equal(new Interval(f1, f1), fog.Intervals[0][(int)BootstrapStatistic.F1]);
-        double diff = f1 - results[1].ByTag["fog"].At(IouThreshold.Half).F1;
+        double diff = f1 - results[1].ByTag["fog"].IouF1.At(IouThreshold.Half).F1;
         Assert.Equal(new Interval(diff, diff), fog.Paired(0, 1, (int)BootstrapStatistic.F1, 0.95));
         Assert.Equal(2, byTag["sun"].Units);
     }

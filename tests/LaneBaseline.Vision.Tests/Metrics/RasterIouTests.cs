@@ -55,8 +55,8 @@ public sealed class RasterIouTests : IDisposable
         var scorer = new FrameScorer(rasterizer, new ScoreSettings { LaneWidthPx = thickness });
         FrameScore f = scorer.Score(Lanes.Truth("a", 640, 360, Lanes.Vertical(200, 360)), Lanes.Pred("a", Lanes.Vertical(200 + d, 360)));
         IReadOnlyList<IouThreshold> th = scorer.Thresholds;
-        Assert.Equal(1, f.TruePositives[IndexOf(th, met)]);
-        Assert.Equal(0, f.TruePositives[IndexOf(th, notMet)]);
+        Assert.Equal(1, f.IouF1.TruePositives[IndexOf(th, met)]);
+        Assert.Equal(0, f.IouF1.TruePositives[IndexOf(th, notMet)]);
     }
 
     // Source: docs/metrics.md: points are rounded half to even (C# Math.Round default); 412.5 -> 412, 413.5 -> 414.

@@ -25,7 +25,7 @@ public sealed class ScorePropertyTests
         {
             FrameScore a = scorer.Score(Lanes.Truth("f", 1920, 1080, truth), Lanes.Pred("f", pred));
             FrameScore b = scorer.Score(Lanes.Truth("f", 1920, 1080, [.. truth.Reverse()]), Lanes.Pred("f", [.. pred.Reverse()]));
-            Assert.Equal(a.TruePositives, b.TruePositives);
+            Assert.Equal(a.IouF1.TruePositives, b.IouF1.TruePositives);
             Assert.Equal(a.Points.AccuracySum, b.Points.AccuracySum, 9);
         }, iter: 60, threads: 1);
     }
@@ -42,7 +42,7 @@ public sealed class ScorePropertyTests
             FrameScore f = scorer.Score(Lanes.Truth("f", 1920, 1080, lanes), Lanes.Pred("f", lanes));
             var tally = new ScoreTally(scorer.Thresholds);
             tally.Add(f);
-            Assert.All(Enumerable.Range(0, scorer.Thresholds.Count), k => Assert.Equal(1.0, tally.At(k).F1));
+            Assert.All(Enumerable.Range(0, scorer.Thresholds.Count), k => Assert.Equal(1.0, tally.IouF1.At(k).F1));
             Assert.Equal(1.0, tally.Points.Accuracy, 12);
         }, iter: 40, threads: 1);
     }
@@ -61,7 +61,7 @@ public sealed class ScorePropertyTests
             before.Add(scorer.Score(Lanes.Truth("f", 1920, 1080, lanes), Lanes.Pred("f", lanes)));
             var after = new ScoreTally(scorer.Thresholds);
             after.Add(scorer.Score(Lanes.Truth("f", 1920, 1080, lanes), Lanes.Pred("f", [.. lanes, far])));
-            DetectionCounts b = before.At(IouThreshold.Half), a = after.At(IouThreshold.Half);
+            DetectionCounts b = before.IouF1.At(IouThreshold.Half), a = after.IouF1.At(IouThreshold.Half);
             Assert.True(a.Precision < b.Precision);
             Assert.Equal(b.Recall, a.Recall);
         }, iter: 40, threads: 1);

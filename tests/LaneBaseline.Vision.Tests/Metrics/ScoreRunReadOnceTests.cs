@@ -36,22 +36,22 @@ public sealed class ScoreRunReadOnceTests : IDisposable
                 FrameScore a = streamedFrames[i][s], b = keptFrames[i][s];
                 Assert.Equal(a.Frame, b.Frame);
                 Assert.Equal(a.PredLanes, b.PredLanes);
-                Assert.Equal(a.TruePositives, b.TruePositives);
-                Assert.Equal(a.AssignedIous, b.AssignedIous);
+                Assert.Equal(a.IouF1.TruePositives, b.IouF1.TruePositives);
+                Assert.Equal(a.IouF1.AssignedIous, b.IouF1.AssignedIous);
                 Assert.Equal(a.Points.AccuracySum, b.Points.AccuracySum);
             }
         }
 
         for (int s = 0; s < systems.Length; s++)
         {
-            Assert.Equal(streamed[s].Overall.TruePositives, kept[s].Overall.TruePositives);
+            Assert.Equal(streamed[s].Overall.IouF1.TruePositives, kept[s].Overall.IouF1.TruePositives);
             Assert.Equal(streamed[s].Overall.PredLanes, kept[s].Overall.PredLanes);
             Assert.Equal(streamed[s].Coverage!.Missing, kept[s].Coverage!.Missing);
             Assert.Equal(streamed[s].Coverage!.FirstMissing, kept[s].Coverage!.FirstMissing);
         }
 
         // The scores must not be trivial: some prediction matched and some frame predicted nothing.
-        Assert.True(streamed[0].Overall.TruePositives[0] > 0);
+        Assert.True(streamed[0].Overall.IouF1.TruePositives[0] > 0);
         Assert.Contains(streamedFrames, row => row[1].PredLanes == 0);
     }
 
