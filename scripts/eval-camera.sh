@@ -1,8 +1,10 @@
 #!/usr/bin/env bash
 # Accuracy of detect with and without the rendered camera file, per condition (docs/detect.md, "With a camera file").
-# Renders the HELD-OUT set (seed 6113, never used for tuning) for each condition, runs the default preset three
+# Renders the HELD-OUT set (seed 6113, never used for tuning; --seed 2718 gives the validation set) for each condition,
+# with the rendering and truth filter shared with eval-conditions.sh (scripts/lib/eval-sets.sh), runs the default preset three
 # ways (no --camera; --camera with metric.metresPerPx 0, i.e. the camera's vanishing point and the trapezoid;
-# --camera with the metric bird's-eye view) and scores each against the four-boundary truth (slots -2, -1, +1, +2).
+# --camera with the metric bird's-eye view) and scores each against the four-boundary truth (slots -2, -1, +1, +2):
+# F1@0.50 / precision / recall, then the precision of lanes with score >= 0.5.
 # Usage: bash scripts/eval-camera.sh [--count N] [--size WxH] [--seed S] [--out DIR]
 # Needs python3 (table arithmetic only). Outputs go to out/eval-camera/ (ignored by git). LB=path/to/lanebaseline.dll
 # uses an existing build instead of building Release.
@@ -24,23 +26,13 @@ if [ -z "${LB:-}" ]; then
   LB=src/LaneBaseline.Cli/bin/Release/net10.0/lanebaseline.dll
 fi
 lb() { dotnet "$LB" "$@"; }
-conditions="clean shadows traffic night rain glare worn-paint wet-night sodium-dusk low-sun heavy-wear"
+. scripts/lib/eval-sets.sh
+conditions=$EVAL_CONDITIONS
 mkdir -p "$out"
 printf 'metric:\n  metresPerPx: 0\n' > "$out/trapezoid.yaml"
 for c in $conditions; do
   d="$out/$c"
-  if [ ! -f "$d/frames/truth.lanes.jsonl" ]; then
-    cond=$c; [ "$c" = clean ] && cond=none
-    lb render -o "$d/frames" --seed "$seed" --count "$count" --size "$size" --conditions "$cond" >/dev/null 2>&1
-  fi
-  python3 - "$d/frames/truth.lanes.jsonl" "$d/truth4.lanes.jsonl" <<'PY'
-import json, sys
-with open(sys.argv[1]) as f, open(sys.argv[2], "w") as o:
-    for line in f:
-        r = json.loads(line)
-        r["lanes"] = [l for l in r["lanes"] if abs(l.get("slot", 0)) in (1, 2)]
-        o.write(json.dumps(r) + "\n")
-PY
+  eval_render_set "$d" "$seed" "$count" "$size" "$c"
   lb detect --frames "$d/frames" -o "$d/none.lanes.jsonl" --threads 2 >/dev/null 2>&1
   lb detect --frames "$d/frames" -o "$d/trapezoid.lanes.jsonl" --camera "$d/frames/camera.json" --config "$out/trapezoid.yaml" --threads 2 >/dev/null 2>&1
   lb detect --frames "$d/frames" -o "$d/metric.lanes.jsonl" --camera "$d/frames/camera.json" --threads 2 >/dev/null 2>&1
@@ -48,7 +40,8 @@ PY
     lb score --truth "$d/truth4.lanes.jsonl" --pred "$d/$s.lanes.jsonl" --json "$d/$s.score.json" --bootstrap 0 >/dev/null 2>&1
   done
 done
-echo "== held-out (seed $seed, $count frames per condition, $size, preset default): F1@0.50 / precision / recall =="
+case "$seed" in 6113) set=held-out ;; 2718) set=validation ;; *) set=rendered ;; esac
+echo "== $set (seed $seed, $count frames per condition, $size, preset default): F1@0.50 / precision / recall =="
 python3 - "$out" $conditions <<'PY'
 import json, sys
 root, conds = sys.argv[1], sys.argv[2:]
@@ -70,4 +63,20 @@ for c in conds:
         row += f"{cell(tp, fp, fn):>24}"
     print(row)
 print(f"{'overall':<12}" + "".join(f"{cell(*tot[s]):>24}" for s in systems))
+# Precision of lanes with score >= 0.5 (the scorer's confidence sweep at 0.50) and how many there are.
+print()
+print(f"{'P(s>=0.5)':<12}" + "".join(f"{s:>24}" for s in systems))
+tot5 = {s: [0, 0] for s in systems}
+def cell5(tp, n):
+    return f"{tp / n if n else float('nan'):.3f} of {n}"
+for c in conds:
+    row = f"{c:<12}"
+    for s in systems:
+        sweep = {round(r["min_score"], 2): r for r in json.load(open(f"{root}/{c}/{s}.score.json"))["confidence_sweep"]}
+        tp, n = sweep[0.5]["tp"], sweep[0.5]["tp"] + sweep[0.5]["fp"]
+        tot5[s][0] += tp
+        tot5[s][1] += n
+        row += f"{cell5(tp, n):>24}"
+    print(row)
+print(f"{'overall':<12}" + "".join(f"{cell5(*tot5[s]):>24}" for s in systems))
 PY

@@ -22,7 +22,8 @@ done
 command -v python3 >/dev/null || { echo "eval-conditions: python3 is needed for the table" >&2; exit 1; }
 dotnet build src/LaneBaseline.Cli -c Release -nologo -v q >/dev/null
 lb() { dotnet src/LaneBaseline.Cli/bin/Release/net10.0/lanebaseline.dll "$@"; }
-conditions="clean shadows traffic night rain glare worn-paint wet-night sodium-dusk low-sun heavy-wear"
+. scripts/lib/eval-sets.sh
+conditions=$EVAL_CONDITIONS
 mkdir -p "$out"
 for set in ${sets//,/ }; do
   case "$set" in
@@ -32,18 +33,7 @@ for set in ${sets//,/ }; do
   esac
   for c in $conditions; do
     d="$out/$set/$c"
-    if [ ! -f "$d/frames/truth.lanes.jsonl" ]; then
-      cond=$c; [ "$c" = clean ] && cond=none
-      lb render -o "$d/frames" --seed "$seed" --count "$count" --size "$size" --conditions "$cond" >/dev/null 2>&1
-    fi
-    python3 - "$d/frames/truth.lanes.jsonl" "$d/truth4.lanes.jsonl" <<'PY'
-import json, sys
-with open(sys.argv[1]) as f, open(sys.argv[2], "w") as o:
-    for line in f:
-        r = json.loads(line)
-        r["lanes"] = [l for l in r["lanes"] if abs(l.get("slot", 0)) in (1, 2)]
-        o.write(json.dumps(r) + "\n")
-PY
+    eval_render_set "$d" "$seed" "$count" "$size" "$c"
     lb detect --frames "$d/frames" -o "$d/pred.lanes.jsonl" --config "$config" --threads 2 >/dev/null 2>&1
     lb score --truth "$d/truth4.lanes.jsonl" --pred "$d/pred.lanes.jsonl" --json "$d/score.json" --bootstrap 0 >/dev/null 2>&1
   done

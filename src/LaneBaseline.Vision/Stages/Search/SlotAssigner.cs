@@ -16,6 +16,8 @@ internal sealed class SlotAssigner
     private readonly int[] order = new int[FrameWorkspace.MaxCandidates];
     private readonly int[] accepted = new int[FrameWorkspace.MaxCandidates];
     private readonly int[] chosen = new int[6];
+    private readonly LaneEstimate[] saved = new LaneEstimate[6];
+    private readonly int[] savedIndex = new int[6];
     private readonly JointBoundaryModel joint;
 
     /// <summary>Creates the slot assigner.</summary>
@@ -33,7 +35,7 @@ internal sealed class SlotAssigner
     /// <summary>Chooses the reported lanes among the fitted candidates and gives them slots.</summary>
     public void Assign(FrameWorkspace ws)
     {
-        int n = ws.Search.CandidateCount, bw = ws.Warp.BirdsEyeWidth, bh = ws.Warp.BirdsEyeHeight;
+        int n = ws.Search.CandidateCount, bh = ws.Warp.BirdsEyeHeight;
         double yb = bh - 1;
 
         // Candidates by score (descending; index breaks ties so the order is deterministic).
@@ -79,12 +81,81 @@ internal sealed class SlotAssigner
             }
         }
 
-        // Nearest left and right of the vehicle centre (bird's-eye centre column).
-        double centre = (bw - 1) / 2.0;
+        // Metric view: when the nearest boundaries left and right are two or three plausible lane widths apart (the ego
+        // boundaries between them unseen, as under a low sun that veils the dashes ahead), read them as ±1/±2 or −2/+2;
+        // keep that reading only when the joint model then finds an unseen boundary between them along the joint curve,
+        // else undo it and choose as usual (the stronger of the two kept alone).
+        int candidates = ws.Search.CandidateCount;
+        int gap = Choose(ws, kept, true);
+        if (gap >= 0)
+        {
+            for (int s = 0; s < chosen.Length; s++)
+            {
+                savedIndex[s] = chosen[s];
+                saved[s] = chosen[s] >= 0 ? ws.Search.CandidateFits[chosen[s]] : default;
+            }
+
+            Refine(ws);
+
+            // Found: the unseen boundary (for three lanes, either ego boundary) was recovered along the joint curve.
+            bool found = chosen[gap] >= 0 || (savedIndex[2] < 0 && savedIndex[3] < 0 && chosen[3] >= 0);
+            if (!found)
+            {
+                RestoreBefore(ws, candidates);
+                Choose(ws, kept, false);
+                Refine(ws);
+            }
+        }
+        else
+        {
+            Refine(ws);
+        }
+
+        ws.LaneCount = 0;
+        for (int s = 0; s < chosen.Length; s++)
+        {
+            Emit(ws, chosen[s], Slots[s], true);
+        }
+
+        AddAgreementFeatures(ws, Math.Max(0, kept - ws.LaneCount));
+    }
+
+    /// <summary>
+    /// Fills <see cref="chosen"/> from the candidates that survived the duplicate test: the nearest boundaries left and
+    /// right of the vehicle centre (bird's-eye centre column) as −1 and +1 when their spacing is a plausible lane width,
+    /// then their neighbours outwards. With <paramref name="wider"/>, in the metric view, a nearest pair two plausible
+    /// lane widths apart is read as ±1 and ±2 (the ego boundary on the side of their midpoint unseen), and a pair three
+    /// widths apart around the camera as −2 and +2 (both ego boundaries unseen; see <see cref="LanesSpanned"/>);
+    /// returns the index in <see cref="chosen"/> of the unseen boundary (the −1 for three lanes), or −1 for the usual
+    /// reading.
+    /// </summary>
+    private int Choose(FrameWorkspace ws, int kept, bool wider)
+    {
+        double centre = (ws.Warp.BirdsEyeWidth - 1) / 2.0;
         int l1 = Nearest(ws, kept, centre, -1, double.NegativeInfinity);
         int r1 = Nearest(ws, kept, centre, +1, double.PositiveInfinity);
         (double minW, double maxW) = LaneWidthLimits.Of(search, ws);
-        if (l1 >= 0 && r1 >= 0)
+        int l2 = -1, r2 = -1, gap = -1;
+        double egoWidth = double.NaN;
+        int spanned = wider && l1 >= 0 && r1 >= 0 ? LanesSpanned(ws, l1, r1, centre, minW, maxW) : 0;
+        if (spanned == 3)
+        {
+            egoWidth = (Xb(ws, r1) - Xb(ws, l1)) / 3;
+            (l2, r2, l1, r1, gap) = (l1, r1, -1, -1, 2);
+        }
+        else if (spanned == 2)
+        {
+            egoWidth = (Xb(ws, r1) - Xb(ws, l1)) / 2;
+            if (Xb(ws, l1) + egoWidth > centre)
+            {
+                (r2, r1, gap) = (r1, -1, 3);
+            }
+            else
+            {
+                (l2, l1, gap) = (l1, -1, 2);
+            }
+        }
+        else if (l1 >= 0 && r1 >= 0)
         {
             double width = Xb(ws, r1) - Xb(ws, l1);
             if (width < minW || width > maxW || !Parallel(ws, l1, r1))
@@ -99,11 +170,20 @@ internal sealed class SlotAssigner
                     l1 = -1;
                 }
             }
+
+            egoWidth = l1 >= 0 && r1 >= 0 ? Xb(ws, r1) - Xb(ws, l1) : double.NaN;
         }
 
-        double egoWidth = l1 >= 0 && r1 >= 0 ? Xb(ws, r1) - Xb(ws, l1) : double.NaN;
-        int l2 = l1 >= 0 ? Neighbour(ws, kept, l1, -1, egoWidth, minW, maxW) : -1;
-        int r2 = r1 >= 0 ? Neighbour(ws, kept, r1, +1, egoWidth, minW, maxW) : -1;
+        if (l1 >= 0 && l2 < 0)
+        {
+            l2 = Neighbour(ws, kept, l1, -1, egoWidth, minW, maxW);
+        }
+
+        if (r1 >= 0 && r2 < 0)
+        {
+            r2 = Neighbour(ws, kept, r1, +1, egoWidth, minW, maxW);
+        }
+
         int l3 = l2 >= 0 && search.MaxLanes >= 5 ? Neighbour(ws, kept, l2, -1, egoWidth, minW, maxW) : -1;
         int r3 = r2 >= 0 && search.MaxLanes >= 6 ? Neighbour(ws, kept, r2, +1, egoWidth, minW, maxW) : -1;
 
@@ -114,19 +194,31 @@ internal sealed class SlotAssigner
         chosen[3] = max >= 2 ? r1 : -1;
         chosen[4] = max >= 4 ? r2 : -1;
         chosen[5] = max >= 6 ? r3 : -1;
+        return gap;
+    }
+
+    /// <summary>The joint multi-boundary model over <see cref="chosen"/> (when on): refit, drop, recover.</summary>
+    private void Refine(FrameWorkspace ws)
+    {
         if (fit.JointModel)
         {
             joint.Refine(ws, chosen);
-            joint.Recover(ws, chosen, max);
+            joint.Recover(ws, chosen, search.MaxLanes);
         }
+    }
 
-        ws.LaneCount = 0;
+    /// <summary>Undoes a rejected reading: the fits the joint model changed and the candidates it added.</summary>
+    private void RestoreBefore(FrameWorkspace ws, int candidates)
+    {
         for (int s = 0; s < chosen.Length; s++)
         {
-            Emit(ws, chosen[s], Slots[s], true);
+            if (savedIndex[s] >= 0)
+            {
+                ws.Search.CandidateFits[savedIndex[s]] = saved[s];
+            }
         }
 
-        AddAgreementFeatures(ws, Math.Max(0, kept - ws.LaneCount));
+        ws.Search.CandidateCount = candidates;
     }
 
     /// <summary>
@@ -180,6 +272,36 @@ internal sealed class SlotAssigner
         double d0 = ws.Search.CandidateFits[i].Fit.At(yb) - ws.Search.CandidateFits[j].Fit.At(yb);
         double d1 = ws.Search.CandidateFits[i].Fit.At(top) - ws.Search.CandidateFits[j].Fit.At(top);
         return d0 * d1 < 0;
+    }
+
+    /// <summary>
+    /// In the metric view of a camera file, how many lanes the nearest boundaries left and right of the camera's
+    /// column span when that is more than one: 2 or 3 when their spacing at the bottom row is above the largest
+    /// plausible lane width and splits into that many plausible widths (the count whose width is nearest the middle of
+    /// the plausible range; 3 only with the camera inside the middle one), and they stay parallel; otherwise 0. Always
+    /// 0 in the vanishing-point trapezoid, whose widths are relative, and when fewer than four boundaries are reported.
+    /// </summary>
+    private int LanesSpanned(FrameWorkspace ws, int left, int right, double centre, double minW, double maxW)
+    {
+        double xl = Xb(ws, left), xr = Xb(ws, right), width = xr - xl;
+        if (ws.Warp.MetresPerPixel <= 0 || search.MaxLanes < 4 || width <= maxW || xl >= centre || xr <= centre || !Parallel(ws, left, right))
+        {
+            return 0;
+        }
+
+        double typical = (minW + maxW) / 2;
+        int best = 0;
+        for (int k = 2; k <= 3; k++)
+        {
+            double w = width / k;
+            bool fits = w >= minW && w <= maxW && (k == 2 || (xl + w <= centre && xr - w >= centre));
+            if (fits && (best == 0 || Math.Abs(w - typical) < Math.Abs((width / best) - typical)))
+            {
+                best = k;
+            }
+        }
+
+        return best;
     }
 
     private static double Xb(FrameWorkspace ws, int i) => ws.Search.CandidateFits[i].Fit.At(ws.Warp.BirdsEyeHeight - 1);
