@@ -31,17 +31,51 @@ public static class Bootstrap
         Resample(systems, resamples, seed, threads, BootstrapUnit.Frame);
 
     /// <summary>
-    /// Statistic values per resample: result[system][statistic][b]. With <see cref="BootstrapUnit.Sequence"/>, each
-    /// resample draws K of the K sequences with replacement and sums every frame of each drawn sequence (cluster
-    /// bootstrap, Davison &amp; Hinkley 1997, Sec. 3.8, resampling stage one only); the systems share the draws, so
-    /// paired differences use the same resampling. With one frame per sequence the draws, and so the results, equal
-    /// the frame bootstrap's for the same seed.
+    /// Statistic values per resample: result[system][statistic][b], statistics those of <see cref="BootstrapStatistic"/>.
+    /// With <see cref="BootstrapUnit.Sequence"/>, each resample draws K of the K sequences with replacement and sums
+    /// every frame of each drawn sequence (cluster bootstrap, Davison &amp; Hinkley 1997, Sec. 3.8, resampling stage one
+    /// only); the systems share the draws, so paired differences use the same resampling. With one frame per sequence
+    /// the draws, and so the results, equal the frame bootstrap's for the same seed.
     /// </summary>
-    public static double[][][] Resample(IReadOnlyList<BootstrapSeries> systems, int resamples, ulong seed, int threads, BootstrapUnit unit)
+    public static double[][][] Resample(IReadOnlyList<BootstrapSeries> systems, int resamples, ulong seed, int threads, BootstrapUnit unit) =>
+        Run(systems, resamples, seed, threads, unit, Enum.GetValues<BootstrapStatistic>().Length);
+
+    /// <summary>Number of statistics <see cref="ResampleWithMeanF1"/> gives: the four of <see cref="BootstrapStatistic"/>, then mF1.</summary>
+    public const int StatisticsWithMeanF1 = 5;
+
+    /// <summary>Index of mF1 in the results of <see cref="ResampleWithMeanF1"/>.</summary>
+    public const int MeanF1Index = 4;
+
+    /// <summary>
+    /// Like <see cref="Resample(IReadOnlyList{BootstrapSeries}, int, ulong, int, BootstrapUnit)"/> (same draws for the
+    /// same seed, unit and number of units), with mF1 as a fifth statistic: result[system][statistic][b], statistic
+    /// indices those of <see cref="BootstrapStatistic"/> then <see cref="MeanF1Index"/>. The series must carry
+    /// <see cref="BootstrapSeries.HasMeanF1"/>. Used for the per-tag intervals, each tag's frames forming their own series.
+    /// </summary>
+    public static double[][][] ResampleWithMeanF1(IReadOnlyList<BootstrapSeries> systems, int resamples, ulong seed, int threads, BootstrapUnit unit)
     {
         ArgumentNullException.ThrowIfNull(systems);
-        int n = systems.Count == 0 ? 0 : systems[0].TruthLanes.Count;
-        int stats = Enum.GetValues<BootstrapStatistic>().Length;
+        foreach (BootstrapSeries series in systems)
+        {
+            if (series.Clusters.Count > 0 && !series.HasMeanF1)
+            {
+                throw new InvalidOperationException("the series carries no per-threshold TP for mF1");
+            }
+        }
+
+        return Run(systems, resamples, seed, threads, unit, StatisticsWithMeanF1);
+    }
+
+    /// <summary>
+    /// The resampling engine: sums every column of every series per unit (frame or sequence, in frame order), then per
+    /// resample b draws the units from <c>SplitMix64.ForStream(seed, b)</c>, sums the drawn units' columns in draw
+    /// order and lets each metric unit compute its statistics from its sums
+    /// (<see cref="IMetricUnit.BootstrapStatistics"/>).
+    /// </summary>
+    private static double[][][] Run(IReadOnlyList<BootstrapSeries> systems, int resamples, ulong seed, int threads, BootstrapUnit unit, int stats)
+    {
+        ArgumentNullException.ThrowIfNull(systems);
+        int n = systems.Count == 0 ? 0 : systems[0].Clusters.Count;
         var result = new double[systems.Count][][];
         for (int s = 0; s < systems.Count; s++)
         {
@@ -57,146 +91,76 @@ public static class Bootstrap
             return result;
         }
 
-        // Units: per-unit sums of every statistic, in order of first appearance (frames: one unit per frame).
+        // Units: per-unit sums of every column, in order of first appearance (frames: one unit per frame).
         int units = unit == BootstrapUnit.Sequence ? systems[0].ClusterCount : n;
-        var tpU = new long[systems.Count][];
-        var truthU = new long[systems.Count][];
-        var predU = new long[systems.Count][];
-        var accU = new double[systems.Count][];
+        var countsU = new long[systems.Count][];
+        var sumsU = new double[systems.Count][];
         for (int s = 0; s < systems.Count; s++)
         {
             BootstrapSeries series = systems[s];
-            tpU[s] = new long[units];
-            truthU[s] = new long[units];
-            predU[s] = new long[units];
-            accU[s] = new double[units];
+            int wc = series.CountWidth, ws = series.SumWidth;
+            countsU[s] = new long[units * wc];
+            sumsU[s] = new double[units * ws];
             for (int f = 0; f < n; f++)
             {
                 int u = unit == BootstrapUnit.Sequence ? series.Clusters[f] : f;
-                tpU[s][u] += series.TruePositives[f];
-                truthU[s][u] += series.TruthLanes[f];
-                predU[s][u] += series.PredLanes[f];
-                accU[s][u] += series.PointAccuracySums[f];
+                for (int c = 0; c < wc; c++)
+                {
+                    countsU[s][(u * wc) + c] += series.Counts[(f * wc) + c];
+                }
+
+                for (int c = 0; c < ws; c++)
+                {
+                    sumsU[s][(u * ws) + c] += series.Sums[(f * ws) + c];
+                }
             }
         }
 
+        IReadOnlyList<IMetricUnit> metrics = MetricCatalogue.Units;
         Parallel.For(0, resamples, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads) }, b =>
         {
             SplitMix64 rng = SplitMix64.ForStream(seed, (ulong)b);
-            var tp = new long[systems.Count];
-            var truth = new long[systems.Count];
-            var pred = new long[systems.Count];
-            var acc = new double[systems.Count];
-            for (int i = 0; i < units; i++)
-            {
-                int u = rng.NextInt(units);
-                for (int s = 0; s < systems.Count; s++)
-                {
-                    tp[s] += tpU[s][u];
-                    truth[s] += truthU[s][u];
-                    pred[s] += predU[s][u];
-                    acc[s] += accU[s][u];
-                }
-            }
-
+            var counts = new long[systems.Count][];
+            var sums = new double[systems.Count][];
             for (int s = 0; s < systems.Count; s++)
             {
-                DetectionCounts c = DetectionCounts.From(tp[s], pred[s], truth[s]);
-                result[s][(int)BootstrapStatistic.F1][b] = c.F1;
-                result[s][(int)BootstrapStatistic.Precision][b] = c.Precision;
-                result[s][(int)BootstrapStatistic.Recall][b] = c.Recall;
-                result[s][(int)BootstrapStatistic.Accuracy][b] = truth[s] == 0 && pred[s] == 0 ? 1.0 : Metrics.Ratio(acc[s], truth[s]);
+                counts[s] = new long[systems[s].CountWidth];
+                sums[s] = new double[systems[s].SumWidth];
             }
-        });
-        return result;
-    }
 
-    /// <summary>Number of statistics <see cref="ResampleWithMeanF1"/> gives: the four of <see cref="BootstrapStatistic"/>, then mF1.</summary>
-    public const int StatisticsWithMeanF1 = 5;
-
-    /// <summary>Index of mF1 in the results of <see cref="ResampleWithMeanF1"/>.</summary>
-    public const int MeanF1Index = 4;
-
-    /// <summary>
-    /// Like <see cref="Resample(IReadOnlyList{BootstrapSeries}, int, ulong, int, BootstrapUnit)"/> (same draws for the
-    /// same seed, unit and number of units), with mF1 as a fifth statistic: result[system][statistic][b], statistic
-    /// indices those of <see cref="BootstrapStatistic"/> then <see cref="MeanF1Index"/>. The series must carry
-    /// <see cref="BootstrapSeries.MeanF1TruePositives"/>. Used for the per-tag intervals, each tag's frames forming
-    /// their own series.
-    /// </summary>
-    public static double[][][] ResampleWithMeanF1(IReadOnlyList<BootstrapSeries> systems, int resamples, ulong seed, int threads, BootstrapUnit unit)
-    {
-        ArgumentNullException.ThrowIfNull(systems);
-        double[][][] result = new double[systems.Count][][];
-        double[][][] basic = Resample(systems, resamples, seed, threads, unit);
-        int n = systems.Count == 0 ? 0 : systems[0].TruthLanes.Count;
-        int m = IouThreshold.MeanF1Set.Count;
-        for (int s = 0; s < systems.Count; s++)
-        {
-            result[s] = [.. basic[s], new double[resamples]];
-            if (n > 0 && systems[s].MeanF1TruePositives.Count != n * m)
-            {
-                throw new InvalidOperationException("the series carries no per-threshold TP for mF1");
-            }
-        }
-
-        if (n == 0 || resamples == 0)
-        {
-            return result;
-        }
-
-        int units = unit == BootstrapUnit.Sequence ? systems[0].ClusterCount : n;
-        var tpU = new long[systems.Count][];
-        var truthU = new long[systems.Count][];
-        var predU = new long[systems.Count][];
-        for (int s = 0; s < systems.Count; s++)
-        {
-            BootstrapSeries series = systems[s];
-            tpU[s] = new long[units * m];
-            truthU[s] = new long[units];
-            predU[s] = new long[units];
-            for (int f = 0; f < n; f++)
-            {
-                int u = unit == BootstrapUnit.Sequence ? series.Clusters[f] : f;
-                truthU[s][u] += series.TruthLanes[f];
-                predU[s][u] += series.PredLanes[f];
-                for (int k = 0; k < m; k++)
-                {
-                    tpU[s][(u * m) + k] += series.MeanF1TruePositives[(f * m) + k];
-                }
-            }
-        }
-
-        Parallel.For(0, resamples, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads) }, b =>
-        {
-            // The same stream as Resample's draw b, so the resampled units are the same.
-            SplitMix64 rng = SplitMix64.ForStream(seed, (ulong)b);
-            var tp = new long[systems.Count * m];
-            var truth = new long[systems.Count];
-            var pred = new long[systems.Count];
             for (int i = 0; i < units; i++)
             {
                 int u = rng.NextInt(units);
                 for (int s = 0; s < systems.Count; s++)
                 {
-                    truth[s] += truthU[s][u];
-                    pred[s] += predU[s][u];
-                    for (int k = 0; k < m; k++)
+                    long[] cs = counts[s], cu = countsU[s];
+                    double[] ss = sums[s], su = sumsU[s];
+                    int wc = cs.Length, ws = ss.Length;
+                    for (int c = 0; c < wc; c++)
                     {
-                        tp[(s * m) + k] += tpU[s][(u * m) + k];
+                        cs[c] += cu[(u * wc) + c];
+                    }
+
+                    for (int c = 0; c < ws; c++)
+                    {
+                        ss[c] += su[(u * ws) + c];
                     }
                 }
             }
 
+            Span<double> values = stackalloc double[stats];
             for (int s = 0; s < systems.Count; s++)
             {
-                double sum = 0;
-                for (int k = 0; k < m; k++)
+                values.Fill(double.NaN);
+                for (int m = 0; m < metrics.Count; m++)
                 {
-                    sum += DetectionCounts.From(tp[(s * m) + k], pred[s], truth[s]).F1;
+                    metrics[m].BootstrapStatistics(systems[s].View(counts[s], sums[s], m), values);
                 }
 
-                result[s][MeanF1Index][b] = sum / m;
+                for (int k = 0; k < stats; k++)
+                {
+                    result[s][k][b] = values[k];
+                }
             }
         });
         return result;

@@ -4,8 +4,9 @@ namespace LaneBaseline.Core.Metrics;
 
 /// <summary>
 /// One metric as one unit (DEVELOPERS.md, "Adding a metric"): the folder <c>Metrics/&lt;Name&gt;/</c> holding its
-/// per-frame computation, its tally, its part of the score JSON and its part of the shard state. The score JSON
-/// writer, the per-frame CSV writer and the shard state writer and reader iterate <see cref="MetricCatalogue.Units"/>
+/// per-frame computation, its tally, its bootstrap columns and statistics, its part of the score JSON and its part of
+/// the shard state. The score JSON writer, the per-frame CSV writer, the shard state writer and reader and the
+/// bootstrap (<see cref="BootstrapSeries"/>, <see cref="Bootstrap"/>) iterate <see cref="MetricCatalogue.Units"/>
 /// and call these members.
 /// </summary>
 public interface IMetricUnit
@@ -44,4 +45,23 @@ public interface IMetricUnit
     /// are already read); a value no scorer can produce is bad input (<see cref="FrameStateSource.Bad"/>).
     /// </summary>
     void ReadFrameState(JsonElement entry, FrameStateSource source, FrameScore frame);
+
+    /// <summary>
+    /// Adds its per-frame additive bootstrap columns to <paramref name="series"/> (<see cref="BootstrapSeries.AddCount"/>,
+    /// <see cref="BootstrapSeries.AddSum"/>), the same number for every frame of a series; none by default.
+    /// <paramref name="halfIndex"/> is the position of IoU 0.50 in the settings' thresholds; <paramref name="meanF1Indices"/>,
+    /// when given, the positions of <see cref="IouThreshold.MeanF1Set"/> (the per-tag series).
+    /// </summary>
+    void AddBootstrapColumns(BootstrapSeries series, FrameScore frame, int halfIndex, IReadOnlyList<int>? meanF1Indices)
+    {
+    }
+
+    /// <summary>
+    /// Computes its statistics of one resample from the resampled sums of its columns (and the shared lane counts)
+    /// into <paramref name="statistics"/>, indexed as <see cref="BootstrapStatistic"/> then <see cref="Bootstrap.MeanF1Index"/>
+    /// (writing only the indices below its length); nothing by default.
+    /// </summary>
+    void BootstrapStatistics(BootstrapSums sums, Span<double> statistics)
+    {
+    }
 }

@@ -7,7 +7,8 @@ namespace LaneBaseline.Core.Metrics.PointAccuracy;
 /// Row-sampled point accuracy (docs/metrics.md section 2): per frame <see cref="FramePointAccuracy.Measure"/> (its own
 /// Hungarian assignment on pair accuracy, rows sampled by <see cref="RowSampling"/>), summed by
 /// <see cref="PointAccuracyTally"/>, JSON <c>point_accuracy</c>, CSV column <c>point_accuracy</c>, state keys
-/// <c>acc</c> and <c>m</c>; its bootstrap statistic is <see cref="BootstrapStatistic.Accuracy"/>.
+/// <c>acc</c> and <c>m</c>; bootstrap column the frame's sum of pair accuracies, from which with the shared truth and
+/// predicted lane counts it computes <see cref="BootstrapStatistic.Accuracy"/>.
 /// </summary>
 public sealed class PointAccuracyUnit : IMetricUnit
 {
@@ -53,4 +54,16 @@ public sealed class PointAccuracyUnit : IMetricUnit
         ArgumentNullException.ThrowIfNull(frame);
         frame.Points = FramePointAccuracy.ReadState(entry, source, frame);
     }
+
+    /// <inheritdoc />
+    public void AddBootstrapColumns(BootstrapSeries series, FrameScore frame, int halfIndex, IReadOnlyList<int>? meanF1Indices)
+    {
+        ArgumentNullException.ThrowIfNull(series);
+        ArgumentNullException.ThrowIfNull(frame);
+        series.AddSum(frame.Points.AccuracySum);
+    }
+
+    /// <inheritdoc />
+    public void BootstrapStatistics(BootstrapSums sums, Span<double> statistics) =>
+        statistics[(int)BootstrapStatistic.Accuracy] = sums.TruthLanes == 0 && sums.PredLanes == 0 ? 1.0 : Metrics.Ratio(sums.Sum(0), sums.TruthLanes);
 }
