@@ -9,11 +9,14 @@ namespace LaneBaseline.Core.Metrics;
 /// every file completely (so bad input is reported before any output is written) and keeps only frame keys; the
 /// second pass joins predictions to truth in truth order, buffering only records that arrive out of order.
 /// </summary>
-public sealed class ScoreRun
+public sealed partial class ScoreRun
 {
     private const int BatchSize = 256;
+
     private readonly string truthPath;
+
     private readonly IReadOnlyList<ScoredSystem> systems;
+
     private readonly ScoreSettings settings;
 
     /// <summary>Creates a run.</summary>
@@ -301,108 +304,6 @@ public sealed class ScoreRun
         }
     }
 
-    private (HashSet<int> Present, FrameCoverage Coverage) ValidatePredictions(
-        LaneSourceOpener opener, LaneSourceRequest request, string path, Dictionary<string, int> truthIndex, List<(int W, int H)> sizes, Action<string>? note, RecordCache cache, int system)
-    {
-        var present = new HashSet<int>();
-        var firstExtra = new List<string>(FrameCoverage.Examples);
-        int extra = 0;
-        using ILaneRecordSource reader = opener(path, request);
-        while (reader.TryRead(out LaneRecord r))
-        {
-            if (!truthIndex.TryGetValue(r.Frame, out int ordinal))
-            {
-                if (Extra == ExtraFramePolicy.Error)
-                {
-                    throw BadInputException.At(path, r.LineNumber, "frame", $"frame '{r.Frame}' is not in the truth file");
-                }
-
-                // --extra ignore: networks are often run on more frames than were labelled; the record was parsed and
-                // validated by the reader, it is only left out of the scores.
-                extra++;
-                if (firstExtra.Count < FrameCoverage.Examples)
-                {
-                    firstExtra.Add(r.Frame);
-                }
-
-                continue;
-            }
-
-            (int w, int h) = sizes[ordinal];
-            if (r.Width is int pw && pw != w)
-            {
-                throw BadInputException.At(path, r.LineNumber, "width", string.Create(CultureInfo.InvariantCulture, $"prediction width {pw} differs from the truth's {w} for frame '{r.Frame}'"));
-            }
-
-            if (r.Height is int ph && ph != h)
-            {
-                throw BadInputException.At(path, r.LineNumber, "height", string.Create(CultureInfo.InvariantCulture, $"prediction height {ph} differs from the truth's {h} for frame '{r.Frame}'"));
-            }
-
-            if (r.Width is null || r.Height is null)
-            {
-                r.ValidatePointRange(path, w, h);
-            }
-
-            present.Add(ordinal);
-            cache.KeepPrediction(system, ordinal, r, truthIndex.Count);
-        }
-
-        if (reader.RecordCount == 0)
-        {
-            // docs/metrics.md: a frame missing from the predictions predicts no lanes, so a system that output nothing
-            // scores (F1 0), it is not bad input; the note says so in case the file is a failed upstream run.
-            note?.Invoke(path + ": the prediction file holds no records: every frame is scored as predicting no lanes");
-        }
-
-        int missing = truthIndex.Count - present.Count;
-        return (present, new FrameCoverage(truthIndex.Count, present.Count + extra, missing, extra, [], firstExtra));
-    }
-
-    /// <summary>Applies <see cref="Missing"/> and <see cref="Extra"/>: an error, or one warning line each.</summary>
-    private FrameCoverage CheckCoverage(string path, FrameCoverage coverage, HashSet<int> present, Dictionary<string, int> truthIndex)
-    {
-        if (coverage.Missing > 0)
-        {
-            var first = new List<string>(FrameCoverage.Examples);
-            foreach (KeyValuePair<string, int> kv in truthIndex.OrderBy(kv => kv.Value))
-            {
-                if (!present.Contains(kv.Value))
-                {
-                    first.Add(kv.Key);
-                    if (first.Count == FrameCoverage.Examples)
-                    {
-                        break;
-                    }
-                }
-            }
-
-            string text = string.Create(
-                CultureInfo.InvariantCulture,
-                $"{coverage.Missing} of {coverage.TruthFrames} truth frames have no prediction record: {FrameCoverage.List(first, coverage.Missing)}");
-            if (Missing == MissingFramePolicy.Error)
-            {
-                throw BadInputException.At(path, 0, "frame", text + " (--missing error)");
-            }
-
-            if (coverage.PredFrames > 0)
-            {
-                OnWarning?.Invoke(path + ": " + text + "; they are scored as predicting no lanes (--missing error makes this an error)");
-            }
-
-            coverage = coverage with { FirstMissing = first };
-        }
-
-        if (coverage.Extra > 0)
-        {
-            OnWarning?.Invoke(path + string.Create(
-                CultureInfo.InvariantCulture,
-                $": {coverage.Extra} prediction record(s) of frames the truth lacks are not scored: {FrameCoverage.List(coverage.FirstExtra, coverage.Extra)} (--extra error makes this an error)"));
-        }
-
-        return coverage;
-    }
-
     /// <summary>
     /// Most lane points (truth and every prediction file together) that pass 1 keeps in memory for pass 2, so inputs
     /// of up to about this size are parsed once (16 bytes a point plus the records: roughly 100 MB at the limit); larger
@@ -412,98 +313,4 @@ public sealed class ScoreRun
 
     /// <summary>Point budget of the records kept by pass 1 (<see cref="KeepBudgetPoints"/>; 0 streams every input twice).</summary>
     public long KeepPoints { get; init; } = KeepBudgetPoints;
-
-    /// <summary>
-    /// The records pass 1 has validated, kept so pass 2 need not parse the inputs again, while they fit the point
-    /// budget; once they do not, everything kept is dropped and pass 2 streams the files again.
-    /// </summary>
-    private sealed class RecordCache(int systems, long budgetPoints)
-    {
-        private long points;
-
-        public List<LaneRecord> Truth { get; } = [];
-
-        public LaneRecord?[][] Predictions { get; } = new LaneRecord?[systems][];
-
-        /// <summary>Whether every input was kept whole (false once the budget was exceeded).</summary>
-        public bool Kept { get; private set; } = budgetPoints > 0;
-
-        public void KeepTruth(LaneRecord r)
-        {
-            if (Charge(r))
-            {
-                Truth.Add(r);
-            }
-        }
-
-        public void KeepPrediction(int system, int ordinal, LaneRecord r, int truthFrames)
-        {
-            if (Charge(r))
-            {
-                (Predictions[system] ??= new LaneRecord?[truthFrames])[ordinal] = r;
-            }
-        }
-
-        /// <summary>Adds a record's points to the total; false (and everything dropped) when over budget.</summary>
-        private bool Charge(LaneRecord r)
-        {
-            if (!Kept)
-            {
-                return false;
-            }
-
-            points += 1;
-            foreach (Lane lane in r.Lanes)
-            {
-                points += lane.Points.Count;
-            }
-
-            if (points <= budgetPoints)
-            {
-                return true;
-            }
-
-            Kept = false;
-            Truth.Clear();
-            Truth.TrimExcess();
-            Array.Clear(Predictions);
-            return false;
-        }
-    }
-
-    /// <summary>Joins a prediction file to truth order, buffering only out-of-order records.</summary>
-    private sealed class PredictionJoiner(ILaneRecordSource reader, Dictionary<string, int> truthIndex, HashSet<int> present)
-    {
-        private readonly Dictionary<int, LaneRecord> pending = [];
-
-        public LaneRecord? Take(int ordinal)
-        {
-            if (!present.Contains(ordinal))
-            {
-                return null;
-            }
-
-            if (pending.Remove(ordinal, out LaneRecord? found))
-            {
-                return found;
-            }
-
-            while (reader.TryRead(out LaneRecord r))
-            {
-                if (!truthIndex.TryGetValue(r.Frame, out int o))
-                {
-                    continue; // a frame the truth lacks (--extra ignore)
-                }
-
-                if (o == ordinal)
-                {
-                    return r;
-                }
-
-                pending.Add(o, r);
-            }
-
-            throw new InvalidOperationException($"{reader.DisplayName} changed while it was read");
-        }
-    }
 }
