@@ -23,6 +23,9 @@ namespace LaneBaseline.Cli.Commands;
 /// </summary>
 internal sealed class CalibrationRunner(TuneRequest request, double lambda, bool isotonic, TextWriter stderr)
 {
+    /// <summary>Where to write the per-lane feature table (CSV), or null.</summary>
+    public string? TablePath { get; init; }
+
     public CalibrationSummary Run()
     {
         PipelineOptions options = KnownPresets.Resolve(request.ConfigSource);
@@ -78,6 +81,11 @@ internal sealed class CalibrationRunner(TuneRequest request, double lambda, bool
         var mapping = new LaneCalibration(fitted);
         int[] used = [.. fitted.Features.Select(LaneFeatures.IndexOf)]; // the features the fit kept
         double[] after = [.. rows.Select(r => mapping.FromFeatures(used.Select(k => r[k]).ToArray()))];
+        if (TablePath is not null)
+        {
+            WriteTable(TablePath, truth, perFrame, after);
+        }
+
         string text = WithCalibration(baseText, fitted, request.ConfigSource, truth.Count, lambda, isotonic);
         PresetLoader.Parse(text, request.Output); // the written preset must load
         using (var file = new AtomicFile(request.Output))
@@ -139,6 +147,34 @@ internal sealed class CalibrationRunner(TuneRequest request, double lambda, bool
         s.Append(inv, $"  fittedPositives: {c.FittedPositives}   # information only\n");
         return s.ToString();
     }
+
+    /// <summary>One CSV row per lane: frame key, lane index in the frame, 1/0 true positive at IoU 0.50, features of <see cref="LaneFeatures.All"/>, calibrated score.</summary>
+    private static void WriteTable(string path, List<LaneRecord> truth, (double[][] Features, bool[] Hits, double[] RawScores)[] perFrame, double[] calibrated)
+    {
+        var inv = CultureInfo.InvariantCulture;
+        using var file = new AtomicFile(path);
+        TextWriter w = file.Writer;
+        w.Write("frame,lane,hit,");
+        w.Write(string.Join(',', LaneFeatures.Names));
+        w.Write(",score\n");
+        int row = 0;
+        for (int f = 0; f < perFrame.Length; f++)
+        {
+            for (int l = 0; l < perFrame[f].Features.Length; l++)
+            {
+                w.Write(Csv(truth[f].Frame));
+                w.Write(string.Create(inv, $",{l},{(perFrame[f].Hits[l] ? 1 : 0)},"));
+                w.Write(string.Join(',', perFrame[f].Features[l].Select(x => x.ToString("R", inv))));
+                w.Write(',');
+                w.Write(calibrated[row++].ToString("R", inv));
+                w.Write('\n');
+            }
+        }
+
+        file.Commit();
+    }
+
+    private static string Csv(string s) => s.IndexOfAny([',', '"', '\n', '\r']) < 0 ? s : "\"" + s.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"";
 
     private static string List(double[] v) => "[" + string.Join(", ", v.Select(x => x.ToString("R", CultureInfo.InvariantCulture))) + "]";
 

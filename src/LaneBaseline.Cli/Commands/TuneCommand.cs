@@ -32,11 +32,12 @@ internal static class TuneCommand
         Option<bool> calibrate = new("--calibrate") { Description = "Instead of a search: fit the preset's confidence calibration (score = probability of a true positive at IoU 0.50) on all truth frames and write the preset with its calibration section (docs/detect.md)." };
         Option<double> l2 = new("--calibration-l2") { Description = "With --calibrate: L2 penalty on the standardised logistic weights.", DefaultValueFactory = _ => 1.0 };
         Option<bool> logisticOnly = new("--logistic-only") { Description = "With --calibrate: the logistic map alone, without the isotonic step." };
+        Option<string?> table = new("--calibration-table") { Description = "With --calibrate: also write one CSV row per reported lane (frame, lane, outcome at IoU 0.50, every evidence feature, calibrated score) to this file, to inspect or refit the mapping." };
 
         Command command = new("tune", "Search preset parameters for the best score on labelled frames, keeping holdout frames out of the search.")
         {
             frames, truth, space, config, budget, seed, objective, holdout, holdoutTruth, allowOverlap, threads, resume, date, output,
-            calibrate, l2, logisticOnly,
+            calibrate, l2, logisticOnly, table,
         };
 
         command.SetAction(parse => CommandRunner.Run(parse, (stdout, stderr) =>
@@ -74,7 +75,12 @@ internal static class TuneCommand
             bool inPlace = parse.GetValue(calibrate);
             OutputPaths.Check(
                 [("--frames", parse.GetValue(frames)), ("--truth", parse.GetValue(truth)), ("--space", parse.GetValue(space)), ("--config", File.Exists(configText) && !inPlace ? configText : null), ("--holdout-truth", second)],
-                [("-o", outPath), ("-o (its trial log)", parse.GetValue(calibrate) ? null : TuneRunner.LogPathFor(outPath))]);
+                [("-o", outPath), ("-o (its trial log)", parse.GetValue(calibrate) ? null : TuneRunner.LogPathFor(outPath)), ("--calibration-table", parse.GetValue(table))]);
+            if (parse.GetValue(table) is not null && !parse.GetValue(calibrate))
+            {
+                throw new UsageException("--calibration-table needs --calibrate");
+            }
+
             var request = new TuneRequest
             {
                 Frames = parse.GetValue(frames)!,
@@ -100,7 +106,7 @@ internal static class TuneCommand
                     throw new UsageException("--calibration-l2 must be between 0 and 1000000");
                 }
 
-                CalibrationSummary c = new CalibrationRunner(request, lambda, !parse.GetValue(logisticOnly), stderr).Run();
+                CalibrationSummary c = new CalibrationRunner(request, lambda, !parse.GetValue(logisticOnly), stderr) { TablePath = parse.GetValue(table) }.Run();
                 stdout.WriteLine(string.Create(
                     CultureInfo.InvariantCulture,
                     $"calibration: {c.Lanes} lanes ({c.Positives} true positives at IoU 0.50) on {c.Frames} frames; ECE on these frames {c.EceBefore:0.0000} raw -> {c.EceAfter:0.0000} calibrated; preset written to {request.Output}"));
