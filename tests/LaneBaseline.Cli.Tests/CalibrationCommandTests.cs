@@ -1,5 +1,6 @@
 using System.Globalization;
 using System.Text.Json;
+using LaneBaseline.Core.Calibration;
 using LaneBaseline.Core.LaneFiles;
 using LaneBaseline.Core.Options;
 using LaneBaseline.Testing;
@@ -77,6 +78,36 @@ public sealed class CalibrationCommandTests : IClassFixture<MixedFrames>, IDispo
         {
             Assert.All(r.Lanes, l => Assert.InRange(l.Score!.Value, 0.15, 1));
         }
+    }
+
+    [Fact]
+    public void TuneCalibrate_CalibrationTable_HasOneRowPerLane_WithTheScorersOutcome_AndTheFittedScore()
+    {
+        string raw = Uncalibrated();
+        string preset = work.File("t.yaml"), table = work.File("lanes.csv");
+        (int exit, _, string err) = CliRunner.Run("tune", "--calibrate", "--frames", frames.Dir.Path, "--truth", frames.Truth, "--config", raw, "-o", preset, "--calibration-table", table);
+        Assert.True(exit == 0, err);
+        string[] lines = File.ReadAllLines(table);
+        string[] header = lines[0].Split(',');
+        Assert.Equal(["frame", "lane", "hit", .. LaneFeatures.Names, "score"], header);
+        string[][] rows = [.. lines.Skip(1).Select(l => l.Split(','))];
+        Assert.All(rows, r => Assert.Equal(header.Length, r.Length));
+
+        // The same lanes and true positives the fit counted (the scorer's matching at IoU 0.50).
+        CalibrationOptions c = PresetLoader.LoadFile(preset).Calibration!;
+        Assert.Equal(c.FittedLanes, rows.Length);
+        Assert.Equal(c.FittedPositives, rows.Count(r => r[2] == "1"));
+
+        // The score column is the fitted mapping applied to the row's features (re-derived here from the stored preset).
+        var mapping = new LaneCalibration(c);
+        foreach (string[] r in rows.Take(20))
+        {
+            double[] values = [.. c.Features.Select(f => double.Parse(r[Array.IndexOf(header, f)], CultureInfo.InvariantCulture))];
+            Assert.Equal(mapping.FromFeatures(values), double.Parse(r[^1], CultureInfo.InvariantCulture), 12);
+        }
+
+        // Without --calibrate the option is a usage error.
+        Assert.Equal(2, CliRunner.Run("tune", "--frames", frames.Dir.Path, "--truth", frames.Truth, "-o", work.File("x.yaml"), "--calibration-table", work.File("y.csv")).Exit);
     }
 
     [Fact]
