@@ -98,4 +98,35 @@ public sealed class MetricLaneSpanTests
         Assert.Equal(new[] { -1 }, lanes.Keys.ToArray());
         Assert.Equal(135, lanes[-1], 0);
     }
+
+    [Fact]
+    public void TwoBoundariesOnOneSide_TheNearestMoreThanALaneWidthFromTheCamera_IsMinusTwo()
+    {
+        // Only the left side seen: solids at −5.25 m (135) and −8.75 m (65), 70 px (one 3.5 m lane) apart. The nearer
+        // one is 105 px (1.5 lane widths) from the camera's column: the camera is not in the lane it bounds, so it is
+        // −2 (the ego boundary between unseen) and the outer one −3, which the default four boundaries do not report.
+        // Source: an ego boundary lies within one lane width of the camera, which is inside the lane it bounds (common practice).
+        SortedDictionary<int, double> lanes = Search(view =>
+        {
+            Solid(view, 135);
+            Solid(view, 65);
+        });
+        Assert.Equal(new[] { -2 }, lanes.Keys.ToArray());
+        Assert.Equal(135, lanes[-2], 0);
+    }
+
+    [Fact]
+    public void TwoBoundariesOnOneSide_TheNearestWithinALaneWidth_StaysMinusOne()
+    {
+        // Control: solids at −1.75 m (205) and −5.25 m (135); the nearer one is half a lane width from the camera.
+        // Source: as above (common practice).
+        SortedDictionary<int, double> lanes = Search(view =>
+        {
+            Solid(view, 205);
+            Solid(view, 135);
+        });
+        Assert.Equal(new[] { -2, -1 }, lanes.Keys.ToArray());
+        Assert.Equal(205, lanes[-1], 0);
+        Assert.Equal(135, lanes[-2], 0);
+    }
 }

@@ -187,6 +187,18 @@ internal sealed class SlotAssigner
         int l3 = l2 >= 0 && search.MaxLanes >= 5 ? Neighbour(ws, kept, l2, -1, egoWidth, minW, maxW) : -1;
         int r3 = r2 >= 0 && search.MaxLanes >= 6 ? Neighbour(ws, kept, r2, +1, egoWidth, minW, maxW) : -1;
 
+        // One side only, two parallel boundaries there: their spacing is a lane width, and an ego boundary lies within
+        // one lane width of the camera's column. A nearest boundary farther out than that (with the width tolerance) is
+        // an outer one, the ego boundary between unseen (a low sun veiling the dashes ahead): shift the side outwards.
+        if (gap < 0 && r1 < 0 && l1 >= 0 && l2 >= 0 && OutwardsByOne(ws, l1, l2, centre))
+        {
+            (l3, l2, l1) = (l2, l1, -1);
+        }
+        else if (gap < 0 && l1 < 0 && r1 >= 0 && r2 >= 0 && OutwardsByOne(ws, r1, r2, centre))
+        {
+            (r3, r2, r1) = (r2, r1, -1);
+        }
+
         int max = search.MaxLanes;
         chosen[0] = max >= 5 ? l3 : -1;
         chosen[1] = max >= 3 ? l2 : -1;
@@ -302,6 +314,17 @@ internal sealed class SlotAssigner
         }
 
         return best;
+    }
+
+    /// <summary>
+    /// Whether the nearest boundary on one side, <paramref name="near"/>, lies more than one lane width (the spacing to
+    /// its outer neighbour <paramref name="outer"/>, widened by <see cref="SearchOptions.WidthTolerance"/>) from the
+    /// camera's column <paramref name="centre"/>: then it cannot bound the lane the camera is in.
+    /// </summary>
+    private bool OutwardsByOne(FrameWorkspace ws, int near, int outer, double centre)
+    {
+        double width = Math.Abs(Xb(ws, near) - Xb(ws, outer));
+        return Math.Abs(Xb(ws, near) - centre) > (1 + search.WidthTolerance) * width;
     }
 
     private static double Xb(FrameWorkspace ws, int i) => ws.Search.CandidateFits[i].Fit.At(ws.Warp.BirdsEyeHeight - 1);
