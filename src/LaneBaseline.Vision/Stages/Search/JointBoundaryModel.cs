@@ -377,12 +377,14 @@ internal sealed class JointBoundaryModel
     /// Keeps a boundary that bends unlike the others from being reported bent (after the keep test of
     /// <see cref="Refine"/>, with own curves reported). A kept boundary whose own curvature departs from the joint
     /// curvature and from every other kept boundary's own curvature (<see cref="CurvatureOutlier"/>), while another kept
-    /// boundary agrees with the joint curvature, and whose own fit took windows that lie off its joint curve, is
-    /// refitted with the joint curvature A and its own heading B and offset C from its joint inliers
-    /// (<see cref="TryFixedCurvature"/>): the shape is the consensus of the boundaries (RANSAC, Fischler &amp; Bolles
+    /// boundary agrees with the joint curvature, and whose own fit took windows that lie off its joint curve while its
+    /// nearest window lies on it, is refitted with the joint curvature A and its own heading B and offset C from its
+    /// joint inliers (<see cref="TryFixedCurvature"/>): the shape is the consensus of the boundaries (RANSAC, Fischler &amp; Bolles
     /// 1981: the model is estimated from the consensus set, not from every centroid), the heading stays the boundary's
     /// own because the per-frame bird's-eye view is not exactly metric and real boundaries fan slightly. Its support,
-    /// RMS, coverage, raw confidence and fan-out are recomputed for the new curve.
+    /// RMS, coverage, raw confidence and fan-out are recomputed for the new curve. The nearest window must agree
+    /// because near the camera a bird's-eye pixel is a small patch of road and far away a large one: the near part is
+    /// the better measured, and a boundary whose near windows disagree with the joint curve is left as it is.
     /// </summary>
     private void GuardShapes(FrameWorkspace frame, Span<int> chosen, double tol, double scale)
     {
@@ -421,13 +423,20 @@ internal sealed class JointBoundaryModel
             }
 
             int g = laneOfSlot[s], c = chosen[s];
-            bool offJoint = false;
+            // Windows of its own fit off the joint curve, while its nearest own window is on it.
+            bool offJoint = false, nearOnJoint = false;
+            double nearest = double.MinValue;
             for (int p = start[g]; p < start[g + 1]; p++)
             {
                 offJoint |= ownInlier[p] && !jointInlier[p];
+                if (ownInlier[p] && ys[p] > nearest)
+                {
+                    nearest = ys[p];
+                    nearOnJoint = jointInlier[p];
+                }
             }
 
-            if (!offJoint || !CurvatureOutlier(frame, chosen, s, tol) || !TryFixedCurvature(g, fits[g].A, tol, scale, out Quadratic curve))
+            if (!offJoint || !nearOnJoint || !CurvatureOutlier(frame, chosen, s, tol) || !TryFixedCurvature(g, fits[g].A, tol, scale, out Quadratic curve))
             {
                 continue;
             }
