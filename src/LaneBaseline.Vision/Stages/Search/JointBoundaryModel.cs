@@ -381,8 +381,9 @@ internal sealed class JointBoundaryModel
     /// nearest window lies on it, is refitted with the joint curvature A and its own heading B and offset C from its
     /// joint inliers (<see cref="TryFixedCurvature"/>): the shape is the consensus of the boundaries (RANSAC,
     /// Fischler &amp; Bolles 1981: the model is estimated from the consensus set, not from every centroid), the heading
-    /// stays the boundary's own because the per-frame bird's-eye view is not exactly metric and real boundaries fan slightly. Its support,
-    /// RMS, coverage, raw confidence and fan-out are recomputed for the new curve. The nearest window must agree
+    /// stays the boundary's own because the per-frame bird's-eye view is not exactly metric and real boundaries fan
+    /// slightly. Its support, RMS, coverage, raw confidence and fan-out are recomputed for the new curve (its windows'
+    /// inlier marks and far end are left as the candidate fitter set them). The nearest window must agree
     /// because near the camera a bird's-eye pixel is a small patch of road and far away a large one: the near part is
     /// the better measured, and a boundary whose near windows disagree with the joint curve is left as it is.
     /// </summary>
