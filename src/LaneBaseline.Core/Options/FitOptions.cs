@@ -35,7 +35,9 @@ public sealed record FitOptions
 
     /// <summary>
     /// Whether a boundary kept by the joint model is reported with its joint curve (true) or its own curve (false; the
-    /// joint model then only drops disagreeing boundaries and measures agreement). Default false.
+    /// joint model then drops disagreeing boundaries, measures agreement, and refits only a boundary whose own
+    /// curvature is an outlier among the boundaries, with the joint curvature and its own heading and offset).
+    /// Default false.
     /// </summary>
     public bool JointRefit { get; init; }
 

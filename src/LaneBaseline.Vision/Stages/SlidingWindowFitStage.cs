@@ -36,8 +36,11 @@ namespace LaneBaseline.Vision.Stages;
 /// With <see cref="FitOptions.JointModel"/>, between (6) and (7) the chosen boundaries are fitted jointly as
 /// x_i = A·y² + B·y + C_i (shared heading and curvature on the ground) by RANSAC over all their window centroids [1]; a
 /// boundary the joint curve does not explain is dropped, and a missing boundary next to the kept ones is searched along
-/// the joint curve at the offset their spacing predicts (<see cref="JointBoundaryModel"/>). Each candidate also
-/// measures its fan-out in the bird's-eye view (direction between the bird's-eye vertical and the ray from the camera's
+/// the joint curve at the offset their spacing predicts (<see cref="JointBoundaryModel"/>); a kept boundary whose own
+/// curvature departs from the joint one and from every other boundary's, while another boundary confirms the joint
+/// curvature, is refitted from its joint inliers with the joint curvature and its own heading and offset, so
+/// centroids outside the consensus set (a far end pulled towards lights at the horizon) do not bend it [1]. Each
+/// candidate also measures its fan-out in the bird's-eye view (direction between the bird's-eye vertical and the ray from the camera's
 /// ground point, where image-vertical reflection streaks go), optionally lowering its raw confidence
 /// (<see cref="FitOptions.FanOutPenalty"/>) and always available to the calibration.
 /// <para>References: [1] M. A. Fischler, R. C. Bolles, "Random Sample Consensus: A Paradigm for Model Fitting with

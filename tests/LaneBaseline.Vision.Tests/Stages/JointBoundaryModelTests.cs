@@ -77,6 +77,50 @@ public sealed class JointBoundaryModelTests
     }
 
     [Fact]
+    public void ABentBoundary_ReportedWithItsOwnCurve_TakesTheSharedCurvatureFromItsJointInliers()
+    {
+        // Own curves reported (the default): boundary 1's far windows are pulled 25 px sideways (a light near the
+        // horizon beside its far end), its own fit bends towards them, the other two agree on the road's curvature.
+        // Source: RANSAC (Fischler & Bolles 1981) — the model comes from the consensus set; the far windows are
+        // outliers of the joint curve and must not bend the reported curve, which takes the joint curvature with its
+        // own heading and offset fitted to its 12 joint inliers (the constructed road exactly).
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Road(y, 200));
+        SetCandidate(ws, 1, y => Road(y, 320) + (y < 120 ? 25 : 0));
+        SetCandidate(ws, 2, y => Road(y, 440));
+        double bentBefore = Math.Abs(ws.Search.CandidateFits[1].Fit.At(15) - Road(15, 320));
+        Assert.True(bentBefore > 5, $"the constructed own fit should be bent ({bentBefore:0.0} px)");
+        int[] chosen = [-1, -1, 0, 1, 2, -1];
+        new JointBoundaryModel(new SearchOptions(), new FitOptions(), new ConfidenceOptions()).Refine(ws, chosen);
+        Assert.Equal(new[] { -1, -1, 0, 1, 2, -1 }, chosen);
+        LaneEstimate bent = ws.Search.CandidateFits[1];
+        Assert.Equal(A, bent.Fit.A, 9);
+        Assert.Equal(Road(15, 320), bent.Fit.At(15), 6);
+        Assert.Equal(Road(479, 320), bent.Fit.At(479), 6);
+        Assert.Equal(12 * 20, bent.InlierMass, 9); // support recomputed: the four pulled windows no longer count
+        Assert.Equal(12.0 / 16, bent.Coverage, 9);
+    }
+
+    [Fact]
+    public void ABoundaryThatOnlyFansOut_KeepsItsOwnCurve()
+    {
+        // Same curvature as the others, a different heading (the per-frame bird's-eye view is not exactly metric, so
+        // real boundaries fan slightly): its far windows leave the joint curve, yet its own curve is reported as it was.
+        // Source: constructed case of the shared-shape model (the guard acts on curvature, not on heading).
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Road(y, 200));
+        SetCandidate(ws, 1, y => Road(y, 320));
+        SetCandidate(ws, 2, y => Road(y, 440) + (0.05 * (479 - y)));
+        LaneEstimate before = ws.Search.CandidateFits[2];
+        int[] chosen = [-1, -1, 0, 1, 2, -1];
+        new JointBoundaryModel(new SearchOptions(), new FitOptions(), new ConfidenceOptions()).Refine(ws, chosen);
+        Assert.Equal(2, chosen[4]);
+        Assert.True(ws.Search.CandidateFits[2].JointShare < 1, $"its far windows should be off the joint curve (share {ws.Search.CandidateFits[2].JointShare})");
+        Assert.Equal(before.Fit, ws.Search.CandidateFits[2].Fit);
+        Assert.Equal(before.InlierMass, ws.Search.CandidateFits[2].InlierMass);
+    }
+
+    [Fact]
     public void ALoneBoundary_IsLeftAlone()
     {
         // Source: common practice (a shared model needs at least two members).

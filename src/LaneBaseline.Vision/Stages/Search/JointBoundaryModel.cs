@@ -25,6 +25,12 @@ internal sealed class JointBoundaryModel
     private readonly double[] ys = new double[MaxPoints];
     private readonly double[] ws = new double[MaxPoints];
     private readonly int[] groups = new int[MaxPoints];
+    private readonly int[] windowOf = new int[MaxPoints];
+    private readonly bool[] ownInlier = new bool[MaxPoints];
+    private readonly bool[] jointInlier = new bool[MaxPoints];
+    private readonly int[] laneOfSlot = new int[6];
+    private readonly double[] adjusted = new double[FrameWorkspace.MaxWindows];
+    private readonly bool[] select = new bool[FrameWorkspace.MaxWindows];
     private readonly bool[] use = new bool[MaxPoints];
     private readonly int[] start = new int[FrameWorkspace.MaxLanes + 1];
     private readonly double[] residual = new double[FrameWorkspace.MaxWindows];
@@ -58,11 +64,13 @@ internal sealed class JointBoundaryModel
         int lanes = 0, points = 0;
         for (int s = 0; s < chosen.Length; s++)
         {
+            laneOfSlot[s] = -1;
             if (chosen[s] < 0)
             {
                 continue;
             }
 
+            laneOfSlot[s] = lanes;
             start[lanes] = points;
             SearchWindow[] windows = frame.Search.CandidateWindows[chosen[s]];
             for (int k = 0; k < frame.Search.WindowCount; k++)
@@ -73,6 +81,8 @@ internal sealed class JointBoundaryModel
                     ys[points] = windows[k].Y;
                     ws[points] = windows[k].Mass;
                     groups[points] = lanes;
+                    windowOf[points] = k;
+                    ownInlier[points] = windows[k].Inlier;
                     points++;
                 }
             }
@@ -198,6 +208,7 @@ internal sealed class JointBoundaryModel
             lane++;
         }
 
+        GuardShapes(frame, chosen, tol, scale);
         shapeA = fits[0].A;
         shapeB = fits[0].B;
         shapeValid = true;
@@ -360,6 +371,205 @@ internal sealed class JointBoundaryModel
         frame.Search.CandidateFits[candidate] = new LaneEstimate(0, score, curve, inlierMass, coverage, rms, 0);
         frame.Search.CandidateTopY[candidate] = Math.Max(0, topY);
         return score >= confidence.MinScore;
+    }
+
+    /// <summary>
+    /// Keeps a boundary that bends unlike the others from being reported bent (after the keep test of
+    /// <see cref="Refine"/>, with own curves reported). A kept boundary whose own curvature departs from the joint
+    /// curvature and from every other kept boundary's own curvature (<see cref="CurvatureOutlier"/>), while another kept
+    /// boundary agrees with the joint curvature, and whose own fit took windows that lie off its joint curve while its
+    /// nearest window lies on it, is refitted with the joint curvature A and its own heading B and offset C from its
+    /// joint inliers (<see cref="TryFixedCurvature"/>): the shape is the consensus of the boundaries (RANSAC,
+    /// Fischler &amp; Bolles 1981: the model is estimated from the consensus set, not from every centroid), the heading
+    /// stays the boundary's own because the per-frame bird's-eye view is not exactly metric and real boundaries fan
+    /// slightly. Its support, RMS, coverage, raw confidence and fan-out are recomputed for the new curve (its windows'
+    /// inlier marks and far end are left as the candidate fitter set them). The nearest window must agree
+    /// because near the camera a bird's-eye pixel is a small patch of road and far away a large one: the near part is
+    /// the better measured, and a boundary whose near windows disagree with the joint curve is left as it is.
+    /// </summary>
+    private void GuardShapes(FrameWorkspace frame, Span<int> chosen, double tol, double scale)
+    {
+        if (fit.JointRefit)
+        {
+            return;
+        }
+
+        int kept = 0;
+        for (int s = 0; s < chosen.Length; s++)
+        {
+            if (chosen[s] < 0 || laneOfSlot[s] < 0)
+            {
+                continue;
+            }
+
+            kept++;
+            int g = laneOfSlot[s];
+            for (int p = start[g]; p < start[g + 1]; p++)
+            {
+                jointInlier[p] = Math.Abs(fits[g].At(ys[p]) - xs[p]) <= tol;
+            }
+        }
+
+        if (kept < 2)
+        {
+            return;
+        }
+
+        int n = frame.Search.WindowCount;
+        for (int s = 0; s < chosen.Length; s++)
+        {
+            if (chosen[s] < 0 || laneOfSlot[s] < 0)
+            {
+                continue;
+            }
+
+            int g = laneOfSlot[s], c = chosen[s];
+            // Windows of its own fit off the joint curve, while its nearest own window is on it.
+            bool offJoint = false, nearOnJoint = false;
+            double nearest = double.MinValue;
+            for (int p = start[g]; p < start[g + 1]; p++)
+            {
+                offJoint |= ownInlier[p] && !jointInlier[p];
+                if (ownInlier[p] && ys[p] > nearest)
+                {
+                    nearest = ys[p];
+                    nearOnJoint = jointInlier[p];
+                }
+            }
+
+            if (!offJoint || !nearOnJoint || !CurvatureOutlier(frame, chosen, s, tol) || !TryFixedCurvature(g, fits[g].A, tol, scale, out Quadratic curve))
+            {
+                continue;
+            }
+
+            double inlierMass = 0, sq = 0, topY = double.MaxValue;
+            int count = 0;
+            SearchWindow[] windows = frame.Search.CandidateWindows[c];
+            for (int p = start[g]; p < start[g + 1]; p++)
+            {
+                double r = curve.At(ys[p]) - xs[p];
+                if (Math.Abs(r) <= tol)
+                {
+                    inlierMass += ws[p];
+                    sq += ws[p] * r * r;
+                    topY = Math.Min(topY, windows[windowOf[p]].Top);
+                    count++;
+                }
+            }
+
+            if (count < fit.MinInlierWindows)
+            {
+                continue;
+            }
+
+            LaneEstimate own = frame.Search.CandidateFits[c];
+            double rms = Math.Sqrt(sq / inlierMass);
+            double coverage = (double)count / n;
+            double score = Math.Min(1, inlierMass / confidence.FullSupportMass)
+                * Math.Min(1, coverage / confidence.FullCoverage)
+                * Math.Exp(-rms / confidence.ResidualScalePx);
+            double fanOut = CandidateFitter.FanOut(frame, curve, Math.Max(0, topY));
+            if (double.IsFinite(fanOut))
+            {
+                score *= 1 - (fit.FanOutPenalty * fanOut);
+            }
+
+            frame.Search.CandidateFits[c] = own with { Fit = curve, Score = score, InlierMass = inlierMass, Coverage = coverage, RmsPx = rms, FanOut = fanOut };
+        }
+    }
+
+    /// <summary>
+    /// Refits one boundary with the joint curvature <paramref name="a"/> and its own heading and offset: a weighted
+    /// line fit of x − A·y² against y over its joint inliers, then twice over its windows within the tolerance of
+    /// the new curve.
+    /// </summary>
+    private bool TryFixedCurvature(int g, double a, double tol, double scale, out Quadratic curve)
+    {
+        curve = default;
+        int s0 = start[g], len = start[g + 1] - s0;
+        for (int k = 0; k < len; k++)
+        {
+            adjusted[k] = xs[s0 + k] - (a * ys[s0 + k] * ys[s0 + k]);
+            select[k] = jointInlier[s0 + k];
+        }
+
+        for (int iteration = 0; iteration < 3; iteration++)
+        {
+            if (!QuadraticFit.TryFitLine(adjusted.AsSpan(0, len), ys.AsSpan(s0, len), ws.AsSpan(s0, len), select.AsSpan(0, len), scale, out Quadratic line))
+            {
+                return false;
+            }
+
+            curve = new Quadratic(a, line.B, line.C);
+            if (iteration == 2)
+            {
+                break;
+            }
+
+            int count = 0;
+            for (int k = 0; k < len; k++)
+            {
+                select[k] = Math.Abs(curve.At(ys[s0 + k]) - xs[s0 + k]) <= tol;
+                count += select[k] ? 1 : 0;
+            }
+
+            if (count < 2)
+            {
+                return false;
+            }
+        }
+
+        return true;
+    }
+
+    /// <summary>
+    /// Whether the boundary in <paramref name="slot"/> bends unlike the others: over its own windows' vertical span L
+    /// its own curvature departs by more than the tolerance (sagitta |ΔA|·L²/4) from the joint curvature and from every
+    /// other kept boundary's own curvature, and at least one other kept boundary agrees with the joint curvature (over
+    /// that boundary's own span) — the joint shape is then confirmed by another boundary, not only by this one.
+    /// </summary>
+    private bool CurvatureOutlier(FrameWorkspace frame, Span<int> chosen, int slot, double tol)
+    {
+        int g = laneOfSlot[slot];
+        double a = frame.Search.CandidateFits[chosen[slot]].Fit.A, jointA = fits[g].A;
+        double span = Span(g);
+        if (Math.Abs(a - jointA) * span * span / 4 <= tol)
+        {
+            return false;
+        }
+
+        bool confirmed = false;
+        for (int s = 0; s < chosen.Length; s++)
+        {
+            if (s == slot || chosen[s] < 0 || laneOfSlot[s] < 0)
+            {
+                continue;
+            }
+
+            double other = frame.Search.CandidateFits[chosen[s]].Fit.A;
+            if (Math.Abs(a - other) * span * span / 4 <= tol)
+            {
+                return false;
+            }
+
+            double otherSpan = Span(laneOfSlot[s]);
+            confirmed |= Math.Abs(other - jointA) * otherSpan * otherSpan / 4 <= tol;
+        }
+
+        return confirmed;
+    }
+
+    /// <summary>Vertical span of one boundary's windows, in bird's-eye pixels.</summary>
+    private double Span(int g)
+    {
+        double lo = double.MaxValue, hi = double.MinValue;
+        for (int p = start[g]; p < start[g + 1]; p++)
+        {
+            lo = Math.Min(lo, ys[p]);
+            hi = Math.Max(hi, ys[p]);
+        }
+
+        return hi > lo ? hi - lo : 0;
     }
 
     private void Consider(double a, double b, int lanes, double tol, ref double bestMass, ref double bestA, ref double bestB)
