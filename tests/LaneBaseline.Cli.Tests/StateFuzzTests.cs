@@ -23,7 +23,7 @@ public sealed class StateFuzzTests : IDisposable
         var records = SyntheticRoad.Clean(seed: 5, sequences: 2, framesPerSequence: 6).ToList();
         records.RemoveAt(3); // a frame gap, so the state holds findings
         Lanes.WriteFile(pred, records);
-        Assert.Equal(0, CliRunner.Run("audit", "--pred", pred, "--baseline", pred, "--partial", dir.File("a.state")).Exit);
+        AssertRuns("audit", "--pred", pred, "--baseline", pred, "--partial", dir.File("a.state"));
         Fuzz(dir.File("a.state"), path => AuditStateMerge.Merge([path]));
     }
 
@@ -32,7 +32,7 @@ public sealed class StateFuzzTests : IDisposable
     {
         string truth = dir.File("truth.lanes.jsonl");
         Lanes.WriteFile(truth, [Lanes.Truth("a.png", 640, 360, Lanes.Vertical(100, 360), Lanes.Of((300, 359), (320, 200))), Lanes.Truth("b.png", 640, 360, Lanes.Vertical(500, 360))]);
-        Assert.Equal(0, CliRunner.Run("score", "--truth", truth, "--pred", truth, "--partial", dir.File("s.state"), "--bootstrap", "10").Exit);
+        AssertRuns("score", "--truth", truth, "--pred", truth, "--partial", dir.File("s.state"), "--bootstrap", "10");
         Fuzz(dir.File("s.state"), path => ScoreStateMerge.Merge([path]));
     }
 
@@ -41,10 +41,17 @@ public sealed class StateFuzzTests : IDisposable
     {
         string truth = dir.File("truth.lanes.jsonl"), tm = dir.File("tm");
         Lanes.WriteFile(truth, [Lanes.Truth("a.png", 160, 90, Lanes.Vertical(40, 90), Lanes.Of((120, 89), (100, 20))), Lanes.Truth("b.png", 160, 90, Lanes.Vertical(80, 90))]);
-        Assert.Equal(0, CliRunner.Run("convert", truth, "-o", tm).Exit);
-        Assert.Equal(0, CliRunner.Run("score", "--truth", tm, "--pred", tm, "--partial", dir.File("m.state"), "--bootstrap", "10").Exit);
+        AssertRuns("convert", truth, "-o", tm);
+        AssertRuns("score", "--truth", tm, "--pred", tm, "--partial", dir.File("m.state"), "--bootstrap", "10");
         Assert.Contains("\"t\":\"mask\"", File.ReadAllText(dir.File("m.state")), StringComparison.Ordinal);
         Fuzz(dir.File("m.state"), path => ScoreStateMerge.Merge([path], onMask: _ => { }));
+    }
+
+    // The CLI run that writes the valid state: on failure the message carries its error output.
+    private static void AssertRuns(params string[] args)
+    {
+        (int exit, _, string err) = CliRunner.Run(args);
+        Assert.True(exit == 0, "exit " + exit + ": " + err);
     }
 
     private void Fuzz(string validPath, Action<string> merge)
