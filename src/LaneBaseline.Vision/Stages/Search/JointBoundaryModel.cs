@@ -552,7 +552,8 @@ internal sealed class JointBoundaryModel
     /// heading is measured with the joint curvature from its own inliers (<see cref="TryFixedCurvature"/>), its position
     /// X at the middle row; with at least three boundaries the fan is fitted by hypothesise-and-verify over every pair
     /// (RANSAC, Fischler &amp; Bolles 1981): the pair most boundaries agree with wins (agreeing: heading within the
-    /// tolerance of the fan's over its own windows' vertical span), ties to the most parallel pair; all but at most one
+    /// tolerance of the fan's over its own windows' vertical span), ties to the pair whose agreeing boundaries span more
+    /// rows, then to the most parallel pair; all but at most one
     /// boundary must agree.</para>
     /// <para>Each boundary's fan curve has the joint curvature, the fan's heading and its offset from its joint inliers
     /// (<see cref="FixedShapeOffset"/>). A boundary whose reported curve stays within the tolerance of its fan curve over
@@ -686,12 +687,14 @@ internal sealed class JointBoundaryModel
 
     /// <summary>
     /// The fan of headings over the measured boundaries (slots with a finite <see cref="fanHeading"/>): the line
-    /// through the (position, heading) pair most boundaries agree with, ties to the smallest |k|; false when fewer than
+    /// through the (position, heading) pair most boundaries agree with, ties to the larger summed vertical span of the
+    /// agreeing boundaries (the better measured), then to the smallest |k|; false when fewer than
     /// <paramref name="m"/> − 1 of the <paramref name="m"/> boundaries agree.
     /// </summary>
     private bool TryFan(int slots, double tol, int m, out double b0, out double k0)
     {
         int bestCount = 0;
+        double bestSpan = 0;
         b0 = 0;
         k0 = double.MaxValue;
         for (int i = 0; i < slots; i++)
@@ -706,14 +709,20 @@ internal sealed class JointBoundaryModel
                 double k = (fanHeading[j] - fanHeading[i]) / (fanPosition[j] - fanPosition[i]);
                 double b = fanHeading[i] - (k * fanPosition[i]);
                 int count = 0;
+                double span = 0;
                 for (int s = 0; s < slots; s++)
                 {
-                    count += double.IsFinite(fanHeading[s]) && Math.Abs(fanHeading[s] - (b + (k * fanPosition[s]))) * fanSpan[s] <= tol ? 1 : 0;
+                    if (double.IsFinite(fanHeading[s]) && Math.Abs(fanHeading[s] - (b + (k * fanPosition[s]))) * fanSpan[s] <= tol)
+                    {
+                        count++;
+                        span += fanSpan[s];
+                    }
                 }
 
-                if (count > bestCount || (count == bestCount && Math.Abs(k) < Math.Abs(k0)))
+                if (count > bestCount || (count == bestCount && (span > bestSpan || (span == bestSpan && Math.Abs(k) < Math.Abs(k0)))))
                 {
                     bestCount = count;
+                    bestSpan = span;
                     k0 = k;
                     b0 = b;
                 }
