@@ -36,7 +36,8 @@ public sealed record FitOptions
     /// <summary>
     /// Whether a boundary kept by the joint model is reported with its joint curve (true) or its own curve (false; the
     /// joint model then drops disagreeing boundaries, measures agreement, and refits only a boundary whose own
-    /// curvature is an outlier among the boundaries, with the joint curvature and its own heading and offset).
+    /// curvature is an outlier among the boundaries, with the joint curvature and its own heading and offset, or whose
+    /// curve leaves the boundaries' fan of headings where it has no near windows, with the fan's heading).
     /// Default false.
     /// </summary>
     public bool JointRefit { get; init; }

@@ -39,7 +39,10 @@ namespace LaneBaseline.Vision.Stages;
 /// the joint curve at the offset their spacing predicts (<see cref="JointBoundaryModel"/>); a kept boundary whose own
 /// curvature departs from the joint one and from every other boundary's, while another boundary confirms the joint
 /// curvature, is refitted from its joint inliers with the joint curvature and its own heading and offset, so
-/// centroids outside the consensus set (a far end pulled towards lights at the horizon) do not bend it [1]. Each
+/// centroids outside the consensus set (a far end pulled towards lights at the horizon) do not bend it [1]; with three or
+/// more boundaries, the boundaries' headings are fitted as a fan (heading linear in position, as a slightly wrong horizon
+/// makes parallel lines; RANSAC over pairs [1]) and a boundary whose reported curve leaves its fan curve where it has no
+/// windows of its own (or is far-only and tilted against the fan) is reported on the fan curve. Each
 /// candidate also measures its fan-out in the bird's-eye view (direction between the bird's-eye vertical and the ray from the camera's
 /// ground point, where image-vertical reflection streaks go), optionally lowering its raw confidence
 /// (<see cref="FitOptions.FanOutPenalty"/>) and always available to the calibration.

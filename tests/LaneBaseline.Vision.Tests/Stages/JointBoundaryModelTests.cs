@@ -26,19 +26,25 @@ public sealed class JointBoundaryModelTests
     }
 
     private static void SetCandidate(FrameWorkspace ws, int candidate, Func<double, double> x)
+        => SetCandidate(ws, candidate, x, 0, 16);
+
+    /// <summary>A candidate with windows k = <paramref name="first"/> .. <paramref name="last"/> − 1 only (k = 0 nearest).</summary>
+    private static void SetCandidate(FrameWorkspace ws, int candidate, Func<double, double> x, int first, int last)
     {
         for (int k = 0; k < 16; k++)
         {
             double y = 480 - (30 * k) - 15;
-            ws.Search.CandidateWindows[candidate][k] = new SearchWindow(x(y), y, 20, 0, (int)(y - 15), 1, (int)(y + 15), true);
+            bool has = k >= first && k < last;
+            ws.Search.CandidateWindows[candidate][k] = new SearchWindow(x(y), y, has ? 20 : 0, 0, (int)(y - 15), 1, (int)(y + 15), has);
         }
 
         // Its own fit: the weighted least-squares quadratic of its windows (what the candidate fitter reports).
-        double[] xs = [.. ws.Search.CandidateWindows[candidate].Take(16).Select(w => w.X)];
-        double[] ys = [.. ws.Search.CandidateWindows[candidate].Take(16).Select(w => w.Y)];
-        double[] wts = [.. Enumerable.Repeat(20.0, 16)];
+        SearchWindow[] present = [.. ws.Search.CandidateWindows[candidate].Take(16).Where(w => w.Mass > 0)];
+        double[] xs = [.. present.Select(w => w.X)];
+        double[] ys = [.. present.Select(w => w.Y)];
+        double[] wts = [.. present.Select(w => w.Mass)];
         Assert.True(Core.Geometry.QuadraticFit.TryFit(xs, ys, wts, default, 480, out Quadratic own));
-        ws.Search.CandidateFits[candidate] = new LaneEstimate(0, 0.9, own, 320, 1, 1, 0);
+        ws.Search.CandidateFits[candidate] = new LaneEstimate(0, 0.9, own, 20 * present.Length, present.Length / 16.0, 1, 0);
     }
 
     [Fact]
@@ -161,5 +167,66 @@ public sealed class JointBoundaryModelTests
         Assert.Equal(3, ws.Search.CandidateCount);
         Assert.Equal(443, ws.Search.CandidateFits[2].Fit.C, 0);
         Assert.Equal(A, ws.Search.CandidateFits[2].Fit.A, 9);
+    }
+
+    // Straight boundaries that fan as under a slightly wrong horizon: heading B = K·(X − 240) at the middle row X.
+    private const double K = 1e-4;
+
+    private static double Fanned(double y, double x) => x + (K * (x - 240) * (y - 240));
+
+    private static JointBoundaryModel RunAll(FrameWorkspace ws, int[] chosen)
+    {
+        ws.Warp.BirdsEye.SetTo(Scalar.All(0));
+        ws.Search.CandidateCount = 3;
+        var model = new JointBoundaryModel(new SearchOptions(), new FitOptions(), new ConfidenceOptions());
+        model.Refine(ws, chosen);
+        model.Recover(ws, chosen, 4);
+        model.GuardHeadings(ws, chosen);
+        return model;
+    }
+
+    [Fact]
+    public void ATiltedFarOnlyBoundary_AmongFanningOnes_TakesTheFansHeading()
+    {
+        // −1 and +2 run the whole height on a fan (heading linear in position, as a wrong horizon makes parallel lines
+        // in the bird's-eye view); +1 has windows only in the far half and is tilted 0.03 px/px against the fan.
+        // Source: RANSAC (Fischler & Bolles 1981) — the fan is the hypothesis the other boundaries confirm; the linear
+        // fan of headings is the first-order effect of a perspective error x → x / (1 + e·y) of the ground homography
+        // (common practice). Reported on the fan, +1 gets the heading K·(280 − 240) at its own offset.
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Fanned(y, 160));
+        SetCandidate(ws, 1, y => Fanned(y, 280) + (0.03 * (y - 120)), 8, 16);
+        SetCandidate(ws, 2, y => Fanned(y, 400));
+        double tiltedBefore = ws.Search.CandidateFits[1].Fit.B;
+        Assert.Equal(K * 40, tiltedBefore - 0.03, 6); // the constructed own fit is tilted
+        int[] chosen = [-1, -1, 0, 1, 2, -1];
+        RunAll(ws, chosen);
+        Assert.Equal(new[] { -1, -1, 0, 1, 2, -1 }, chosen);
+        LaneEstimate tilted = ws.Search.CandidateFits[1];
+        // Its curve takes the joint curvature (which absorbs part of the fan here), so compare the heading at the middle
+        // row and the positions at the bottom and top rows with the fanned line, within the inlier tolerance (4 px).
+        Assert.Equal(K * 40, (2 * tilted.Fit.A * 240) + tilted.Fit.B, 3);
+        Assert.InRange(tilted.Fit.At(465) - Fanned(465, 280), -4, 4); // the own fit was 10 px off here
+        Assert.InRange(tilted.Fit.At(15) - Fanned(15, 280), -4, 4);
+        Assert.Equal(K * -80, ws.Search.CandidateFits[0].Fit.B, 6); // the others keep their own curves
+        Assert.Equal(K * 160, ws.Search.CandidateFits[2].Fit.B, 6);
+    }
+
+    [Fact]
+    public void ATiltedBoundary_WhoseNearWindowsSetItsHeading_IsLeftAlone()
+    {
+        // The same tilt (0.025 px/px), but +1's windows cover the near rows (k = 0..9, more than half the height): the
+        // near part of the bird's-eye view is the better measured, so its own heading stands.
+        // Source: constructed case of the fan model (near windows decide; the guard acts on unmeasured parts only).
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Fanned(y, 160));
+        SetCandidate(ws, 1, y => Fanned(y, 280) + (0.025 * (y - 330)), 0, 10);
+        SetCandidate(ws, 2, y => Fanned(y, 400));
+        LaneEstimate before = ws.Search.CandidateFits[1];
+        int[] chosen = [-1, -1, 0, 1, 2, -1];
+        RunAll(ws, chosen);
+        Assert.Equal(1, chosen[3]);
+        Assert.Equal(before.Fit, ws.Search.CandidateFits[1].Fit);
+        Assert.Equal(before.InlierMass, ws.Search.CandidateFits[1].InlierMass);
     }
 }
