@@ -106,6 +106,12 @@ public sealed class CalibrationCommandTests : IClassFixture<MixedFrames>, IDispo
             Assert.Equal(mapping.FromFeatures(values), double.Parse(r[^1], CultureInfo.InvariantCulture), 12);
         }
 
+        // '-' writes the same table to standard output, which then holds nothing else (the summary goes to stderr).
+        (int exitPipe, string stdout, string errPipe) = CliRunner.Run("tune", "--calibrate", "--frames", frames.Dir.Path, "--truth", frames.Truth, "--config", raw, "-o", work.File("t2.yaml"), "--calibration-table", "-");
+        Assert.True(exitPipe == 0, errPipe);
+        Assert.Equal(File.ReadAllText(table), stdout);
+        Assert.Contains("calibration: ", errPipe, StringComparison.Ordinal);
+
         // Without --calibrate the option is a usage error.
         Assert.Equal(2, CliRunner.Run("tune", "--frames", frames.Dir.Path, "--truth", frames.Truth, "-o", work.File("x.yaml"), "--calibration-table", work.File("y.csv")).Exit);
     }

@@ -32,7 +32,7 @@ internal static class TuneCommand
         Option<bool> calibrate = new("--calibrate") { Description = "Instead of a search: fit the preset's confidence calibration (score = probability of a true positive at IoU 0.50) on all truth frames and write the preset with its calibration section (docs/detect.md)." };
         Option<double> l2 = new("--calibration-l2") { Description = "With --calibrate: L2 penalty on the standardised logistic weights.", DefaultValueFactory = _ => 1.0 };
         Option<bool> logisticOnly = new("--logistic-only") { Description = "With --calibrate: the logistic map alone, without the isotonic step." };
-        Option<string?> table = new("--calibration-table") { Description = "With --calibrate: also write one CSV row per reported lane (frame, lane, outcome at IoU 0.50, every evidence feature, calibrated score) to this file, to inspect or refit the mapping." };
+        Option<string?> table = new("--calibration-table") { Description = "With --calibrate: also write one CSV row per reported lane (frame, lane, outcome at IoU 0.50, every evidence feature, calibrated score) to this file ('-': standard output, the summary line then goes to stderr), to inspect or refit the mapping." };
 
         Command command = new("tune", "Search preset parameters for the best score on labelled frames, keeping holdout frames out of the search.")
         {
@@ -107,7 +107,9 @@ internal static class TuneCommand
                 }
 
                 CalibrationSummary c = new CalibrationRunner(request, lambda, !parse.GetValue(logisticOnly), stderr) { TablePath = parse.GetValue(table) }.Run();
-                stdout.WriteLine(string.Create(
+                // With the table or the preset on standard output ('-'), the summary goes to stderr so stdout holds only that file.
+                TextWriter report = parse.GetValue(table) == "-" || request.Output == "-" ? stderr : stdout;
+                report.WriteLine(string.Create(
                     CultureInfo.InvariantCulture,
                     $"calibration: {c.Lanes} lanes ({c.Positives} true positives at IoU 0.50) on {c.Frames} frames; ECE on these frames {c.EceBefore:0.0000} raw -> {c.EceAfter:0.0000} calibrated; preset written to {request.Output}"));
                 return ExitCodes.Success;
