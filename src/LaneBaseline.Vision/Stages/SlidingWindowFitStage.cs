@@ -24,8 +24,8 @@ namespace LaneBaseline.Vision.Stages;
 /// (4) confidence = min(1, inlier mass / <see cref="ConfidenceOptions.FullSupportMass"/>) ·
 /// min(1, coverage / <see cref="ConfidenceOptions.FullCoverage"/>) · exp(−rms / <see cref="ConfidenceOptions.ResidualScalePx"/>);
 /// (5) duplicates (mean separation below half <see cref="SearchOptions.MinSeparationPx"/>) keep the higher score; of two
-/// candidates closer than the smallest plausible lane width, one whose near half is extrapolated (fewer than
-/// <see cref="FitOptions.MinInlierWindows"/> inlier windows there) is dropped when the other is measured there;
+/// candidates closer than the smallest plausible lane width, one whose near half is extrapolated (at most one inlier
+/// window there) is dropped when the other is measured there (two or more);
 /// (6) slots: the nearest boundary left and right of the vehicle centre are −1 and +1 when their spacing is a
 /// plausible lane width; the next boundaries out are −2 and +2 (then −3 and +3 when search.maxLanes allows) when
 /// their spacing matches the ego lane within

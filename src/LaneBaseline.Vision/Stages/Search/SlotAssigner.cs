@@ -31,10 +31,10 @@ internal sealed class SlotAssigner
 
     /// <summary>
     /// Two kept candidates whose mean separation over their shared rows is below the smallest plausible lane width
-    /// (<see cref="LaneWidthLimits"/>) cannot both be boundaries. When one of them has fewer than
-    /// <see cref="FitOptions.MinInlierWindows"/> inlier windows in the near half of the rows (its bottom position is
-    /// extrapolated from far evidence) and the other has at least that many there, the extrapolated one is dropped;
-    /// otherwise both stay. The score does not decide here: support and coverage saturate in it, so a short fit through
+    /// (<see cref="LaneWidthLimits"/>) cannot both be boundaries. When one of them has at most one inlier window in the
+    /// near half of the rows (a position there but no direction: its bottom end is extrapolated from far evidence) and
+    /// the other has two or more there, the extrapolated one is dropped; otherwise both stay (a dashed boundary with one
+    /// dash, two windows, in its near half is measured there). The score does not decide here: support and coverage saturate in it, so a short fit through
     /// a few far specks can have a smaller residual, and a higher score, than a long continuous line beside it, and as
     /// the boundary nearer the centre it would take the slot and hide the line. Returns the new count of kept candidates.
     /// </summary>
@@ -61,13 +61,14 @@ internal sealed class SlotAssigner
                     continue;
                 }
 
-                // Only a fit whose near half is extrapolated gives way to one measured there.
+                // Only a fit whose near half is extrapolated (at most one window there: a position, no direction) gives
+                // way to one measured there (two windows or more).
                 int ni = NearInliers(ws, i), nj = NearInliers(ws, j);
-                if (ni < fit.MinInlierWindows && nj >= fit.MinInlierWindows)
+                if (ni < 2 && nj >= 2)
                 {
                     drop[a] = true;
                 }
-                else if (nj < fit.MinInlierWindows && ni >= fit.MinInlierWindows)
+                else if (nj < 2 && ni >= 2)
                 {
                     drop[c] = true;
                 }
