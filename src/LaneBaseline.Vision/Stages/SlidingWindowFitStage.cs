@@ -23,7 +23,9 @@ namespace LaneBaseline.Vision.Stages;
 /// squares (weights = window mass) as x = A·y² + B·y + C, or a line when |A| exceeds <see cref="FitOptions.MaxCurvature"/>;
 /// (4) confidence = min(1, inlier mass / <see cref="ConfidenceOptions.FullSupportMass"/>) ·
 /// min(1, coverage / <see cref="ConfidenceOptions.FullCoverage"/>) · exp(−rms / <see cref="ConfidenceOptions.ResidualScalePx"/>);
-/// (5) duplicates (mean separation below half <see cref="SearchOptions.MinSeparationPx"/>) keep the higher score;
+/// (5) duplicates (mean separation below half <see cref="SearchOptions.MinSeparationPx"/>) keep the higher score; of two
+/// candidates closer than the smallest plausible lane width, one whose near half is extrapolated (at most one inlier
+/// window there) is dropped when the other is measured there (two or more);
 /// (6) slots: the nearest boundary left and right of the vehicle centre are −1 and +1 when their spacing is a
 /// plausible lane width; the next boundaries out are −2 and +2 (then −3 and +3 when search.maxLanes allows) when
 /// their spacing matches the ego lane within

@@ -29,6 +29,80 @@ internal sealed class SlotAssigner
         joint = new JointBoundaryModel(search, fit, confidence);
     }
 
+    /// <summary>
+    /// Two kept candidates whose mean separation over their shared rows is below the smallest plausible lane width
+    /// (<see cref="LaneWidthLimits"/>) cannot both be boundaries. When one of them has at most one inlier window in the
+    /// near half of the rows (a position there but no direction: its bottom end is extrapolated from far evidence) and
+    /// the other has two or more there, the extrapolated one is dropped; otherwise both stay (a dashed boundary with one
+    /// dash, two windows, in its near half is measured there). The score does not decide here: support and coverage saturate in it, so a short fit through
+    /// a few far specks can have a smaller residual, and a higher score, than a long continuous line beside it, and as
+    /// the boundary nearer the centre it would take the slot and hide the line. Returns the new count of kept candidates.
+    /// </summary>
+    private int DropNearPairs(FrameWorkspace ws, int kept)
+    {
+        double yb = ws.Warp.BirdsEyeHeight - 1;
+        double limit = LaneWidthLimits.Of(search, ws).MinPx;
+        Span<bool> drop = stackalloc bool[FrameWorkspace.MaxCandidates];
+        for (int a = 0; a < kept; a++)
+        {
+            for (int c = a + 1; c < kept; c++)
+            {
+                int i = accepted[a], j = accepted[c];
+                double top = Math.Max(ws.Search.CandidateTopY[i], ws.Search.CandidateTopY[j]);
+                double sum = 0;
+                for (int s = 0; s <= 4; s++)
+                {
+                    double y = yb - ((yb - top) * s / 4);
+                    sum += Math.Abs(ws.Search.CandidateFits[i].Fit.At(y) - ws.Search.CandidateFits[j].Fit.At(y));
+                }
+
+                if (sum / 5 >= limit)
+                {
+                    continue;
+                }
+
+                // Only a fit whose near half is extrapolated (at most one window there: a position, no direction) gives
+                // way to one measured there (two windows or more).
+                int ni = NearInliers(ws, i), nj = NearInliers(ws, j);
+                if (ni < 2 && nj >= 2)
+                {
+                    drop[a] = true;
+                }
+                else if (nj < 2 && ni >= 2)
+                {
+                    drop[c] = true;
+                }
+            }
+        }
+
+        int n = 0;
+        for (int a = 0; a < kept; a++)
+        {
+            if (!drop[a])
+            {
+                accepted[n++] = accepted[a];
+            }
+        }
+
+        return n;
+    }
+
+    /// <summary>Inlier windows of a candidate in the near half of the rows (windows are counted from the bottom).</summary>
+    private static int NearInliers(FrameWorkspace ws, int candidate)
+    {
+        SearchWindow[] windows = ws.Search.CandidateWindows[candidate];
+        int count = 0;
+        for (int k = 0; k < ws.Search.WindowCount / 2; k++)
+        {
+            if (windows[k].Inlier)
+            {
+                count++;
+            }
+        }
+
+        return count;
+    }
+
     /// <summary>The slots of <see cref="chosen"/>, outermost left to outermost right.</summary>
     private static ReadOnlySpan<int> Slots => [-3, -2, -1, +1, +2, +3];
 
@@ -81,6 +155,10 @@ internal sealed class SlotAssigner
             }
         }
 
+        // The ambiguity feature counts the distinct candidates of the duplicate test above (as calibrated).
+        int distinct = kept;
+        kept = DropNearPairs(ws, kept);
+
         // Metric view: when the nearest boundaries left and right are two or three plausible lane widths apart (the ego
         // boundaries between them unseen, as under a low sun that veils the dashes ahead), read them as ±1/±2 or −2/+2;
         // keep that reading only when the joint model then finds an unseen boundary between them along the joint curve,
@@ -117,7 +195,7 @@ internal sealed class SlotAssigner
             Emit(ws, chosen[s], Slots[s], true);
         }
 
-        AddAgreementFeatures(ws, Math.Max(0, kept - ws.LaneCount));
+        AddAgreementFeatures(ws, Math.Max(0, distinct - ws.LaneCount));
     }
 
     /// <summary>
