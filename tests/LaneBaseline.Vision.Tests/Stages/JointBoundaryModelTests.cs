@@ -64,17 +64,29 @@ public sealed class JointBoundaryModelTests
         Assert.Equal(1, ws.Search.CandidateFits[1].JointShare, 9);
     }
 
+    /// <summary>Three boundaries on the road's curve, the middle one's four far windows pulled 25 px sideways (its own fit bent).</summary>
+    private static FrameWorkspace BentMiddleBoundary()
+    {
+        FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Road(y, 200));
+        SetCandidate(ws, 1, y => Road(y, 320) + (y < 120 ? 25 : 0));
+        SetCandidate(ws, 2, y => Road(y, 440));
+        double bentBefore = Math.Abs(ws.Search.CandidateFits[1].Fit.At(15) - Road(15, 320));
+        if (bentBefore <= 5)
+        {
+            ws.Dispose(); // the caller never receives it
+            Assert.Fail($"the constructed own fit should be bent ({bentBefore:0.0} px)");
+        }
+
+        return ws;
+    }
+
     [Fact]
     public void ABentBoundary_IsStraightenedByTheOthers()
     {
         // Boundary 1's four far windows are pulled 25 px sideways (a reflection beside a faded far end): its own
         // least-squares fit bends towards them; the joint consensus ignores them and restores the road's shape.
-        using FrameWorkspace ws = Workspace();
-        SetCandidate(ws, 0, y => Road(y, 200));
-        SetCandidate(ws, 1, y => Road(y, 320) + (y < 120 ? 25 : 0));
-        SetCandidate(ws, 2, y => Road(y, 440));
-        double bentBefore = Math.Abs(ws.Search.CandidateFits[1].Fit.At(15) - Road(15, 320));
-        Assert.True(bentBefore > 5, $"the constructed own fit should be bent ({bentBefore:0.0} px)");
+        using FrameWorkspace ws = BentMiddleBoundary();
         int[] chosen = [-1, -1, 0, 1, 2, -1];
         new JointBoundaryModel(new SearchOptions(), new FitOptions { JointRefit = true }, new ConfidenceOptions()).Refine(ws, chosen);
         Assert.Equal(new[] { -1, -1, 0, 1, 2, -1 }, chosen);
@@ -90,12 +102,7 @@ public sealed class JointBoundaryModelTests
         // Source: RANSAC (Fischler & Bolles 1981) — the model comes from the consensus set; the far windows are
         // outliers of the joint curve and must not bend the reported curve, which takes the joint curvature with its
         // own heading and offset fitted to its 12 joint inliers (the constructed road exactly).
-        using FrameWorkspace ws = Workspace();
-        SetCandidate(ws, 0, y => Road(y, 200));
-        SetCandidate(ws, 1, y => Road(y, 320) + (y < 120 ? 25 : 0));
-        SetCandidate(ws, 2, y => Road(y, 440));
-        double bentBefore = Math.Abs(ws.Search.CandidateFits[1].Fit.At(15) - Road(15, 320));
-        Assert.True(bentBefore > 5, $"the constructed own fit should be bent ({bentBefore:0.0} px)");
+        using FrameWorkspace ws = BentMiddleBoundary();
         int[] chosen = [-1, -1, 0, 1, 2, -1];
         new JointBoundaryModel(new SearchOptions(), new FitOptions(), new ConfidenceOptions()).Refine(ws, chosen);
         Assert.Equal(new[] { -1, -1, 0, 1, 2, -1 }, chosen);

@@ -1,10 +1,6 @@
-using LaneBaseline.Core.Geometry;
-using LaneBaseline.Core.Options;
-using LaneBaseline.Core.Results;
-using LaneBaseline.Vision.Pipeline;
-using LaneBaseline.Vision.Stages;
 using OpenCvSharp;
 using Xunit;
+using static LaneBaseline.Vision.Tests.Stages.MetricBirdsEyeSearch;
 
 namespace LaneBaseline.Vision.Tests.Stages;
 
@@ -19,32 +15,6 @@ namespace LaneBaseline.Vision.Tests.Stages;
 /// </summary>
 public sealed class MetricLaneSpanTests
 {
-    /// <summary>Runs the search stage alone on constructed evidence; returns (slot, bottom-row column) of each lane.</summary>
-    private static SortedDictionary<int, double> Search(Action<Mat> draw)
-    {
-        CameraModel cam = CameraModel.CreateDefault(1280, 720);
-        using var pipeline = new LanePipeline(new PipelineOptions(), cam.ProjectGroundToImage(1e7, 0), cam);
-        using var frame = new Mat(720, 1280, MatType.CV_8UC3, Scalar.All(90));
-        pipeline.Process(frame, 0);
-        FrameWorkspace ws = pipeline.Workspace!;
-        Assert.Equal(0.05, ws.Warp.MetresPerPixel);
-        Assert.Equal(481, ws.Warp.BirdsEyeWidth);
-        ws.Warp.BirdsEye.SetTo(Scalar.All(0));
-        draw(ws.Warp.BirdsEye);
-        using var stage = new SlidingWindowFitStage(new SearchOptions(), new FitOptions(), new ConfidenceOptions());
-        stage.Process(ws);
-        var lanes = new SortedDictionary<int, double>();
-        for (int i = 0; i < ws.LaneCount; i++)
-        {
-            LaneEstimate e = ws.GetLane(i);
-            lanes[e.Slot] = e.Fit.At(ws.Warp.BirdsEyeHeight - 1);
-        }
-
-        return lanes;
-    }
-
-    private static void Solid(Mat view, int x) => Cv2.Rectangle(view, new Rect(x - 2, 0, 5, view.Rows), Scalar.All(255), -1);
-
     /// <summary>One 3.5 m dash (rows 590–659): it lies in two windows only, too few for a fit of its own (three).</summary>
     private static void OneDash(Mat view, int x) => Cv2.Rectangle(view, new Rect(x - 2, 590, 5, 70), Scalar.All(255), -1);
 
