@@ -126,7 +126,8 @@ public sealed partial class ColorThresholdStage : IFrameStage
         // (1b) Low light: the ridge runs on a CLAHE copy of the grey band (Zuiderveld 1994) when the road is dark.
         byte* ridgeBase = blurBase;
         long ridgeStep = blurStep;
-        workspace.Color.Equalised = median < color.ClaheMaxRoadLightness || (color.ClaheMinVeilLightness < 255 && median >= color.ClaheMinVeilLightness);
+        workspace.Color.Veiled = color.ClaheMinVeilLightness < 255 && median >= color.ClaheMinVeilLightness;
+        workspace.Color.Equalised = median < color.ClaheMaxRoadLightness || workspace.Color.Veiled;
         if (workspace.Color.Equalised)
         {
             Equalise(workspace);

@@ -27,6 +27,12 @@ public sealed class ColorSection : IDisposable
     /// <summary>Whether the colour stage ran its ridge test on the CLAHE-equalised grey band in this frame (a dark road).</summary>
     internal bool Equalised { get; set; }
 
+    /// <summary>
+    /// Whether the road is veiled in this frame: its median lightness at or above
+    /// <see cref="LaneBaseline.Core.Options.ColorOptions.ClaheMinVeilLightness"/> (a low sun ahead).
+    /// </summary>
+    internal bool Veiled { get; set; }
+
     /// <summary>Grey-world gains (B, G, R) the colour stage applied before its white and yellow tests (1 when off).</summary>
     internal (double B, double G, double R) GreyWorldGains { get; set; } = (1, 1, 1);
 

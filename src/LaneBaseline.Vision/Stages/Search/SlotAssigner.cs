@@ -87,6 +87,16 @@ internal sealed class SlotAssigner
         return n;
     }
 
+    /// <summary>
+    /// Whether a boundary the joint model recovered between a nearest pair read as several lanes confirms that reading.
+    /// In the metric view any recovered boundary does (the pair's spacing alone already exceeds one lane). In the
+    /// trapezoid the spacing proves nothing, so the recovered boundary must be measured where a veiled road still shows
+    /// its paint, near the camera: two or more inlier windows in the near half of the rows (the veil washes out the far
+    /// part first). A fit through far windows only does not confirm.
+    /// </summary>
+    private static bool Confirms(FrameWorkspace ws, int candidate) =>
+        candidate >= 0 && (ws.Warp.MetresPerPixel > 0 || NearInliers(ws, candidate) >= 2);
+
     /// <summary>Inlier windows of a candidate in the near half of the rows (windows are counted from the bottom).</summary>
     private static int NearInliers(FrameWorkspace ws, int candidate)
     {
@@ -159,8 +169,9 @@ internal sealed class SlotAssigner
         int distinct = kept;
         kept = DropNearPairs(ws, kept);
 
-        // Metric view: when the nearest boundaries left and right are two or three plausible lane widths apart (the ego
-        // boundaries between them unseen, as under a low sun that veils the dashes ahead), read them as ±1/±2 or −2/+2;
+        // Metric view (or a veiled road in the trapezoid): when the nearest boundaries left and right are two or three
+        // plausible lane widths apart (the ego boundaries between them unseen, as under a low sun that veils the dashes
+        // ahead), read them as ±1/±2 or −2/+2;
         // keep that reading only when the joint model then finds an unseen boundary between them along the joint curve,
         // else undo it and choose as usual (the stronger of the two kept alone).
         int candidates = ws.Search.CandidateCount;
@@ -176,7 +187,7 @@ internal sealed class SlotAssigner
             Refine(ws);
 
             // Found: the unseen boundary (for three lanes, either ego boundary) was recovered along the joint curve.
-            bool found = chosen[gap] >= 0 || (savedIndex[2] < 0 && savedIndex[3] < 0 && chosen[3] >= 0);
+            bool found = Confirms(ws, chosen[gap]) || (savedIndex[2] < 0 && savedIndex[3] < 0 && Confirms(ws, chosen[3]));
             if (!found)
             {
                 RestoreBefore(ws, candidates);
@@ -369,13 +380,24 @@ internal sealed class SlotAssigner
     /// In the metric view of a camera file, how many lanes the nearest boundaries left and right of the camera's
     /// column span when that is more than one: 2 or 3 when their spacing at the bottom row is above the largest
     /// plausible lane width and splits into that many plausible widths (the count whose width is nearest the middle of
-    /// the plausible range; 3 only with the camera inside the middle one), and they stay parallel; otherwise 0. Always
-    /// 0 in the vanishing-point trapezoid, whose widths are relative, and when fewer than four boundaries are reported.
+    /// the plausible range; 3 only with the camera inside the middle one), and they stay parallel; otherwise 0. In the
+    /// vanishing-point trapezoid, whose widths are relative, only on a veiled road (<see cref="TrapezoidSpan"/>); always 0
+    /// when fewer than four boundaries are reported.
     /// </summary>
     private int LanesSpanned(FrameWorkspace ws, int left, int right, double centre, double minW, double maxW)
     {
         double xl = Xb(ws, left), xr = Xb(ws, right), width = xr - xl;
-        if (ws.Warp.MetresPerPixel <= 0 || search.MaxLanes < 4 || width <= maxW || xl >= centre || xr <= centre || !Parallel(ws, left, right))
+        if (search.MaxLanes < 4 || xl >= centre || xr <= centre || !Parallel(ws, left, right))
+        {
+            return 0;
+        }
+
+        if (ws.Warp.MetresPerPixel <= 0)
+        {
+            return ws.Color.Veiled ? TrapezoidSpan(xl, xr, centre, minW) : 0;
+        }
+
+        if (width <= maxW)
         {
             return 0;
         }
@@ -393,6 +415,27 @@ internal sealed class SlotAssigner
         }
 
         return best;
+    }
+
+    /// <summary>
+    /// In the vanishing-point trapezoid on a veiled road (<see cref="Pipeline.Workspace.ColorSection.Veiled"/>: a low sun ahead washes out
+    /// the ego lane's dashes, while the outer lines, long or nearer the frame's edge, stay visible), whose lane widths are
+    /// relative (no metric maximum to exceed), the hypothesis
+    /// that the nearest pair left and right of the camera's column spans more than one lane: 3 when a third of their
+    /// spacing is a plausible lane width and the camera's column lies in the middle third, else 2 when half of it is
+    /// (the smallest plausible width, <see cref="LaneWidthLimits"/>, then keeps a single lane from being split); 0
+    /// otherwise. It is only a hypothesis: <see cref="Assign"/> keeps it when the joint model finds an unseen boundary
+    /// between them, else the usual reading stands.
+    /// </summary>
+    internal static int TrapezoidSpan(double xl, double xr, double centre, double minW)
+    {
+        double width = xr - xl;
+        if (width / 3 >= minW && xl + (width / 3) <= centre && xr - (width / 3) >= centre)
+        {
+            return 3;
+        }
+
+        return width / 2 >= minW ? 2 : 0;
     }
 
     /// <summary>
