@@ -31,6 +31,8 @@ public static class LaneFeatures
         ("widthMismatch", l => double.IsFinite(l.WidthMismatch) ? Math.Min(l.WidthMismatch, 3) : 3, -1), // a streak or speck, not a marking of the perspective width
         ("paintShare", l => double.IsFinite(l.PaintShare) ? l.PaintShare : 0, +1), // evidence that passed a paint-colour test
         ("nearSupport", l => double.IsFinite(l.NearSupport) ? l.NearSupport : 0, +1), // near half seen, not extrapolated
+        ("extrapolatedShare", l => double.IsFinite(l.ExtrapolatedShare) ? l.ExtrapolatedShare : 0, -1), // image length below the nearest evidence
+        ("bottomLeverage", l => Math.Log(1 + (double.IsFinite(l.BottomLeverage) ? Math.Clamp(l.BottomLeverage, 0, 50) : 0)), -1), // far-only evidence extrapolated to the bottom row
         ("outerSlot", l => Math.Max(0, Math.Abs(l.Slot) - 1), -1), // 0 for the ego boundaries, 1 for +-2, 2 for +-3: farther out, fewer and fainter pixels
     ];
 

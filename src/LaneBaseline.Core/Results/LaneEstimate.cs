@@ -35,6 +35,13 @@ namespace LaneBaseline.Core.Results;
 /// passed the ridge test alone); NaN when not measured.</param>
 /// <param name="NearSupport">Share (0–1) of the lane's image rows in the near half of the region that have evidence
 /// within a marking width of it; NaN when not measured.</param>
+/// <param name="ExtrapolatedShare">Share (0–1) of the lane's image rows in the frame that lie below (nearer than) its
+/// nearest row with evidence within a marking width of it: the part of its image extrapolated towards the camera; 1 when
+/// no row has evidence; NaN when not measured.</param>
+/// <param name="BottomLeverage">Leverage of the extrapolation to the bottom row: the distance of the lane's bottom row
+/// from the mean of its rows with evidence, in standard deviations of those rows (about 1.7 when measured evenly over its
+/// length, large when measured only far away; capped at 50, also the value with fewer than two such rows); NaN when not
+/// measured.</param>
 public readonly record struct LaneEstimate(
     int Slot,
     double Score,
@@ -53,4 +60,6 @@ public readonly record struct LaneEstimate(
     double MarkingContrast = double.NaN,
     double WidthMismatch = double.NaN,
     double PaintShare = double.NaN,
-    double NearSupport = double.NaN);
+    double NearSupport = double.NaN,
+    double ExtrapolatedShare = double.NaN,
+    double BottomLeverage = double.NaN);

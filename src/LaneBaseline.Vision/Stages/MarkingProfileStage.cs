@@ -25,7 +25,11 @@ namespace LaneBaseline.Vision.Stages;
 /// width, so it is too narrow near the camera and too wide far away; verge texture gives scattered narrow specks);
 /// <c>PaintShare</c> = paint pixels / evidence pixels of the runs; <c>NearSupport</c> = the share of supported rows in
 /// the near half of the rows (bottom row to midway to the region's far edge): a lane whose near part is extrapolated
-/// past missing evidence is where a fit goes off the paint. All NaN when the lane has fewer than 4 rows in the frame.
+/// past missing evidence is where a fit goes off the paint; <c>ExtrapolatedShare</c> = the share of the lane's rows in the
+/// frame below its nearest supported row (1 without support), and <c>BottomLeverage</c> = how many standard deviations of
+/// the supported rows the bottom row lies from their mean (see <see cref="Leverage"/>): a boundary measured only near the
+/// vanishing point and extrapolated to the bottom row has both large, a dashed line with a gap near the camera has them
+/// small. All NaN when the lane has fewer than 4 rows in the frame.
 /// The width test is the perspective-scaled dark–light–dark marking model as compared by Veit et al. (ITSC 2008),
 /// applied to the lane's own evidence rather than per pixel. Pixel (x, y), origin top-left, y down.
 /// <para>References: [1] T. Veit, J.-P. Tarel, P. Nicolle, P. Charbonnier, "Evaluation of Road Marking Feature
@@ -34,6 +38,9 @@ namespace LaneBaseline.Vision.Stages;
 /// </remarks>
 public sealed class MarkingProfileStage : IFrameStage
 {
+    /// <summary>Cap of <see cref="LaneEstimate.BottomLeverage"/>: the value of a lane with nothing to extrapolate from.</summary>
+    internal const double MaxLeverage = 50;
+
     private const int RowStep = 2;
     private readonly GradientOptions gradient;
     private readonly double[] contrast = new double[4096];
@@ -76,6 +83,8 @@ public sealed class MarkingProfileStage : IFrameStage
         byte* blurBase = (byte*)ws.Gradient.Blurred.DataPointer;
         long blurStep = ws.Gradient.Blurred.Step();
         int rows = 0, supported = 0, nearRows = 0, nearSupported = 0;
+        int rowBottom = -1, rowTop = -1, supportNear = -1;
+        double sumY = 0, sumYY = 0;
         long evidencePx = 0, paintPx = 0;
         int seg = 0;
         for (int y = h - 1; y >= top; y -= RowStep)
@@ -107,6 +116,8 @@ public sealed class MarkingProfileStage : IFrameStage
             }
 
             rows++;
+            rowBottom = rowBottom < 0 ? y : rowBottom;
+            rowTop = y;
             bool near = y >= mid;
             nearRows += near ? 1 : 0;
             byte* ev = evBase + (y * evStep);
@@ -123,6 +134,10 @@ public sealed class MarkingProfileStage : IFrameStage
 
             supported++;
             nearSupported += near ? 1 : 0;
+            supportNear = supportNear < 0 ? y : supportNear;
+            double dy = y - rowBottom; // relative to the lane's bottom row: small numbers, no cancellation
+            sumY += dy;
+            sumYY += dy * dy;
             int a = hit, b = hit, cap = 4 * d;
             while (a > 0 && ev[a - 1] != 0 && b - a < cap)
             {
@@ -162,7 +177,31 @@ public sealed class MarkingProfileStage : IFrameStage
             WidthMismatch = m > 0 ? Median(widthError, m) : double.NaN,
             PaintShare = evidencePx > 0 ? (double)paintPx / evidencePx : 0,
             NearSupport = nearRows > 0 ? (double)nearSupported / nearRows : double.NaN,
+            ExtrapolatedShare = supported > 0 && rowBottom > rowTop ? (double)(rowBottom - supportNear) / (rowBottom - rowTop) : 1,
+            BottomLeverage = Leverage(supported, sumY, sumYY),
         };
+    }
+
+    /// <summary>
+    /// How far the lane's bottom row lies outside its supported rows, in standard deviations of their rows:
+    /// |0 − mean| / sd with the rows taken relative to the bottom row. The variance of a least-squares line's
+    /// prediction at x0 is σ²·(1/n + (x0 − x̄)² / Sxx) with Sxx = n·sd²; this is the square root of the second term times
+    /// n, which does not depend on how many rows the frame's size gives. Rows measured evenly over the whole lane give
+    /// √3 ≈ 1.73; a short run of rows far up gives tens. Capped at <see cref="MaxLeverage"/>, which is also the value
+    /// with fewer than two supported rows or a spread below one row.
+    /// </summary>
+    internal static double Leverage(int n, double sumY, double sumYY)
+    {
+        // Source: prediction variance of simple linear regression outside the data, from memory (e.g. Montgomery, Peck &
+        // Vining, Introduction to Linear Regression Analysis, the prediction of new observations).
+        if (n < 2)
+        {
+            return MaxLeverage;
+        }
+
+        double mean = sumY / n;
+        double variance = Math.Max(0, (sumYY / n) - (mean * mean));
+        return variance < 1 ? MaxLeverage : Math.Min(MaxLeverage, Math.Abs(mean) / Math.Sqrt(variance));
     }
 
     private static unsafe double Weber(byte* s, int a, int b, int d, int w)

@@ -94,4 +94,43 @@ public sealed class MarkingProfileStageTests
         Assert.Equal(0.0, none.MarkingContrast, 3);
         Assert.True(double.IsNaN(none.WidthMismatch));
     }
+    [Fact]
+    public void LaneMeasuredOnlyFarAway_HasALargerExtrapolationThanTheSameLaneMeasuredNear()
+    {
+        // The same line, once painted over its whole length and once only in rows < 100 (far, near the vanishing point).
+        // Sampled rows run 179, 177, ..., 79 (every other row, from the bottom row to the polyline's far end at 79).
+        Func<int, double> line = y => VanishingX + ((y - VanishingY) * 0.7);
+        LaneEstimate whole = Profile(line, D, 150, 75, 255);
+        LaneEstimate far = Profile(line, y => y < 100 ? D(y) : 0, 150, 75, 255);
+
+        // Whole: the nearest supported row is the bottom row, nothing is extrapolated; rows evenly spread over the
+        // length put the bottom row sqrt(3) = 1.73 standard deviations from their mean (uniform distribution: sd =
+        // length / sqrt(12), bottom at length / 2 from the mean; common practice), a little less with the discrete rows.
+        Assert.Equal(0.0, whole.ExtrapolatedShare, 3);
+        Assert.InRange(whole.BottomLeverage, 1.6, 1.8);
+
+        // Far: nearest supported row 99, rows 179..79 scanned, so (179 - 99) / (179 - 79) = 0.8 of the image length is
+        // extrapolated (hand count). Supported rows 99, 97, ..., 79 (11 rows): mean 89, i.e. 90 rows above the bottom;
+        // population sd of 11 rows 2 apart = 2 * sqrt((11^2 - 1) / 12) = 6.32 (discrete uniform variance, from memory),
+        // so the leverage is 90 / 6.32 = 14.2.
+        Assert.Equal(0.8, far.ExtrapolatedShare, 3);
+        Assert.Equal(90.0 / (2 * Math.Sqrt(120.0 / 12)), far.BottomLeverage, 2);
+        Assert.True(far.BottomLeverage > 5 * whole.BottomLeverage);
+    }
+
+    [Fact]
+    public void LaneWithoutEvidence_IsFullyExtrapolated_AtTheLeverageCap()
+    {
+        LaneEstimate none = Profile(y => VanishingX + ((y - VanishingY) * 0.7), _ => 0, 150, 75, 255);
+        Assert.Equal(1.0, none.ExtrapolatedShare, 3);
+        Assert.Equal(MarkingProfileStage.MaxLeverage, none.BottomLeverage, 3);
+    }
+
+    [Theory]
+    [InlineData(1, -10.0, 100.0)] // one row: nothing to extrapolate from
+    [InlineData(3, -30.0, 300.0)] // three rows all at 10 above the bottom: spread 0
+    public void Leverage_WithoutASpreadOfRows_IsTheCap(int n, double sumY, double sumYY)
+    {
+        Assert.Equal(MarkingProfileStage.MaxLeverage, MarkingProfileStage.Leverage(n, sumY, sumYY), 6);
+    }
 }
