@@ -236,4 +236,53 @@ public sealed class JointBoundaryModelTests
         Assert.Equal(before.Fit, ws.Search.CandidateFits[1].Fit);
         Assert.Equal(before.InlierMass, ws.Search.CandidateFits[1].InlierMass);
     }
+    private static void RunWithExtrapolationGuard(FrameWorkspace ws, int[] chosen)
+    {
+        JointBoundaryModel model = RunAll(ws, chosen);
+        model.GuardExtrapolation(ws, chosen);
+    }
+
+    [Fact]
+    public void AFarOnlyBoundary_WhoseWindowsDoNotPinItsCurvature_IsExtrapolatedWithTheSharedCurvature()
+    {
+        // Two boundaries (the fan needs three): −1 on the road's curve over all 16 windows; +1 with three far windows
+        // only (k = 9..11), the middle one 3 px off the road (inside the 4 px inlier tolerance). The exact quadratic
+        // through three windows 30 rows apart bends by the second difference, ΔA = −2·3 / (2·30²), so its own curve
+        // ends hundreds of pixels off at the bottom row, while the shared curvature explains the same three windows.
+        // Source: RANSAC (Fischler & Bolles 1981) — the model of the consensus set is kept; three points fix a
+        // quadratic exactly, so their curvature is not measured (common practice: second difference of equally spaced
+        // samples). With the shared curvature and its own line fit, the symmetric 3 px bump moves the offset by its mean
+        // (1 px) and leaves the heading: +1 ends 1 px from the road at the bottom row.
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Road(y, 200));
+        SetCandidate(ws, 1, y => Road(y, 320) + (Math.Abs(y - 165) < 1 ? 3 : 0), 9, 12);
+        Assert.Equal(A - (3.0 / 900), ws.Search.CandidateFits[1].Fit.A, 9);
+        Assert.True(Math.Abs(ws.Search.CandidateFits[1].Fit.At(479) - Road(479, 320)) > 100, "the constructed own fit should run off at the bottom row");
+        int[] chosen = [-1, -1, 0, 1, -1, -1];
+        RunWithExtrapolationGuard(ws, chosen);
+        Assert.Equal(0, chosen[2]);
+        Assert.Equal(1, chosen[3]);
+        LaneEstimate far = ws.Search.CandidateFits[1];
+        Assert.Equal(A, far.Fit.A, 6);
+        Assert.InRange(far.Fit.At(479) - Road(479, 320), 0, 2);
+        Assert.InRange(far.Fit.At(135) - Road(135, 320), 0, 2);
+        Assert.Equal(3 * 20, far.InlierMass, 9); // its three windows still support it
+    }
+
+    [Fact]
+    public void ABoundaryWhoseWindowsPinAnotherCurvature_KeepsItsOwnCurve()
+    {
+        // +1 curves more than −1 (A + 3e-4) over all 16 windows: over its 450 rows the difference is a sagitta of
+        // 3e-4 · 450² / 4 ≈ 15 px, more than the inlier tolerance, so the shared curvature does not explain its windows
+        // and its own curve stands. Source: constructed case (the guard acts only where the windows leave the curvature
+        // free; consensus of RANSAC, Fischler & Bolles 1981).
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Road(y, 200));
+        SetCandidate(ws, 1, y => Road(y, 320) + (3e-4 * (y - 240) * (y - 240)));
+        LaneEstimate before = ws.Search.CandidateFits[1];
+        int[] chosen = [-1, -1, 0, 1, -1, -1];
+        RunWithExtrapolationGuard(ws, chosen);
+        Assert.Equal(1, chosen[3]);
+        Assert.Equal(before.Fit, ws.Search.CandidateFits[1].Fit);
+    }
 }

@@ -306,6 +306,7 @@ internal sealed class SlotAssigner
             joint.Refine(ws, chosen);
             joint.Recover(ws, chosen, search.MaxLanes);
             joint.GuardHeadings(ws, chosen);
+            joint.GuardExtrapolation(ws, chosen);
         }
     }
 
