@@ -58,6 +58,23 @@ public sealed partial class ColorThresholdStage
     }
 
     /// <summary>
+    /// Whether any pixel of the row's plain blurred grey over [a0, a1] reaches veilRidgeMinBackground + veilRidgeMinStep:
+    /// a centre mean can only exceed a side of at least the minimum background by the minimum step if some pixel does,
+    /// so a row without one is skipped exactly (one vectorised scan instead of prefix sums and a per-pixel test).
+    /// </summary>
+    private unsafe bool VeilRowMayPass(byte* smooth, int a0, int a1)
+    {
+        double need = color.VeilRidgeMinBackground + color.VeilRidgeMinStep;
+        if (need > 255)
+        {
+            return false;
+        }
+
+        var row = new ReadOnlySpan<byte>(smooth + a0, a1 - a0 + 1);
+        return row.IndexOfAnyInRange((byte)Math.Ceiling(need), (byte)255) >= 0;
+    }
+
+    /// <summary>
     /// The veil-headroom ridge over [from, to] of one row, on the prefix sums <paramref name="pre"/> of the plain blurred
     /// grey: a pixel not already a ridge, whose two side means are both at least <paramref name="minBackground"/> (a
     /// strong local veil, the sun's reflection on the road; elsewhere the equalised ridge is in charge), passes when its
@@ -78,11 +95,17 @@ public sealed partial class ColorThresholdStage
                 continue;
             }
 
+            int leftSum = pre[x - d + 1] - pre[x - (2 * d)];
+            if (leftSum < minBackground * ns)
+            {
+                continue; // most pixels: the left side is not veiled enough (integer test first)
+            }
+
             double centre = (pre[x + c + 1] - pre[x - c]) / nc;
-            double left = (pre[x - d + 1] - pre[x - (2 * d)]) / ns;
+            double left = leftSum / ns;
             double right = (pre[x + (2 * d) + 1] - pre[x + d]) / ns;
             double stepL = centre - left, stepR = centre - right;
-            if (stepL < minStep || stepR < minStep || Math.Min(left, right) < minBackground)
+            if (stepL < minStep || stepR < minStep || right < minBackground)
             {
                 continue;
             }

@@ -217,7 +217,7 @@ public sealed partial class ColorThresholdStage : IFrameStage
                 SuppressNearSaturatedBlobs(smooth, ev, x0, x1, d, w);
             }
 
-            if (veilScale > 0)
+            if (veilScale > 0 && VeilRowMayPass(smooth, a0, a1))
             {
                 // (3b) Veiled road: the veil-headroom ridge on the plain grey, after the blob suppression (VeilRidge).
                 PrefixSums(smooth, veilPre, a0, a1);
