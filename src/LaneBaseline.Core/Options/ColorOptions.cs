@@ -56,6 +56,24 @@ public sealed record ColorOptions
     /// </summary>
     public double ClaheMinVeilLightness { get; init; } = 150;
 
+    /// <summary>
+    /// On a veiled road (<see cref="ClaheMinVeilLightness"/>) a second ridge test on the plain blurred grey, relative to
+    /// the headroom left below white: by Koschmieder's law an added veil of luminance A gives I = J·t + A·(1 − t), so a
+    /// marking's step over its background shrinks by t exactly as the background's distance below A does, and
+    /// step / (A − background) is unchanged by the veil (A taken as 255, the sensor's white). The step must reach the
+    /// plain ridge threshold scaled by (255 − side) / (255 − road median), and at least this many grey levels (0–255;
+    /// 255 turns the test off). Default 4.
+    /// </summary>
+    public double VeilRidgeMinStep { get; init; } = 4;
+
+    /// <summary>
+    /// The veil-headroom ridge (<see cref="VeilRidgeMinStep"/>) runs only where both side means of the plain blurred grey
+    /// are at least this grey level (0–255): a strong local veil, the low sun's reflection on the road, where the
+    /// equalised ridge misses paint; elsewhere the equalised ridge alone decides. Default 225 (chosen on validation
+    /// among 0, 215, 225 and 235).
+    /// </summary>
+    public double VeilRidgeMinBackground { get; init; } = 225;
+
     /// <summary>CLAHE clip limit: the histogram of a tile is clipped at this multiple of its mean bin count (1–40). Default 2.</summary>
     public double ClaheClipLimit { get; init; } = 2;
 
@@ -85,6 +103,8 @@ public sealed record ColorOptions
         OptionsChecks.Range(f, "color.mirrorMaxRoadLightness", MirrorMaxRoadLightness, 0, 255);
         OptionsChecks.Range(f, "color.claheMaxRoadLightness", ClaheMaxRoadLightness, 0, 255);
         OptionsChecks.Range(f, "color.claheMinVeilLightness", ClaheMinVeilLightness, 0, 255);
+        OptionsChecks.Range(f, "color.veilRidgeMinStep", VeilRidgeMinStep, 0, 255);
+        OptionsChecks.Range(f, "color.veilRidgeMinBackground", VeilRidgeMinBackground, 0, 255);
         OptionsChecks.Range(f, "color.claheClipLimit", ClaheClipLimit, 1, 40);
         OptionsChecks.Range(f, "color.claheTilesAcross", ClaheTilesAcross, 2, 32);
         OptionsChecks.Range(f, "color.saturatedBlobLightness", SaturatedBlobLightness, 0, 255);

@@ -82,7 +82,7 @@ public sealed partial class ColorThresholdStage
 
         /// <summary>Step (4) at pixel x: the colour tests and the evidence value, given the ridge result.</summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        private void Evidence(int x, bool ridge)
+        internal void Evidence(int x, bool ridge)
         {
             byte* p = row + (3 * x);
             int b = Math.Min(255, (p[0] * gainB) >> 8), g = Math.Min(255, (p[1] * gainG) >> 8), r = Math.Min(255, (p[2] * gainR) >> 8);

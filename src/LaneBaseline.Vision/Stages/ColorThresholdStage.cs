@@ -158,6 +158,10 @@ public sealed partial class ColorThresholdStage : IFrameStage
         double widthBottom = gradient.MarkingWidthFraction * w;
         int[] pre = workspace.Color.Prefix;
 
+        // (1e) Veiled road: a second ridge test on the plain grey, relative to the headroom below white (VeilScale).
+        double veilScale = VeilScale(workspace, blurBase, blurStep, top, vx, vy, halfBottom);
+        int[] veilPre = workspace.Color.VeilPrefix;
+
         // (1c) Mirror columns (dark scenes only): where a light source is, its reflection on a wet road lies below it.
         bool mirror = color.LightSourceLightness < 255 && median < color.MirrorMaxRoadLightness;
         if (mirror)
@@ -208,10 +212,16 @@ public sealed partial class ColorThresholdStage : IFrameStage
             }
 
             kernel.Scalar(rest, xe);
-
             if (blobs)
             {
                 SuppressNearSaturatedBlobs(smooth, ev, x0, x1, d, w);
+            }
+
+            if (veilScale > 0 && VeilRowMayPass(smooth, a0, a1))
+            {
+                // (3b) Veiled road: the veil-headroom ridge on the plain grey, after the blob suppression (VeilRidge).
+                PrefixSums(smooth, veilPre, a0, a1);
+                VeilRidge(kernel, ev, veilPre, xs, xe, c, d, veilScale, color.VeilRidgeMinStep, color.VeilRidgeMinBackground);
             }
 
             if (gradient.OrientationToleranceDeg < 90 || mirror)

@@ -14,6 +14,7 @@ public sealed class ColorSection : IDisposable
     {
         evidence.Create(height, width, MatType.CV_8UC1);
         Prefix = new int[width + 1];
+        VeilPrefix = new int[width + 1];
         LightRow = new int[width];
     }
 
@@ -44,6 +45,9 @@ public sealed class ColorSection : IDisposable
     internal int[] DiffHistogram { get; } = new int[256];
 
     internal int[] Prefix { get; }
+
+    /// <summary>Prefix sums of the plain blurred grey row for the veil-headroom ridge test (veiled frames only).</summary>
+    internal int[] VeilPrefix { get; }
 
     /// <summary>Per column, the highest row of a light source found by the colour stage's mirror test (int.MaxValue: none).</summary>
     internal int[] LightRow { get; }
