@@ -20,6 +20,7 @@ public sealed class WindowSliderTests
         ws.Warp.BirdsEye.SetTo(Scalar.All(0));
         ws.Search.CandidateCount = 1;
         ws.Search.CandidateX[0] = 201;
+        ws.Color.RoadMedian = 120; // a lit road (daylight)
         return ws;
     }
 
@@ -69,5 +70,18 @@ public sealed class WindowSliderTests
         (m, sx, _) = WindowSlider.NearestCluster(mass, ySum, 10, 19);
         Assert.Equal(27, m, 9);
         Assert.Equal(19, sx / m, 9);
+    }
+
+    [Fact]
+    public void OnADarkRoad_TheWholeWindowCentroidIsKept()
+    {
+        using FrameWorkspace ws = Workspace();
+        ws.Color.RoadMedian = 40;
+
+        // The flare case above on a dark road: the whole-window mean (4·30·200.5 + 6·20·210.5) / 240 = 205.5.
+        Cv2.Rectangle(ws.Warp.BirdsEye, new Rect(199, 0, 4, 480), Scalar.All(255), -1);
+        Cv2.Rectangle(ws.Warp.BirdsEye, new Rect(208, 455, 6, 20), Scalar.All(255), -1);
+        new WindowSlider(new SearchOptions { WindowCount = 16, WindowHalfWidthPx = 14 }).Slide(ws, 0);
+        Assert.Equal(205.5, ws.Search.CandidateWindows[0][0].X, 6);
     }
 }

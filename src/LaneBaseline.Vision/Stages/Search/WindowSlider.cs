@@ -17,6 +17,12 @@ internal sealed class WindowSlider
     /// </summary>
     internal const int ClusterGapPx = 5;
 
+    /// <summary>
+    /// Road median lightness (grey levels, from the colour stage) from which the cluster rule applies; equal to the
+    /// default <c>region.darkRoadLightness</c>, below which a frame counts as dark.
+    /// </summary>
+    internal const double MinLitRoadLightness = 80;
+
     private readonly SearchOptions search;
 
     /// <summary>Creates the window slider.</summary>
@@ -39,6 +45,10 @@ internal sealed class WindowSlider
         double trend = 0;
         double lastX = double.NaN;
         int lastK = -1;
+
+        // Lens flare needs the sun in view: on a dark road (wet night, night) the window keeps its whole centroid,
+        // where a separate run beside the followed one is as likely a reflection streak the line continues into.
+        bool lit = ws.Color.RoadMedian >= MinLitRoadLightness;
         Span<double> colMass = stackalloc double[(2 * hw) + 1];
         Span<double> colY = stackalloc double[(2 * hw) + 1];
         for (int k = 0; k < n; k++)
@@ -63,7 +73,9 @@ internal sealed class WindowSlider
                 }
             }
 
-            (double m, double sx, double sy) = NearestCluster(colMass[..Math.Max(0, cols)], colY[..Math.Max(0, cols)], x0, cx);
+            (double m, double sx, double sy) = lit
+                ? NearestCluster(colMass[..Math.Max(0, cols)], colY[..Math.Max(0, cols)], x0, cx)
+                : NearestCluster(colMass[..Math.Max(0, cols)], colY[..Math.Max(0, cols)], x0, double.NaN);
             double mass = m / 255.0;
             if (mass >= search.MinWindowMass && x1 >= x0)
             {
@@ -109,11 +121,24 @@ internal sealed class WindowSlider
     /// mean of everything inside it, as a mean-shift step with a flat kernel would (Comaniciu &amp; Meer, IEEE TPAMI
     /// 24(5):603–619, 2002). Distance of a cluster = distance from <paramref name="cx"/> to its nearest column (0 when
     /// inside); ties keep the heavier cluster. Returns (Σv, Σv·x, Σv·y) in grey levels; one cluster gives the whole
-    /// window's sums.
+    /// window's sums, and so does a NaN <paramref name="cx"/>.
     /// </summary>
     internal static (double Mass, double SumX, double SumY) NearestCluster(ReadOnlySpan<double> colMass, ReadOnlySpan<double> colY, int x0, double cx)
     {
         double bestM = 0, bestX = 0, bestY = 0, bestD = double.MaxValue;
+        if (double.IsNaN(cx))
+        {
+            // No prediction to follow: the whole window's sums.
+            for (int i = 0; i < colMass.Length; i++)
+            {
+                bestM += colMass[i];
+                bestX += colMass[i] * (x0 + i);
+                bestY += colY[i];
+            }
+
+            return (bestM, bestX, bestY);
+        }
+
         double m = 0, sx = 0, sy = 0;
         int first = -1, last = -1, gap = 0;
         for (int i = 0; i <= colMass.Length; i++)
