@@ -6,7 +6,9 @@ namespace LaneBaseline.Vision.Stages.Search;
 
 /// <summary>
 /// Step (2) of the <c>search</c> stage: windows from the bottom up, each re-centred on its evidence centroid when it
-/// holds enough mass and otherwise moved along the trend of the previous centroids (dashed lines, curves).
+/// holds enough mass and otherwise moved along the trend of the previous centroids (dashed lines, curves). On a lit
+/// road the centroid is that of the cluster of the window's column profile nearest its predicted centre
+/// (<see cref="NearestCluster"/>), so a separate blob beside the line (a lens-flare rim) does not pull it.
 /// </summary>
 internal sealed class WindowSlider
 {
