@@ -16,7 +16,8 @@ namespace LaneBaseline.Vision.Stages;
 /// segments that map to near-vertical bird's-eye lines add seeds where the histogram has none;
 /// (2) <see cref="SearchOptions.WindowCount"/> windows of ±<see cref="SearchOptions.WindowHalfWidthPx"/> from the
 /// bottom up, each re-centred on its evidence centroid when it holds ≥ <see cref="SearchOptions.MinWindowMass"/>, and
-/// otherwise moved along the trend of the previous centroids (dashed lines, curves);
+/// otherwise moved along the trend of the previous centroids (dashed lines, curves); on a lit road the centroid is taken
+/// over the cluster of the window's column profile nearest its predicted centre (<see cref="WindowSlider"/>);
 /// (3) hypothesise-and-verify (RANSAC) over the window centroids: every line through two and every quadratic
 /// through three centroids (a fixed-seed sample when there are many) is scored by the evidence mass of the
 /// centroids within <see cref="FitOptions.InlierTolerancePx"/>; the best consensus set is refitted by weighted least
