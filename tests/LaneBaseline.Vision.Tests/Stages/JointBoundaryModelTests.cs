@@ -236,6 +236,30 @@ public sealed class JointBoundaryModelTests
         Assert.Equal(before.Fit, ws.Search.CandidateFits[1].Fit);
         Assert.Equal(before.InlierMass, ws.Search.CandidateFits[1].InlierMass);
     }
+    [Fact]
+    public void ABoundaryWithoutNearWindows_ThatTheFanExplains_TakesTheFansHeading()
+    {
+        // +1 has windows over rows 15..315 (k = 5..15) of 480, none in the near third, tilted 0.02 px/px against the
+        // fan: every window lies within the inlier tolerance (4 px) of its fan curve, yet its own line is 6 px off at
+        // the bottom row. −1 and +2, measured in the near third, confirm the fan. Both curves explain the windows, so the
+        // consensus model (the fan the near-measured boundaries confirm) is kept and the unmeasured near part follows it.
+        // Source: RANSAC (Fischler & Bolles 1981), the model of the consensus set; fan of headings as in the test above
+        // (common practice for a small perspective error of the ground homography).
+        using FrameWorkspace ws = Workspace();
+        SetCandidate(ws, 0, y => Fanned(y, 160));
+        SetCandidate(ws, 1, y => Fanned(y, 280) + (0.02 * (y - 165)), 5, 16);
+        SetCandidate(ws, 2, y => Fanned(y, 400));
+        Assert.True(Math.Abs(ws.Search.CandidateFits[1].Fit.At(465) - Fanned(465, 280)) > 5); // the own line is off
+        int[] chosen = [-1, -1, 0, 1, 2, -1];
+        RunAll(ws, chosen);
+        Assert.Equal(new[] { -1, -1, 0, 1, 2, -1 }, chosen);
+        LaneEstimate fixedOne = ws.Search.CandidateFits[1];
+        Assert.InRange(fixedOne.Fit.At(465) - Fanned(465, 280), -2.5, 2.5);
+        Assert.Equal(K * 40, (2 * fixedOne.Fit.A * 240) + fixedOne.Fit.B, 3);
+        Assert.Equal(K * -80, ws.Search.CandidateFits[0].Fit.B, 6); // the others keep their own curves
+        Assert.Equal(K * 160, ws.Search.CandidateFits[2].Fit.B, 6);
+    }
+
     private static void RunWithExtrapolationGuard(FrameWorkspace ws, int[] chosen)
     {
         JointBoundaryModel model = RunAll(ws, chosen);

@@ -15,7 +15,11 @@ internal sealed partial class JointBoundaryModel
     private readonly double[] fanDepartOwn = new double[6];
     private readonly double[] fanOwnSpan = new double[6];
     private readonly int[] fanNear = new int[6];
+    private readonly int[] fanLow = new int[6];
     private readonly Quadratic[] fanCurve = new Quadratic[6];
+
+    /// <summary>Smallest departure (bird's-eye pixels) from the fan curve that rule (3) of <see cref="GuardHeadings"/> corrects.</summary>
+    private const double MinFanShiftPx = 1.0;
 
     /// <summary>
     /// Keeps a boundary that bends unlike the others from being reported bent (after the keep test of
@@ -199,6 +203,13 @@ internal sealed partial class JointBoundaryModel
     /// measured there, runs it off); in both cases every own window in the near half must lie on the fan curve. Near the
     /// camera a bird's-eye pixel is a small patch of road and far away a large one, so the near part is the better
     /// measured: a boundary whose near windows set its heading is left as it is.</para>
+    /// <para>(3) A boundary with no own window in the near third of the rows whose fan curve explains every window its
+    /// own fit took (all within the tolerance) is reported on the fan curve when the two differ by more than
+    /// <see cref="MinFanShiftPx"/> somewhere, even by less than the tolerance, provided a boundary with windows in the
+    /// near third confirms the fan. Both curves explain its windows, so the model of the consensus is kept (RANSAC,
+    /// Fischler &amp; Bolles 1981) and its unmeasured near part follows the near-measured boundaries' fan: near the
+    /// bottom row one bird's-eye pixel of the trapezoid view is about ten image pixels, so a tilt within the tolerance
+    /// still moves the lane's near end off the marking in the image.</para>
     /// </summary>
     public void GuardHeadings(FrameWorkspace frame, Span<int> chosen)
     {
@@ -254,7 +265,8 @@ internal sealed partial class JointBoundaryModel
         }
 
         // Each boundary's fan curve and how far its reported curve leaves it: over all rows, and over its own windows.
-        bool confirmed = false;
+        bool confirmed = false, lowConfirmed = false;
+        double lowRow = scale * 2 / 3;
         for (int s = 0; s < chosen.Length; s++)
         {
             if (!double.IsFinite(fanHeading[s]))
@@ -268,6 +280,7 @@ internal sealed partial class JointBoundaryModel
             Quadratic reported = frame.Search.CandidateFits[chosen[s]].Fit;
             double lo = double.MaxValue, hi = double.MinValue;
             fanNear[s] = 0;
+            fanLow[s] = 0;
             for (int p = start[g]; p < start[g + 1]; p++)
             {
                 if (ownInlier[p])
@@ -275,6 +288,7 @@ internal sealed partial class JointBoundaryModel
                     lo = Math.Min(lo, ys[p]);
                     hi = Math.Max(hi, ys[p]);
                     fanNear[s] += ys[p] > yRef ? 1 : 0;
+                    fanLow[s] += ys[p] > lowRow ? 1 : 0;
                 }
             }
 
@@ -291,6 +305,7 @@ internal sealed partial class JointBoundaryModel
 
             fanOwnSpan[s] = hi >= lo ? hi - lo : 0;
             confirmed |= fanDepart[s] <= tol;
+            lowConfirmed |= fanDepart[s] <= tol && fanLow[s] > 0;
         }
 
         if (!confirmed)
@@ -300,18 +315,25 @@ internal sealed partial class JointBoundaryModel
 
         for (int s = 0; s < chosen.Length; s++)
         {
-            if (!double.IsFinite(fanHeading[s]) || fanDepart[s] <= tol)
+            if (!double.IsFinite(fanHeading[s]) || fanDepart[s] <= MinFanShiftPx)
             {
                 continue;
             }
 
-            bool allowed = fanDepartOwn[s] > tol ? fanNear[s] == 0 : fanNear[s] == 0 || fanOwnSpan[s] < yRef;
+            bool allowed = fanDepart[s] > tol && (fanDepartOwn[s] > tol ? fanNear[s] == 0 : fanNear[s] == 0 || fanOwnSpan[s] < yRef);
             int g = laneOfSlot[s];
             for (int p = start[g]; p < start[g + 1] && allowed; p++)
             {
                 allowed = !(ownInlier[p] && ys[p] > yRef && Math.Abs(fanCurve[s].At(ys[p]) - xs[p]) > tol);
             }
 
+            bool explains = true;
+            for (int p = start[g]; p < start[g + 1] && explains; p++)
+            {
+                explains = !ownInlier[p] || Math.Abs(fanCurve[s].At(ys[p]) - xs[p]) <= tol;
+            }
+
+            allowed |= explains && lowConfirmed && fanLow[s] == 0;
             if (allowed)
             {
                 Rescore(frame, chosen[s], g, fanCurve[s], tol);
