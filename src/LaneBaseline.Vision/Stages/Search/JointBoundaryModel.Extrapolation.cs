@@ -51,11 +51,7 @@ internal sealed partial class JointBoundaryModel
             {
                 if (windows[k].Mass >= search.MinWindowMass)
                 {
-                    xs[points] = windows[k].X;
-                    ys[points] = windows[k].Y;
-                    ws[points] = windows[k].Mass;
-                    windowOf[points] = k;
-                    ownInlier[points] = windows[k].Inlier;
+                    AddWindowPoint(points, windows, k);
                     points++;
                 }
             }

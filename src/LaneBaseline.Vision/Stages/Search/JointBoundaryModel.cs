@@ -77,12 +77,8 @@ internal sealed partial class JointBoundaryModel
             {
                 if (windows[k].Mass >= search.MinWindowMass)
                 {
-                    xs[points] = windows[k].X;
-                    ys[points] = windows[k].Y;
-                    ws[points] = windows[k].Mass;
+                    AddWindowPoint(points, windows, k);
                     groups[points] = lanes;
-                    windowOf[points] = k;
-                    ownInlier[points] = windows[k].Inlier;
                     points++;
                 }
             }
@@ -371,6 +367,16 @@ internal sealed partial class JointBoundaryModel
         frame.Search.CandidateFits[candidate] = new LaneEstimate(0, score, curve, inlierMass, coverage, rms, 0);
         frame.Search.CandidateTopY[candidate] = Math.Max(0, topY);
         return score >= confidence.MinScore;
+    }
+
+    /// <summary>Stores window <paramref name="k"/> of a candidate as point <paramref name="point"/> of the fit: its centroid, evidence mass, index and own-fit inlier flag.</summary>
+    private void AddWindowPoint(int point, SearchWindow[] windows, int k)
+    {
+        xs[point] = windows[k].X;
+        ys[point] = windows[k].Y;
+        ws[point] = windows[k].Mass;
+        windowOf[point] = k;
+        ownInlier[point] = windows[k].Inlier;
     }
 
     private void Consider(double a, double b, int lanes, double tol, ref double bestMass, ref double bestA, ref double bestB)
