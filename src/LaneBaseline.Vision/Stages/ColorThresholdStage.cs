@@ -86,10 +86,7 @@ public sealed partial class ColorThresholdStage : IFrameStage
 
         // (1) Road statistics inside the road sample: a narrow wedge from the bottom centre towards the vanishing point.
         int[] hist = workspace.Color.Histogram;
-        int[] diffHist = workspace.Color.DiffHistogram;
         Array.Clear(hist);
-        Array.Clear(diffHist);
-        long diffs = 0;
         int stride = color.StatisticsStridePx;
         long total = 0;
         double vx = workspace.Region.VanishingX, halfBottom = color.StatisticsHalfWidthFraction * w;
@@ -135,25 +132,11 @@ public sealed partial class ColorThresholdStage : IFrameStage
             ridgeStep = equalisedBlur.Step();
         }
 
-        for (int y = top; y < h; y += stride)
-        {
-            double t = (y - vy) / (h - 1 - vy);
-            double xc = vx + ((((w - 1) / 2.0) - vx) * t);
-            int x0 = Math.Max(0, (int)(xc - (halfBottom * t))), x1 = Math.Min(w - 1, (int)(xc + (halfBottom * t)));
-            byte* s = ridgeBase + ((y - workspace.BandTop) * ridgeStep);
-            for (int x = x0; x <= x1 && x + stride < w; x += stride)
-            {
-                diffHist[Math.Abs(s[x + stride] - s[x])]++;
-                diffs++;
-            }
-        }
         double whiteThr = Math.Max(color.WhiteMinLightness, median + Math.Max(color.WhiteMinContrast, color.WhiteSpreadFactor * spread));
         double yellowL = median + color.YellowMinContrast;
         double yellowC = color.YellowMinChroma;
         int yellowMin = (int)Math.Ceiling(yellowC); // integer yellowness >= yellowC  <=>  >= ceil(yellowC)
-        // Texture spread for the ridge: median absolute difference of blurred grey pixels a stride apart, as a
-        // Gaussian sigma (MAD x 1.4826, divided by sqrt 2 for a difference); smooth lighting gradients barely move it.
-        double texture = Math.Max(1.0, Percentile(diffHist, diffs, 0.5) * 1.4826 / Math.Sqrt(2));
+        double texture = WedgeTexture(workspace, ridgeBase, ridgeStep, top, vx, vy, halfBottom);
         double ridgeThr = Math.Max(gradient.RidgeMinStep, gradient.RidgeSpreadFactor * texture);
         double widthBottom = gradient.MarkingWidthFraction * w;
         int[] pre = workspace.Color.Prefix;

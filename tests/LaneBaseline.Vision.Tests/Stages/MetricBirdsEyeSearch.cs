@@ -10,7 +10,7 @@ namespace LaneBaseline.Vision.Tests.Stages;
 
 /// <summary>
 /// The search stage alone on constructed bird's-eye evidence in the default camera's metric view (0.05 m/px,
-/// 481 × 717, camera column 240, 16 windows of 44.8 rows), shared by the slot tests.
+/// 481 × 717, camera column 240, 16 windows of 44.8 rows), shared by the slot tests; <see cref="SearchOn"/> serves any view.
 /// </summary>
 internal static class MetricBirdsEyeSearch
 {
@@ -24,6 +24,12 @@ internal static class MetricBirdsEyeSearch
         FrameWorkspace ws = pipeline.Workspace!;
         Assert.Equal(0.05, ws.Warp.MetresPerPixel);
         Assert.Equal(481, ws.Warp.BirdsEyeWidth);
+        return SearchOn(ws, draw);
+    }
+
+    /// <summary>Replaces the bird's-eye evidence of a processed frame by what <paramref name="draw"/> paints, runs the search stage again; returns (slot, bottom-row column) of each lane.</summary>
+    public static SortedDictionary<int, double> SearchOn(FrameWorkspace ws, Action<Mat> draw)
+    {
         ws.Warp.BirdsEye.SetTo(Scalar.All(0));
         draw(ws.Warp.BirdsEye);
         using var stage = new SlidingWindowFitStage(new SearchOptions(), new FitOptions(), new ConfidenceOptions());

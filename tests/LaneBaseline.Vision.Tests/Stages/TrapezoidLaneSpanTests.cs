@@ -34,21 +34,10 @@ public sealed class TrapezoidLaneSpanTests
         Assert.Equal(480, ws.Warp.BirdsEyeWidth);
         Assert.Equal(320, ws.Warp.BirdsEyeHeight);
         Assert.Equal(grey >= 150, ws.Color.Veiled);
-        ws.Warp.BirdsEye.SetTo(Scalar.All(0));
-        draw(ws.Warp.BirdsEye);
-        using var stage = new SlidingWindowFitStage(new SearchOptions(), new FitOptions(), new ConfidenceOptions());
-        stage.Process(ws);
-        var lanes = new SortedDictionary<int, double>();
-        for (int i = 0; i < ws.LaneCount; i++)
-        {
-            LaneEstimate e = ws.GetLane(i);
-            lanes[e.Slot] = e.Fit.At(ws.Warp.BirdsEyeHeight - 1);
-        }
-
-        return lanes;
+        return MetricBirdsEyeSearch.SearchOn(ws, draw);
     }
 
-    private static void Solid(Mat view, int x) => Cv2.Rectangle(view, new Rect(x - 2, 0, 5, view.Rows), Scalar.All(255), -1);
+    private static void Solid(Mat view, int x) => MetricBirdsEyeSearch.Solid(view, x);
 
     /// <summary>One dash over rows <paramref name="top"/>..top+37: two windows of 20 rows, too few for a fit of its own (three).</summary>
     private static void Dash(Mat view, int x, int top) => Cv2.Rectangle(view, new Rect(x - 2, top, 5, 38), Scalar.All(255), -1);
